@@ -1,0 +1,32 @@
+// colchem check CONFIG: load and validate a scenario, print a summary of its column.
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <iostream>
+
+#include "app/commands.hpp"
+#include "app/summary.hpp"
+#include "core/background.hpp"
+#include "io/scenario.hpp"
+
+namespace colchem::app {
+
+void add_check_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand("check", "Load and validate a scenario; print a summary of the "
+                                          "column, species and modules.");
+  auto config = std::make_shared<std::string>();
+  auto sets = std::make_shared<std::vector<std::string>>();
+  cmd->add_option("CONFIG", *config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("--set", *sets, "Override a config value by its dotted key path, e.g. "
+                                  "--set grid.cells=120 (repeatable)");
+  out.emplace_back(cmd, [config, sets](Context& ctx) {
+    const UnitSystem units;
+    const Scenario sc = load_scenario(*config, *sets, units);
+    const Background bg = build_background(sc.background);
+    std::cout << summarize_scenario(sc, bg);
+    ctx.log->info("{}: valid", *config);
+    return 0;
+  });
+}
+
+}  // namespace colchem::app

@@ -1,0 +1,71 @@
+// colchem: one-dimensional photochemistry and transport for planetary atmospheres.
+//
+//   colchem check configs/pyrene.yaml              validate a scenario and summarise it
+//   colchem run configs/pyrene.yaml -o out.nc      run it and write CF NetCDF
+//   colchem <command> --help                       options of a command
+//
+// main() 1. builds the command line, 2. parses it, 3. runs the chosen command, 4. turns
+// every error into its documented exit code (README "Exit codes").
+#include <spdlog/sinks/stdout_color_sinks.h>
+#include <spdlog/spdlog.h>
+
+#include <iostream>
+
+#include "app/commands.hpp"
+#include "colchem/version.hpp"
+#include "core/error.hpp"
+
+int main(int argc, char** argv) {
+  using namespace colchem;
+  // 1. Build the command line.
+  CLI::App cli{"colchem: one-dimensional photochemistry and transport model for planetary "
+               "atmospheres (research tool)."};
+  cli.set_version_flag("--version", std::string("colchem ") + kVersion + " (git " +
+                                        kGitRevision + ")");
+  std::string log_level = "info";
+  cli.add_option("--log-level", log_level, "Log detail: trace, debug, info, warn, error, off")
+      ->check(CLI::IsMember({"trace", "debug", "info", "warn", "error", "off"}))
+      ->capture_default_str();
+  cli.require_subcommand(1);
+  std::vector<std::pair<CLI::App*, app::CommandAction>> commands;
+  app::add_check_command(cli, commands);
+  app::add_run_command(cli, commands);
+
+  // 2. Parse it. Help and version exit 0; a usage error exits 2.
+  try {
+    cli.parse(argc, argv);
+  } catch (const CLI::CallForHelp& e) {
+    return cli.exit(e);
+  } catch (const CLI::CallForAllHelp& e) {
+    return cli.exit(e);
+  } catch (const CLI::CallForVersion& e) {
+    return cli.exit(e);
+  } catch (const CLI::ParseError& e) {
+    (void)cli.exit(e);
+    return static_cast<int>(ExitCode::kUsage);
+  }
+
+  app::Context ctx;
+  ctx.log = std::make_shared<spdlog::logger>(
+      "colchem", std::make_shared<spdlog::sinks::stderr_color_sink_mt>());
+  ctx.log->set_pattern("[%H:%M:%S.%e] %^%l%$ %v");
+  ctx.log->set_level(spdlog::level::from_str(log_level));
+  for (int i = 0; i < argc; ++i) ctx.command_line += (i ? " " : "") + std::string(argv[i]);
+
+  // 3. Run the chosen command; 4. map errors to exit codes.
+  try {
+    for (auto& [sub, action] : commands) {
+      if (sub->parsed()) return action(ctx);
+    }
+    return static_cast<int>(ExitCode::kUsage);
+  } catch (const InputError& e) {
+    ctx.log->error("{}", e.what());
+    return static_cast<int>(e.code());
+  } catch (const RunError& e) {
+    ctx.log->error("{}", e.what());
+    return static_cast<int>(e.code());
+  } catch (const std::exception& e) {
+    ctx.log->critical("internal error: {}", e.what());
+    return static_cast<int>(ExitCode::kInternal);
+  }
+}

@@ -1,0 +1,80 @@
+#include "core/units.hpp"
+
+#include <udunits2.h>
+
+#include <cctype>
+#include <cstdlib>
+#include <stdexcept>
+
+#include "core/error.hpp"
+
+namespace colchem {
+
+struct UnitSystem::Impl {
+  ut_system* system = nullptr;
+};
+
+UnitSystem::UnitSystem() : impl_(std::make_unique<Impl>()) {
+  // UDUNITS-2 prints its own messages to stderr by default; colchem reports errors itself.
+  ut_set_error_message_handler(ut_ignore);
+  impl_->system = ut_read_xml(nullptr);
+  if (impl_->system == nullptr) {
+    throw RunError(ExitCode::kInternal,
+                   "could not read the UDUNITS-2 unit database (is libudunits2-data installed? "
+                   "UDUNITS2_XML_PATH may point at udunits2.xml)");
+  }
+}
+
+UnitSystem::~UnitSystem() {
+  if (impl_ && impl_->system) ut_free_system(impl_->system);
+}
+
+namespace {
+struct UnitDeleter {
+  void operator()(ut_unit* u) const { ut_free(u); }
+};
+using UnitPtr = std::unique_ptr<ut_unit, UnitDeleter>;
+
+UnitPtr parse(ut_system* sys, const std::string& text) {
+  // An empty unit string means "dimensionless" (UDUNITS-2 spells it "1").
+  const std::string t = text.empty() ? std::string("1") : text;
+  return UnitPtr(ut_parse(sys, t.c_str(), UT_UTF8));
+}
+}  // namespace
+
+bool UnitSystem::parses(const std::string& unit) const {
+  return parse(impl_->system, unit) != nullptr;
+}
+
+bool UnitSystem::convertible(const std::string& a, const std::string& b) const {
+  auto ua = parse(impl_->system, a);
+  auto ub = parse(impl_->system, b);
+  return ua && ub && ut_are_convertible(ua.get(), ub.get()) != 0;
+}
+
+std::optional<double> UnitSystem::convert(double value, const std::string& from_unit,
+                                          const std::string& to_unit) const {
+  auto from = parse(impl_->system, from_unit);
+  auto to = parse(impl_->system, to_unit);
+  if (!from || !to || ut_are_convertible(from.get(), to.get()) == 0) return std::nullopt;
+  cv_converter* conv = ut_get_converter(from.get(), to.get());
+  if (conv == nullptr) return std::nullopt;
+  const double out = cv_convert_double(conv, value);
+  cv_free(conv);
+  return out;
+}
+
+std::optional<QuantityText> split_quantity(const std::string& text) {
+  const char* begin = text.c_str();
+  while (*begin != '\0' && std::isspace(static_cast<unsigned char>(*begin))) ++begin;
+  char* end = nullptr;
+  const double v = std::strtod(begin, &end);
+  if (end == begin) return std::nullopt;
+  std::string unit(end);
+  const auto first = unit.find_first_not_of(" \t");
+  const auto last = unit.find_last_not_of(" \t");
+  unit = first == std::string::npos ? std::string() : unit.substr(first, last - first + 1);
+  return QuantityText{v, unit};
+}
+
+}  // namespace colchem

@@ -1,0 +1,418 @@
+#include "io/config_node.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+namespace colchem {
+
+// ---------------------------------------------------------------------------------------
+// ConfigDocument
+
+namespace {
+
+SourceLocation mark_location(const std::string& file, const YAML::Mark& m) {
+  // yaml-cpp marks are 0-based; -1 when unknown.
+  return SourceLocation{file, m.line >= 0 ? m.line + 1 : 0, m.column >= 0 ? m.column + 1 : 0};
+}
+
+std::vector<std::string> split_path(const std::string& path) {
+  std::vector<std::string> parts;
+  std::string cur;
+  for (char c : path) {
+    if (c == '.') {
+      parts.push_back(cur);
+      cur.clear();
+    } else {
+      cur += c;
+    }
+  }
+  parts.push_back(cur);
+  return parts;
+}
+
+bool is_index(const std::string& s) {
+  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return c >= '0' && c <= '9'; });
+}
+
+}  // namespace
+
+ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode code) {
+  std::ifstream in(file);
+  if (!in) {
+    throw InputError(code, SourceLocation{file.string()}, "", "a readable YAML file",
+                     "no such file or it cannot be read");
+  }
+  std::stringstream buf;
+  buf << in.rdbuf();
+  ConfigDocument doc = from_text(buf.str(), file.string(), code);
+  doc.file_ = file;
+  doc.shared_->file = file;
+  return doc;
+}
+
+ConfigDocument ConfigDocument::from_text(const std::string& text, const std::string& name,
+                                         ExitCode code) {
+  ConfigDocument doc;
+  doc.file_ = name;
+  doc.shared_ = std::make_shared<Shared>();
+  doc.shared_->file = name;
+  doc.shared_->code = code;
+  try {
+    doc.root_ = YAML::Load(text);
+  } catch (const YAML::ParserException& e) {
+    throw InputError(code, mark_location(name, e.mark), "", "valid YAML", "a syntax error",
+                     e.msg);
+  }
+  if (!doc.root_.IsMap() && !doc.root_.IsNull()) {
+    throw InputError(code, mark_location(name, doc.root_.Mark()), "",
+                     "a map of sections at the top level", "a list or a single value");
+  }
+  if (doc.root_.IsNull()) doc.root_ = YAML::Node(YAML::NodeType::Map);
+  return doc;
+}
+
+void ConfigDocument::apply_override(const std::string& assignment) {
+  const SourceLocation where{"--set " + assignment};
+  const auto eq = assignment.find('=');
+  if (eq == std::string::npos || eq == 0) {
+    throw InputError(ExitCode::kUsage, where, "", "KEY.PATH=VALUE", "'" + assignment + "'");
+  }
+  const std::string path = assignment.substr(0, eq);
+  const std::string value_text = assignment.substr(eq + 1);
+  YAML::Node value;
+  try {
+    value = YAML::Load(value_text);
+  } catch (const YAML::ParserException& e) {
+    throw InputError(ExitCode::kUsage, where, path, "a YAML value", "'" + value_text + "'",
+                     e.msg);
+  }
+  const auto parts = split_path(path);
+  for (const auto& p : parts) {
+    if (p.empty()) {
+      throw InputError(ExitCode::kUsage, where, path, "dot-separated keys", "an empty key");
+    }
+  }
+  // yaml-cpp nodes are handles: assigning through a chain of operator[] edits the tree.
+  YAML::Node cur = root_;
+  for (std::size_t i = 0; i + 1 < parts.size(); ++i) {
+    const auto& key = parts[i];
+    if (cur.IsSequence() && is_index(key)) {
+      const std::size_t idx = std::stoul(key);
+      if (idx >= cur.size()) {
+        throw InputError(ExitCode::kUsage, where, path,
+                         "an index below " + std::to_string(cur.size()), key);
+      }
+      cur.reset(cur[idx]);
+      continue;
+    }
+    if (cur.IsScalar()) {
+      throw InputError(ExitCode::kUsage, where, path, "a path through maps",
+                       "a single value at '" + key + "'");
+    }
+    YAML::Node next = cur[key];
+    if (!next.IsDefined() || next.IsNull()) {
+      cur[key] = YAML::Node(YAML::NodeType::Map);
+      next = cur[key];
+    }
+    cur.reset(next);
+  }
+  const auto& last = parts.back();
+  if (cur.IsSequence() && is_index(last)) {
+    const std::size_t idx = std::stoul(last);
+    if (idx >= cur.size()) {
+      throw InputError(ExitCode::kUsage, where, path,
+                       "an index below " + std::to_string(cur.size()), last);
+    }
+    cur[idx] = value;
+  } else {
+    cur[last] = value;
+  }
+  shared_->overrides[path] = assignment;
+  override_list_.push_back(assignment);
+}
+
+ConfigNode ConfigDocument::root() const {
+  return ConfigNode(root_, "", shared_, &shared_->file, shared_->code, &shared_->overrides);
+}
+
+std::string ConfigDocument::resolved_text() const {
+  YAML::Emitter out;
+  out << root_;
+  return std::string(out.c_str()) + "\n";
+}
+
+// ---------------------------------------------------------------------------------------
+// ConfigNode
+
+ConfigNode::ConfigNode(YAML::Node node, std::string path, std::shared_ptr<const void> doc,
+                       const std::filesystem::path* file, ExitCode code,
+                       const std::map<std::string, std::string>* overrides)
+    : node_(std::move(node)),
+      path_(std::move(path)),
+      doc_(std::move(doc)),
+      file_(file),
+      code_(code),
+      overrides_(overrides) {}
+
+ConfigNode ConfigNode::make_child(const YAML::Node& n, const std::string& sub) const {
+  return ConfigNode(n, path_.empty() ? sub : path_ + "." + sub, doc_, file_, code_, overrides_);
+}
+
+std::string ConfigNode::override_origin() const {
+  if (overrides_ == nullptr) return {};
+  // The value came from the command line if its path, or a parent of it, was overridden.
+  for (const auto& [p, text] : *overrides_) {
+    if (path_ == p || (path_.size() > p.size() && path_.compare(0, p.size(), p) == 0 &&
+                       path_[p.size()] == '.')) {
+      return "--set " + text;
+    }
+  }
+  return {};
+}
+
+SourceLocation ConfigNode::location() const {
+  const std::string origin = override_origin();
+  if (!origin.empty()) return SourceLocation{origin};
+  return mark_location(file_ ? file_->string() : std::string(), node_.Mark());
+}
+
+std::string ConfigNode::describe() const {
+  if (!node_.IsDefined() || node_.IsNull()) return "nothing (an empty value)";
+  if (node_.IsMap()) return "a map";
+  if (node_.IsSequence()) return "a list of " + std::to_string(node_.size()) + " items";
+  return "'" + node_.Scalar() + "'";
+}
+
+void ConfigNode::fail(const std::string& expected, const std::string& found,
+                      const std::string& hint) const {
+  throw InputError(code_, location(), path_, expected, found, hint);
+}
+
+ConfigNode ConfigNode::child(const std::string& key) const {
+  auto c = find(key);
+  if (!c) {
+    if (!node_.IsMap()) fail("a map containing '" + key + "'");
+    // A required key that is missing is most often a misspelt one: report that key.
+    for (auto it = node_.begin(); it != node_.end(); ++it) {
+      const std::string present = it->first.as<std::string>();
+      if (known_->count(present) != 0) continue;
+      if (nearest_word(present, {key})) {
+        const ConfigNode bad = make_child(it->first, present);
+        const std::string where =
+            path_.empty() ? std::string("at the top level") : "in '" + path_ + "'";
+        throw InputError(code_, bad.location(), bad.key_path(), "a known key " + where,
+                         "unknown key '" + present + "'", "did you mean '" + key + "'?");
+      }
+    }
+    fail("a key '" + key + "' here", "none", "add '" + key + ":' to this section");
+  }
+  return *c;
+}
+
+std::optional<ConfigNode> ConfigNode::find(const std::string& key) const {
+  known_->insert(key);
+  if (!node_.IsMap()) {
+    if (node_.IsNull() || !node_.IsDefined()) return std::nullopt;
+    fail("a map (section of 'key: value' lines)");
+  }
+  YAML::Node n = node_[key];
+  if (!n.IsDefined()) return std::nullopt;
+  return make_child(n, key);
+}
+
+bool ConfigNode::has(const std::string& key) const { return find(key).has_value(); }
+
+void ConfigNode::allow(std::initializer_list<const char*> keys) const {
+  for (const char* k : keys) known_->insert(k);
+}
+
+std::vector<std::pair<std::string, ConfigNode>> ConfigNode::entries() const {
+  std::vector<std::pair<std::string, ConfigNode>> out;
+  if (node_.IsNull() || !node_.IsDefined()) return out;
+  if (!node_.IsMap()) fail("a map (section of 'key: value' lines)");
+  for (auto it = node_.begin(); it != node_.end(); ++it) {
+    const std::string key = it->first.as<std::string>();
+    known_->insert(key);
+    out.emplace_back(key, make_child(it->second, key));
+  }
+  return out;
+}
+
+std::optional<std::string> nearest_word(const std::string& word,
+                                        const std::vector<std::string>& candidates) {
+  std::optional<std::string> best;
+  std::size_t best_d = std::max<std::size_t>(2, word.size() / 3) + 1;
+  for (const auto& c : candidates) {
+    const std::size_t d = edit_distance(word, c);
+    if (d < best_d) {
+      best_d = d;
+      best = c;
+    }
+  }
+  return best;
+}
+
+void ConfigNode::done() const {
+  if (!node_.IsMap()) return;
+  std::vector<std::string> valid(known_->begin(), known_->end());
+  for (auto it = node_.begin(); it != node_.end(); ++it) {
+    const std::string key = it->first.as<std::string>();
+    if (known_->count(key) != 0) continue;
+    const ConfigNode bad = make_child(it->first, key);
+    std::string hint;
+    if (auto near = nearest_word(key, valid)) {
+      hint = "did you mean '" + *near + "'?";
+    } else {
+      std::string list;
+      for (const auto& v : valid) list += (list.empty() ? "" : ", ") + v;
+      hint = "valid keys here: " + list;
+    }
+    const std::string where = path_.empty() ? std::string("at the top level") : "in '" + path_ + "'";
+    throw InputError(code_, bad.location(), bad.key_path(), "a known key " + where,
+                     "unknown key '" + key + "'", hint);
+  }
+}
+
+std::vector<ConfigNode> ConfigNode::items() const {
+  if (!node_.IsSequence()) fail("a list");
+  std::vector<ConfigNode> out;
+  out.reserve(node_.size());
+  for (std::size_t i = 0; i < node_.size(); ++i) {
+    out.push_back(make_child(node_[i], std::to_string(i)));
+  }
+  return out;
+}
+
+std::string ConfigNode::text() const {
+  if (!node_.IsScalar()) fail("a single value");
+  return node_.Scalar();
+}
+
+double ConfigNode::number() const {
+  const std::string s = text();
+  std::size_t used = 0;
+  double v = 0.0;
+  try {
+    v = std::stod(s, &used);
+  } catch (const std::exception&) {
+    used = 0;
+  }
+  if (used == 0 || s.find_first_not_of(" \t", used) != std::string::npos) {
+    auto q = split_quantity(s);
+    if (q && !q->unit.empty()) {
+      fail("a plain number (this key takes no unit)", "'" + s + "'");
+    }
+    fail("a number");
+  }
+  if (!std::isfinite(v)) fail("a finite number");
+  return v;
+}
+
+static long integer_from(const ConfigNode& n, const std::string& s) {
+  std::size_t used = 0;
+  long v = 0;
+  try {
+    v = std::stol(s, &used);
+  } catch (const std::exception&) {
+    used = 0;
+  }
+  if (used == 0 || used != s.size()) n.fail("a whole number");
+  return v;
+}
+
+long ConfigNode::integer() const { return integer_from(*this, text()); }
+
+bool ConfigNode::boolean() const {
+  const std::string s = text();
+  if (s == "true" || s == "yes" || s == "on") return true;
+  if (s == "false" || s == "no" || s == "off") return false;
+  fail("true or false");
+}
+
+std::string ConfigNode::choice(const std::vector<std::string>& choices) const {
+  const std::string s = text();
+  if (std::find(choices.begin(), choices.end(), s) != choices.end()) return s;
+  std::string list;
+  for (const auto& c : choices) list += (list.empty() ? "" : ", ") + c;
+  std::string hint;
+  if (auto near = nearest_word(s, choices)) hint = "did you mean '" + *near + "'?";
+  fail("one of: " + list, "'" + s + "'", hint);
+}
+
+double ConfigNode::quantity(const UnitSystem& units, const std::string& target_unit,
+                            const std::string& example) const {
+  const std::string s = text();
+  auto q = split_quantity(s);
+  if (!q) fail("a number with a unit, such as '" + example + "'");
+  if (q->unit.empty()) {
+    fail("a number with a unit, such as '" + example + "'", "'" + s + "' with no unit",
+         "every dimensional value carries its unit");
+  }
+  auto v = units.convert(q->value, q->unit, target_unit);
+  if (!v) {
+    if (!units.parses(q->unit)) {
+      fail("a unit that UDUNITS-2 knows (convertible to '" + target_unit + "')",
+           "'" + q->unit + "'");
+    }
+    fail("a unit convertible to '" + target_unit + "', such as '" + example + "'",
+         "'" + q->unit + "'");
+  }
+  if (!std::isfinite(*v)) fail("a finite value");
+  return *v;
+}
+
+std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
+                                              const std::string& target_unit,
+                                              const std::string& example) const {
+  std::vector<double> out;
+  if (node_.IsSequence()) {
+    for (const auto& item : items()) out.push_back(item.quantity(units, target_unit, example));
+    return out;
+  }
+  // "[0, 5, 10] km": a bracketed list of plain numbers followed by one unit.
+  const std::string s = text();
+  const auto open = s.find('[');
+  const auto close = s.find(']');
+  if (open == std::string::npos || close == std::string::npos || close < open) {
+    fail("a list of quantities such as '[" + example + ", ...]' or '[0, 5, 10] km'");
+  }
+  std::string unit = s.substr(close + 1);
+  unit.erase(0, unit.find_first_not_of(" \t"));
+  const std::string body = s.substr(open + 1, close - open - 1);
+  std::stringstream ss(body);
+  std::string item;
+  while (std::getline(ss, item, ',')) {
+    auto q = split_quantity(item);
+    if (!q || !q->unit.empty()) fail("plain numbers inside '[...] " + unit + "'", "'" + item + "'");
+    auto v = units.convert(q->value, unit, target_unit);
+    if (!v) fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'");
+    out.push_back(*v);
+  }
+  return out;
+}
+
+std::vector<std::string> ConfigNode::text_list() const {
+  std::vector<std::string> out;
+  if (node_.IsScalar()) return {text()};
+  for (const auto& item : items()) out.push_back(item.text());
+  return out;
+}
+
+std::vector<double> ConfigNode::number_list() const {
+  std::vector<double> out;
+  for (const auto& item : items()) out.push_back(item.number());
+  return out;
+}
+
+std::filesystem::path ConfigNode::path() const {
+  const std::filesystem::path p(text());
+  if (p.is_absolute() || file_ == nullptr) return p;
+  // Paths are relative to the file they are written in; for a command-line override,
+  // relative to the working directory.
+  if (!override_origin().empty()) return p;
+  return file_->parent_path() / p;
+}
+
+}  // namespace colchem

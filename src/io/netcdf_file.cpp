@@ -1,0 +1,244 @@
+#include "io/netcdf_file.hpp"
+
+#include <netcdf.h>
+#include <unistd.h>
+
+#include <system_error>
+
+#include "core/error.hpp"
+
+namespace colchem {
+
+// ---------------------------------------------------------------------------------------
+// NcWriter
+
+NcWriter::NcWriter(std::filesystem::path final_path) : final_(std::move(final_path)) {
+  temp_ = final_;
+  temp_ += ".tmp-" + std::to_string(::getpid());
+  if (final_.has_parent_path() && !final_.parent_path().empty()) {
+    std::error_code ec;
+    std::filesystem::create_directories(final_.parent_path(), ec);
+  }
+  check(nc_create(temp_.c_str(), NC_NETCDF4 | NC_CLOBBER, &ncid_), "create");
+}
+
+NcWriter::~NcWriter() {
+  if (!committed_) {
+    if (ncid_ >= 0) nc_close(ncid_);
+    std::error_code ec;
+    std::filesystem::remove(temp_, ec);
+  }
+}
+
+void NcWriter::check(int status, const std::string& what) const {
+  if (status != NC_NOERR) {
+    throw RunError(ExitCode::kOutput, final_.string() + ": NetCDF " + what + " failed: " +
+                                          nc_strerror(status));
+  }
+}
+
+int NcWriter::varid(const std::string& name) const {
+  int id = -1;
+  check(nc_inq_varid(ncid_, name.c_str(), &id), "lookup of variable '" + name + "'");
+  return id;
+}
+
+void NcWriter::global_text(const std::string& name, const std::string& value) {
+  check(nc_put_att_text(ncid_, NC_GLOBAL, name.c_str(), value.size(), value.c_str()),
+        "attribute " + name);
+}
+
+void NcWriter::global_number(const std::string& name, double value) {
+  check(nc_put_att_double(ncid_, NC_GLOBAL, name.c_str(), NC_DOUBLE, 1, &value),
+        "attribute " + name);
+}
+
+void NcWriter::dimension(const std::string& name, std::size_t len) {
+  int id = -1;
+  check(nc_def_dim(ncid_, name.c_str(), len == 0 ? NC_UNLIMITED : len, &id),
+        "dimension " + name);
+}
+
+void NcWriter::variable(const std::string& name, const std::vector<std::string>& dims,
+                        const NcVarAttrs& attrs) {
+  std::vector<int> dimids;
+  for (const auto& d : dims) {
+    int id = -1;
+    check(nc_inq_dimid(ncid_, d.c_str(), &id), "lookup of dimension '" + d + "'");
+    dimids.push_back(id);
+  }
+  int id = -1;
+  check(nc_def_var(ncid_, name.c_str(), NC_DOUBLE, static_cast<int>(dimids.size()),
+                   dimids.data(), &id),
+        "variable " + name);
+  if (!attrs.units.empty()) var_text(name, "units", attrs.units);
+  if (!attrs.long_name.empty()) var_text(name, "long_name", attrs.long_name);
+  if (!attrs.standard_name.empty()) var_text(name, "standard_name", attrs.standard_name);
+  for (const auto& [k, v] : attrs.extra) var_text(name, k, v);
+}
+
+void NcWriter::string_variable(const std::string& name, const std::string& dim,
+                               const std::string& long_name) {
+  int dimid = -1;
+  check(nc_inq_dimid(ncid_, dim.c_str(), &dimid), "lookup of dimension '" + dim + "'");
+  int id = -1;
+  check(nc_def_var(ncid_, name.c_str(), NC_STRING, 1, &dimid, &id), "variable " + name);
+  var_text(name, "long_name", long_name);
+}
+
+void NcWriter::var_text(const std::string& var, const std::string& att,
+                        const std::string& value) {
+  check(nc_put_att_text(ncid_, varid(var), att.c_str(), value.size(), value.c_str()),
+        "attribute " + var + ":" + att);
+}
+
+void NcWriter::var_number(const std::string& var, const std::string& att, double value) {
+  check(nc_put_att_double(ncid_, varid(var), att.c_str(), NC_DOUBLE, 1, &value),
+        "attribute " + var + ":" + att);
+}
+
+void NcWriter::end_definitions() {
+  if (defining_) {
+    check(nc_enddef(ncid_), "end of definitions");
+    defining_ = false;
+  }
+}
+
+void NcWriter::put(const std::string& var, std::span<const double> data) {
+  end_definitions();
+  const int id = varid(var);
+  int ndims = 0;
+  check(nc_inq_varndims(ncid_, id, &ndims), "shape of " + var);
+  std::vector<int> dimids(static_cast<std::size_t>(ndims));
+  check(nc_inq_vardimid(ncid_, id, dimids.data()), "shape of " + var);
+  std::size_t total = 1;
+  std::vector<std::size_t> start(dimids.size(), 0), count(dimids.size(), 1);
+  for (std::size_t d = 0; d < dimids.size(); ++d) {
+    check(nc_inq_dimlen(ncid_, dimids[d], &count[d]), "shape of " + var);
+    total *= count[d];
+  }
+  if (total != data.size()) {
+    throw RunError(ExitCode::kInternal, "variable " + var + " expects " + std::to_string(total) +
+                                            " values, got " + std::to_string(data.size()));
+  }
+  check(nc_put_vara_double(ncid_, id, start.data(), count.data(), data.data()), "write of " + var);
+}
+
+void NcWriter::put_strings(const std::string& var, const std::vector<std::string>& values) {
+  end_definitions();
+  std::vector<const char*> ptrs;
+  ptrs.reserve(values.size());
+  for (const auto& s : values) ptrs.push_back(s.c_str());
+  const std::size_t start = 0;
+  const std::size_t count = values.size();
+  check(nc_put_vara_string(ncid_, varid(var), &start, &count, ptrs.data()), "write of " + var);
+}
+
+void NcWriter::commit() {
+  end_definitions();
+  check(nc_close(ncid_), "close");
+  ncid_ = -1;
+  std::error_code ec;
+  std::filesystem::rename(temp_, final_, ec);
+  if (ec) {
+    std::filesystem::remove(temp_, ec);
+    throw RunError(ExitCode::kOutput, final_.string() + ": could not move the finished file into "
+                                                        "place: " + ec.message());
+  }
+  committed_ = true;
+}
+
+// ---------------------------------------------------------------------------------------
+// NcReader
+
+NcReader::NcReader(const std::filesystem::path& path) : path_(path) {
+  const int status = nc_open(path.c_str(), NC_NOWRITE, &ncid_);
+  if (status != NC_NOERR) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path.string()}, "",
+                     "a readable NetCDF file written by colchem", nc_strerror(status));
+  }
+}
+
+NcReader::~NcReader() {
+  if (ncid_ >= 0) nc_close(ncid_);
+}
+
+void NcReader::check(int status, const std::string& what) const {
+  if (status != NC_NOERR) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, what,
+                     "a readable value", nc_strerror(status));
+  }
+}
+
+int NcReader::varid(const std::string& name) const {
+  int id = -1;
+  const int status = nc_inq_varid(ncid_, name.c_str(), &id);
+  if (status != NC_NOERR) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, name,
+                     "a variable named '" + name + "'", "none");
+  }
+  return id;
+}
+
+bool NcReader::has_variable(const std::string& name) const {
+  int id = -1;
+  return nc_inq_varid(ncid_, name.c_str(), &id) == NC_NOERR;
+}
+
+std::vector<std::size_t> NcReader::shape(const std::string& var) const {
+  const int id = varid(var);
+  int ndims = 0;
+  check(nc_inq_varndims(ncid_, id, &ndims), var);
+  std::vector<int> dimids(static_cast<std::size_t>(ndims));
+  check(nc_inq_vardimid(ncid_, id, dimids.data()), var);
+  std::vector<std::size_t> out(dimids.size());
+  for (std::size_t d = 0; d < dimids.size(); ++d) check(nc_inq_dimlen(ncid_, dimids[d], &out[d]), var);
+  return out;
+}
+
+std::vector<double> NcReader::read(const std::string& var) const {
+  std::size_t total = 1;
+  for (auto n : shape(var)) total *= n;
+  std::vector<double> out(total);
+  if (total > 0) check(nc_get_var_double(ncid_, varid(var), out.data()), var);
+  return out;
+}
+
+std::vector<std::string> NcReader::read_strings(const std::string& var) const {
+  const auto shp = shape(var);
+  const std::size_t n = shp.empty() ? 1 : shp[0];
+  std::vector<char*> raw(n, nullptr);
+  check(nc_get_var_string(ncid_, varid(var), raw.data()), var);
+  std::vector<std::string> out;
+  for (char* s : raw) out.emplace_back(s ? s : "");
+  nc_free_string(n, raw.data());
+  return out;
+}
+
+std::optional<std::string> NcReader::global_text(const std::string& name) const {
+  std::size_t len = 0;
+  if (nc_inq_attlen(ncid_, NC_GLOBAL, name.c_str(), &len) != NC_NOERR) return std::nullopt;
+  std::string s(len, '\0');
+  check(nc_get_att_text(ncid_, NC_GLOBAL, name.c_str(), s.data()), name);
+  return s;
+}
+
+std::optional<std::string> NcReader::var_text(const std::string& var,
+                                              const std::string& att) const {
+  const int id = varid(var);
+  std::size_t len = 0;
+  if (nc_inq_attlen(ncid_, id, att.c_str(), &len) != NC_NOERR) return std::nullopt;
+  std::string s(len, '\0');
+  check(nc_get_att_text(ncid_, id, att.c_str(), s.data()), var + ":" + att);
+  return s;
+}
+
+std::size_t NcReader::dimension(const std::string& name) const {
+  int id = -1;
+  check(nc_inq_dimid(ncid_, name.c_str(), &id), name);
+  std::size_t len = 0;
+  check(nc_inq_dimlen(ncid_, id, &len), name);
+  return len;
+}
+
+}  // namespace colchem

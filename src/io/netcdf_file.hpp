@@ -1,0 +1,87 @@
+// CF-1.10 NetCDF output through the NetCDF-C API.
+//
+// NcWriter writes to "<final>.tmp-<pid>" and renames onto the final path only in commit(),
+// so an interrupted or failed run never leaves a half-written file under the final name;
+// the destructor of an uncommitted writer deletes the temporary.
+// NcReader reads variables and attributes back (restart, compare, budget, tests).
+#pragma once
+
+#include <filesystem>
+#include <map>
+#include <optional>
+#include <span>
+#include <string>
+#include <vector>
+
+namespace colchem {
+
+struct NcVarAttrs {
+  std::string units;          ///< UDUNITS-parsable; "1" for dimensionless
+  std::string long_name;
+  std::string standard_name;  ///< CF standard name where one exists, else empty
+  std::map<std::string, std::string> extra;  ///< further text attributes
+};
+
+class NcWriter {
+ public:
+  explicit NcWriter(std::filesystem::path final_path);
+  ~NcWriter();
+  NcWriter(const NcWriter&) = delete;
+  NcWriter& operator=(const NcWriter&) = delete;
+
+  void global_text(const std::string& name, const std::string& value);
+  void global_number(const std::string& name, double value);
+  /// len 0 = unlimited.
+  void dimension(const std::string& name, std::size_t len);
+  void variable(const std::string& name, const std::vector<std::string>& dims,
+                const NcVarAttrs& attrs);
+  /// A variable of strings (NC_STRING) along one dimension, e.g. species names.
+  void string_variable(const std::string& name, const std::string& dim,
+                       const std::string& long_name);
+  void var_text(const std::string& var, const std::string& att, const std::string& value);
+  void var_number(const std::string& var, const std::string& att, double value);
+
+  /// Leaves define mode (called automatically by the first put).
+  void end_definitions();
+  void put(const std::string& var, std::span<const double> data);
+  void put_strings(const std::string& var, const std::vector<std::string>& values);
+  /// Closes and renames onto the final path.
+  void commit();
+
+  [[nodiscard]] const std::filesystem::path& final_path() const { return final_; }
+
+ private:
+  int varid(const std::string& name) const;
+  void check(int status, const std::string& what) const;
+  std::filesystem::path final_;
+  std::filesystem::path temp_;
+  int ncid_ = -1;
+  bool defining_ = true;
+  bool committed_ = false;
+};
+
+class NcReader {
+ public:
+  explicit NcReader(const std::filesystem::path& path);
+  ~NcReader();
+  NcReader(const NcReader&) = delete;
+  NcReader& operator=(const NcReader&) = delete;
+
+  [[nodiscard]] bool has_variable(const std::string& name) const;
+  [[nodiscard]] std::vector<double> read(const std::string& var) const;
+  [[nodiscard]] std::vector<std::size_t> shape(const std::string& var) const;
+  [[nodiscard]] std::vector<std::string> read_strings(const std::string& var) const;
+  [[nodiscard]] std::optional<std::string> global_text(const std::string& name) const;
+  [[nodiscard]] std::optional<std::string> var_text(const std::string& var,
+                                                    const std::string& att) const;
+  [[nodiscard]] std::size_t dimension(const std::string& name) const;
+  [[nodiscard]] const std::filesystem::path& path() const { return path_; }
+
+ private:
+  int varid(const std::string& name) const;
+  void check(int status, const std::string& what) const;
+  std::filesystem::path path_;
+  int ncid_ = -1;
+};
+
+}  // namespace colchem

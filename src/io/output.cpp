@@ -1,0 +1,104 @@
+#include "io/output.hpp"
+
+#include <chrono>
+#include <ctime>
+
+#include "colchem/version.hpp"
+#include "core/constants.hpp"
+
+namespace colchem {
+
+std::string utc_timestamp() {
+  const std::time_t t = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[32];
+  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+  return buf;
+}
+
+void write_provenance(NcWriter& nc, const Scenario& sc, const std::string& command_line) {
+  nc.global_text("Conventions", "CF-1.10");
+  nc.global_text("title", "colchem column: " + sc.name);
+  if (!sc.description.empty()) nc.global_text("comment", sc.description);
+  nc.global_text("source", std::string("colchem ") + kVersion + " (git " + kGitRevision + ")");
+  nc.global_text("history", utc_timestamp() + " " + command_line);
+  nc.global_text("colchem_version", kVersion);
+  nc.global_text("colchem_git_revision", kGitRevision);
+  nc.global_text("date_created", utc_timestamp());
+  nc.global_text("planet", sc.background.planet.name);
+  nc.global_text("colchem_scenario_file", sc.file.string());
+  nc.global_text("colchem_scenario", sc.resolved_yaml);
+  std::string overrides;
+  for (const auto& o : sc.overrides) overrides += o + "\n";
+  nc.global_text("colchem_overrides", overrides);
+  std::string inputs;
+  for (const auto& f : sc.inputs) {
+    inputs += "### " + f.role + ": " + f.path.string() + "\n" + f.text;
+    if (!f.text.empty() && f.text.back() != '\n') inputs += "\n";
+  }
+  nc.global_text("colchem_input_files", inputs);
+}
+
+void define_background(NcWriter& nc, const Background& bg) {
+  nc.dimension("altitude", bg.grid.cells());
+  nc.dimension("altitude_edge", bg.grid.cells() + 1);
+  nc.dimension("nv", 2);
+  nc.variable("altitude", {"altitude"},
+              {"km", "altitude of cell centre above the reference radius", "altitude",
+               {{"positive", "up"}, {"axis", "Z"}, {"bounds", "altitude_bounds"}}});
+  nc.variable("altitude_bounds", {"altitude", "nv"}, {"km", "cell edges", "", {}});
+  nc.variable("altitude_edge", {"altitude_edge"},
+              {"km", "altitude of cell edge", "altitude", {{"positive", "up"}}});
+  nc.variable("temperature", {"altitude"}, {"K", "temperature", "air_temperature", {}});
+  nc.variable("pressure", {"altitude"}, {"Pa", "pressure", "air_pressure", {}});
+  nc.variable("air_number_density", {"altitude"},
+              {"cm-3", "total number density of air molecules", "", {}});
+  nc.variable("gravity", {"altitude"},
+              {"m s-2", "gravitational acceleration", "", {}});
+  nc.variable("scale_height", {"altitude"},
+              {"km", "pressure scale height of the mean air molecule", "", {}});
+  nc.variable("eddy_diffusion", {"altitude"},
+              {"cm2 s-1", "eddy diffusion coefficient at cell centres", "", {}});
+  nc.variable("edge_eddy_diffusion", {"altitude_edge"},
+              {"cm2 s-1", "eddy diffusion coefficient at cell edges", "", {}});
+  nc.variable("edge_temperature", {"altitude_edge"},
+              {"K", "temperature at cell edges", "air_temperature", {}});
+  nc.variable("edge_air_number_density", {"altitude_edge"},
+              {"cm-3", "total number density of air molecules at cell edges", "", {}});
+  nc.global_number("mean_molecular_mass_amu", bg.molecule_mass_g / constants::kAtomicMassUnit);
+  nc.global_number("planet_radius_km", bg.planet.radius_cm / constants::kCmPerKm);
+  nc.global_number("surface_gravity_m_s2", bg.planet.surface_gravity_cm_s2 / 100.0);
+  nc.global_number("star_distance_au", bg.planet.star_distance_au);
+}
+
+namespace {
+std::vector<double> scaled(const std::vector<double>& v, double f) {
+  std::vector<double> out(v.size());
+  for (std::size_t i = 0; i < v.size(); ++i) out[i] = v[i] * f;
+  return out;
+}
+}  // namespace
+
+void write_background_data(NcWriter& nc, const Background& bg) {
+  const double km = 1.0 / constants::kCmPerKm;
+  nc.put("altitude", scaled(bg.grid.center_cm, km));
+  std::vector<double> bounds;
+  for (std::size_t j = 0; j < bg.grid.cells(); ++j) {
+    bounds.push_back(bg.grid.edge_cm[j] * km);
+    bounds.push_back(bg.grid.edge_cm[j + 1] * km);
+  }
+  nc.put("altitude_bounds", bounds);
+  nc.put("altitude_edge", scaled(bg.grid.edge_cm, km));
+  nc.put("temperature", bg.temperature_K);
+  nc.put("pressure", scaled(bg.pressure_dyn_cm2, constants::kPaPerBarye));
+  nc.put("air_number_density", bg.air_density_cm3);
+  nc.put("gravity", scaled(bg.gravity_cm_s2, 0.01));
+  nc.put("scale_height", scaled(bg.scale_height_cm, km));
+  nc.put("eddy_diffusion", bg.eddy_cm2_s);
+  nc.put("edge_eddy_diffusion", bg.edge_eddy_cm2_s);
+  nc.put("edge_temperature", bg.edge_temperature_K);
+  nc.put("edge_air_number_density", bg.edge_air_density_cm3);
+}
+
+}  // namespace colchem

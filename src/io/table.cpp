@@ -1,0 +1,182 @@
+#include "io/table.hpp"
+
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+#include "io/config_node.hpp"
+
+namespace colchem {
+
+namespace {
+std::string trim(const std::string& s) {
+  const auto a = s.find_first_not_of(" \t\r");
+  if (a == std::string::npos) return {};
+  const auto b = s.find_last_not_of(" \t\r");
+  return s.substr(a, b - a + 1);
+}
+
+std::vector<std::string> split_fields(const std::string& line, bool comma) {
+  std::vector<std::string> out;
+  if (comma) {
+    std::stringstream ss(line);
+    std::string f;
+    while (std::getline(ss, f, ',')) out.push_back(trim(f));
+    if (!line.empty() && line.back() == ',') out.emplace_back();
+  } else {
+    std::stringstream ss(line);
+    std::string f;
+    while (ss >> f) out.push_back(f);
+  }
+  return out;
+}
+}  // namespace
+
+Table Table::read(const std::filesystem::path& file, ExitCode code) {
+  std::ifstream in(file);
+  if (!in) {
+    throw InputError(code, SourceLocation{file.string()}, "", "a readable table file",
+                     "no such file or it cannot be read");
+  }
+  std::stringstream buf;
+  buf << in.rdbuf();
+  return parse(buf.str(), file.string(), code);
+}
+
+Table Table::parse(const std::string& text, const std::string& name, ExitCode code) {
+  Table t;
+  t.file_ = name;
+  t.text_ = text;
+  t.code_ = code;
+  std::stringstream ss(text);
+  std::string raw;
+  int line_no = 0;
+  bool comma = false;
+  while (std::getline(ss, raw)) {
+    ++line_no;
+    const auto hash = raw.find('#');
+    const std::string line = trim(hash == std::string::npos ? raw : raw.substr(0, hash));
+    if (line.empty()) continue;
+    if (t.names_.empty()) {
+      comma = line.find(',') != std::string::npos;
+      t.header_line_ = line_no;
+      for (const auto& field : split_fields(line, comma)) {
+        const auto open = field.find('[');
+        std::string col = trim(field.substr(0, open));
+        std::string unit;
+        if (open != std::string::npos) {
+          const auto close = field.find(']', open);
+          if (close == std::string::npos) {
+            throw InputError(code, SourceLocation{name, line_no}, "header",
+                             "'name [unit]' for every column", "'" + field + "' without ']'");
+          }
+          unit = trim(field.substr(open + 1, close - open - 1));
+        }
+        if (col.empty()) {
+          throw InputError(code, SourceLocation{name, line_no}, "header", "a column name",
+                           "'" + field + "'");
+        }
+        for (const auto& existing : t.names_) {
+          if (existing == col) {
+            throw InputError(code, SourceLocation{name, line_no}, "header",
+                             "distinct column names", "'" + col + "' twice");
+          }
+        }
+        t.names_.push_back(col);
+        t.units_.push_back(unit);
+      }
+      t.data_.resize(t.names_.size());
+      continue;
+    }
+    const auto fields = split_fields(line, comma);
+    if (fields.size() != t.names_.size()) {
+      throw InputError(code, SourceLocation{name, line_no}, "",
+                       std::to_string(t.names_.size()) + " fields (as in the header on line " +
+                           std::to_string(t.header_line_) + ")",
+                       std::to_string(fields.size()) + " fields");
+    }
+    for (std::size_t c = 0; c < fields.size(); ++c) {
+      std::size_t used = 0;
+      double v = NAN;
+      try {
+        v = std::stod(fields[c], &used);
+      } catch (const std::exception&) {
+        used = 0;
+      }
+      if (used == 0 || used != fields[c].size() || !std::isfinite(v)) {
+        throw InputError(code, SourceLocation{name, line_no}, t.names_[c], "a finite number",
+                         "'" + fields[c] + "'");
+      }
+      t.data_[c].push_back(v);
+    }
+    t.row_lines_.push_back(line_no);
+    ++t.rows_;
+  }
+  if (t.names_.empty()) {
+    throw InputError(code, SourceLocation{name}, "", "a header line naming the columns",
+                     "an empty file");
+  }
+  if (t.rows_ == 0) {
+    throw InputError(code, SourceLocation{name, t.header_line_}, "",
+                     "at least one data row after the header", "none");
+  }
+  return t;
+}
+
+std::size_t Table::index(const std::string& col) const {
+  for (std::size_t i = 0; i < names_.size(); ++i) {
+    if (names_[i] == col) return i;
+  }
+  std::string hint;
+  if (auto near = nearest_word(col, names_)) hint = "did you mean '" + *near + "'?";
+  std::string list;
+  for (const auto& n : names_) list += (list.empty() ? "" : ", ") + n;
+  throw InputError(code_, SourceLocation{file_, header_line_}, "header",
+                   "a column named '" + col + "'", "columns " + list, hint);
+}
+
+bool Table::has(const std::string& col) const {
+  for (const auto& n : names_) {
+    if (n == col) return true;
+  }
+  return false;
+}
+
+const std::vector<double>& Table::raw(const std::string& col) const { return data_[index(col)]; }
+const std::string& Table::unit(const std::string& col) const { return units_[index(col)]; }
+
+std::vector<double> Table::column(const std::string& col, const UnitSystem& units,
+                                  const std::string& target_unit) const {
+  const std::size_t i = index(col);
+  const std::string& from = units_[i];
+  auto factor = units.convert(1.0, from, target_unit);
+  auto offset = units.convert(0.0, from, target_unit);
+  if (!factor || !offset) {
+    throw InputError(code_, SourceLocation{file_, header_line_}, col,
+                     "a unit convertible to '" + target_unit + "'",
+                     from.empty() ? std::string("no unit") : "'" + from + "'",
+                     "write the unit in brackets after the column name, e.g. '" + col + " [" +
+                         target_unit + "]'");
+  }
+  std::vector<double> out(data_[i].size());
+  const double scale = *factor - *offset;
+  for (std::size_t r = 0; r < out.size(); ++r) out[r] = scale * data_[i][r] + *offset;
+  return out;
+}
+
+void Table::require_increasing(const std::string& col) const {
+  const auto& v = raw(col);
+  for (std::size_t r = 1; r < v.size(); ++r) {
+    if (!(v[r] > v[r - 1])) {
+      fail_row(r, col, "values increasing down the column",
+               std::to_string(v[r]) + " after " + std::to_string(v[r - 1]));
+    }
+  }
+}
+
+void Table::fail_row(std::size_t row, const std::string& col, const std::string& expected,
+                     const std::string& found) const {
+  throw InputError(code_, SourceLocation{file_, row_lines_.at(row)}, col, expected, found);
+}
+
+}  // namespace colchem

@@ -1,0 +1,55 @@
+# Command-line behaviour: exit codes and messages for every class of input error, --help on
+# every command, and the output opened by real NetCDF clients (ncdump, python3-xarray).
+set(EXPECT ${CMAKE_CURRENT_LIST_DIR}/expect.sh)
+set(BAD ${CMAKE_CURRENT_LIST_DIR}/bad)
+set(CFG ${CMAKE_SOURCE_DIR}/configs)
+
+function(colchem_cli_test name code regex)
+  add_test(NAME cli.${name} COMMAND ${EXPECT} ${code} "${regex}" -- ${ARGN})
+  set_tests_properties(cli.${name} PROPERTIES WORKING_DIRECTORY ${CMAKE_CURRENT_BINARY_DIR})
+endfunction()
+
+colchem_cli_test(version 0 "^colchem [0-9]+\\.[0-9]+\\.[0-9]+" $<TARGET_FILE:colchem> --version)
+colchem_cli_test(help 0 "Subcommands:" $<TARGET_FILE:colchem> --help)
+colchem_cli_test(help_check 0 "--set" $<TARGET_FILE:colchem> check --help)
+colchem_cli_test(help_run 0 "--output" $<TARGET_FILE:colchem> run --help)
+colchem_cli_test(no_command 2 "subcommand" $<TARGET_FILE:colchem>)
+colchem_cli_test(unknown_option 2 "--bogus" $<TARGET_FILE:colchem> check --bogus ${CFG}/pyrene.yaml)
+colchem_cli_test(check_default 0 "grid +54 cells" $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml)
+colchem_cli_test(check_misspelt_key 3
+  "misspelt_key.yaml:16:3: 'grid.cels': expected a known key in 'grid', found unknown key 'cels'; did you mean 'cells'\\?"
+  $<TARGET_FILE:colchem> check ${BAD}/misspelt_key.yaml)
+colchem_cli_test(check_bare_number 3
+  "bare_number.yaml:[0-9]+:[0-9]+: 'planet.radius': expected a number with a unit, such as '6050 km', found '6050' with no unit"
+  $<TARGET_FILE:colchem> check ${BAD}/bare_number.yaml)
+colchem_cli_test(check_wrong_unit 3
+  "'grid.top': expected a unit convertible to 'cm'.*found 'bar'"
+  $<TARGET_FILE:colchem> check ${BAD}/wrong_unit.yaml)
+colchem_cli_test(check_missing_key 3
+  "'planet': expected a key 'star_distance' here, found none"
+  $<TARGET_FILE:colchem> check ${BAD}/missing_key.yaml)
+colchem_cli_test(check_yaml_syntax 3 "syntax.yaml:[0-9]+:[0-9]+: expected valid YAML, found a syntax error"
+  $<TARGET_FILE:colchem> check ${BAD}/syntax.yaml)
+colchem_cli_test(check_bad_table 4 "bad_row.csv:6: 'temperature': expected a finite number, found 'warm'"
+  $<TARGET_FILE:colchem> check ${BAD}/bad_table.yaml)
+colchem_cli_test(check_table_range 3
+  "'atmosphere.temperature': expected a table covering the grid"
+  $<TARGET_FILE:colchem> check ${BAD}/table_range.yaml)
+colchem_cli_test(check_bad_choice 3 "expected one of: forbid, hold_ends, found 'hold_end'; did you mean 'hold_ends'\\?"
+  $<TARGET_FILE:colchem> check ${BAD}/bad_choice.yaml)
+colchem_cli_test(set_override 0 "grid +120 cells"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cells=120)
+colchem_cli_test(set_bad_value 3 "--set grid.cells=many: 'grid.cells': expected a whole number, found 'many'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cells=many)
+colchem_cli_test(set_unknown_key 3 "--set grid.cell=5: 'grid.cell': expected a known key in 'grid'.*did you mean 'cells'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cell=5)
+colchem_cli_test(set_malformed 2 "expected KEY.PATH=VALUE"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cells)
+colchem_cli_test(missing_file 2 "File does not exist"
+  $<TARGET_FILE:colchem> check ${CFG}/no_such_file.yaml)
+
+# The output read by real clients: ncdump (netcdf-bin) and xarray (python3-xarray, run on
+# Debian's own interpreter so that its python3-* packages are the ones imported).
+add_test(NAME cli.output_clients
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/output_clients.sh $<TARGET_FILE:colchem> ${CFG}/pyrene.yaml)
+set_tests_properties(cli.output_clients PROPERTIES WORKING_DIRECTORY ${CMAKE_CURRENT_BINARY_DIR})
