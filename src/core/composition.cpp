@@ -50,14 +50,17 @@ class Parser {
       }
       std::string sym(1, c);
       ++pos_;
+      std::string two;
       if (pos_ < s_.size() && std::islower(static_cast<unsigned char>(s_[pos_])) != 0) {
-        const std::string two = sym + s_[pos_];
+        two = sym + s_[pos_];
         if (atomic_weight(two)) {
           sym = two;
           ++pos_;
         }
       }
-      if (!atomic_weight(sym)) return fail(why, "unknown element '" + sym + "'");
+      if (!atomic_weight(sym)) {
+        return fail(why, "unknown element '" + (two.empty() ? sym : two) + "'");
+      }
       out.atoms[sym] += read_count();
     }
     return true;

@@ -371,12 +371,23 @@ std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
     for (const auto& item : items()) out.push_back(item.quantity(units, target_unit, example));
     return out;
   }
-  // "[0, 5, 10] km": a bracketed list of plain numbers followed by one unit.
+  // {values: [0, 5, 10], unit: km}: plain numbers sharing one unit.
+  if (node_.IsMap()) {
+    const std::string unit = child("unit").text();
+    for (const auto& item : child("values").items()) {
+      auto v = units.convert(item.number(), unit, target_unit);
+      if (!v) child("unit").fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'");
+      out.push_back(*v);
+    }
+    done();
+    return out;
+  }
+  // "[0, 5, 10] km" (quoted in YAML): a bracketed list of plain numbers and one unit.
   const std::string s = text();
   const auto open = s.find('[');
   const auto close = s.find(']');
   if (open == std::string::npos || close == std::string::npos || close < open) {
-    fail("a list of quantities such as '[" + example + ", ...]' or '[0, 5, 10] km'");
+    fail("a list of quantities: [" + example + ", ...] or {values: [...], unit: ...}");
   }
   std::string unit = s.substr(close + 1);
   unit.erase(0, unit.find_first_not_of(" \t"));

@@ -85,8 +85,8 @@ class ConfigNode {
   /// error: every dimensional config value carries its unit.
   [[nodiscard]] double quantity(const UnitSystem& units, const std::string& target_unit,
                                 const std::string& example) const;
-  /// A list of numbers sharing one unit: "[0, 5, 10] km" as text, or a YAML list of
-  /// quantities ["0 km", "5 km"].
+  /// A list of quantities: a YAML list ["0 km", "5 km"], a map {values: [0, 5], unit: km},
+  /// or the quoted text "[0, 5, 10] km".
   [[nodiscard]] std::vector<double> quantity_list(const UnitSystem& units,
                                                   const std::string& target_unit,
                                                   const std::string& example) const;

@@ -64,6 +64,8 @@ void define_background(NcWriter& nc, const Background& bg) {
               {"cm2 s-1", "eddy diffusion coefficient at cell edges", "", {}});
   nc.variable("edge_temperature", {"altitude_edge"},
               {"K", "temperature at cell edges", "air_temperature", {}});
+  nc.variable("edge_pressure", {"altitude_edge"},
+              {"Pa", "pressure at cell edges", "air_pressure", {}});
   nc.variable("edge_air_number_density", {"altitude_edge"},
               {"cm-3", "total number density of air molecules at cell edges", "", {}});
   nc.global_number("mean_molecular_mass_amu", bg.molecule_mass_g / constants::kAtomicMassUnit);
@@ -98,6 +100,7 @@ void write_background_data(NcWriter& nc, const Background& bg) {
   nc.put("eddy_diffusion", bg.eddy_cm2_s);
   nc.put("edge_eddy_diffusion", bg.edge_eddy_cm2_s);
   nc.put("edge_temperature", bg.edge_temperature_K);
+  nc.put("edge_pressure", scaled(bg.edge_pressure_dyn_cm2, constants::kPaPerBarye));
   nc.put("edge_air_number_density", bg.edge_air_density_cm3);
 }
 

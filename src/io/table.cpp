@@ -24,9 +24,16 @@ std::vector<std::string> split_fields(const std::string& line, bool comma) {
     while (std::getline(ss, f, ',')) out.push_back(trim(f));
     if (!line.empty() && line.back() == ',') out.emplace_back();
   } else {
+    // White space separates fields; a "[unit]" token belongs to the name before it.
     std::stringstream ss(line);
     std::string f;
-    while (ss >> f) out.push_back(f);
+    while (ss >> f) {
+      if (!out.empty() && f.front() == '[' && out.back().find('[') == std::string::npos) {
+        out.back() += " " + f;
+      } else {
+        out.push_back(f);
+      }
+    }
   }
   return out;
 }

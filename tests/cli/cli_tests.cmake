@@ -53,3 +53,9 @@ colchem_cli_test(missing_file 2 "File does not exist"
 add_test(NAME cli.output_clients
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/output_clients.sh $<TARGET_FILE:colchem> ${CFG}/pyrene.yaml)
 set_tests_properties(cli.output_clients PROPERTIES WORKING_DIRECTORY ${CMAKE_CURRENT_BINARY_DIR})
+
+# Validation cases rerun as tests (validation/*/*/run.sh take the colchem executable).
+add_test(NAME validation.background.ussa76
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/background/ussa76/run.sh $<TARGET_FILE:colchem>)
+set_tests_properties(validation.background.ussa76 PROPERTIES
+  ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_ussa76.nc")

@@ -1,0 +1,137 @@
+// Every class of configuration error carries file, line, column, key path, what was
+// expected and what was found (acceptance of the foundation; messages are our own format).
+#include <catch2/catch.hpp>
+
+#include "io/config_node.hpp"
+
+using namespace colchem;
+
+namespace {
+std::string error_of(const std::function<void()>& f) {
+  try {
+    f();
+  } catch (const InputError& e) {
+    return e.what();
+  }
+  return "no error";
+}
+}  // namespace
+
+TEST_CASE("unknown keys are rejected with the nearest valid key", "[config]") {
+  const auto doc = ConfigDocument::from_text("grid:\n  bottom: 1 km\n  levles: 5\n", "s.yaml");
+  const auto grid = doc.root().child("grid");
+  (void)grid.find("levels");
+  (void)grid.find("bottom");
+  const auto msg = error_of([&] { grid.done(); });
+  CHECK(msg == "s.yaml:3:3: 'grid.levles': expected a known key in 'grid', found unknown key "
+               "'levles'; did you mean 'levels'?");
+}
+
+TEST_CASE("a missing required key names the section and its line", "[config]") {
+  const auto doc = ConfigDocument::from_text("planet:\n  name: x\n", "p.yaml");
+  const auto msg = error_of([&] { (void)doc.root().child("planet").child("radius"); });
+  CHECK(msg == "p.yaml:2:3: 'planet': expected a key 'radius' here, found none; add 'radius:' "
+               "to this section");
+}
+
+TEST_CASE("a misspelt required key is reported as the misspelling", "[config]") {
+  const auto doc = ConfigDocument::from_text("planet:\n  name: x\n  radus: 5 km\n", "p.yaml");
+  const auto msg = error_of([&] { (void)doc.root().child("planet").child("radius"); });
+  CHECK(msg == "p.yaml:3:3: 'planet.radus': expected a known key in 'planet', found unknown "
+               "key 'radus'; did you mean 'radius'?");
+}
+
+TEST_CASE("type errors: numbers, whole numbers, booleans, choices", "[config]") {
+  const auto doc = ConfigDocument::from_text(
+      "a: five\nb: 2.5\nc: maybe\nd: hold_end\ne: 3 km\nf: {x: 1}\n", "t.yaml");
+  const auto r = doc.root();
+  CHECK(error_of([&] { (void)r.child("a").number(); }) ==
+        "t.yaml:1:4: 'a': expected a number, found 'five'");
+  CHECK(error_of([&] { (void)r.child("b").integer(); }) ==
+        "t.yaml:2:4: 'b': expected a whole number, found '2.5'");
+  CHECK(error_of([&] { (void)r.child("c").boolean(); }) ==
+        "t.yaml:3:4: 'c': expected true or false, found 'maybe'");
+  CHECK(error_of([&] { (void)r.child("d").choice({"forbid", "hold_ends"}); }) ==
+        "t.yaml:4:4: 'd': expected one of: forbid, hold_ends, found 'hold_end'; did you mean "
+        "'hold_ends'?");
+  CHECK(error_of([&] { (void)r.child("e").number(); }) ==
+        "t.yaml:5:4: 'e': expected a plain number (this key takes no unit), found '3 km'");
+  CHECK(error_of([&] { (void)r.child("f").text(); }) ==
+        "t.yaml:6:4: 'f': expected a single value, found a map");
+}
+
+TEST_CASE("quantities carry units, converted by UDUNITS-2", "[config][units]") {
+  const UnitSystem units;
+  const auto doc = ConfigDocument::from_text(
+      "p: 92 bar\nq: 920 mbar\nz: 5 km\nbare: 6050\nwrong: 3 bar\nbogus: 3 furlongz\n"
+      "list: \"[0, 5, 10] km\"\nlist2: [1 m, 2 km]\nlist3: {values: [1, 2], unit: mm}\n",
+      "u.yaml");
+  const auto r = doc.root();
+  // 1 bar = 1e5 Pa = 1e6 dyn cm^-2 (SI Brochure, definition of the bar).
+  CHECK(r.child("p").quantity(units, "Pa", "1 bar") == Approx(9.2e6));
+  CHECK(r.child("q").quantity(units, "g cm-1 s-2", "1 bar") == Approx(9.2e5));
+  CHECK(r.child("z").quantity(units, "cm", "1 km") == Approx(5e5));
+  CHECK(error_of([&] { (void)r.child("bare").quantity(units, "cm", "6050 km"); }) ==
+        "u.yaml:4:7: 'bare': expected a number with a unit, such as '6050 km', found '6050' "
+        "with no unit; every dimensional value carries its unit");
+  CHECK(error_of([&] { (void)r.child("wrong").quantity(units, "cm", "5 km"); }) ==
+        "u.yaml:5:8: 'wrong': expected a unit convertible to 'cm', such as '5 km', found 'bar'");
+  CHECK(error_of([&] { (void)r.child("bogus").quantity(units, "cm", "5 km"); }) ==
+        "u.yaml:6:8: 'bogus': expected a unit that UDUNITS-2 knows (convertible to 'cm'), "
+        "found 'furlongz'");
+  const auto l = r.child("list").quantity_list(units, "km", "1 km");
+  REQUIRE(l.size() == 3);
+  CHECK(l[2] == Approx(10.0));
+  const auto l2 = r.child("list2").quantity_list(units, "m", "1 m");
+  CHECK(l2[1] == Approx(2000.0));
+  CHECK(r.child("list3").quantity_list(units, "m", "1 m")[1] == Approx(0.002));
+}
+
+TEST_CASE("YAML syntax errors give the position", "[config]") {
+  const auto msg = error_of([] { (void)ConfigDocument::from_text("a: [1, 2\nb: 3\n", "y.yaml"); });
+  CHECK_THAT(msg, Catch::StartsWith("y.yaml:"));
+  CHECK_THAT(msg, Catch::Contains("expected valid YAML, found a syntax error"));
+}
+
+TEST_CASE("command-line overrides edit the tree and are named as the origin", "[config]") {
+  auto doc = ConfigDocument::from_text("grid:\n  cells: 10\n", "o.yaml");
+  doc.apply_override("grid.cells=120");
+  doc.apply_override("planet.radius=6050 km");
+  const auto r = doc.root();
+  CHECK(r.child("grid").child("cells").integer() == 120);
+  CHECK(r.child("planet").child("radius").text() == "6050 km");
+  doc.apply_override("grid.cells=many");
+  CHECK(error_of([&] { (void)doc.root().child("grid").child("cells").integer(); }) ==
+        "--set grid.cells=many: 'grid.cells': expected a whole number, found 'many'");
+  CHECK_THAT(doc.resolved_text(), Catch::Contains("cells: many"));
+  CHECK_THAT(error_of([&] { doc.apply_override("grid.cells"); }),
+             Catch::Contains("expected KEY.PATH=VALUE"));
+  CHECK_THAT(error_of([&] { doc.apply_override("grid..x=1"); }),
+             Catch::Contains("expected dot-separated keys, found an empty key"));
+}
+
+TEST_CASE("overrides address list elements by index", "[config]") {
+  auto doc = ConfigDocument::from_text("levels: [1, 2, 3]\n", "o.yaml");
+  doc.apply_override("levels.1=20");
+  CHECK(doc.root().child("levels").number_list()[1] == 20.0);
+  CHECK_THAT(error_of([&] { doc.apply_override("levels.7=1"); }),
+             Catch::Contains("expected an index below 3"));
+}
+
+TEST_CASE("file paths are relative to the file that names them", "[config]") {
+  const auto doc = ConfigDocument::from_text("t: ../profiles/a.csv\n", "configs/s.yaml");
+  CHECK(doc.root().child("t").path() == std::filesystem::path("configs/../profiles/a.csv"));
+}
+
+TEST_CASE("missing files are input errors, not crashes", "[config]") {
+  CHECK_THAT(error_of([] { (void)ConfigDocument::load("no/such/file.yaml"); }),
+             Catch::Contains("no/such/file.yaml: expected a readable YAML file"));
+}
+
+TEST_CASE("suggestions come only for near misses", "[config]") {
+  CHECK(nearest_word("cels", {"cells", "bottom", "top"}) == std::optional<std::string>("cells"));
+  CHECK_FALSE(nearest_word("xyzzy", {"cells", "bottom", "top"}).has_value());
+  // Levenshtein distances (hand-counted).
+  CHECK(edit_distance("kitten", "sitting") == 3);
+  CHECK(edit_distance("", "abc") == 3);
+}
