@@ -22,6 +22,29 @@ NcWriter::NcWriter(std::filesystem::path final_path) : final_(std::move(final_pa
   check(nc_create(temp_.c_str(), NC_NETCDF4 | NC_CLOBBER, &ncid_), "create");
 }
 
+NcWriter NcWriter::amend(const std::filesystem::path& source, std::filesystem::path final_path) {
+  return NcWriter(AmendTag{}, source, std::move(final_path));
+}
+
+NcWriter::NcWriter(AmendTag, const std::filesystem::path& source, std::filesystem::path final_path)
+    : final_(std::move(final_path)) {
+  temp_ = final_;
+  temp_ += ".tmp-" + std::to_string(::getpid());
+  std::error_code ec;
+  std::filesystem::copy_file(source, temp_, std::filesystem::copy_options::overwrite_existing, ec);
+  if (ec) {
+    throw RunError(ExitCode::kOutput,
+                   final_.string() + ": could not copy " + source.string() + ": " + ec.message());
+  }
+  check(nc_open(temp_.c_str(), NC_WRITE, &ncid_), "open for amending");
+  check(nc_redef(ncid_), "definitions");
+}
+
+bool NcWriter::has_variable(const std::string& name) const {
+  int id = -1;
+  return nc_inq_varid(ncid_, name.c_str(), &id) == NC_NOERR;
+}
+
 NcWriter::~NcWriter() {
   if (!committed_) {
     if (ncid_ >= 0) nc_close(ncid_);

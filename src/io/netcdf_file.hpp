@@ -25,6 +25,9 @@ struct NcVarAttrs {
 class NcWriter {
  public:
   explicit NcWriter(std::filesystem::path final_path);
+  /// Adds to an existing file: copies `source` to a temporary next to `final_path`, opens it
+  /// for definitions, and on commit() renames it onto `final_path` (which may be `source`).
+  static NcWriter amend(const std::filesystem::path& source, std::filesystem::path final_path);
   ~NcWriter();
   NcWriter(const NcWriter&) = delete;
   NcWriter& operator=(const NcWriter&) = delete;
@@ -40,6 +43,7 @@ class NcWriter {
                        const std::string& long_name);
   void var_text(const std::string& var, const std::string& att, const std::string& value);
   void var_number(const std::string& var, const std::string& att, double value);
+  [[nodiscard]] bool has_variable(const std::string& name) const;
 
   /// Leaves define mode (called automatically by the first put).
   void end_definitions();
@@ -51,6 +55,8 @@ class NcWriter {
   [[nodiscard]] const std::filesystem::path& final_path() const { return final_; }
 
  private:
+  struct AmendTag {};
+  NcWriter(AmendTag, const std::filesystem::path& source, std::filesystem::path final_path);
   int varid(const std::string& name) const;
   void check(int status, const std::string& what) const;
   std::filesystem::path final_;

@@ -2,9 +2,11 @@
 
 #include <chrono>
 #include <ctime>
+#include <limits>
 
 #include "colchem/version.hpp"
 #include "core/constants.hpp"
+#include "core/error.hpp"
 
 namespace colchem {
 
@@ -102,6 +104,60 @@ void write_background_data(NcWriter& nc, const Background& bg) {
   nc.put("edge_temperature", bg.edge_temperature_K);
   nc.put("edge_pressure", scaled(bg.edge_pressure_dyn_cm2, constants::kPaPerBarye));
   nc.put("edge_air_number_density", bg.edge_air_density_cm3);
+}
+
+}  // namespace colchem
+
+namespace colchem {
+
+void define_species(NcWriter& nc, const std::vector<std::string>& species) {
+  nc.dimension("species", species.size());
+  nc.string_variable("species", "species", "species name (colchem notation)");
+  nc.variable("number_density", {"species", "altitude"},
+              {"cm-3", "number density at cell centres", "", {}});
+  nc.variable("mole_fraction", {"species", "altitude"},
+              {"1", "mole fraction (number density over air number density)", "", {}});
+  nc.variable("column_density", {"species"},
+              {"cm-2", "vertical column density over the model domain", "", {}});
+}
+
+void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
+                        std::span<const double> n) {
+  const std::size_t S = species.size();
+  const std::size_t N = bg.grid.cells();
+  std::vector<double> nd(S * N), f(S * N), col(S, 0.0);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) {
+      nd[s * N + j] = n[j * S + s];
+      f[s * N + j] = n[j * S + s] / bg.air_density_cm3[j];
+      col[s] += n[j * S + s] * bg.grid.width_cm(j);
+    }
+  }
+  nc.put_strings("species", species);
+  nc.put("number_density", nd);
+  nc.put("mole_fraction", f);
+  nc.put("column_density", col);
+}
+
+std::size_t ModelColumn::index(const std::string& name) const {
+  for (std::size_t s = 0; s < species.size(); ++s) {
+    if (species[s] == name) return s;
+  }
+  return std::numeric_limits<std::size_t>::max();
+}
+
+ModelColumn read_model_column(const NcReader& nc) {
+  ModelColumn m;
+  for (double z : nc.read("altitude")) m.altitude_cm.push_back(z * constants::kCmPerKm);
+  for (double z : nc.read("altitude_edge")) m.edge_cm.push_back(z * constants::kCmPerKm);
+  m.species = nc.read_strings("species");
+  m.number_density = nc.read("number_density");
+  m.mole_fraction = nc.read("mole_fraction");
+  if (m.mole_fraction.size() != m.species.size() * m.cells()) {
+    throw InputError(ExitCode::kInputData, SourceLocation{nc.path().string()}, "mole_fraction",
+                     "a (species, altitude) variable", "a different shape");
+  }
+  return m;
 }
 
 }  // namespace colchem

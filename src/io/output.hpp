@@ -3,7 +3,9 @@
 // NcWriter before commit().
 #pragma once
 
+#include <span>
 #include <string>
+#include <vector>
 
 #include "core/background.hpp"
 #include "io/netcdf_file.hpp"
@@ -21,6 +23,26 @@ void write_provenance(NcWriter& nc, const Scenario& sc, const std::string& comma
 /// end_definitions().
 void define_background(NcWriter& nc, const Background& bg);
 void write_background_data(NcWriter& nc, const Background& bg);
+
+/// Species profiles: a `species` coordinate of names, `number_density(species, altitude)`
+/// (cm-3), `mole_fraction(species, altitude)` ("1") and `column_density(species)` (cm-2).
+/// n is the column state, cell-major: n[j*S + s].
+void define_species(NcWriter& nc, const std::vector<std::string>& species);
+void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
+                        std::span<const double> n);
+
+/// The species profiles of a run file (read back for compare, restart and budgets).
+struct ModelColumn {
+  std::vector<double> altitude_cm;  ///< cell centres
+  std::vector<double> edge_cm;      ///< cell edges
+  std::vector<std::string> species;
+  std::vector<double> number_density;  ///< [s][j]
+  std::vector<double> mole_fraction;   ///< [s][j]
+  [[nodiscard]] std::size_t cells() const { return altitude_cm.size(); }
+  /// Index of a species, or npos.
+  [[nodiscard]] std::size_t index(const std::string& name) const;
+};
+ModelColumn read_model_column(const NcReader& nc);
 
 /// UTC now in ISO 8601 ("2026-12-02T04:30:00Z").
 std::string utc_timestamp();

@@ -1,5 +1,6 @@
 #include "io/table.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <sstream>
@@ -39,7 +40,8 @@ std::vector<std::string> split_fields(const std::string& line, bool comma) {
 }
 }  // namespace
 
-Table Table::read(const std::filesystem::path& file, ExitCode code) {
+Table Table::read(const std::filesystem::path& file, ExitCode code,
+                  const std::vector<std::string>& text_columns) {
   std::ifstream in(file);
   if (!in) {
     throw InputError(code, SourceLocation{file.string()}, "", "a readable table file",
@@ -47,10 +49,11 @@ Table Table::read(const std::filesystem::path& file, ExitCode code) {
   }
   std::stringstream buf;
   buf << in.rdbuf();
-  return parse(buf.str(), file.string(), code);
+  return parse(buf.str(), file.string(), code, text_columns);
 }
 
-Table Table::parse(const std::string& text, const std::string& name, ExitCode code) {
+Table Table::parse(const std::string& text, const std::string& name, ExitCode code,
+                   const std::vector<std::string>& text_columns) {
   Table t;
   t.file_ = name;
   t.text_ = text;
@@ -93,6 +96,7 @@ Table Table::parse(const std::string& text, const std::string& name, ExitCode co
         t.units_.push_back(unit);
       }
       t.data_.resize(t.names_.size());
+      t.cells_.resize(t.names_.size());
       continue;
     }
     const auto fields = split_fields(line, comma);
@@ -103,6 +107,10 @@ Table Table::parse(const std::string& text, const std::string& name, ExitCode co
                        std::to_string(fields.size()) + " fields");
     }
     for (std::size_t c = 0; c < fields.size(); ++c) {
+      if (std::find(text_columns.begin(), text_columns.end(), t.names_[c]) != text_columns.end()) {
+        t.cells_[c].push_back(fields[c]);
+        continue;
+      }
       std::size_t used = 0;
       double v = NAN;
       try {
@@ -149,12 +157,29 @@ bool Table::has(const std::string& col) const {
   return false;
 }
 
-const std::vector<double>& Table::raw(const std::string& col) const { return data_[index(col)]; }
+const std::vector<double>& Table::raw(const std::string& col) const {
+  const std::size_t i = index(col);
+  if (data_[i].size() != rows_) {
+    throw InputError(code_, SourceLocation{file_, header_line_}, col, "a numeric column",
+                     "a text column");
+  }
+  return data_[i];
+}
+
+const std::vector<std::string>& Table::texts(const std::string& col) const {
+  const std::size_t i = index(col);
+  if (cells_[i].size() != rows_) {
+    throw InputError(code_, SourceLocation{file_, header_line_}, col, "a text column",
+                     "a numeric column");
+  }
+  return cells_[i];
+}
 const std::string& Table::unit(const std::string& col) const { return units_[index(col)]; }
 
 std::vector<double> Table::column(const std::string& col, const UnitSystem& units,
                                   const std::string& target_unit) const {
   const std::size_t i = index(col);
+  (void)raw(col);  // numeric columns only
   const std::string& from = units_[i];
   auto factor = units.convert(1.0, from, target_unit);
   auto offset = units.convert(0.0, from, target_unit);

@@ -22,9 +22,12 @@ namespace colchem {
 class Table {
  public:
   /// Reads and checks the file: every row has every column, every field is a number.
-  static Table read(const std::filesystem::path& file, ExitCode code = ExitCode::kInputData);
+  /// `text_columns` are kept as text (e.g. a species name); all others must be numbers.
+  static Table read(const std::filesystem::path& file, ExitCode code = ExitCode::kInputData,
+                    const std::vector<std::string>& text_columns = {});
   static Table parse(const std::string& text, const std::string& name,
-                     ExitCode code = ExitCode::kInputData);
+                     ExitCode code = ExitCode::kInputData,
+                     const std::vector<std::string>& text_columns = {});
 
   [[nodiscard]] bool has(const std::string& column) const;
   /// The column converted to `target_unit`; errors name the file, the header line and the
@@ -33,6 +36,8 @@ class Table {
                                            const std::string& target_unit) const;
   /// Raw values and the unit as written.
   [[nodiscard]] const std::vector<double>& raw(const std::string& name) const;
+  /// A text column (declared in `text_columns` when reading).
+  [[nodiscard]] const std::vector<std::string>& texts(const std::string& name) const;
   [[nodiscard]] const std::string& unit(const std::string& name) const;
   [[nodiscard]] const std::vector<std::string>& names() const { return names_; }
   [[nodiscard]] std::size_t rows() const { return rows_; }
@@ -53,7 +58,8 @@ class Table {
   int header_line_ = 0;
   std::vector<std::string> names_;
   std::vector<std::string> units_;
-  std::vector<std::vector<double>> data_;  // [column][row]
+  std::vector<std::vector<double>> data_;       // [column][row]; empty for text columns
+  std::vector<std::vector<std::string>> cells_;  // [column][row]; empty for numeric columns
   std::vector<int> row_lines_;
   std::size_t rows_ = 0;
 };

@@ -1,0 +1,66 @@
+// colchem compare RUN.nc OBS.csv: score a run's profiles against observed ones, print the
+// per-point table and write the scores into the NetCDF (in place, or into -o OUT.nc).
+#include <iostream>
+
+#include "analysis/observations.hpp"
+#include "analysis/score.hpp"
+#include "app/commands.hpp"
+#include "core/error.hpp"
+#include "io/output.hpp"
+#include "io/score_output.hpp"
+
+namespace colchem::app {
+
+void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand(
+      "compare", "Score a run against an observed profile (chi-square in log and linear space).");
+  struct Options {
+    std::string run, obs, output;
+    int fitted = 0;
+    bool dry = false;
+  };
+  auto o = std::make_shared<Options>();
+  cmd->add_option("RUN", o->run, "Run output (NetCDF written by colchem run)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("OBS", o->obs, "Observation file (CSV; README \"Observation files\")")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", o->output,
+                  "Write the run plus its scores to this file instead of amending RUN");
+  cmd->add_option("-p,--fitted-parameters", o->fitted,
+                  "Number of fitted parameters p in the reduced chi-square chi2/(N - p)")
+      ->check(CLI::NonNegativeNumber)
+      ->capture_default_str();
+  cmd->add_flag("--no-write", o->dry, "Print the scores only");
+  out.emplace_back(cmd, [o](Context& ctx) {
+    const UnitSystem units;
+    const ObservationSet obs = read_observations(o->obs, units);
+    ModelColumn model;
+    {
+      const NcReader nc(o->run);
+      model = read_model_column(nc);
+      if (nc.has_variable("chi2_log") && !o->dry && o->output.empty()) {
+        throw RunError(ExitCode::kOutput, o->run + " already holds scores; write the new ones to "
+                                                   "another file with -o OUT.nc");
+      }
+    }
+    const auto scores =
+        score_column(model.altitude_cm, model.species, model.mole_fraction, obs, o->fitted);
+    std::cout << format_scores(scores);
+    if (!o->dry) {
+      const std::string target = o->output.empty() ? o->run : o->output;
+      NcWriter nc = NcWriter::amend(o->run, target);
+      nc.global_text("colchem_observation_file", o->obs);
+      nc.global_text("colchem_observations", obs.text);
+      define_scores(nc, scores);
+      nc.end_definitions();
+      write_scores(nc, scores);
+      nc.commit();
+      ctx.log->info("wrote scores into {}", target);
+    }
+    return 0;
+  });
+}
+
+}  // namespace colchem::app

@@ -1,0 +1,102 @@
+#include "io/score_output.hpp"
+
+#include <fmt/format.h>
+
+#include "core/constants.hpp"
+
+namespace colchem {
+
+namespace {
+std::size_t point_count(const std::vector<SpeciesScore>& scores) {
+  std::size_t n = 0;
+  for (const auto& s : scores) n += s.points.size();
+  return n;
+}
+}  // namespace
+
+void define_scores(NcWriter& nc, const std::vector<SpeciesScore>& scores) {
+  nc.dimension("observation", point_count(scores));
+  nc.dimension("scored_species", scores.size());
+  nc.string_variable("observation_species", "observation", "species of the observed point");
+  nc.variable("observation_altitude", {"observation"}, {"km", "altitude of the observed point", "altitude", {}});
+  nc.variable("observation_value", {"observation"}, {"1", "observed mole fraction (or upper limit)", "", {}});
+  nc.variable("observation_uncertainty", {"observation"}, {"1", "one-sigma uncertainty of the observed mole fraction", "", {}});
+  nc.variable("observation_upper_limit", {"observation"}, {"1", "1 where the value is an upper limit", "", {{"flag_values", "0 1"}}});
+  nc.variable("model_at_observation", {"observation"}, {"1", "model mole fraction interpolated in altitude and log mole fraction", "", {}});
+  nc.variable("residual_log", {"observation"}, {"1", "(log10 model - log10 observed)/sigma_log; 0 where not counted", "", {}});
+  nc.variable("residual_linear", {"observation"}, {"1", "(model - observed)/sigma; 0 where not counted", "", {}});
+  nc.variable("observation_counted", {"observation"}, {"1", "1 where the point adds to chi-square", "", {}});
+  nc.string_variable("score_species", "scored_species", "species scored against observations");
+  nc.variable("chi2_log", {"scored_species"}, {"1", "chi-square in log10 mole fraction", "", {}});
+  nc.variable("chi2_linear", {"scored_species"}, {"1", "chi-square in mole fraction", "", {}});
+  nc.variable("reduced_chi2_log", {"scored_species"}, {"1", "chi2_log/(N - p)", "", {}});
+  nc.variable("reduced_chi2_linear", {"scored_species"}, {"1", "chi2_linear/(N - p)", "", {}});
+  nc.variable("score_points", {"scored_species"}, {"1", "N: observed points inside the model altitude range", "", {}});
+}
+
+void write_scores(NcWriter& nc, const std::vector<SpeciesScore>& scores) {
+  std::vector<std::string> sp, names;
+  std::vector<double> z, v, u, lim, m, rl, rlin, counted, c2l, c2lin, rc2l, rc2lin, npts;
+  for (const auto& s : scores) {
+    names.push_back(s.species);
+    c2l.push_back(s.chi2_log);
+    c2lin.push_back(s.chi2_linear);
+    rc2l.push_back(s.reduced_chi2_log);
+    rc2lin.push_back(s.reduced_chi2_linear);
+    npts.push_back(static_cast<double>(s.n_points));
+    for (const auto& p : s.points) {
+      sp.push_back(p.obs.species);
+      z.push_back(p.obs.altitude_cm / constants::kCmPerKm);
+      v.push_back(p.obs.value);
+      u.push_back(p.obs.uncertainty);
+      lim.push_back(p.obs.upper_limit ? 1.0 : 0.0);
+      m.push_back(p.model);
+      rl.push_back(p.residual_log);
+      rlin.push_back(p.residual_linear);
+      counted.push_back(p.counted ? 1.0 : 0.0);
+    }
+  }
+  nc.put_strings("observation_species", sp);
+  nc.put("observation_altitude", z);
+  nc.put("observation_value", v);
+  nc.put("observation_uncertainty", u);
+  nc.put("observation_upper_limit", lim);
+  nc.put("model_at_observation", m);
+  nc.put("residual_log", rl);
+  nc.put("residual_linear", rlin);
+  nc.put("observation_counted", counted);
+  nc.put_strings("score_species", names);
+  nc.put("chi2_log", c2l);
+  nc.put("chi2_linear", c2lin);
+  nc.put("reduced_chi2_log", rc2l);
+  nc.put("reduced_chi2_linear", rc2lin);
+  nc.put("score_points", npts);
+}
+
+std::string format_scores(const std::vector<SpeciesScore>& scores) {
+  std::string out;
+  for (const auto& s : scores) {
+    out += fmt::format("{}: N = {}, chi2_log = {:.4g} (reduced {:.4g}), chi2_linear = {:.4g} "
+                       "(reduced {:.4g})\n",
+                       s.species, s.n_points, s.chi2_log, s.reduced_chi2_log, s.chi2_linear,
+                       s.reduced_chi2_linear);
+    out += fmt::format("  {:>8} {:>11} {:>11} {:>11} {:>5} {:>9} {:>9}\n", "z [km]", "observed",
+                       "sigma", "model", "kind", "r_log", "r_lin");
+    for (const auto& p : s.points) {
+      const char* kind = p.obs.upper_limit ? "limit" : "det";
+      if (!p.inside) {
+        out += fmt::format("  {:8.2f} {:11.3e} {:11.3e} {:>11} {:>5} {:>9} {:>9}\n",
+                           p.obs.altitude_cm / constants::kCmPerKm, p.obs.value,
+                           p.obs.uncertainty, "outside", kind, "-", "-");
+        continue;
+      }
+      out += fmt::format("  {:8.2f} {:11.3e} {:11.3e} {:11.3e} {:>5} {:9.3f} {:9.3f}{}\n",
+                         p.obs.altitude_cm / constants::kCmPerKm, p.obs.value, p.obs.uncertainty,
+                         p.model, kind, p.residual_log, p.residual_linear,
+                         p.counted ? "" : "  (below limit)");
+    }
+  }
+  return out;
+}
+
+}  // namespace colchem
