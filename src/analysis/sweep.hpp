@@ -1,0 +1,68 @@
+// Sweeps: variants of a scenario formed by crossing module on/off combinations, parameter
+// grids and sets of config overrides. Every variant is expressed as "--set" overrides of
+// the base scenario, so a variant is exactly what a user could run by hand.
+#pragma once
+
+#include <filesystem>
+#include <string>
+#include <vector>
+
+namespace colchem {
+
+struct ModuleSet {
+  std::string label;                 ///< e.g. "base+h2so4_overtone"
+  std::vector<std::string> modules;  ///< switched on (chemistry.modules)
+};
+
+struct ParameterAxis {
+  std::string name;            ///< a mechanism parameter (chemistry.parameters.NAME)
+  std::vector<double> values;
+  bool logarithmic = false;    ///< distance between variants measured in log(value)
+};
+
+struct OverrideSet {
+  std::string label;
+  std::vector<std::string> assignments;  ///< "key.path=value"
+};
+
+struct SweepSpec {
+  std::string name;
+  std::filesystem::path file;         ///< the sweep file
+  std::filesystem::path scenario;     ///< base scenario (resolved)
+  std::filesystem::path observations; ///< optional; scores each variant when given
+  std::filesystem::path output;       ///< NetCDF with a variant dimension
+  std::filesystem::path table;        ///< ranked CSV table
+  std::vector<ModuleSet> module_sets;      ///< empty: the scenario's own modules
+  std::vector<ParameterAxis> axes;
+  std::vector<OverrideSet> override_sets;  ///< empty: none
+  std::vector<std::string> common_overrides;  ///< applied to every variant (sweep.set)
+  std::string rank_by = "chi2_log";        ///< score used for ranking
+};
+
+struct Variant {
+  std::size_t index = 0;
+  std::string label;
+  std::string module_label;
+  std::vector<std::string> modules;                  ///< empty: scenario default
+  std::vector<std::pair<std::string, double>> parameters;
+  std::string override_label;
+  std::vector<std::string> overrides;  ///< every "--set" this variant applies, in order
+  std::size_t module_set = 0;          ///< index into SweepSpec::module_sets
+  std::size_t override_set = 0;
+  std::vector<double> coordinates;     ///< parameter coordinates in [0, 1] for distances
+};
+
+/// The cross product, in a fixed order (module sets outermost, then override sets, then
+/// parameters with the last axis fastest). The order does not depend on the number of ranks.
+std::vector<Variant> expand_variants(const SweepSpec& spec);
+
+/// Distance for warm starts: the Euclidean distance of the normalised parameter
+/// coordinates, plus 1000 when the module or override sets differ (such a variant is a
+/// worse but usable starting point).
+double variant_distance(const Variant& a, const Variant& b);
+
+/// Formats a value for a "--set" override so that it reads back exactly (17 significant
+/// digits).
+std::string exact_number(double v);
+
+}  // namespace colchem

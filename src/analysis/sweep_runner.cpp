@@ -1,0 +1,197 @@
+#include "analysis/sweep_runner.hpp"
+
+#include <chrono>
+#include <cstring>
+#include <limits>
+#include <stdexcept>
+
+namespace colchem {
+
+namespace {
+
+// Outcomes travel to rank 0 as one byte buffer per rank.
+class Packer {
+ public:
+  template <typename T>
+  void put(const T& v) {
+    const auto* p = reinterpret_cast<const char*>(&v);
+    buf_.insert(buf_.end(), p, p + sizeof(T));
+  }
+  void put_doubles(const std::vector<double>& v) {
+    put<std::uint64_t>(v.size());
+    const auto* p = reinterpret_cast<const char*>(v.data());
+    buf_.insert(buf_.end(), p, p + v.size() * sizeof(double));
+  }
+  void put_string(const std::string& s) {
+    put<std::uint64_t>(s.size());
+    buf_.insert(buf_.end(), s.begin(), s.end());
+  }
+  std::vector<char>& bytes() { return buf_; }
+
+ private:
+  std::vector<char> buf_;
+};
+
+class Unpacker {
+ public:
+  Unpacker(const char* p, std::size_t n) : p_(p), end_(p + n) {}
+  template <typename T>
+  T get() {
+    need(sizeof(T));
+    T v;
+    std::memcpy(&v, p_, sizeof(T));
+    p_ += sizeof(T);
+    return v;
+  }
+  std::vector<double> get_doubles() {
+    const auto n = get<std::uint64_t>();
+    need(n * sizeof(double));
+    std::vector<double> v(n);
+    std::memcpy(v.data(), p_, n * sizeof(double));
+    p_ += n * sizeof(double);
+    return v;
+  }
+  std::string get_string() {
+    const auto n = get<std::uint64_t>();
+    need(n);
+    std::string s(p_, n);
+    p_ += n;
+    return s;
+  }
+  [[nodiscard]] bool done() const { return p_ == end_; }
+
+ private:
+  void need(std::size_t n) const {
+    if (static_cast<std::size_t>(end_ - p_) < n) throw std::runtime_error("sweep: truncated result buffer");
+  }
+  const char* p_;
+  const char* end_;
+};
+
+void pack(Packer& pk, const VariantOutcome& o) {
+  pk.put<std::uint64_t>(o.index);
+  pk.put<std::uint8_t>(o.converged ? 1 : 0);
+  pk.put<std::uint8_t>(o.warm_started ? 1 : 0);
+  pk.put<std::int32_t>(o.iterations);
+  pk.put<std::int32_t>(o.rank);
+  pk.put<double>(o.residual);
+  pk.put<double>(o.wall_seconds);
+  pk.put_string(o.reason);
+  pk.put_doubles(o.state);
+  pk.put_doubles(o.values);
+}
+
+VariantOutcome unpack(Unpacker& up) {
+  VariantOutcome o;
+  o.index = up.get<std::uint64_t>();
+  o.converged = up.get<std::uint8_t>() != 0;
+  o.warm_started = up.get<std::uint8_t>() != 0;
+  o.iterations = up.get<std::int32_t>();
+  o.rank = up.get<std::int32_t>();
+  o.residual = up.get<double>();
+  o.wall_seconds = up.get<double>();
+  o.reason = up.get_string();
+  o.state = up.get_doubles();
+  o.values = up.get_doubles();
+  return o;
+}
+
+}  // namespace
+
+std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
+                                         const VariantRunner& run, const VariantDone& done) {
+  int rank = 0, size = 1;
+  MPI_Comm_rank(comm, &rank);
+  MPI_Comm_size(comm, &size);
+
+  // The shared counter of the next variant to start, on rank 0.
+  long* counter = nullptr;
+  MPI_Win win;
+  MPI_Win_allocate(rank == 0 ? static_cast<MPI_Aint>(sizeof(long)) : 0, sizeof(long),
+                   MPI_INFO_NULL, comm, &counter, &win);
+  if (rank == 0) *counter = 0;
+  MPI_Barrier(comm);
+  MPI_Win_lock_all(0, win);
+
+  std::vector<VariantOutcome> mine;
+  const long one = 1;
+  for (;;) {
+    long next = 0;
+    MPI_Fetch_and_op(&one, &next, MPI_LONG, 0, 0, MPI_SUM, win);
+    MPI_Win_flush(0, win);
+    if (next < 0 || static_cast<std::size_t>(next) >= variants.size()) break;
+    const Variant& v = variants[static_cast<std::size_t>(next)];
+
+    // Warm start from the nearest variant this rank has finished with a usable state.
+    const std::vector<double>* warm = nullptr;
+    double best = std::numeric_limits<double>::infinity();
+    for (const auto& o : mine) {
+      if (!o.converged || o.state.empty()) continue;
+      const double d = variant_distance(v, variants[o.index]);
+      if (d < best) {
+        best = d;
+        warm = &o.state;
+      }
+    }
+    const auto t0 = std::chrono::steady_clock::now();
+    VariantOutcome out;
+    try {
+      out = run(v, warm);
+    } catch (const std::exception& e) {
+      out = VariantOutcome{};
+      out.converged = false;
+      out.reason = e.what();
+    }
+    out.index = v.index;
+    out.rank = rank;
+    out.warm_started = warm != nullptr;
+    out.wall_seconds =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    if (done) done(v, out);
+    mine.push_back(std::move(out));
+  }
+  MPI_Win_unlock_all(win);
+  MPI_Win_free(&win);
+
+  // Gather every rank's outcomes on rank 0.
+  Packer pk;
+  pk.put<std::uint64_t>(mine.size());
+  for (const auto& o : mine) pack(pk, o);
+  int nbytes = static_cast<int>(pk.bytes().size());
+  std::vector<int> counts(static_cast<std::size_t>(size)), displs(static_cast<std::size_t>(size));
+  MPI_Gather(&nbytes, 1, MPI_INT, counts.data(), 1, MPI_INT, 0, comm);
+  std::vector<char> all;
+  if (rank == 0) {
+    int total = 0;
+    for (int r = 0; r < size; ++r) {
+      displs[static_cast<std::size_t>(r)] = total;
+      total += counts[static_cast<std::size_t>(r)];
+    }
+    all.resize(static_cast<std::size_t>(total));
+  }
+  MPI_Gatherv(pk.bytes().data(), nbytes, MPI_CHAR, all.data(), counts.data(), displs.data(),
+              MPI_CHAR, 0, comm);
+  if (rank != 0) return {};
+
+  std::vector<VariantOutcome> outcomes(variants.size());
+  std::vector<bool> seen(variants.size(), false);
+  for (int r = 0; r < size; ++r) {
+    Unpacker up(all.data() + displs[static_cast<std::size_t>(r)],
+                static_cast<std::size_t>(counts[static_cast<std::size_t>(r)]));
+    const auto n = up.get<std::uint64_t>();
+    for (std::uint64_t i = 0; i < n; ++i) {
+      VariantOutcome o = unpack(up);
+      if (o.index >= outcomes.size() || seen[o.index]) {
+        throw std::runtime_error("sweep: inconsistent variant results");
+      }
+      seen[o.index] = true;
+      outcomes[o.index] = std::move(o);
+    }
+  }
+  for (std::size_t i = 0; i < seen.size(); ++i) {
+    if (!seen[i]) throw std::runtime_error("sweep: variant " + std::to_string(i) + " never ran");
+  }
+  return outcomes;
+}
+
+}  // namespace colchem

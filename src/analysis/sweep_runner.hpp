@@ -1,0 +1,49 @@
+// Running a sweep's variants across MPI ranks.
+//
+// Dynamic load balancing: the next variant index is a counter in an MPI one-sided window on
+// rank 0 that every rank increments atomically (MPI_Fetch_and_op) when it is free, so no
+// rank waits while variants remain and all ranks finish within one variant's time of each
+// other. Every rank warm-starts a variant from the nearest variant it has already finished
+// (variant_distance); the first variant on a rank starts cold. Results are gathered on rank
+// 0 in variant order, so the output does not depend on the number of ranks beyond the
+// solver tolerance (each variant is converged to the coupled steady-state tolerance from
+// whatever start it had).
+#pragma once
+
+#include <mpi.h>
+
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "analysis/sweep.hpp"
+
+namespace colchem {
+
+struct VariantOutcome {
+  std::size_t index = 0;
+  bool converged = false;
+  std::string reason;          ///< why it failed, or "converged"
+  int iterations = 0;
+  double residual = 0.0;       ///< scaled coupled residual of the end state
+  double wall_seconds = 0.0;
+  int rank = 0;
+  bool warm_started = false;
+  std::vector<double> state;   ///< final column state (number densities), empty if none
+  std::vector<double> values;  ///< variant-specific numbers the caller packs (profiles, scores)
+};
+
+/// Runs one variant; `warm_start` is the state of the nearest finished variant on this rank,
+/// or null. Must not throw for a variant that fails: return converged = false with a reason.
+using VariantRunner =
+    std::function<VariantOutcome(const Variant& variant, const std::vector<double>* warm_start)>;
+
+/// Called on the rank that finished a variant (for progress lines).
+using VariantDone = std::function<void(const Variant&, const VariantOutcome&)>;
+
+/// Runs every variant; returns all outcomes in variant order on rank 0, and an empty vector
+/// on the other ranks. Collective over `comm`.
+std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
+                                         const VariantRunner& run, const VariantDone& done);
+
+}  // namespace colchem

@@ -1,0 +1,67 @@
+// The MPI variant runner on one rank (tests/cli runs it under mpirun with two ranks):
+// every variant runs once, results come back in variant order, failures are recorded, and
+// warm starts come from the nearest finished variant.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+
+#include "analysis/sweep_runner.hpp"
+#include "../test_support.hpp"
+
+using namespace colchem;
+
+TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]") {
+  colchem_test::ensure_mpi();
+  SweepSpec spec;
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false});
+  const auto variants = expand_variants(spec);
+  std::vector<std::size_t> warm_from_value;
+  auto runner = [&](const Variant& v, const std::vector<double>* warm) {
+    VariantOutcome o;
+    const double x = v.parameters[0].second;
+    if (x == 3.0) {
+      o.converged = false;
+      o.reason = "absurd parameter";
+      return o;
+    }
+    o.converged = true;
+    o.reason = "converged";
+    o.state = {x};
+    o.values = {x * x};
+    warm_from_value.push_back(warm ? static_cast<std::size_t>((*warm)[0]) : 0);
+    return o;
+  };
+  std::size_t calls = 0;
+  const auto out = run_variants(MPI_COMM_SELF, variants, runner,
+                                [&](const Variant&, const VariantOutcome&) { ++calls; });
+  REQUIRE(out.size() == 5);
+  CHECK(calls == 5);
+  for (std::size_t i = 0; i < 5; ++i) CHECK(out[i].index == i);
+  CHECK(out[2].converged == false);
+  CHECK(out[2].reason == "absurd parameter");
+  CHECK(out[4].values[0] == 25.0);
+  // On one rank, variants run in order; each warm-starts from its nearest finished
+  // converged neighbour: 1 cold, 2 from 1, (3 fails), 4 from 2, 5 from 4.
+  CHECK(warm_from_value == std::vector<std::size_t>{0, 1, 2, 4});
+  CHECK_FALSE(out[0].warm_started);
+  CHECK(out[1].warm_started);
+}
+
+TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]") {
+  colchem_test::ensure_mpi();
+  SweepSpec spec;
+  spec.axes.push_back({"x", {1.0, 2.0}, false});
+  const auto variants = expand_variants(spec);
+  const auto out = run_variants(
+      MPI_COMM_SELF, variants,
+      [](const Variant& v, const std::vector<double>*) -> VariantOutcome {
+        if (v.index == 0) throw std::runtime_error("solver blew up");
+        VariantOutcome o;
+        o.converged = true;
+        return o;
+      },
+      nullptr);
+  CHECK_FALSE(out[0].converged);
+  CHECK(out[0].reason == "solver blew up");
+  CHECK(out[1].converged);
+}
