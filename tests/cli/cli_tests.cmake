@@ -59,3 +59,8 @@ add_test(NAME validation.background.ussa76
   COMMAND ${CMAKE_SOURCE_DIR}/validation/background/ussa76/run.sh $<TARGET_FILE:colchem>)
 set_tests_properties(validation.background.ussa76 PROPERTIES
   ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_ussa76.nc")
+
+# The plotting script on small files in colchem's layouts (python3-matplotlib, python3-netcdf4).
+add_test(NAME cli.plot_profiles
+  COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/plot_test.py ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/plots)
