@@ -4,6 +4,7 @@
 #include <ctime>
 #include <limits>
 
+#include "analysis/budget.hpp"
 #include "colchem/version.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
@@ -158,6 +159,53 @@ ModelColumn read_model_column(const NcReader& nc) {
                      "a (species, altitude) variable", "a different shape");
   }
   return m;
+}
+
+}  // namespace colchem
+
+namespace colchem {
+
+void define_reactions(NcWriter& nc, std::size_t reactions) {
+  nc.dimension("reaction", reactions);
+  nc.string_variable("reaction_equation", "reaction", "reaction as written in the mechanism");
+  nc.variable("net_stoichiometry", {"reaction", "species"},
+              {"1", "net stoichiometric coefficient (products minus reactants)", "", {}});
+  nc.variable("reaction_rate", {"reaction", "altitude"},
+              {"cm-3 s-1", "reaction rate at cell centres", "", {}});
+  nc.variable("chemical_tendency", {"species", "altitude"},
+              {"cm-3 s-1", "chemical production minus loss (reactions and sinks)", "", {}});
+  nc.variable("transport_tendency", {"species", "altitude"},
+              {"cm-3 s-1", "transport tendency -dPhi/dz", "", {}});
+  nc.variable("net_tendency", {"species", "altitude"},
+              {"cm-3 s-1", "total tendency dn/dt of the final state", "", {}});
+}
+
+void write_reaction_data(NcWriter& nc, const ReactionData& d) {
+  nc.put_strings("reaction_equation", d.equations);
+  nc.put("net_stoichiometry", d.net_stoichiometry);
+  nc.put("reaction_rate", d.rate);
+  nc.put("chemical_tendency", d.chemical_tendency);
+  nc.put("transport_tendency", d.transport_tendency);
+  nc.put("net_tendency", d.net_tendency);
+}
+
+BudgetInputs read_budget_inputs(const NcReader& nc) {
+  BudgetInputs in;
+  for (const char* v : {"reaction_rate", "net_stoichiometry", "transport_tendency", "net_tendency"}) {
+    if (!nc.has_variable(v)) {
+      throw InputError(ExitCode::kInputData, SourceLocation{nc.path().string()}, v,
+                       "a run file with reaction diagnostics (written by colchem run)",
+                       "no variable '" + std::string(v) + "'");
+    }
+  }
+  for (double z : nc.read("altitude_edge")) in.edge_cm.push_back(z * constants::kCmPerKm);
+  in.species = nc.read_strings("species");
+  in.equations = nc.read_strings("reaction_equation");
+  in.net_stoichiometry = nc.read("net_stoichiometry");
+  in.reaction_rate = nc.read("reaction_rate");
+  in.transport_tendency = nc.read("transport_tendency");
+  in.net_tendency = nc.read("net_tendency");
+  return in;
 }
 
 }  // namespace colchem

@@ -44,6 +44,23 @@ struct ModelColumn {
 };
 ModelColumn read_model_column(const NcReader& nc);
 
+/// Reaction diagnostics: `reaction_equation(reaction)`, `net_stoichiometry(reaction, species)`
+/// (products minus reactants), `reaction_rate(reaction, altitude)` (cm-3 s-1) and the
+/// tendencies `chemical_tendency`, `transport_tendency`, `net_tendency` (species, altitude)
+/// in cm-3 s-1. Arrays: rates [r][j], stoichiometry [r][s], tendencies [s][j].
+void define_reactions(NcWriter& nc, std::size_t reactions);
+struct ReactionData {
+  std::vector<std::string> equations;
+  std::vector<double> net_stoichiometry;
+  std::vector<double> rate;
+  std::vector<double> chemical_tendency, transport_tendency, net_tendency;
+};
+void write_reaction_data(NcWriter& nc, const ReactionData& d);
+
+/// What `colchem budget` needs from a run file.
+struct BudgetInputs;
+BudgetInputs read_budget_inputs(const NcReader& nc);
+
 /// UTC now in ISO 8601 ("2026-12-02T04:30:00Z").
 std::string utc_timestamp();
 

@@ -64,3 +64,5 @@ set_tests_properties(validation.background.ussa76 PROPERTIES
 add_test(NAME cli.plot_profiles
   COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/plot_test.py ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/plots)
+colchem_cli_test(help_compare 0 "--fitted-parameters" $<TARGET_FILE:colchem> compare --help)
+colchem_cli_test(help_budget 0 "--bands" $<TARGET_FILE:colchem> budget --help)
