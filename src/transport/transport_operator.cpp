@@ -56,7 +56,7 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
   lo_.assign(S_ * N_, 0.0);
   di_.assign(S_ * N_, 0.0);
   up_.assign(S_ * N_, 0.0);
-  for (auto* w : {&y_, &y0_, &yg_, &r_, &cp_, &dp_}) w->assign(N_, 0.0);
+  for (auto* w : {&y_, &y0_, &yg_, &r_, &cp_}) w->assign(N_, 0.0);
   f_.assign(N_ + 1, 0.0);
   save_.assign(N_ * S_, 0.0);
 
@@ -310,21 +310,27 @@ void TransportOperator::apply_A(std::size_t s, std::span<const double> y,
 namespace {
 /// Thomas algorithm for a[j] y[j-1] + b[j] y[j] + c[j] y[j+1] = d[j] (no pivoting: the
 /// matrices here are M-matrices, column diagonally dominant). Returns false on a zero pivot.
+///
+/// The steady problem inherits the conditioning of molecular diffusion: D = b/n_a grows
+/// like 1/n_a upward, so with D spanning a factor R over the column the computed steady flux
+/// carries a round-off error of about 1e-16 R times the largest flux term (backward stable,
+/// but a tiny flux at the bottom is then poorly resolved).
 template <class A, class B, class C>
 bool thomas(std::size_t N, A a, B b, C c, std::span<double> d, std::span<double> cp) {
   double beta = b(0);
-  const double scale = std::abs(beta) + std::abs(c(0));
+  const double scale = std::abs(beta) + (N > 1 ? std::abs(c(0)) : 0.0);
   if (!(std::abs(beta) > 1e-13 * scale) || !std::isfinite(beta)) return false;
-  cp[0] = c(0) / beta;
+  cp[0] = N > 1 ? c(0) / beta : 0.0;
   d[0] /= beta;
-  for (std::size_t j = 1; j < N; ++j) {
-    beta = b(j) - a(j) * cp[j - 1];
-    const double sc = std::abs(b(j)) + std::abs(a(j)) + std::abs(c(j));
+  for (std::size_t k = 1; k < N; ++k) {
+    const double ck = k + 1 < N ? c(k) : 0.0;
+    beta = b(k) - a(k) * cp[k - 1];
+    const double sc = std::abs(b(k)) + std::abs(a(k)) + std::abs(ck);
     if (!(std::abs(beta) > 1e-13 * sc) || !std::isfinite(beta)) return false;
-    cp[j] = c(j) / beta;
-    d[j] = (d[j] - a(j) * d[j - 1]) / beta;
+    cp[k] = ck / beta;
+    d[k] = (d[k] - a(k) * d[k - 1]) / beta;
   }
-  for (std::size_t j = N - 1; j-- > 0;) d[j] -= cp[j] * d[j + 1];
+  for (std::size_t k = N - 1; k-- > 0;) d[k] -= cp[k] * d[k + 1];
   return true;
 }
 }  // namespace
@@ -370,6 +376,7 @@ bool TransportOperator::step_species(std::size_t s, std::span<double> n, double 
   const bool negative = ok && std::any_of(y_.begin(), y_.end(), [](double v) { return v < 0.0; });
   if (!ok || negative) {
     // Backward Euler substeps: positivity preserving (M-matrix), first order.
+    ++fallbacks_;
     const double h = dt / kPositivityFallbackSubsteps;
     std::copy(y0_.begin(), y0_.end(), y_.begin());
     for (int k = 1; k <= kPositivityFallbackSubsteps; ++k) {

@@ -84,6 +84,9 @@ class TransportOperator final : public ColumnOperator {
   /// The resolved escape velocity at the top (jeans, diffusion_limited, escape_velocity) or 0.
   [[nodiscard]] double top_velocity(std::size_t s) const { return top_velocity_[s]; }
 
+  /// Species steps redone with backward Euler since construction (for diagnostics).
+  [[nodiscard]] std::size_t positivity_fallbacks() const { return fallbacks_; }
+
   [[nodiscard]] std::size_t cells() const { return N_; }
   [[nodiscard]] std::size_t species_count() const { return S_; }
   [[nodiscard]] const std::vector<TransportSpecies>& species() const { return species_; }
@@ -120,7 +123,8 @@ class TransportOperator final : public ColumnOperator {
   std::vector<double> drift_;             // s*(N+1) + e
   std::vector<double> lo_, di_, up_;      // A per species: s*N + j
   // Work arrays (sized N), so that steps do not allocate.
-  std::vector<double> y_, y0_, yg_, r_, f_, cp_, dp_, save_;
+  std::vector<double> y_, y0_, yg_, r_, f_, cp_, save_;
+  std::size_t fallbacks_ = 0;
 };
 
 }  // namespace colchem
