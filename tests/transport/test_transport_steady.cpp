@@ -2,6 +2,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <fstream>
 
 #include "transport/transport_operator.hpp"
 #include "transport_fixtures.hpp"
@@ -62,6 +63,21 @@ TEST_CASE("molecular diffusion relaxes each species to its own scale height",
     }
     // Half a cell above the fixed edge value (analytic).
     CHECK(n[s] == Approx(1e8 * std::exp(-0.5 * dz / H)).epsilon(1e-10));
+  }
+  // Validation output (validation/transport/diffusive_equilibrium/README.md).
+  std::ofstream csv(std::string(COLCHEM_TEST_OUTPUT_DIR) + "/validation_diffusive_equilibrium.csv");
+  csv << "# steady pure molecular diffusion, isothermal 300 K, g = 900 cm s-2; analytic: "
+         "n = n_b exp(-(z - z_b)/H_i)\naltitude [km], H2 [cm-3], H2_analytic [cm-3], "
+         "CO2 [cm-3], CO2_analytic [cm-3]\n";
+  csv.precision(16);
+  for (std::size_t j = 0; j < 60; ++j) {
+    const double z = bg.grid.center_cm[j];
+    csv << z / 1e5;
+    for (std::size_t s = 0; s < 2; ++s) {
+      const double H = kB * T / (sp[s].mass_g * g);
+      csv << ", " << n[j * 2 + s] << ", " << 1e8 * std::exp(-z / H);
+    }
+    csv << "\n";
   }
   // The two scale heights really differ (H2 much larger than CO2): the test separates them.
   CHECK(n[59 * 2 + 0] / n[0] > 1e2 * n[59 * 2 + 1] / n[1]);
@@ -148,7 +164,8 @@ struct LossColumn {
   }
 };
 
-double loss_column_error(std::size_t cells, const LossColumn& ex, double T, double g) {
+double loss_column_error(std::size_t cells, const LossColumn& ex, double T, double g,
+                         std::ostream* csv = nullptr) {
   const Background bg = isothermal_column(cells, ex.L, T, g, 28.0, 1e15, ex.K);
   std::vector<TransportSpecies> sp = {inert("X", 48.0)};
   std::vector<SpeciesBoundaries> bc(1);
@@ -157,6 +174,13 @@ double loss_column_error(std::size_t cells, const LossColumn& ex, double T, doub
   std::vector<double> n(cells, 0.0);
   const std::vector<double> loss(cells, ex.k);
   if (!op.steady_state(n, 0.0, loss)) return 1.0;
+  if (csv) {
+    csv->precision(16);
+    for (std::size_t j = 0; j < cells; ++j) {
+      *csv << bg.grid.center_cm[j] / 1e5 << ", " << n[j] / bg.air_density_cm3[j] << ", "
+           << ex(bg.grid.center_cm[j]) << "\n";
+    }
+  }
   return max_rel_error(bg, n, ex);
 }
 }  // namespace
@@ -167,8 +191,11 @@ TEST_CASE("eddy mixing with first-order loss matches the closed form at second o
   const double H = kB * T / (28.0 * kAmu * g);
   const LossColumn ex{1e6, H, 1e-5, 50.0e5, 1e-6};
   std::vector<double> errors;
+  std::ofstream csv(std::string(COLCHEM_TEST_OUTPUT_DIR) + "/validation_loss_column.csv");
+  csv << "# steady eddy mixing (K = 1e6 cm2 s-1) with loss k = 1e-5 s-1, 100 cells; "
+         "analytic closed form\naltitude [km], f [1], f_analytic [1]\n";
   for (std::size_t cells : {50u, 100u, 200u, 400u}) {
-    errors.push_back(loss_column_error(cells, ex, T, g));
+    errors.push_back(loss_column_error(cells, ex, T, g, cells == 100u ? &csv : nullptr));
   }
   for (std::size_t i = 0; i + 1 < errors.size(); ++i) {
     const double order = std::log2(errors[i] / errors[i + 1]);
