@@ -382,3 +382,24 @@ TEST_CASE("eddy plus molecular diffusion converges at second order on a smooth c
     }
   }
 }
+
+TEST_CASE("a fixed top density anchors diffusive equilibrium from above", "[transport]") {
+  // Zero flux at the bottom, density fixed on the top edge, molecular diffusion alone:
+  // n(z) = n_top exp((z_top - z)/H_i) (Chamberlain and Hunten 1987; analytic).
+  const double T = 400.0, g = 900.0;
+  const std::size_t N = 40;
+  const Background bg = isothermal_column(N, 80.0e5, T, g, 28.0, 1e12, 0.0);
+  std::vector<TransportSpecies> sp = {default_transport_species("O", 16.0, 28.0)};
+  std::vector<SpeciesBoundaries> bc(1);
+  bc[0].top = BoundaryCondition::of(BoundaryKind::kDensity, 1e5);
+  TransportOperator op(bg, sp, bc);
+  std::vector<double> n(N, 0.0);
+  REQUIRE(op.steady_state(n, 0.0));
+  const double H = kB * T / (sp[0].mass_g * g);
+  const double dz = bg.grid.width_cm(0);
+  CHECK(n[N - 1] == Approx(1e5 * std::exp(0.5 * dz / H)).epsilon(1e-10));  // analytic
+  for (std::size_t j = 0; j + 1 < N; ++j) {
+    CHECK(n[j] / n[j + 1] == Approx(std::exp(dz / H)).epsilon(1e-10));  // analytic
+  }
+  CHECK(std::abs(op.boundary_fluxes(n, 0.0)[0].top) < 1e-10 * 1e5 * dz);  // analytic: zero
+}
