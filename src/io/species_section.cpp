@@ -196,10 +196,10 @@ void load_species_section(const ConfigNode& n, const UnitSystem& units, ColumnSp
     if (name == "default") {
       if (!value.is_map()) value.fail("{initial: MIXING_RATIO}");
       if (auto i = value.find("initial")) {
-        spec.default_initial = load_initial(*i, units, "default", inputs);
-        if (spec.default_initial.from_table && !i->has("column")) {
+        if (i->is_map() && !i->has("column")) {
           i->fail("'column' naming the table column for the default profile", "no column");
         }
+        spec.default_initial = load_initial(*i, units, "default", inputs);
       }
       value.done();
       continue;

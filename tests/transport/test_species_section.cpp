@@ -110,6 +110,8 @@ TEST_CASE("species section: errors name the key, expected and found", "[transpor
                       "values: [1 cm-2 s-1]}}}}\n"),
              Catch::Contains("2 values"));
   CHECK_THAT(error_of("species:\n  SO2: {}\n  SO2: {}\n"), Catch::Contains("SO2"));
+  CHECK_THAT(error_of("species:\n  default: {initial: {table: x.csv}}\n"),
+             Catch::Contains("'column' naming the table column"));
 }
 
 TEST_CASE("injections section: amounts in molecules, moles, mass or column", "[transport][io]") {
