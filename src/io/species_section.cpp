@@ -43,7 +43,7 @@ InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
   if (auto c = n.find("altitude_column")) alt_column = c->text();
   if (auto e = n.find("extrapolation")) {
     p.extrapolation = e->choice({"hold_ends", "forbid"}) == "forbid" ? Extrapolation::kForbid
-                                                                      : Extrapolation::kHoldEnds;
+                                                                     : Extrapolation::kHoldEnds;
   }
   n.done();
   const Table t = Table::read(file);
@@ -55,14 +55,15 @@ InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
   for (std::size_t i = 0; i < p.table.value.size(); ++i) {
     const double v = p.table.value[i];
     // Log-linear interpolation needs positive values.
-    if (!(v > 0.0 && v <= 1.0)) t.fail_row(i, column, "a mixing ratio in (0, 1]", std::to_string(v));
+    if (!(v > 0.0 && v <= 1.0))
+      t.fail_row(i, column, "a mixing ratio in (0, 1]", std::to_string(v));
   }
   if (inputs) inputs->push_back(InputFile{"initial profile of " + species, file, t.text()});
   return p;
 }
 
 struct ValueKind {
-  const char* unit;     // target unit; nullptr for a mixing ratio
+  const char* unit;  // target unit; nullptr for a mixing ratio
   const char* example;
 };
 
@@ -241,9 +242,10 @@ void load_injections_section(const ConfigNode& n, const UnitSystem& units,
         inj.amount_kind = InjectionAmount::kGlobalMolecules;
         inj.amount = *units.convert(q->value, q->unit, "mol") * constants::kAvogadro;
       } else {
-        amount->fail("a mass (such as '10 Tg') or an amount of substance ('1e34 molecule', "
-                     "'2 Gmol'), or a plain number of molecules",
-                     "'" + s + "'");
+        amount->fail(
+            "a mass (such as '10 Tg') or an amount of substance ('1e34 molecule', "
+            "'2 Gmol'), or a plain number of molecules",
+            "'" + s + "'");
       }
       if (!(inj.amount > 0.0) || !std::isfinite(inj.amount)) amount->fail("a positive amount");
     } else {

@@ -19,7 +19,6 @@ void load_species_section(const ConfigNode& n, const UnitSystem& units, ColumnSp
                           std::vector<InputFile>* inputs = nullptr);
 
 /// Reads `injections:` (a list) into spec.injections.
-void load_injections_section(const ConfigNode& n, const UnitSystem& units,
-                             ColumnSpeciesSpec& spec);
+void load_injections_section(const ConfigNode& n, const UnitSystem& units, ColumnSpeciesSpec& spec);
 
 }  // namespace colchem

@@ -15,14 +15,22 @@ double Schedule::at(double t_s) const {
 
 const char* boundary_kind_name(BoundaryKind k) {
   switch (k) {
-    case BoundaryKind::kZeroFlux: return "zero_flux";
-    case BoundaryKind::kMixingRatio: return "mixing_ratio";
-    case BoundaryKind::kDensity: return "density";
-    case BoundaryKind::kFlux: return "flux";
-    case BoundaryKind::kDepositionVelocity: return "deposition_velocity";
-    case BoundaryKind::kEscapeVelocity: return "escape_velocity";
-    case BoundaryKind::kJeans: return "jeans";
-    case BoundaryKind::kDiffusionLimited: return "diffusion_limited";
+    case BoundaryKind::kZeroFlux:
+      return "zero_flux";
+    case BoundaryKind::kMixingRatio:
+      return "mixing_ratio";
+    case BoundaryKind::kDensity:
+      return "density";
+    case BoundaryKind::kFlux:
+      return "flux";
+    case BoundaryKind::kDepositionVelocity:
+      return "deposition_velocity";
+    case BoundaryKind::kEscapeVelocity:
+      return "escape_velocity";
+    case BoundaryKind::kJeans:
+      return "jeans";
+    case BoundaryKind::kDiffusionLimited:
+      return "diffusion_limited";
   }
   return "unknown";
 }

@@ -89,15 +89,30 @@ std::vector<Injection> resolve_injections(const ColumnSpeciesSpec& spec, const B
       throw InputError(ExitCode::kConfig, inj.where, "injections", "a species of the mechanism",
                        "unknown species '" + inj.species + "'");
     }
+    const double lo = bg.grid.edge_cm.front();
+    const double hi = bg.grid.edge_cm.back();
+    if (!(inj.top_cm > lo && inj.bottom_cm < hi)) {
+      auto km = [](double cm) { return std::to_string(cm / constants::kCmPerKm); };
+      throw InputError(ExitCode::kConfig, inj.where, "injections",
+                       "an altitude range overlapping the column (" + km(lo) + " to " + km(hi) +
+                           " km)",
+                       km(inj.bottom_cm) + " to " + km(inj.top_cm) + " km");
+    }
     Injection r;
     r.species = static_cast<std::size_t>(it - sp.begin());
     r.time_s = inj.time_s;
     r.bottom_cm = inj.bottom_cm;
     r.top_cm = inj.top_cm;
     switch (inj.amount_kind) {
-      case InjectionAmount::kColumn: r.column_cm2 = inj.amount; break;
-      case InjectionAmount::kGlobalMolecules: r.column_cm2 = inj.amount / area; break;
-      case InjectionAmount::kGlobalMass: r.column_cm2 = inj.amount / it->mass_g / area; break;
+      case InjectionAmount::kColumn:
+        r.column_cm2 = inj.amount;
+        break;
+      case InjectionAmount::kGlobalMolecules:
+        r.column_cm2 = inj.amount / area;
+        break;
+      case InjectionAmount::kGlobalMass:
+        r.column_cm2 = inj.amount / it->mass_g / area;
+        break;
     }
     out.push_back(r);
   }
@@ -117,8 +132,7 @@ std::size_t apply_injections(const std::vector<Injection>& injections, const Gri
     if (!(hi > lo)) continue;
     const double dn = inj.column_cm2 / (hi - lo);
     for (std::size_t j = 0; j < N; ++j) {
-      const double overlap =
-          std::min(hi, grid.edge_cm[j + 1]) - std::max(lo, grid.edge_cm[j]);
+      const double overlap = std::min(hi, grid.edge_cm[j + 1]) - std::max(lo, grid.edge_cm[j]);
       if (overlap > 0.0) n[j * n_species + inj.species] += dn * overlap / grid.width_cm(j);
     }
     ++applied;

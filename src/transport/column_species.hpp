@@ -85,8 +85,10 @@ struct Injection {
   double top_cm = 0.0;
 };
 
-/// Resolves names against `sp` (throws InputError naming the entry for an unknown species)
-/// and converts amounts to column amounts using the planet radius and the molecule mass.
+/// Resolves names against `sp` and converts amounts to column amounts using the planet radius
+/// and the molecule mass. Throws InputError naming the entry for an unknown species or a
+/// range entirely outside the column (a range partly outside is clipped: the part inside
+/// receives the whole amount).
 std::vector<Injection> resolve_injections(const ColumnSpeciesSpec& spec, const Background& bg,
                                           const std::vector<TransportSpecies>& sp);
 

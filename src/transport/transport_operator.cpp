@@ -72,8 +72,10 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
     switch (b.bottom.kind) {
       case BoundaryKind::kEscapeVelocity:
       case BoundaryKind::kJeans:
-      case BoundaryKind::kDiffusionLimited: throw bad_end("bottom", b.bottom.kind);
-      default: break;
+      case BoundaryKind::kDiffusionLimited:
+        throw bad_end("bottom", b.bottom.kind);
+      default:
+        break;
     }
     if (b.top.kind == BoundaryKind::kDepositionVelocity) throw bad_end("top", b.top.kind);
     if (sp.fixed) continue;  // held at its background mixing ratio: no transport at all
@@ -110,8 +112,9 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
       c.right_K = -K * na / (h * n_air_[0]);
       const double T_e = bg.edge_temperature_K[0];
       const double D = sp.binary_diffusion(T_e) / na;
-      const double x = 0.5 * h * (inv_H(bg.edge_gravity_cm_s2[0], T_e) +
-                                  inv_H(bg.gravity_cm_s2[0], bg.temperature_K[0])) +
+      const double x = 0.5 * h *
+                           (inv_H(bg.edge_gravity_cm_s2[0], T_e) +
+                            inv_H(bg.gravity_cm_s2[0], bg.temperature_K[0])) +
                        a_T * std::log(bg.temperature_K[0] / T_e);
       drift_[s * (N_ + 1)] = x;
       c.ghost_D = D / h * bernoulli(x);
@@ -126,8 +129,9 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
       c.ghost_K = -K / h;
       const double T_e = bg.edge_temperature_K[N_];
       const double D = sp.binary_diffusion(T_e) / na;
-      const double x = 0.5 * h * (inv_H(bg.gravity_cm_s2[N_ - 1], bg.temperature_K[N_ - 1]) +
-                                  inv_H(bg.edge_gravity_cm_s2[N_], T_e)) +
+      const double x = 0.5 * h *
+                           (inv_H(bg.gravity_cm_s2[N_ - 1], bg.temperature_K[N_ - 1]) +
+                            inv_H(bg.edge_gravity_cm_s2[N_], T_e)) +
                        a_T * std::log(T_e / bg.temperature_K[N_ - 1]);
       drift_[s * (N_ + 1) + N_] = x;
       c.left_D = D / h * bernoulli(x);
@@ -182,11 +186,15 @@ namespace {
 /// Velocity boundary at time t: bottom returns -v_d (Phi_0 = -v_d n_0), top v_e (Phi_N = v_e n_N).
 double boundary_velocity(const BoundaryCondition& b, double fixed_top_velocity, double t) {
   switch (b.kind) {
-    case BoundaryKind::kDepositionVelocity: return -b.value.at(t);
-    case BoundaryKind::kEscapeVelocity: return b.value.at(t);
+    case BoundaryKind::kDepositionVelocity:
+      return -b.value.at(t);
+    case BoundaryKind::kEscapeVelocity:
+      return b.value.at(t);
     case BoundaryKind::kJeans:
-    case BoundaryKind::kDiffusionLimited: return fixed_top_velocity;
-    default: return 0.0;
+    case BoundaryKind::kDiffusionLimited:
+      return fixed_top_velocity;
+    default:
+      return 0.0;
   }
 }
 }  // namespace
@@ -195,10 +203,10 @@ void TransportOperator::source(std::size_t s, double t, std::span<double> r) con
   std::fill(r.begin(), r.end(), 0.0);
   const EdgeCoef& cb = coef(s, 0);
   const EdgeCoef& ct = coef(s, N_);
-  const double c_bottom = (cb.ghost_K + cb.ghost_D) * ghost_density(s, false, t) +
-                          imposed_flux(s, false, t);
-  const double c_top = (ct.ghost_K + ct.ghost_D) * ghost_density(s, true, t) +
-                       imposed_flux(s, true, t);
+  const double c_bottom =
+      (cb.ghost_K + cb.ghost_D) * ghost_density(s, false, t) + imposed_flux(s, false, t);
+  const double c_top =
+      (ct.ghost_K + ct.ghost_D) * ghost_density(s, true, t) + imposed_flux(s, true, t);
   r[0] += c_bottom / dz_[0];
   r[N_ - 1] -= c_top / dz_[N_ - 1];
 }

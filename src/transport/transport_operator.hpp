@@ -120,8 +120,8 @@ class TransportOperator final : public ColumnOperator {
   std::vector<SpeciesBoundaries> bc_;
   std::vector<EdgeCoef> coef_;
   std::vector<double> top_velocity_;
-  std::vector<double> drift_;             // s*(N+1) + e
-  std::vector<double> lo_, di_, up_;      // A per species: s*N + j
+  std::vector<double> drift_;         // s*(N+1) + e
+  std::vector<double> lo_, di_, up_;  // A per species: s*N + j
   // Work arrays (sized N), so that steps do not allocate.
   std::vector<double> y_, y0_, yg_, r_, f_, cp_, save_;
   std::size_t fallbacks_ = 0;

@@ -13,8 +13,8 @@ namespace colchem {
 
 struct TransportSpecies {
   std::string name;
-  double mass_g = 0.0;            ///< molecule mass
-  double diffusion_A = 0.0;       ///< b = diffusion_A * T^diffusion_s (cm^-1 s^-1, T in K)
+  double mass_g = 0.0;       ///< molecule mass
+  double diffusion_A = 0.0;  ///< b = diffusion_A * T^diffusion_s (cm^-1 s^-1, T in K)
   double diffusion_s = 0.5;
   double thermal_diffusion = 0.0;  ///< alpha_T (dimensionless)
   bool fixed = false;              ///< held at its background mixing ratio: no transport

@@ -20,7 +20,9 @@ TEST_CASE("load_scenario fills species_setup from the species and injections sec
          "grid: {bottom: 58 km, top: 112 km, cells: 54}\n"
          "atmosphere:\n"
          "  bulk_composition: {CO2: 0.965, N2: 0.035}\n"
-         "  temperature: " << src << "/profiles/pyrene_temperature.csv\n"
+         "  temperature: "
+      << src
+      << "/profiles/pyrene_temperature.csv\n"
          "  pressure: {hydrostatic: {base: 300 mbar, at: 58 km}}\n"
          "  eddy_diffusion: {constant: 1e6 cm2 s-1}\n"
          "species:\n"

@@ -139,10 +139,12 @@ injections:
   // 1 DU = 2.687e16 cm-2 (from memory); UDUNITS-2 defines it as 446.2 micromol m-2.
   CHECK(a[4].amount == Approx(2.687e17).epsilon(1e-3));
 
-  CHECK_THAT(error_of("injections:\n  - {species: SO2, amount: 10 K, time: 0 s, from: 1 km, to: 2 km}\n"),
-             Catch::Contains("a mass"));
-  CHECK_THAT(error_of("injections:\n  - {species: SO2, amount: 1, time: 0 s, from: 3 km, to: 2 km}\n"),
-             Catch::Contains("above 'from'"));
+  CHECK_THAT(
+      error_of("injections:\n  - {species: SO2, amount: 10 K, time: 0 s, from: 1 km, to: 2 km}\n"),
+      Catch::Contains("a mass"));
+  CHECK_THAT(
+      error_of("injections:\n  - {species: SO2, amount: 1, time: 0 s, from: 3 km, to: 2 km}\n"),
+      Catch::Contains("above 'from'"));
   CHECK_THAT(error_of("injections:\n  - {species: SO2, time: 0 s, from: 1 km, to: 2 km}\n"),
              Catch::Contains("neither"));
 }
@@ -153,13 +155,12 @@ TEST_CASE("initial state from defaults, values, tables and fixed species", "[tra
     std::ofstream f(table);
     f << "# invented profile\naltitude [km], SO2 [ppm]\n0, 1\n100, 0.01\n";
   }
-  const auto spec = load("species:\n  default: {initial: 2e-9}\n  SO2: {initial: {table: " +
-                         table + "}}\n  CO: {initial: 1e-5}\n  N2: {fixed: true}\n");
+  const auto spec = load("species:\n  default: {initial: 2e-9}\n  SO2: {initial: {table: " + table +
+                         "}}\n  CO: {initial: 1e-5}\n  N2: {fixed: true}\n");
   const Background bg = test::isothermal_column(10, 100.0e5, 250.0, 900.0, 28.0, 1e15, 1e5);
-  std::vector<TransportSpecies> sp = {default_transport_species("SO2", 64.0, 28.0),
-                                      default_transport_species("CO", 28.0, 28.0),
-                                      default_transport_species("OH", 17.0, 28.0),
-                                      default_transport_species("N2", 28.0, 28.0)};
+  std::vector<TransportSpecies> sp = {
+      default_transport_species("SO2", 64.0, 28.0), default_transport_species("CO", 28.0, 28.0),
+      default_transport_species("OH", 17.0, 28.0), default_transport_species("N2", 28.0, 28.0)};
   apply_species_settings(spec, sp);
   CHECK(sp[3].fixed);
   const auto n = initial_state(spec, bg, sp, {0.0, 0.0, 0.0, 0.78});
@@ -173,11 +174,15 @@ TEST_CASE("initial state from defaults, values, tables and fixed species", "[tra
     CHECK(n[j * 4 + 3] / na == Approx(0.78));
   }
   // Unknown species in an injection are reported at their entry.
-  const auto bad = load("injections:\n  - {species: SO3x, amount: 1, time: 0 s, from: 1 km, to: 2 km}\n");
+  const auto bad =
+      load("injections:\n  - {species: SO3x, amount: 1, time: 0 s, from: 1 km, to: 2 km}\n");
   try {
     (void)resolve_injections(bad, bg, sp);
     FAIL("no error");
   } catch (const InputError& e) {
     CHECK_THAT(std::string(e.what()), Catch::Contains("SO3x") && Catch::Contains("test.yaml:2"));
   }
+  const auto high =
+      load("injections:\n  - {species: CO, amount: 1, time: 0 s, from: 150 km, to: 160 km}\n");
+  CHECK_THROWS_WITH(resolve_injections(high, bg, sp), Catch::Contains("overlapping the column"));
 }

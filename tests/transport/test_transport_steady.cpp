@@ -105,8 +105,8 @@ TEST_CASE("the discrete molecular flux vanishes on the discrete diffusive equili
   for (std::size_t s = 0; s < S; ++s) {
     const EdgeFluxParts p = op.edge_flux_parts(n, 0.0, s);
     for (std::size_t e = 1; e < N; ++e) {
-      const double D = sp[s].binary_diffusion(bg.edge_temperature_K[e]) /
-                       bg.edge_air_density_cm3[e];
+      const double D =
+          sp[s].binary_diffusion(bg.edge_temperature_K[e]) / bg.edge_air_density_cm3[e];
       const double dze = bg.grid.center_cm[e] - bg.grid.center_cm[e - 1];
       const double term = D / dze * n[(e - 1) * S + s];
       CHECK(std::abs(p.molecular[e]) < 1e-13 * term);  // analytic: exactly zero
@@ -124,8 +124,8 @@ TEST_CASE("the discrete molecular flux vanishes on the discrete diffusive equili
                                           std::vector<double>{250.0, 180.0, 600.0}, z);
       integral += sp[s].mass_g * gravity_at(bg.planet, z) / (kB * T) * (z1 - z0) / M;
     }
-    integral += (1.0 + sp[s].thermal_diffusion) *
-                std::log(bg.temperature_K[ei] / bg.temperature_K[ei - 1]);
+    integral +=
+        (1.0 + sp[s].thermal_diffusion) * std::log(bg.temperature_K[ei] / bg.temperature_K[ei - 1]);
     CHECK(op.molecular_drift(s, ei) == Approx(integral).epsilon(1e-3));  // analytic
   }
 }
@@ -200,7 +200,8 @@ TEST_CASE("eddy mixing with first-order loss matches the closed form at second o
   for (std::size_t i = 0; i + 1 < errors.size(); ++i) {
     const double order = std::log2(errors[i] / errors[i + 1]);
     INFO("grid " << i << " error " << errors[i] << " order " << order);
-    WARN("loss column: cells " << (50u << i) << " error " << errors[i] << " observed order " << order);
+    WARN("loss column: cells " << (50u << i) << " error " << errors[i] << " observed order "
+                               << order);
     CHECK(order > 1.8);  // analytic: second-order scheme
     CHECK(order < 2.2);
   }
@@ -375,8 +376,8 @@ TEST_CASE("eddy plus molecular diffusion converges at second order on a smooth c
     const auto& v = *q;
     for (std::size_t i = 0; i + 2 < v.size(); ++i) {
       const double order = std::log2((v[i] - v[i + 1]) / (v[i + 1] - v[i + 2]));
-      WARN("self-convergence order " << order << " (grids " << (160u << i) << "-"
-                                     << (640u << i) << ")");
+      WARN("self-convergence order " << order << " (grids " << (160u << i) << "-" << (640u << i)
+                                     << ")");
       CHECK(order > 1.8);  // second-order scheme (analytic)
       CHECK(order < 2.2);
     }

@@ -15,10 +15,9 @@ using colchem::test::varying_column;
 
 namespace {
 std::vector<TransportSpecies> four_species() {
-  std::vector<TransportSpecies> sp = {default_transport_species("H", 1.008, 28.0),
-                                      default_transport_species("SO2", 64.0, 28.0),
-                                      default_transport_species("O", 16.0, 28.0),
-                                      default_transport_species("N2", 28.0, 28.0)};
+  std::vector<TransportSpecies> sp = {
+      default_transport_species("H", 1.008, 28.0), default_transport_species("SO2", 64.0, 28.0),
+      default_transport_species("O", 16.0, 28.0), default_transport_species("N2", 28.0, 28.0)};
   sp[3].fixed = true;
   return sp;
 }
@@ -43,16 +42,15 @@ std::vector<double> smooth_state(const Background& bg, std::size_t S) {
   for (std::size_t j = 0; j < N; ++j) {
     for (std::size_t s = 0; s < S; ++s) {
       const double z = bg.grid.center_cm[j] / 1e7;
-      n[j * S + s] = bg.air_density_cm3[j] * 1e-6 *
-                     (1.0 + 0.5 * std::sin(3.0 * z + static_cast<double>(s)));
+      n[j * S + s] =
+          bg.air_density_cm3[j] * 1e-6 * (1.0 + 0.5 * std::sin(3.0 * z + static_cast<double>(s)));
     }
   }
   return n;
 }
 }  // namespace
 
-TEST_CASE("transport Jacobian equals central finite differences of the tendency",
-          "[transport]") {
+TEST_CASE("transport Jacobian equals central finite differences of the tendency", "[transport]") {
   // Transport is affine in n, so central differences are exact up to round-off; relative
   // 1e-7 (common practice, no source).
   const Background bg = varying_column(12, false);
@@ -78,9 +76,12 @@ TEST_CASE("transport Jacobian equals central finite differences of the tendency"
         for (std::size_t r = 0; r < S; ++r) {
           const double fd = (fp[i * S + r] - fm[i * S + r]) / (2.0 * h);
           double an = 0.0;
-          if (i == j) an = jac.d(i, r, s);
-          else if (r == s && i == j + 1) an = jac.l(i, s);
-          else if (r == s && i + 1 == j) an = jac.u(i, s);
+          if (i == j)
+            an = jac.d(i, r, s);
+          else if (r == s && i == j + 1)
+            an = jac.l(i, s);
+          else if (r == s && i + 1 == j)
+            an = jac.u(i, s);
           const double scale = std::abs(jac.d(i, r, r)) + 1e-300;
           INFO("cell " << i << " row species " << r << " column cell " << j << " species " << s);
           CHECK(std::abs(fd - an) <= 1e-7 * scale);  // common practice, no source
@@ -239,8 +240,8 @@ TEST_CASE("an injected pulse decays with the imposed e-folding time", "[transpor
   advance_to(1.0 / k);
   CHECK(applied == 1);
   WARN("pulse: N(1/k) relative error "
-       << column_total(bg.grid, n, 2, 0) / (N0 * std::exp(-1.0)) - 1.0
-       << ", positivity fallbacks " << transport.positivity_fallbacks());
+       << column_total(bg.grid, n, 2, 0) / (N0 * std::exp(-1.0)) - 1.0 << ", positivity fallbacks "
+       << transport.positivity_fallbacks());
   CHECK(column_total(bg.grid, n, 2, 0) == Approx(N0 * std::exp(-1.0)).epsilon(1e-3));
   advance_to(3.0 / k);
   CHECK(applied == 1);
@@ -267,7 +268,7 @@ TEST_CASE("injections add their column amount once, uniformly in density", "[tra
 
 TEST_CASE("boundary schedules are piecewise linear and held outside", "[transport]") {
   const Schedule s{{0.0, 10.0, 30.0}, {1.0, 3.0, 2.0}};
-  CHECK(s.at(-5.0) == 1.0);   // held (analytic)
+  CHECK(s.at(-5.0) == 1.0);  // held (analytic)
   CHECK(s.at(5.0) == Approx(2.0));
   CHECK(s.at(20.0) == Approx(2.5));
   CHECK(s.at(99.0) == 2.0);

@@ -66,8 +66,7 @@ inline Background varying_column(std::size_t cells, bool uniform_grid = true) {
   return build_background(spec);
 }
 
-inline double column_total(const Grid& g, std::span<const double> n, std::size_t S,
-                           std::size_t s) {
+inline double column_total(const Grid& g, std::span<const double> n, std::size_t S, std::size_t s) {
   double sum = 0.0;
   for (std::size_t j = 0; j < g.cells(); ++j) sum += n[j * S + s] * g.width_cm(j);
   return sum;
