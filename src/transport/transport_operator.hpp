@@ -93,11 +93,11 @@ class TransportOperator final : public ColumnOperator {
 
  private:
   // Edge flux of species s at edge e: Phi = left*n_{e-1} + right*n_e + ghost*n_ghost(t)
-  // (+ imposed flux), split into eddy (K) and molecular (D) coefficients.
+  // (+ imposed flux + boundary velocity * n, added per call since they may follow a schedule),
+  // split into eddy (K) and molecular (D) coefficients.
   struct EdgeCoef {
     double left_K = 0, right_K = 0, ghost_K = 0;
     double left_D = 0, right_D = 0, ghost_D = 0;
-    double left_v = 0, right_v = 0;  // velocity boundary (deposition / escape)
   };
   [[nodiscard]] const EdgeCoef& coef(std::size_t s, std::size_t e) const {
     return coef_[s * (N_ + 1) + e];
