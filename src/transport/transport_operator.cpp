@@ -20,6 +20,20 @@ double bernoulli(double x) {
   return x / std::expm1(x);
 }
 
+/// Coefficients of the upward flux between a lower and an upper point `dist` apart, through
+/// an edge with eddy coefficient K, air density na_e, molecular coefficient D and drift x:
+///   Phi = lower_K n_lower + upper_K n_upper   (eddy, on mixing ratio f = n/n_a)
+///       + lower_D n_lower + upper_D n_upper   (molecular, exponentially fitted)
+/// A ghost value on a boundary edge is a point whose air density is na_e.
+struct FluxPair {
+  double lower_K, upper_K, lower_D, upper_D;
+};
+FluxPair fitted_flux(double K, double na_e, double D, double dist, double x, double na_lower,
+                     double na_upper) {
+  return {K * na_e / (dist * na_lower), -K * na_e / (dist * na_upper), D / dist * bernoulli(x),
+          -D / dist * bernoulli(-x)};
+}
+
 bool dirichlet(BoundaryKind k) {
   return k == BoundaryKind::kMixingRatio || k == BoundaryKind::kDensity;
 }
@@ -89,53 +103,49 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
     for (std::size_t e = 1; e < N_; ++e) {
       EdgeCoef& c = coef_[s * (N_ + 1) + e];
       const double dze = zc[e] - zc[e - 1];
-      const double K = bg.edge_eddy_cm2_s[e];
-      const double na = edge_n_air_[e];
-      c.left_K = K * na / (dze * n_air_[e - 1]);
-      c.right_K = -K * na / (dze * n_air_[e]);
-      const double D = sp.binary_diffusion(bg.edge_temperature_K[e]) / na;
-      const double x = dze * inv_H(bg.edge_gravity_cm_s2[e], bg.edge_temperature_K[e]) +
+      const double T_e = bg.edge_temperature_K[e];
+      const double x = dze * inv_H(bg.edge_gravity_cm_s2[e], T_e) +
                        a_T * std::log(bg.temperature_K[e] / bg.temperature_K[e - 1]);
       drift_[s * (N_ + 1) + e] = x;
-      c.left_D = D / dze * bernoulli(x);
-      c.right_D = -D / dze * bernoulli(-x);
+      const FluxPair f =
+          fitted_flux(bg.edge_eddy_cm2_s[e], edge_n_air_[e],
+                      sp.binary_diffusion(T_e) / edge_n_air_[e], dze, x, n_air_[e - 1], n_air_[e]);
+      c.left_K = f.lower_K;
+      c.right_K = f.upper_K;
+      c.left_D = f.lower_D;
+      c.right_D = f.upper_D;
     }
 
     // Dirichlet boundaries: the ghost value sits on the boundary edge, half a cell from the
     // nearest centre; the drift over that half cell uses the trapezoid rule.
+    const auto half_cell = [&](std::size_t edge, std::size_t cell) {
+      const double T_e = bg.edge_temperature_K[edge];
+      const double T_c = bg.temperature_K[cell];
+      const bool ghost_below = edge == 0;
+      const double h = ghost_below ? zc[cell] - ze[edge] : ze[edge] - zc[cell];
+      const double x =
+          0.5 * h * (inv_H(bg.edge_gravity_cm_s2[edge], T_e) + inv_H(bg.gravity_cm_s2[cell], T_c)) +
+          a_T * (ghost_below ? std::log(T_c / T_e) : std::log(T_e / T_c));
+      drift_[s * (N_ + 1) + edge] = x;
+      const double na_e = edge_n_air_[edge];
+      return fitted_flux(bg.edge_eddy_cm2_s[edge], na_e, sp.binary_diffusion(T_e) / na_e, h, x,
+                         ghost_below ? na_e : n_air_[cell], ghost_below ? n_air_[cell] : na_e);
+    };
     if (dirichlet(b.bottom.kind)) {
       EdgeCoef& c = coef_[s * (N_ + 1)];
-      const double h = zc[0] - ze[0];
-      const double K = bg.edge_eddy_cm2_s[0];
-      const double na = edge_n_air_[0];
-      c.ghost_K = K / h;
-      c.right_K = -K * na / (h * n_air_[0]);
-      const double T_e = bg.edge_temperature_K[0];
-      const double D = sp.binary_diffusion(T_e) / na;
-      const double x = 0.5 * h *
-                           (inv_H(bg.edge_gravity_cm_s2[0], T_e) +
-                            inv_H(bg.gravity_cm_s2[0], bg.temperature_K[0])) +
-                       a_T * std::log(bg.temperature_K[0] / T_e);
-      drift_[s * (N_ + 1)] = x;
-      c.ghost_D = D / h * bernoulli(x);
-      c.right_D = -D / h * bernoulli(-x);
+      const FluxPair f = half_cell(0, 0);
+      c.ghost_K = f.lower_K;
+      c.right_K = f.upper_K;
+      c.ghost_D = f.lower_D;
+      c.right_D = f.upper_D;
     }
     if (dirichlet(b.top.kind)) {
       EdgeCoef& c = coef_[s * (N_ + 1) + N_];
-      const double h = ze[N_] - zc[N_ - 1];
-      const double K = bg.edge_eddy_cm2_s[N_];
-      const double na = edge_n_air_[N_];
-      c.left_K = K * na / (h * n_air_[N_ - 1]);
-      c.ghost_K = -K / h;
-      const double T_e = bg.edge_temperature_K[N_];
-      const double D = sp.binary_diffusion(T_e) / na;
-      const double x = 0.5 * h *
-                           (inv_H(bg.gravity_cm_s2[N_ - 1], bg.temperature_K[N_ - 1]) +
-                            inv_H(bg.edge_gravity_cm_s2[N_], T_e)) +
-                       a_T * std::log(T_e / bg.temperature_K[N_ - 1]);
-      drift_[s * (N_ + 1) + N_] = x;
-      c.left_D = D / h * bernoulli(x);
-      c.ghost_D = -D / h * bernoulli(-x);
+      const FluxPair f = half_cell(N_, N_ - 1);
+      c.left_K = f.lower_K;
+      c.ghost_K = f.upper_K;
+      c.left_D = f.lower_D;
+      c.ghost_D = f.upper_D;
     }
 
     // Escape velocities that do not change in time.
