@@ -6,6 +6,7 @@
 #include "core/composition.hpp"
 #include "io/config_node.hpp"
 #include "io/scenario.hpp"
+#include "io/species_section.hpp"
 #include "io/table.hpp"
 
 namespace colchem {
@@ -247,6 +248,8 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
   if (auto o = root.find("output")) load_output(*o, ctx);
+  if (auto s = root.find("species")) load_species_section(*s, units, sc.species_setup, &sc.inputs);
+  if (auto i = root.find("injections")) load_injections_section(*i, units, sc.species_setup);
   if (sc.output.file.empty()) sc.output.file = sc.name + ".nc";
   root.done();
   return sc;

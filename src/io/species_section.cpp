@@ -1,0 +1,272 @@
+#include "io/species_section.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/constants.hpp"
+#include "io/table.hpp"
+
+namespace colchem {
+
+namespace {
+
+/// A mixing ratio: a plain number, or a dimensionless quantity such as "3 ppm", in [0, 1].
+double mixing_ratio(const ConfigNode& n, const UnitSystem& units) {
+  const std::string s = n.text();
+  auto q = split_quantity(s);
+  if (!q) n.fail("a mixing ratio: a number from 0 to 1 or a quantity such as '3 ppm'");
+  double v = q->value;
+  if (!q->unit.empty()) {
+    auto c = units.convert(q->value, q->unit, "1");
+    if (!c) {
+      n.fail("a dimensionless mixing ratio such as '3 ppm' or '1e-6'",
+             "'" + s + "'" + (units.parses(q->unit) ? " (not dimensionless)" : " (unknown unit)"));
+    }
+    v = *c;
+  }
+  if (!(v >= 0.0 && v <= 1.0)) n.fail("a mixing ratio from 0 to 1", "'" + s + "'");
+  return v;
+}
+
+InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
+                            const std::string& species, std::vector<InputFile>* inputs) {
+  InitialProfile p;
+  if (n.is_scalar()) {
+    p.mixing_ratio = mixing_ratio(n, units);
+    return p;
+  }
+  if (!n.is_map()) n.fail("a mixing ratio or {table: FILE, column: NAME}");
+  const std::filesystem::path file = n.child("table").path();
+  std::string column = species;
+  std::string alt_column = "altitude";
+  if (auto c = n.find("column")) column = c->text();
+  if (auto c = n.find("altitude_column")) alt_column = c->text();
+  if (auto e = n.find("extrapolation")) {
+    p.extrapolation = e->choice({"hold_ends", "forbid"}) == "forbid" ? Extrapolation::kForbid
+                                                                     : Extrapolation::kHoldEnds;
+  }
+  n.done();
+  const Table t = Table::read(file);
+  t.require_increasing(alt_column);
+  p.from_table = true;
+  p.table.altitude_cm = t.column(alt_column, units, "cm");
+  p.table.value = t.column(column, units, "1");
+  p.table.source = file.string();
+  for (std::size_t i = 0; i < p.table.value.size(); ++i) {
+    const double v = p.table.value[i];
+    // Log-linear interpolation needs positive values.
+    if (!(v > 0.0 && v <= 1.0))
+      t.fail_row(i, column, "a mixing ratio in (0, 1]", std::to_string(v));
+  }
+  if (inputs) inputs->push_back(InputFile{"initial profile of " + species, file, t.text()});
+  return p;
+}
+
+struct ValueKind {
+  const char* unit;  // target unit; nullptr for a mixing ratio
+  const char* example;
+};
+
+double one_value(const ConfigNode& n, const UnitSystem& units, const ValueKind& k) {
+  return k.unit ? n.quantity(units, k.unit, k.example) : mixing_ratio(n, units);
+}
+
+/// A value, or {schedule: {times: [...], values: [...]}}.
+Schedule load_value(const ConfigNode& n, const UnitSystem& units, const ValueKind& k,
+                    bool non_negative) {
+  Schedule s;
+  const auto check = [&](const ConfigNode& where, double v) {
+    if (non_negative && v < 0.0) where.fail("a non-negative value", "'" + where.text() + "'");
+  };
+  if (!n.is_map()) {
+    s = Schedule::constant(one_value(n, units, k));
+    check(n, s.value.front());
+    return s;
+  }
+  const auto sched = n.child("schedule");
+  n.done();
+  const auto times = sched.child("times");
+  const auto values = sched.child("values");
+  sched.done();
+  s.time_s = times.quantity_list(units, "s", "30 day");
+  if (k.unit) {
+    s.value = values.quantity_list(units, k.unit, k.example);
+  } else {
+    if (!values.is_sequence()) values.fail("a list of mixing ratios");
+    for (const auto& item : values.items()) s.value.push_back(mixing_ratio(item, units));
+  }
+  if (s.time_s.empty()) times.fail("at least one time");
+  if (s.value.size() != s.time_s.size()) {
+    values.fail(std::to_string(s.time_s.size()) + " values (one per time)",
+                std::to_string(s.value.size()) + " values");
+  }
+  for (std::size_t i = 1; i < s.time_s.size(); ++i) {
+    if (!(s.time_s[i] > s.time_s[i - 1])) {
+      times.fail("times increasing strictly", "a decrease at entry " + std::to_string(i));
+    }
+  }
+  for (double v : s.value) {
+    if (non_negative && v < 0.0) values.fail("non-negative values", std::to_string(v));
+  }
+  return s;
+}
+
+BoundaryCondition load_boundary(const ConfigNode& n, const UnitSystem& units, bool top) {
+  const std::vector<std::string> scalars =
+      top ? std::vector<std::string>{"zero_flux", "jeans", "diffusion_limited"}
+          : std::vector<std::string>{"zero_flux"};
+  BoundaryCondition bc;
+  if (n.is_scalar()) {
+    const std::string c = n.choice(scalars);
+    if (c == "jeans") bc.kind = BoundaryKind::kJeans;
+    if (c == "diffusion_limited") bc.kind = BoundaryKind::kDiffusionLimited;
+    return bc;
+  }
+  const std::vector<std::string> keys =
+      top ? std::vector<std::string>{"mixing_ratio", "density", "flux", "escape_velocity", "jeans"}
+          : std::vector<std::string>{"mixing_ratio", "density", "flux", "deposition_velocity"};
+  std::string all;
+  for (const auto& k : keys) all += (all.empty() ? "" : ", ") + k;
+  for (const auto& s : scalars) all += ", " + s;
+  const auto entries = n.is_map() ? n.entries() : decltype(n.entries()){};
+  if (entries.size() != 1) {
+    n.fail("one of: " + all, n.is_map() ? std::to_string(entries.size()) + " keys" : n.describe());
+  }
+  const auto& [key, v] = entries.front();
+  if (std::find(keys.begin(), keys.end(), key) == keys.end()) {
+    std::string hint;
+    if (auto near = nearest_word(key, keys)) hint = "did you mean '" + *near + "'?";
+    if (!top && (key == "escape_velocity" || key == "jeans")) hint = "only a top boundary";
+    if (top && key == "deposition_velocity") hint = "only a bottom boundary; use escape_velocity";
+    n.fail("one of: " + all, "'" + key + "'", hint);
+  }
+  if (key == "mixing_ratio") {
+    bc.kind = BoundaryKind::kMixingRatio;
+    bc.value = load_value(v, units, {nullptr, ""}, true);
+  } else if (key == "density") {
+    bc.kind = BoundaryKind::kDensity;
+    bc.value = load_value(v, units, {"cm-3", "1e10 cm-3"}, true);
+  } else if (key == "flux") {
+    bc.kind = BoundaryKind::kFlux;
+    bc.value = load_value(v, units, {"cm-2 s-1", "1e9 cm-2 s-1"}, false);
+  } else if (key == "deposition_velocity") {
+    bc.kind = BoundaryKind::kDepositionVelocity;
+    bc.value = load_value(v, units, {"cm s-1", "0.1 cm s-1"}, true);
+  } else if (key == "escape_velocity") {
+    bc.kind = BoundaryKind::kEscapeVelocity;
+    bc.value = load_value(v, units, {"cm s-1", "1e3 cm s-1"}, true);
+  } else {  // jeans with options
+    bc.kind = BoundaryKind::kJeans;
+    if (auto t = v.find("exobase_temperature")) {
+      bc.exobase_temperature_K = t->quantity(units, "K", "1000 K");
+      if (!(bc.exobase_temperature_K > 0.0)) t->fail("a positive temperature");
+    }
+    v.done();
+  }
+  return bc;
+}
+
+void load_species_entry(const std::string& name, const ConfigNode& n, const UnitSystem& units,
+                        SpeciesColumnSettings& out, std::vector<InputFile>* inputs) {
+  out.name = name;
+  out.where = n.location();
+  if (n.is_null()) return;
+  if (!n.is_map()) n.fail("a map of settings (initial, bottom, top, fixed, ...)");
+  if (auto i = n.find("initial")) out.initial = load_initial(*i, units, name, inputs);
+  if (auto b = n.find("bottom")) out.boundaries.bottom = load_boundary(*b, units, false);
+  if (auto t = n.find("top")) out.boundaries.top = load_boundary(*t, units, true);
+  if (auto f = n.find("fixed")) out.fixed = f->boolean();
+  if (auto a = n.find("thermal_diffusion")) out.thermal_diffusion = a->number();
+  if (auto d = n.find("binary_diffusion")) {
+    // b = A (T / 1 K)^s: A carries the unit of b.
+    const auto A = d->child("A");
+    out.diffusion_A = A.quantity(units, "cm-1 s-1", "1.52e18 cm-1 s-1");
+    if (!(*out.diffusion_A >= 0.0)) A.fail("a non-negative coefficient");
+    if (auto s = d->find("s")) out.diffusion_s = s->number();
+    d->done();
+  }
+  n.done();
+}
+
+}  // namespace
+
+void load_species_section(const ConfigNode& n, const UnitSystem& units, ColumnSpeciesSpec& spec,
+                          std::vector<InputFile>* inputs) {
+  if (!n.is_map()) n.fail("a map from species name to settings");
+  for (const auto& [name, value] : n.entries()) {
+    if (name == "default") {
+      if (!value.is_map()) value.fail("{initial: MIXING_RATIO}");
+      if (auto i = value.find("initial")) {
+        if (i->is_map() && !i->has("column")) {
+          i->fail("'column' naming the table column for the default profile", "no column");
+        }
+        spec.default_initial = load_initial(*i, units, "default", inputs);
+      }
+      value.done();
+      continue;
+    }
+    for (const auto& s : spec.species) {
+      if (s.name == name) value.fail("each species once", "'" + name + "' again");
+    }
+    SpeciesColumnSettings entry;
+    load_species_entry(name, value, units, entry, inputs);
+    spec.species.push_back(std::move(entry));
+  }
+}
+
+void load_injections_section(const ConfigNode& n, const UnitSystem& units,
+                             ColumnSpeciesSpec& spec) {
+  if (!n.is_sequence()) n.fail("a list of injections");
+  for (const auto& item : n.items()) {
+    if (!item.is_map()) item.fail("{species: NAME, amount: ..., time: ..., from: ..., to: ...}");
+    InjectionSpec inj;
+    inj.where = item.location();
+    inj.species = item.child("species").text();
+    const auto amount = item.find("amount");
+    const auto column = item.find("column");
+    if ((amount ? 1 : 0) + (column ? 1 : 0) != 1) {
+      item.fail("exactly one of 'amount' (global: molecules, mol or a mass) and 'column' (cm-2)",
+                amount ? "both" : "neither");
+    }
+    if (amount) {
+      const std::string s = amount->text();
+      auto q = split_quantity(s);
+      if (!q) amount->fail("a number of molecules or a quantity such as '10 Tg'");
+      if (q->unit.empty()) {
+        inj.amount_kind = InjectionAmount::kGlobalMolecules;
+        inj.amount = q->value;
+      } else if (units.convertible(q->unit, "g")) {
+        inj.amount_kind = InjectionAmount::kGlobalMass;
+        inj.amount = *units.convert(q->value, q->unit, "g");
+      } else if (units.convertible(q->unit, "mol")) {
+        inj.amount_kind = InjectionAmount::kGlobalMolecules;
+        inj.amount = *units.convert(q->value, q->unit, "mol") * constants::kAvogadro;
+      } else {
+        amount->fail(
+            "a mass (such as '10 Tg') or an amount of substance ('1e34 molecule', "
+            "'2 Gmol'), or a plain number of molecules",
+            "'" + s + "'");
+      }
+      if (!(inj.amount > 0.0) || !std::isfinite(inj.amount)) amount->fail("a positive amount");
+    } else {
+      const std::string s = column->text();
+      auto q = split_quantity(s);
+      if (q && !q->unit.empty() && units.convertible(q->unit, "mol cm-2")) {
+        inj.amount = *units.convert(q->value, q->unit, "mol cm-2") * constants::kAvogadro;
+      } else {
+        inj.amount = column->quantity(units, "cm-2", "1e16 cm-2");
+      }
+      inj.amount_kind = InjectionAmount::kColumn;
+      if (!(inj.amount > 0.0)) column->fail("a positive column amount");
+    }
+    inj.time_s = item.child("time").quantity(units, "s", "10 day");
+    inj.bottom_cm = item.child("from").quantity(units, "cm", "18 km");
+    const auto to = item.child("to");
+    inj.top_cm = to.quantity(units, "cm", "22 km");
+    if (!(inj.top_cm > inj.bottom_cm)) to.fail("a top above 'from'", "'" + to.text() + "'");
+    item.done();
+    spec.injections.push_back(inj);
+  }
+}
+
+}  // namespace colchem

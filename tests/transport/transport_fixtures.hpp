@@ -1,0 +1,75 @@
+// Backgrounds and helpers shared by the transport tests.
+#pragma once
+
+#include <cmath>
+#include <functional>
+#include <span>
+#include <vector>
+
+#include "core/background.hpp"
+#include "core/constants.hpp"
+#include "transport/transport_operator.hpp"
+
+namespace colchem::test {
+
+/// An isothermal column with constant gravity (huge radius), built by hand so that
+/// n_a = n0 exp(-z/H_a) holds exactly at centres and edges.
+inline Background isothermal_column(std::size_t cells, double top_cm, double T, double g,
+                                    double air_amu, double n0, double K) {
+  Background bg;
+  bg.grid = Grid::uniform(0.0, top_cm, cells);
+  bg.planet = PlanetSpec{"test (invented)", 1e30, g, 1.0};
+  bg.molecule_mass_g = air_amu * constants::kAtomicMassUnit;
+  const double H = constants::kBoltzmann * T / (bg.molecule_mass_g * g);
+  const auto fill = [&](const std::vector<double>& z, std::vector<double>& gv,
+                        std::vector<double>& Tv, std::vector<double>& p, std::vector<double>& na,
+                        std::vector<double>& Kv) {
+    for (double zz : z) {
+      gv.push_back(g);
+      Tv.push_back(T);
+      na.push_back(n0 * std::exp(-zz / H));
+      p.push_back(na.back() * constants::kBoltzmann * T);
+      Kv.push_back(K);
+    }
+  };
+  fill(bg.grid.center_cm, bg.gravity_cm_s2, bg.temperature_K, bg.pressure_dyn_cm2,
+       bg.air_density_cm3, bg.eddy_cm2_s);
+  fill(bg.grid.edge_cm, bg.edge_gravity_cm_s2, bg.edge_temperature_K, bg.edge_pressure_dyn_cm2,
+       bg.edge_air_density_cm3, bg.edge_eddy_cm2_s);
+  bg.scale_height_cm.assign(cells, H);
+  return bg;
+}
+
+/// A hydrostatic, non-isothermal column with inverse-square gravity (core/background),
+/// temperatures and eddy profile invented.
+inline Background varying_column(std::size_t cells, bool uniform_grid = true) {
+  BackgroundSpec spec;
+  spec.planet = PlanetSpec{"test (invented)", 3.0e8, 800.0, 1.0};
+  if (uniform_grid) {
+    spec.grid = Grid::uniform(0.0, 300.0e5, cells);
+  } else {
+    std::vector<double> e;
+    for (std::size_t j = 0; j <= cells; ++j) {
+      const double u = static_cast<double>(j) / static_cast<double>(cells);
+      e.push_back(300.0e5 * (0.6 * u + 0.4 * u * u));  // cells widen upward
+    }
+    spec.grid = Grid::from_edges(e);
+  }
+  spec.temperature_K = ProfileSpec{{0.0, 100.0e5, 300.0e5}, {250.0, 180.0, 600.0}, "invented"};
+  spec.base_pressure_dyn_cm2 = 1.0e5;
+  spec.base_altitude_cm = 0.0;
+  spec.bulk_mole_fraction = {{"N2", 1.0}};
+  spec.mean_molecular_mass_amu = 28.0;
+  spec.eddy_form = EddyForm::kDensityPower;
+  spec.eddy_cm2_s = 1.0e5;
+  spec.eddy_exponent = 0.5;
+  return build_background(spec);
+}
+
+inline double column_total(const Grid& g, std::span<const double> n, std::size_t S, std::size_t s) {
+  double sum = 0.0;
+  for (std::size_t j = 0; j < g.cells(); ++j) sum += n[j * S + s] * g.width_cm(j);
+  return sum;
+}
+
+}  // namespace colchem::test
