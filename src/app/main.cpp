@@ -30,6 +30,7 @@ int main(int argc, char** argv) {
   std::vector<std::pair<CLI::App*, app::CommandAction>> commands;
   app::add_check_command(cli, commands);
   app::add_run_command(cli, commands);
+  app::add_box_command(cli, commands);
 
   // 2. Parse it. Help and version exit 0; a usage error exits 2.
   try {

@@ -11,6 +11,7 @@
 
 #include "core/background.hpp"
 #include "core/units.hpp"
+#include "io/chemistry_section.hpp"
 
 namespace colchem {
 
@@ -31,6 +32,7 @@ struct Scenario {
   std::filesystem::path file;
   BackgroundSpec background;
   OutputSpec output;
+  ChemistrySpec chemistry;  ///< empty mechanism when the scenario has no chemistry section
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

@@ -246,6 +246,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_planet(root.child("planet"), ctx);
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
+  if (auto c = root.find("chemistry")) load_chemistry_section(*c, units, sc);
   if (auto o = root.find("output")) load_output(*o, ctx);
   if (sc.output.file.empty()) sc.output.file = sc.name + ".nc";
   root.done();
