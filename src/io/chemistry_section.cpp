@@ -238,7 +238,7 @@ BoxSpec load_box_config(const std::filesystem::path& file,
 }
 
 std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose) {
-  std::string out = fmt::format("chemistry    mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
+  std::string out = fmt::format("chemistry  mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
                                 mech.name, mech.species.size(),
                                 std::count_if(mech.species.begin(), mech.species.end(),
                                               [](const Species& s) { return s.fixed; }),
@@ -281,9 +281,9 @@ std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec
     out += fmt::format("  condensation sink {} below {} km, timescale {:g} s\n",
                        mech.species[s.species].name, s.below_cm / constants::kCmPerKm, s.timescale_s);
   }
-  out += fmt::format("  all {} active reactions balanced in every element ({} sinks exempt)\n",
-                     active_reactions, sinks);
-  (void)balanced;
+  out += fmt::format("  {} of {} active reactions balanced in every element; {} sinks (no "
+                     "products) exempt\n",
+                     balanced, active_reactions, sinks);
   return out;
 }
 
