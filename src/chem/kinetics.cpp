@@ -70,16 +70,18 @@ Kinetics::Kinetics(std::shared_ptr<const Mechanism> mech, std::span<const std::s
     cols_.insert(cols_.end(), row.begin(), row.end());
     row_ptr_.push_back(cols_.size());
   }
+  jt_start_.assign(1, 0);
   for (std::size_t a = 0; a < R; ++a) {
     for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
       for (std::size_t t = 0; t < touched[a].size(); ++t) {
         jt_pos_.push_back(jacobian_position(touched[a][t], occ_species_[o]));
-        jt_occ_.push_back(o);
-        jt_row_.push_back(touched[a][t]);
+        jt_dense_.push_back(touched[a][t] * S_ + occ_species_[o]);
         jt_coeff_.push_back(net[a][t]);
       }
+      jt_start_.push_back(jt_pos_.size());
     }
   }
+  for (auto r : reactions_) laws_.push_back(m.reactions[r].rate);
 
   // Photolysis channels.
   reaction_channel_.assign(R, npos);
@@ -123,12 +125,10 @@ void Kinetics::set_conditions(std::span<const double> temperature_K,
   const std::size_t R = reactions_.size();
   const bool resized = N != levels_;
   levels_ = N;
-  std::vector<RateLaw> laws;
-  laws.reserve(R);
-  std::vector<double> M(R * N);
+  M_.resize(R * N);
+  std::vector<double>& M = M_;
   for (std::size_t a = 0; a < R; ++a) {
     const Reaction& rx = m.reactions[reactions_[a]];
-    laws.push_back(rx.rate);
     // [M] = n_air sum_j eps_j x_j over the bulk gases (eps = 1 unless given).
     double eff = 0.0;
     for (const auto& [name, x] : bulk) {
@@ -142,7 +142,7 @@ void Kinetics::set_conditions(std::span<const double> temperature_K,
   }
   std::vector<double> old = resized ? std::vector<double>{} : k_base_;
   k_base_.assign(R * N, 0.0);
-  colchem::rate_constants(laws, temperature_K, M, k_base_);
+  colchem::rate_constants(laws_, temperature_K, M, k_base_);
   for (std::size_t a = 0; a < R; ++a) {
     const Reaction& rx = m.reactions[reactions_[a]];
     if (rx.multiplies_third_body()) {
@@ -272,19 +272,17 @@ double Kinetics::partial(std::size_t occurrence, double k, const double* n) cons
 void Kinetics::jacobian(std::size_t cell, const double* n, double* values) const {
   std::fill(values, values + cols_.size(), 0.0);
   const std::size_t N = levels_;
-  for (std::size_t t = 0; t < jt_pos_.size(); ++t) {
-    const std::size_t o = jt_occ_[t];
-    values[jt_pos_[t]] += jt_coeff_[t] * partial(o, k_[occ_reaction_[o] * N + cell], n);
+  for (std::size_t o = 0; o < occ_species_.size(); ++o) {
+    const double d = partial(o, k_[occ_reaction_[o] * N + cell], n);
+    for (std::size_t t = jt_start_[o]; t < jt_start_[o + 1]; ++t) values[jt_pos_[t]] += jt_coeff_[t] * d;
   }
 }
 
 void Kinetics::add_jacobian_dense(std::size_t cell, const double* n, double* block) const {
   const std::size_t N = levels_;
-  for (std::size_t t = 0; t < jt_pos_.size(); ++t) {
-    const std::size_t o = jt_occ_[t];
-    const std::size_t pos = jt_pos_[t];
-    block[jt_row_[t] * S_ + cols_[pos]] +=
-        jt_coeff_[t] * partial(o, k_[occ_reaction_[o] * N + cell], n);
+  for (std::size_t o = 0; o < occ_species_.size(); ++o) {
+    const double d = partial(o, k_[occ_reaction_[o] * N + cell], n);
+    for (std::size_t t = jt_start_[o]; t < jt_start_[o + 1]; ++t) block[jt_dense_[t]] += jt_coeff_[t] * d;
   }
 }
 

@@ -97,8 +97,9 @@ class Kinetics {
   // Gross products: (species, count) of reaction r in prod_[prod_start_[r] ..).
   std::vector<std::size_t> prod_start_;
   std::vector<StoichEntry> prod_;
-  // Jacobian terms: values[jt_pos_[t]] += jt_coeff_[t] * dR/dn at occurrence jt_occ_[t].
-  std::vector<std::size_t> jt_pos_, jt_occ_, jt_row_;
+  // Jacobian terms: values[jt_pos_[t]] (dense: block[jt_dense_[t]]) += jt_coeff_[t] dR/dn_o.
+  // Terms are grouped by occurrence: those of occurrence o are [jt_start_[o], jt_start_[o+1]).
+  std::vector<std::size_t> jt_pos_, jt_dense_, jt_start_;
   std::vector<double> jt_coeff_;
   std::vector<std::size_t> row_ptr_, cols_;
   // Rate constants.
@@ -107,6 +108,8 @@ class Kinetics {
   std::vector<double> k_base_;                 // without scale; J for photolysis
   std::vector<double> scale_;                  // per reaction
   std::vector<double> k_;
+  std::vector<RateLaw> laws_;        // active reactions' laws, for rate_constants()
+  std::vector<double> M_;            // [M] per reaction and level
 };
 
 }  // namespace colchem
