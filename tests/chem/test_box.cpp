@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "chem/box_model.hpp"
+#include "chem/chemistry_operator.hpp"
 #include "io/mechanism_loader.hpp"
 
 using namespace colchem;
@@ -158,4 +159,31 @@ modules:
   // Ozone builds up from the O atoms: k(O + O2 + M) [O2][M] ~ 1e5 s-1 turns O into O3 fast.
   CHECK(r.n_cm3[r.times_s.size() / 2 * S + idx(pb, "O3")] > 1e11);
   CHECK(r.n_cm3[(r.times_s.size() - 1) * S + idx(pb, "N2")] == 0.79 * 2.9e19);  // fixed
+}
+
+TEST_CASE("ChemistryOperator::implicit_step integrates each cell with its own k(T)",
+          "[chem][box]") {
+  const UnitSystem units;
+  ChemistrySpec spec;
+  spec.mechanism = load_mechanism_text(R"(
+mechanism: {name: column-decay}
+species: [{name: O(1D)}, {name: O}]
+modules:
+  - name: m
+    reactions:
+      - {equation: O(1D) -> O, rate: {arrhenius: {A: 1.0, E: 300}}}
+)", "column.yaml", units);
+  spec.modules = {0};
+  const std::vector<double> T{150.0, 300.0, 600.0}, air{1e18, 1e17, 1e16};
+  StiffOptions opt;
+  opt.rtol = 1e-7;
+  opt.atol = 1e-6;
+  ChemistryOperator op(spec, T, air, {}, {{"N2", 1.0}}, opt);
+  std::vector<double> n{1e8, 0.0, 1e8, 0.0, 1e8, 0.0};
+  REQUIRE(op.implicit_step(n, 0.0, 2.0));
+  for (std::size_t j = 0; j < 3; ++j) {
+    const double k = std::exp(-300.0 / T[j]);  // k = A exp(-E/T) (analytic)
+    CHECK(n[2 * j] == Approx(1e8 * std::exp(-k * 2.0)).epsilon(1e-5));
+    CHECK(n[2 * j] + n[2 * j + 1] == Approx(1e8).epsilon(1e-9));
+  }
 }

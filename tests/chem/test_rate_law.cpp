@@ -206,6 +206,17 @@ TEST_CASE("Troe form without broadening and at the centre of the fall-off",
   const double y = c / (N - 0.14 * c);
   const double Mc = kinf / k0;
   CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, lf / (1 + y * y))).epsilon(1e-10));
+  // The optional T2 term adds exp(-T2/T) to Fcent (Troe 1983): with alpha = 0, T3 -> 0 and
+  // T2 = T ln 2, Fcent = 0.5; at Pr = 1, c = -0.4 + 0.67 log10 2, N = 0.75 + 1.27 log10 2.
+  troe.alpha = 0.0;
+  troe.T3 = 1e-30;
+  troe.has_T2 = true;
+  troe.T2 = T * std::log(2.0);
+  const double l2 = std::log10(0.5);
+  const double c2 = -0.4 - 0.67 * l2;
+  const double N2 = 0.75 - 1.27 * l2;
+  const double y2 = c2 / (N2 - 0.14 * c2);
+  CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, l2 / (1 + y2 * y2))).epsilon(1e-10));
 }
 
 TEST_CASE("rate_constants evaluates every reaction at every level in one call", "[chem][rate]") {
