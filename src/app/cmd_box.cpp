@@ -22,6 +22,7 @@ void write_box(const BoxSpec& box, const BoxResult& res, const std::string& comm
   nc.global_text("history", command_line);
   nc.global_text("mechanism", m.name);
   nc.global_text("configuration", box.resolved_yaml);
+  nc.global_text("mechanism_text", m.text);
   nc.global_number("temperature_K", box.temperature_K);
   nc.global_number("pressure_Pa", box.pressure_dyn_cm2 * 0.1);
   nc.dimension("time", nt);

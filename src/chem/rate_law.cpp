@@ -26,17 +26,17 @@ double ArrheniusParams::at(double T) const {
 }
 
 bool RateLaw::folds_third_body() const {
-  if (form == RateForm::kFalloff || form == RateForm::kTroe) return true;
+  if (form == RateForm::kFalloff || form == RateForm::kTroe ||
+      form == RateForm::kChemicalActivation) {
+    return true;
+  }
   if (form == RateForm::kEquilibriumReverse && !forward.empty()) {
     return forward.front().folds_third_body();
   }
   return false;
 }
 
-bool RateLaw::uses_third_body() const {
-  if (form == RateForm::kChemicalActivation) return true;
-  return folds_third_body();
-}
+bool RateLaw::uses_third_body() const { return folds_third_body(); }
 
 double RateLaw::low_pressure_limit(double T) const {
   switch (form) {

@@ -57,9 +57,9 @@ struct RateLaw {
   // photolysis:
   std::string channel;
 
-  /// True for the forms whose k is bimolecular-equivalent with [M] folded in (falloff,
-  /// troe, and an equilibrium_reverse whose forward is one); for these a "+ M" in the
-  /// equation does not multiply the rate.
+  /// True for the forms whose k has [M] folded in (falloff, troe, chemical_activation, and
+  /// an equilibrium_reverse whose forward is one); for these a "+ M" in the equation does
+  /// not multiply the rate (chemical activation is usually written without it).
   [[nodiscard]] bool folds_third_body() const;
   /// True when k depends on [M] at all.
   [[nodiscard]] bool uses_third_body() const;

@@ -324,7 +324,8 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   if (rx.rate.form == RateForm::kFirstOrder && rx.molecularity() != 1) {
     rate.fail("exactly one reactant for a first_order rate", quoted(rx));
   }
-  if (rx.rate.folds_third_body() && !rx.third_body) {
+  const RateLaw& shape = rx.rate.form == RateForm::kEquilibriumReverse ? rx.rate.forward.front() : rx.rate;
+  if ((shape.form == RateForm::kFalloff || shape.form == RateForm::kTroe) && !rx.third_body) {
     rate.fail("'+ M' on both sides of a reaction with a fall-off rate", quoted(rx));
   }
   if (rx.products.empty() && !rx.sink) {

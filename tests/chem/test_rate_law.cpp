@@ -235,3 +235,24 @@ TEST_CASE("rate_constants evaluates every reaction at every level in one call", 
   CHECK(k[kOSO2 * 2 + 1] == Approx(2.8045e-18).epsilon(1e-4));
   CHECK(k[kOHCO * 2 + 0] == Approx(1.4046e-13).epsilon(1e-4));
 }
+
+TEST_CASE("a chemical-activation channel written with + M is not multiplied by [M] again",
+          "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(R"(
+mechanism: {name: ca}
+species: [{name: OH}, {name: CO}, {name: H}, {name: CO2}]
+modules:
+  - name: m
+    reactions:
+      - {equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
+      - equation: OH + CO + M -> H + CO2 + M
+        rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}
+        duplicate: true
+)", "ca.yaml", units);
+  Kinetics kin(m, std::vector<std::size_t>{0}, {});
+  kin.set_conditions(std::vector<double>{298.0}, std::vector<double>{2.43053e19}, {{"N2", 1.0}});
+  // Both give the bimolecular 1.4046e-13 cm3 s-1 (JPL 19-5, from memory; see above).
+  CHECK(kin.rate_constants()[0] == Approx(1.4046e-13).epsilon(1e-4));
+  CHECK(kin.rate_constants()[1] == Approx(1.4046e-13).epsilon(1e-4));
+}
