@@ -89,18 +89,20 @@ bool StiffIntegrator::be_step(const double* y0, double h, double* y, const CellR
 bool StiffIntegrator::integrate(std::span<double> n, double t0, double t1, const CellRhs& f,
                                 const CellJacobian& jac) {
   std::copy(n.begin(), n.end(), ystart_.begin());
-  double t = t0;
-  double h = opt_.first_step > 0.0 ? opt_.first_step : 1e-6 * (t1 - t0);
+  // Local time from 0, so that steps far below the ulp of t0 still advance.
+  const double span = t1 - t0;
+  double t = 0.0;
+  double h = opt_.first_step > 0.0 ? opt_.first_step : 1e-6 * span;
   if (stats_.last_step > 0.0) h = std::max(h, stats_.last_step);
-  const double hmin = opt_.min_step > 0.0 ? opt_.min_step : 1e-12 * (t1 - t0);
+  const double hmin = opt_.min_step > 0.0 ? opt_.min_step : 1e-18 * span;
   std::size_t steps = 0;
-  while (t < t1) {
+  while (t < span) {
     if (++steps > opt_.max_steps || h < hmin) {
       std::copy(ystart_.begin(), ystart_.end(), n.begin());
       return false;
     }
-    const bool last = t + h >= t1 * (1.0 - 1e-12);
-    const double hs = last ? t1 - t : h;
+    const bool last = t + h >= span * (1.0 - 1e-12);
+    const double hs = last ? span - t : h;
     // Step doubling: one step of hs (y1) against two of hs/2 (y2).
     bool ok = be_step(n.data(), hs, y1_.data(), f, jac) &&
               be_step(n.data(), 0.5 * hs, ymid_.data(), f, jac) &&
@@ -125,7 +127,7 @@ bool StiffIntegrator::integrate(std::span<double> n, double t0, double t1, const
     bool extrapolate = true;
     for (std::size_t s = 0; s < S_; ++s) extrapolate = extrapolate && 2 * y2_[s] - y1_[s] >= 0.0;
     for (std::size_t s = 0; s < S_; ++s) n[s] = extrapolate ? 2 * y2_[s] - y1_[s] : y2_[s];
-    t = last ? t1 : t + hs;
+    t = last ? span : t + hs;
     ++stats_.steps;
     h = hs * factor;
     stats_.last_step = h;

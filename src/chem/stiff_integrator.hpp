@@ -26,7 +26,7 @@ struct StiffOptions {
   double rtol = 1e-4;
   double atol = 1e-5;          ///< cm^-3
   double first_step = 0.0;     ///< s; 0 = 1e-6 of the interval
-  double min_step = 0.0;       ///< s; 0 = 1e-12 of the interval
+  double min_step = 0.0;       ///< s; 0 = 1e-18 of the interval
   int max_newton = 8;
   double newton_tol = 1e-3;    ///< scaled Newton correction at convergence
   std::size_t max_steps = 200000;
