@@ -5,9 +5,18 @@
 
 namespace colchem {
 
+namespace {
+const ChemistrySpec& require_mechanism(const ChemistrySpec& spec) {
+  if (!spec.mechanism) {
+    throw std::invalid_argument("ChemistryOperator: the chemistry spec has no mechanism");
+  }
+  return spec;
+}
+}  // namespace
+
 ChemistryOperator::ChemistryOperator(const ChemistrySpec& spec, const Background& bg,
                                      StiffOptions options)
-    : kin_(spec.mechanism, spec.modules, spec.parameters),
+    : kin_(require_mechanism(spec).mechanism, spec.modules, spec.parameters),
       integrator_(spec.mechanism->species.size(), options) {
   init(spec, bg.temperature_K, bg.air_density_cm3, bg.grid.center_cm, bg.bulk_mole_fraction);
 }
@@ -18,7 +27,7 @@ ChemistryOperator::ChemistryOperator(const ChemistrySpec& spec,
                                      std::span<const double> altitude_cm,
                                      const std::map<std::string, double>& bulk,
                                      StiffOptions options)
-    : kin_(spec.mechanism, spec.modules, spec.parameters),
+    : kin_(require_mechanism(spec).mechanism, spec.modules, spec.parameters),
       integrator_(spec.mechanism->species.size(), options) {
   init(spec, temperature_K, air_cm3, altitude_cm, bulk);
 }
