@@ -8,6 +8,7 @@
 #include "app/summary.hpp"
 #include "core/background.hpp"
 #include "io/scenario.hpp"
+#include "io/chemistry_section.hpp"
 
 namespace colchem::app {
 
@@ -19,11 +20,16 @@ void add_check_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
   cmd->add_option("CONFIG", *config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
   cmd->add_option("--set", *sets, "Override a config value by its dotted key path, e.g. "
                                   "--set grid.cells=120 (repeatable)");
-  out.emplace_back(cmd, [config, sets](Context& ctx) {
+  auto verbose = std::make_shared<bool>(false);
+  cmd->add_flag("-v,--verbose", *verbose, "List every reaction of every module");
+  out.emplace_back(cmd, [config, sets, verbose](Context& ctx) {
     const UnitSystem units;
     const Scenario sc = load_scenario(*config, *sets, units);
     const Background bg = build_background(sc.background);
     std::cout << summarize_scenario(sc, bg);
+    if (sc.chemistry.mechanism) {
+      std::cout << summarize_chemistry(*sc.chemistry.mechanism, sc.chemistry, *verbose);
+    }
     ctx.log->info("{}: valid", *config);
     return 0;
   });

@@ -12,6 +12,7 @@
 #include "core/background.hpp"
 #include "core/units.hpp"
 #include "transport/column_species.hpp"
+#include "io/chemistry_section.hpp"
 
 namespace colchem {
 
@@ -33,6 +34,7 @@ struct Scenario {
   BackgroundSpec background;
   OutputSpec output;
   ColumnSpeciesSpec species_setup;  ///< `species:` and `injections:` (io/species_section)
+  ChemistrySpec chemistry;  ///< empty mechanism when the scenario has no chemistry section
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

@@ -48,6 +48,25 @@ colchem_cli_test(set_malformed 2 "expected KEY.PATH=VALUE"
 colchem_cli_test(missing_file 2 "File does not exist"
   $<TARGET_FILE:colchem> check ${CFG}/no_such_file.yaml)
 
+# Box mode (docs-chem.md): help, a run against the analytic equilibrium of
+# validation/chem/box_equilibrium (README there), a bad mechanism (exit 4), and the
+# chemistry summary of check.
+set(CHEMV ${CMAKE_SOURCE_DIR}/validation/chem)
+colchem_cli_test(help_box 0 "--set" $<TARGET_FILE:colchem> box --help)
+colchem_cli_test(box_equilibrium 0 "ClO +1\\.20177e\\+09"
+  $<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml -o box_equilibrium.nc)
+colchem_cli_test(box_ncdump 0 "number_density:units = \"cm-3\".*reaction_rate:units = \"cm-3 s-1\""
+  sh -c "$<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml -o box_nc.nc >/dev/null 2>&1 && ncdump -h box_nc.nc | tr '\\n' ' '")
+colchem_cli_test(box_bad_mechanism 4
+  "unbalanced.yaml:12:19: 'modules.0.reactions.1.equation': expected a reaction balanced in every element.*'ClONO2 -> ClO' changing N -1, O -2"
+  $<TARGET_FILE:colchem> box ${CMAKE_SOURCE_DIR}/tests/chem/bad/box_unbalanced.yaml)
+colchem_cli_test(box_bad_parameter 3 "chemistry.modules.0': expected a module of mechanism 'clo-dimer', found unknown module 'dimmer'; did you mean 'dimer'"
+  $<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml --set chemistry.modules=[dimmer])
+colchem_cli_test(check_chemistry 0 "50 of 52 active reactions balanced in every element; 2 sinks"
+  $<TARGET_FILE:colchem> check ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
+colchem_cli_test(check_chemistry_verbose 0 "HSO3 \\+ M -> OH \\+ SO2 \\+ M +equilibrium_reverse"
+  $<TARGET_FILE:colchem> check -v ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
+
 # The output read by real clients: ncdump (netcdf-bin) and xarray (python3-xarray, run on
 # Debian's own interpreter so that its python3-* packages are the ones imported).
 add_test(NAME cli.output_clients

@@ -1,0 +1,175 @@
+#include "chem/chemistry_operator.hpp"
+
+#include <algorithm>
+#include <stdexcept>
+
+namespace colchem {
+
+namespace {
+const ChemistrySpec& require_mechanism(const ChemistrySpec& spec) {
+  if (!spec.mechanism) {
+    throw std::invalid_argument("ChemistryOperator: the chemistry spec has no mechanism");
+  }
+  return spec;
+}
+}  // namespace
+
+ChemistryOperator::ChemistryOperator(const ChemistrySpec& spec, const Background& bg,
+                                     StiffOptions options)
+    : kin_(require_mechanism(spec).mechanism, spec.modules, spec.parameters),
+      integrator_(spec.mechanism->species.size(), options) {
+  init(spec, bg.temperature_K, bg.air_density_cm3, bg.grid.center_cm, bg.bulk_mole_fraction);
+}
+
+ChemistryOperator::ChemistryOperator(const ChemistrySpec& spec,
+                                     std::span<const double> temperature_K,
+                                     std::span<const double> air_cm3,
+                                     std::span<const double> altitude_cm,
+                                     const std::map<std::string, double>& bulk,
+                                     StiffOptions options)
+    : kin_(require_mechanism(spec).mechanism, spec.modules, spec.parameters),
+      integrator_(spec.mechanism->species.size(), options) {
+  init(spec, temperature_K, air_cm3, altitude_cm, bulk);
+}
+
+void ChemistryOperator::init(const ChemistrySpec& spec, std::span<const double> T,
+                             std::span<const double> air, std::span<const double> z,
+                             const std::map<std::string, double>& bulk) {
+  kin_.set_conditions(T, air, bulk);
+  const std::size_t S = kin_.species_count();
+  const std::size_t N = T.size();
+  const Mechanism& m = *spec.mechanism;
+  work_.assign(S, 0.0);
+  fixed_n_.assign(N * S, 0.0);
+  fixed_mask_.assign(S, 0.0);
+  for (std::size_t s = 0; s < S; ++s) {
+    if (!m.species[s].fixed) continue;
+    fixed_mask_[s] = 1.0;
+    const auto it = bulk.find(m.species[s].name);
+    const double x = it == bulk.end() ? 0.0 : it->second;
+    for (std::size_t j = 0; j < N; ++j) fixed_n_[j * S + s] = x * air[j];
+  }
+  for (const auto& sink : spec.sinks) {
+    for (std::size_t j = 0; j < N; ++j) {
+      if (j >= z.size() || !(z[j] < sink.below_cm)) continue;
+      sinks_.push_back(CellSink{j, sink.species, sink.saturation_density(T[j]),
+                                1.0 / sink.timescale_s});
+    }
+  }
+}
+
+void ChemistryOperator::impose_fixed(std::span<double> n) const {
+  const std::size_t S = species_count();
+  for (std::size_t i = 0; i < n.size(); ++i) {
+    if (fixed_mask_[i % S] != 0.0) n[i] = fixed_n_[i];
+  }
+}
+
+void ChemistryOperator::cell_rhs(std::size_t j, const double* n, double* f) const {
+  std::fill(f, f + species_count(), 0.0);
+  kin_.add_tendency(j, n, f);
+  for (const auto& c : sinks_) {
+    if (c.cell == j && n[c.species] > c.n_sat) f[c.species] -= (n[c.species] - c.n_sat) * c.inv_tau;
+  }
+}
+
+void ChemistryOperator::cell_jacobian(std::size_t j, const double* n, double* block) const {
+  const std::size_t S = species_count();
+  std::fill(block, block + S * S, 0.0);
+  kin_.add_jacobian_dense(j, n, block);
+  for (const auto& c : sinks_) {
+    if (c.cell == j && n[c.species] > c.n_sat) block[c.species * S + c.species] -= c.inv_tau;
+  }
+}
+
+void ChemistryOperator::add_tendency(std::span<const double> n, double /*t*/,
+                                     std::span<double> tendency) {
+  const std::size_t S = species_count();
+  for (std::size_t j = 0; j < cells(); ++j) {
+    kin_.add_tendency(j, n.data() + j * S, tendency.data() + j * S);
+  }
+  for (const auto& c : sinks_) {
+    const double v = n[c.cell * S + c.species];
+    if (v > c.n_sat) tendency[c.cell * S + c.species] -= (v - c.n_sat) * c.inv_tau;
+  }
+}
+
+void ChemistryOperator::add_jacobian(std::span<const double> n, double /*t*/,
+                                     BlockTridiagonal& jac) {
+  const std::size_t S = species_count();
+  if (jac.species != S || jac.cells != cells()) {
+    throw std::invalid_argument("ChemistryOperator::add_jacobian: block shape mismatch");
+  }
+  for (std::size_t j = 0; j < cells(); ++j) {
+    kin_.add_jacobian_dense(j, n.data() + j * S, jac.diag.data() + j * S * S);
+  }
+  for (const auto& c : sinks_) {
+    if (n[c.cell * S + c.species] > c.n_sat) jac.d(c.cell, c.species, c.species) -= c.inv_tau;
+  }
+}
+
+bool ChemistryOperator::implicit_step(std::span<double> n, double t, double dt) {
+  const std::size_t S = species_count();
+  std::vector<double> saved(n.begin(), n.end());
+  for (std::size_t j = 0; j < cells(); ++j) {
+    const CellRhs f = [this, j](const double* x, double* out) { cell_rhs(j, x, out); };
+    const CellJacobian J = [this, j](const double* x, double* out) { cell_jacobian(j, x, out); };
+    if (!integrator_.integrate(n.subspan(j * S, S), t, t + dt, f, J)) {
+      std::copy(saved.begin(), saved.end(), n.begin());
+      return false;
+    }
+  }
+  return true;
+}
+
+void ChemistryOperator::reaction_rates(std::span<const double> n, std::span<double> R) const {
+  const std::size_t S = species_count();
+  const std::size_t NR = kin_.reaction_count();
+  if (R.size() != cells() * NR) throw std::invalid_argument("reaction_rates: size cells * R");
+  for (std::size_t j = 0; j < cells(); ++j) kin_.reaction_rates(j, n.data() + j * S, R.data() + j * NR);
+}
+
+void ChemistryOperator::condensation_rates(std::span<const double> n, std::span<double> C) const {
+  const std::size_t S = species_count();
+  std::fill(C.begin(), C.end(), 0.0);
+  for (const auto& c : sinks_) {
+    const double v = n[c.cell * S + c.species];
+    if (v > c.n_sat) C[c.cell * S + c.species] += (v - c.n_sat) * c.inv_tau;
+  }
+}
+
+void ChemistryOperator::parameter_sensitivities(std::span<const double> n,
+                                                std::span<double> out) const {
+  const Mechanism& m = kin_.mechanism();
+  const std::size_t S = species_count();
+  const std::size_t N = cells();
+  const std::size_t NR = kin_.reaction_count();
+  const std::size_t P = m.parameters.size();
+  if (out.size() != P * N * S) throw std::invalid_argument("parameter_sensitivities: size P*N*S");
+  std::fill(out.begin(), out.end(), 0.0);
+  std::vector<double> dk(P * NR * N);
+  kin_.rate_constant_sensitivities(dk);
+  for (std::size_t q = 0; q < P; ++q) {
+    for (std::size_t r = 0; r < NR; ++r) {
+      const Reaction& rx = m.reactions[kin_.mechanism_reaction(r)];
+      for (std::size_t j = 0; j < N; ++j) {
+        const double d = dk[(q * NR + r) * N + j];
+        if (d == 0.0) continue;
+        // d R / d p = (d k / d p) prod n, then stoichiometry as in the tendency.
+        double prod = d;
+        for (const auto& e : rx.reactants) {
+          for (int c = 0; c < e.count; ++c) prod *= n[j * S + e.species];
+        }
+        double* o = out.data() + (q * N + j) * S;
+        for (const auto& e : rx.reactants) {
+          if (!m.species[e.species].fixed) o[e.species] -= e.count * prod;
+        }
+        for (const auto& e : rx.products) {
+          if (!m.species[e.species].fixed) o[e.species] += e.count * prod;
+        }
+      }
+    }
+  }
+}
+
+}  // namespace colchem

@@ -1,0 +1,91 @@
+// The chemistry of a column as a ColumnOperator (solve/column_operator.hpp):
+//
+//   f_{j,s}(n) = P_{j,s}(n) - L_{j,s}(n) - C_{j,s}(n)
+//
+// P, L from the active reactions (chem/kinetics.hpp); C the scenario's condensation sinks,
+// C = (n - n_sat(T_j))/tau for n > n_sat in cells below the deck, else 0 (its Jacobian is
+// the piecewise derivative -1/tau or 0). Cells are independent: the Jacobian is block
+// diagonal, and implicit_step integrates each cell with chem/stiff_integrator.hpp.
+// Held-fixed species keep their background density n = x_bulk n_air (fixed_densities()).
+#pragma once
+
+#include <memory>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "chem/kinetics.hpp"
+#include "chem/stiff_integrator.hpp"
+#include "core/background.hpp"
+#include "solve/column_operator.hpp"
+
+namespace colchem {
+
+class ChemistryOperator : public ColumnOperator {
+ public:
+  /// Compiles spec.mechanism (spec.modules, spec.parameters) on the background's cells.
+  ChemistryOperator(const ChemistrySpec& spec, const Background& background,
+                    StiffOptions options = {});
+  /// Same for a column given by T and n_air per cell (box mode: one cell); sinks apply to
+  /// cells whose altitude (altitude_cm, may be empty = none below any deck) is below.
+  ChemistryOperator(const ChemistrySpec& spec, std::span<const double> temperature_K,
+                    std::span<const double> air_cm3, std::span<const double> altitude_cm,
+                    const std::map<std::string, double>& bulk_mole_fraction,
+                    StiffOptions options = {});
+
+  [[nodiscard]] Kinetics& kinetics() { return kin_; }
+  [[nodiscard]] const Kinetics& kinetics() const { return kin_; }
+  [[nodiscard]] std::size_t species_count() const { return kin_.species_count(); }
+  [[nodiscard]] std::size_t cells() const { return kin_.levels(); }
+
+  // --- Photolysis coupling --------------------------------------------------------------
+  [[nodiscard]] const std::vector<std::string>& photolysis_channels() const {
+    return kin_.channels();
+  }
+  void set_photolysis_rate(std::size_t channel, std::size_t level, double J) {
+    kin_.set_photolysis_rate(channel, level, J);
+  }
+  void set_photolysis_rates(std::size_t channel, std::span<const double> J) {
+    kin_.set_photolysis_rates(channel, J);
+  }
+
+  /// Densities (cm^-3) of the held-fixed species per cell (x_bulk n_air; 0 for a fixed
+  /// species absent from the bulk composition), index [j*S + s]; free species are 0.
+  [[nodiscard]] const std::vector<double>& fixed_densities() const { return fixed_n_; }
+  /// Copies the fixed species' densities into a state vector.
+  void impose_fixed(std::span<double> n) const;
+
+  // --- ColumnOperator -------------------------------------------------------------------
+  void add_tendency(std::span<const double> n, double t, std::span<double> tendency) override;
+  void add_jacobian(std::span<const double> n, double t, BlockTridiagonal& jac) override;
+  bool implicit_step(std::span<double> n, double t, double dt) override;
+
+  // --- Diagnostics ------------------------------------------------------------------------
+  /// Per-reaction rates R[j * R + r] (cm^-3 s^-1) for budgets; r indexes the active
+  /// reactions (kinetics().mechanism_reaction(r) gives the mechanism's index).
+  void reaction_rates(std::span<const double> n, std::span<double> R) const;
+  /// Condensation loss rate C[j * S + s] (cm^-3 s^-1).
+  void condensation_rates(std::span<const double> n, std::span<double> C) const;
+  /// d f_{j,s} / d p_q at state n: out[(q * cells + j) * S + s], through d k / d p.
+  void parameter_sensitivities(std::span<const double> n, std::span<double> out) const;
+  [[nodiscard]] const StiffStats& integrator_stats() const { return integrator_.stats(); }
+
+ private:
+  void init(const ChemistrySpec& spec, std::span<const double> T, std::span<const double> air,
+            std::span<const double> z, const std::map<std::string, double>& bulk);
+  void cell_rhs(std::size_t j, const double* n, double* f) const;
+  void cell_jacobian(std::size_t j, const double* n, double* block) const;
+
+  Kinetics kin_;
+  struct CellSink {
+    std::size_t cell, species;
+    double n_sat, inv_tau;
+  };
+  std::vector<CellSink> sinks_;
+  std::vector<double> fixed_n_;
+  std::vector<double> fixed_mask_;
+  StiffIntegrator integrator_;
+  std::vector<double> work_;  // one cell's S values
+};
+
+}  // namespace colchem

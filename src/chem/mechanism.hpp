@@ -1,0 +1,127 @@
+// A chemical mechanism as typed, validated data: species, named parameters, modules and
+// reactions. io/mechanism_loader.hpp builds it from a mechanism file (schema in
+// docs-chem.md); physics code (kinetics.hpp) compiles the active part into a network.
+//
+// Reaction rate R_r = s_r k_r(T, [M]) prod_s n_s^nu_s (cm^-3 s^-1), with the scale
+// s_r = prod over the reaction's scale list of p or (1 - p) (named parameters, e.g.
+// branching ratios). [M] = n_air sum_j eps_j x_j over the bulk gases of the background.
+#pragma once
+
+#include <cstddef>
+#include <filesystem>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "chem/rate_law.hpp"
+#include "chem/species.hpp"
+#include "core/error.hpp"
+
+namespace colchem {
+
+struct StoichEntry {
+  std::size_t species = 0;
+  int count = 1;
+};
+
+struct Parameter {
+  std::string name;
+  double default_value = 0.0;
+  double min = 0.0;
+  double max = 1.0;
+  std::string meaning;
+  SourceLocation where;
+};
+
+/// One factor of a reaction's scale: p, or (1 - p) when `complement`.
+struct ScaleFactor {
+  std::size_t parameter = 0;
+  bool complement = false;
+};
+
+struct Efficiency {
+  std::size_t species = 0;
+  double eps = 1.0;
+};
+
+struct Reaction {
+  std::string equation;  ///< as written in the file
+  std::vector<StoichEntry> reactants, products;  ///< without M and hv
+  bool third_body = false;  ///< "+ M" on both sides
+  bool photon = false;      ///< "hv" among the reactants
+  RateLaw rate;             ///< parameters already converted to cgs
+  std::vector<Efficiency> efficiencies;  ///< third-body efficiencies (default 1)
+  std::vector<ScaleFactor> scale;
+  std::string source;
+  bool duplicate = false;
+  bool sink = false;  ///< no products; exempt from element balance
+  std::size_t module = 0;
+  SourceLocation where;
+
+  /// True when [M] multiplies the rate product (a "+ M" reaction with a non-fall-off law).
+  [[nodiscard]] bool multiplies_third_body() const {
+    return third_body && !rate.folds_third_body();
+  }
+  /// Sum of reactant counts (M and hv excluded).
+  [[nodiscard]] int molecularity() const;
+  /// Order of k: the molecularity, plus one when [M] multiplies the product.
+  [[nodiscard]] int rate_order() const {
+    return molecularity() + (multiplies_third_body() ? 1 : 0);
+  }
+};
+
+struct Module {
+  std::string name;
+  std::string description;
+  std::vector<std::size_t> requires_modules;
+  std::vector<std::size_t> reactions;  ///< indices into Mechanism::reactions
+  SourceLocation where;
+};
+
+struct Mechanism {
+  std::string name;
+  std::string description;
+  std::filesystem::path file;
+  std::string text;  ///< the file as read, for provenance
+  std::vector<Species> species;
+  std::vector<Parameter> parameters;
+  std::vector<Module> modules;
+  std::vector<Reaction> reactions;
+
+  [[nodiscard]] std::optional<std::size_t> species_index(const std::string& name) const;
+  [[nodiscard]] std::optional<std::size_t> parameter_index(const std::string& name) const;
+  [[nodiscard]] std::optional<std::size_t> module_index(const std::string& name) const;
+  [[nodiscard]] std::vector<double> default_parameters() const;
+  /// The reaction as "A + B -> C" rebuilt from the typed data (for summaries).
+  [[nodiscard]] std::string equation_text(std::size_t reaction) const;
+};
+
+/// A first-order condensation sink onto a cloud deck (scenario-level):
+///   L = (n - n_sat(T)) / tau  when n > n_sat and z < deck top, else 0,
+///   n_sat = p_sat / (k_B T). H2SO4: ln(p_sat/atm) = -10156/T + 16.259 (Ayers, Gillett and
+///   Gras 1980, Geophys. Res. Lett. 7, 433; from memory). Generic Clausius-Clapeyron:
+///   ln(p_sat/Pa) = A - B/T.
+struct CondensationSink {
+  enum class Saturation { kH2SO4Ayers1980, kClausiusClapeyron };
+  std::size_t species = 0;
+  Saturation saturation = Saturation::kH2SO4Ayers1980;
+  double cc_A = 0.0;  ///< ln Pa
+  double cc_B = 0.0;  ///< K
+  double timescale_s = 0.0;
+  double below_cm = 0.0;  ///< applies in cells whose centre is below this altitude
+
+  /// Saturation number density (cm^-3) at temperature T.
+  [[nodiscard]] double saturation_density(double T) const;
+};
+
+/// What a scenario asks of the chemistry: the mechanism, the active modules, the
+/// parameter values (index as Mechanism::parameters) and the scenario-level sinks.
+struct ChemistrySpec {
+  std::shared_ptr<const Mechanism> mechanism;  ///< null when the scenario has no chemistry
+  std::vector<std::size_t> modules;            ///< active modules, with their requirements
+  std::vector<double> parameters;
+  std::vector<CondensationSink> sinks;
+};
+
+}  // namespace colchem

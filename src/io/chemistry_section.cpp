@@ -1,0 +1,290 @@
+#include "io/chemistry_section.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+#include <set>
+
+#include "core/background.hpp"
+#include "core/constants.hpp"
+#include "io/config_node.hpp"
+#include "io/mechanism_loader.hpp"
+#include "io/scenario.hpp"
+
+namespace colchem {
+
+namespace {
+
+std::vector<std::size_t> read_modules(const ConfigNode& n, const Mechanism& m) {
+  std::vector<std::string> names;
+  for (const auto& md : m.modules) names.push_back(md.name);
+  std::vector<std::size_t> active;
+  for (const auto& item : n.items()) {
+    const std::string name = item.text();
+    const auto idx = m.module_index(name);
+    if (!idx) {
+      const auto near = nearest_word(name, names);
+      item.fail("a module of mechanism '" + m.name + "'", "unknown module '" + name + "'",
+                near ? "did you mean '" + *near + "'?" : "modules: " + fmt::format("{}", fmt::join(names, ", ")));
+    }
+    if (std::find(active.begin(), active.end(), *idx) == active.end()) active.push_back(*idx);
+  }
+  for (auto a : active) {
+    for (auto r : m.modules[a].requires_modules) {
+      if (std::find(active.begin(), active.end(), r) == active.end()) {
+        n.fail("every module that an active module requires",
+               "module '" + m.modules[a].name + "' without '" + m.modules[r].name + "'",
+               "add '" + m.modules[r].name + "' to the list");
+      }
+    }
+  }
+  return active;
+}
+
+CondensationSink read_sink(const ConfigNode& n, const Mechanism& m, const UnitSystem& units) {
+  CondensationSink s;
+  const auto sp = n.child("species");
+  const auto idx = m.species_index(sp.text());
+  if (!idx) sp.fail("a species of the mechanism", "'" + sp.text() + "'");
+  s.species = *idx;
+  const auto sat = n.child("saturation");
+  if (sat.is_scalar()) {
+    (void)sat.choice({"h2so4_ayers1980"});
+    s.saturation = CondensationSink::Saturation::kH2SO4Ayers1980;
+  } else {
+    const auto cc = sat.child("clausius_clapeyron");
+    s.saturation = CondensationSink::Saturation::kClausiusClapeyron;
+    s.cc_A = cc.child("A").number();
+    s.cc_B = cc.child("B").number();
+    cc.done();
+    sat.done();
+  }
+  const auto tau = n.child("timescale");
+  s.timescale_s = tau.quantity(units, "s", "1 d");
+  if (!(s.timescale_s > 0.0)) tau.fail("a positive timescale");
+  s.below_cm = n.child("below").quantity(units, "cm", "70 km");
+  n.done();
+  return s;
+}
+
+}  // namespace
+
+ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
+                                  std::vector<InputFile>& inputs, bool allow_sinks) {
+  ChemistrySpec spec;
+  const auto file = n.child("mechanism").path();
+  auto mech = load_mechanism(file, units);
+  inputs.push_back(InputFile{"mechanism", file, mech->text});
+  if (auto mods = n.find("modules")) {
+    spec.modules = read_modules(*mods, *mech);
+  } else {
+    for (std::size_t i = 0; i < mech->modules.size(); ++i) spec.modules.push_back(i);
+  }
+  spec.parameters = mech->default_parameters();
+  if (auto ps = n.find("parameters")) {
+    std::vector<std::string> names;
+    for (const auto& p : mech->parameters) names.push_back(p.name);
+    for (const auto& [name, v] : ps->entries()) {
+      const auto idx = mech->parameter_index(name);
+      if (!idx) {
+        const auto near = nearest_word(name, names);
+        v.fail("a parameter of mechanism '" + mech->name + "'", "unknown parameter '" + name + "'",
+               near ? "did you mean '" + *near + "'?" : std::string{});
+      }
+      const Parameter& p = mech->parameters[*idx];
+      const double x = v.number();
+      if (!(x >= p.min && x <= p.max)) {
+        v.fail(fmt::format("a value of '{}' within [{}, {}]", name, p.min, p.max),
+               fmt::format("{}", x));
+      }
+      spec.parameters[*idx] = x;
+    }
+  }
+  if (auto sinks = n.find("sinks")) {
+    if (!allow_sinks) sinks->fail("no condensation sinks in box mode (there is no cloud deck)");
+    for (const auto& item : sinks->items()) spec.sinks.push_back(read_sink(item, *mech, units));
+  }
+  n.done();
+  spec.mechanism = std::move(mech);
+  return spec;
+}
+
+void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenario& sc) {
+  sc.chemistry = load_chemistry_spec(n, units, sc.inputs, true);
+  const Background bg = build_background(sc.background);
+  check_rates(*sc.chemistry.mechanism, bg.temperature_K, bg.air_density_cm3,
+              bg.bulk_mole_fraction);
+}
+
+BoxSpec load_box_config(const std::filesystem::path& file,
+                        const std::vector<std::string>& overrides, const UnitSystem& units) {
+  ConfigDocument doc = ConfigDocument::load(file);
+  for (const auto& o : overrides) doc.apply_override(o);
+  BoxSpec box;
+  box.file = file;
+  box.overrides = overrides;
+  box.resolved_yaml = doc.resolved_text();
+  const ConfigNode root = doc.root();
+  const auto meta = root.child("scenario");
+  box.name = meta.child("name").text();
+  if (auto d = meta.find("description")) box.description = d->text();
+  meta.done();
+
+  std::vector<InputFile> inputs;
+  box.chemistry = load_chemistry_spec(root.child("chemistry"), units, inputs, false);
+  const Mechanism& m = *box.chemistry.mechanism;
+
+  const auto b = root.child("box");
+  const auto tn = b.child("temperature");
+  box.temperature_K = tn.quantity(units, "K", "298 K");
+  if (!(box.temperature_K > 0.0)) tn.fail("a positive temperature");
+  const auto pn = b.child("pressure");
+  box.pressure_dyn_cm2 = pn.quantity(units, "g cm-1 s-2", "1 bar");
+  if (!(box.pressure_dyn_cm2 > 0.0)) pn.fail("a positive pressure");
+  box.air_cm3 = box.pressure_dyn_cm2 / (constants::kBoltzmann * box.temperature_K);
+  const auto dn = b.child("duration");
+  box.duration_s = dn.quantity(units, "s", "1 h");
+  if (!(box.duration_s > 0.0)) dn.fail("a positive duration");
+  if (auto o = b.find("outputs")) {
+    const long k = o->integer();
+    if (k < 1 || k > 1000000) o->fail("a number of output times from 1 to 1000000");
+    box.outputs = static_cast<std::size_t>(k);
+  }
+  if (auto s = b.find("spacing")) box.log_spacing = s->choice({"log", "linear"}) == "log";
+  box.first_output_s = 1e-6 * box.duration_s;
+  if (auto f = b.find("first_output")) {
+    box.first_output_s = f->quantity(units, "s", "1 s");
+    if (!(box.first_output_s > 0.0 && box.first_output_s <= box.duration_s)) {
+      f->fail("a first output time in (0, duration]");
+    }
+  }
+
+  // Bulk composition: mole fractions of the gases that make up [M] (and the fixed species).
+  double sum = 0.0;
+  for (const auto& [name, v] : b.child("bulk_composition").entries()) {
+    const double x = v.number();
+    if (!(x > 0.0 && x <= 1.0)) v.fail("a mole fraction in (0, 1]");
+    box.bulk_mole_fraction[name] = x;
+    sum += x;
+  }
+  if (std::abs(sum - 1.0) > 1e-3) {
+    b.child("bulk_composition").fail("mole fractions summing to 1 (within 0.001)",
+                                     fmt::format("a sum of {}", sum));
+  }
+
+  // Initial state: fixed species start from the bulk composition; the rest from zero.
+  box.initial_cm3.assign(m.species.size(), 0.0);
+  for (std::size_t s = 0; s < m.species.size(); ++s) {
+    const auto it = box.bulk_mole_fraction.find(m.species[s].name);
+    if (it != box.bulk_mole_fraction.end()) box.initial_cm3[s] = it->second * box.air_cm3;
+  }
+  if (auto init = b.find("initial")) {
+    std::vector<std::string> names;
+    for (const auto& sp : m.species) names.push_back(sp.name);
+    for (const auto& [name, v] : init->entries()) {
+      const auto idx = m.species_index(name);
+      if (!idx) {
+        const auto near = nearest_word(name, names);
+        v.fail("a species of mechanism '" + m.name + "'", "'" + name + "'",
+               near ? "did you mean '" + *near + "'?" : std::string{});
+      }
+      const auto q = split_quantity(v.text());
+      if (!q) v.fail("a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')");
+      double n_cm3 = 0.0;
+      if (q->unit.empty()) {
+        n_cm3 = q->value * box.air_cm3;
+      } else if (units.convertible(q->unit, "cm-3")) {
+        n_cm3 = *units.convert(q->value, q->unit, "cm-3");
+      } else if (units.convertible(q->unit, "1")) {
+        n_cm3 = *units.convert(q->value, q->unit, "1") * box.air_cm3;
+      } else {
+        v.fail("a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')",
+               "'" + v.text() + "'");
+      }
+      if (!(n_cm3 >= 0.0)) v.fail("a non-negative amount");
+      box.initial_cm3[*idx] = n_cm3;
+    }
+  }
+  if (auto ph = b.find("photolysis")) {
+    for (const auto& [channel, v] : ph->entries()) {
+      const double J = v.quantity(units, "s-1", "1e-3 s-1");
+      if (!(J >= 0.0)) v.fail("a non-negative photolysis rate");
+      bool used = false;
+      for (const auto& rx : m.reactions) used = used || rx.rate.channel == channel;
+      if (!used) v.fail("a photolysis channel named by a reaction", "'" + channel + "'");
+      box.photolysis.emplace_back(channel, J);
+    }
+  }
+  if (auto rep = b.find("report")) box.report = rep->text_list();
+  b.done();
+
+  if (auto s = root.find("solver")) {
+    if (auto r = s->find("rtol")) box.solver.rtol = r->number();
+    if (auto a = s->find("atol")) box.solver.atol = a->quantity(units, "cm-3", "1e-3 cm-3");
+    s->done();
+  } else {
+    box.solver.atol = std::max(1e-20 * box.air_cm3, 1e-30);
+  }
+  box.output_file = box.name + ".nc";
+  if (auto o = root.find("output")) {
+    if (auto f = o->find("file")) box.output_file = f->text();
+    o->done();
+  }
+  root.done();
+  check_rates(m, std::vector<double>{box.temperature_K}, std::vector<double>{box.air_cm3},
+              box.bulk_mole_fraction);
+  return box;
+}
+
+std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose) {
+  std::string out = fmt::format("chemistry  mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
+                                mech.name, mech.species.size(),
+                                std::count_if(mech.species.begin(), mech.species.end(),
+                                              [](const Species& s) { return s.fixed; }),
+                                mech.reactions.size(), mech.modules.size());
+  std::set<std::size_t> seen;
+  std::size_t balanced = 0, sinks = 0, active_reactions = 0;
+  for (std::size_t i = 0; i < mech.modules.size(); ++i) {
+    const Module& md = mech.modules[i];
+    const bool on = std::find(spec.modules.begin(), spec.modules.end(), i) != spec.modules.end();
+    std::vector<std::string> added;
+    for (auto r : md.reactions) {
+      const Reaction& rx = mech.reactions[r];
+      for (const auto* side : {&rx.reactants, &rx.products}) {
+        for (const auto& e : *side) {
+          if (seen.insert(e.species).second) added.push_back(mech.species[e.species].name);
+        }
+      }
+      if (on) {
+        ++active_reactions;
+        (rx.sink ? sinks : balanced)++;
+      }
+    }
+    out += fmt::format("  module {:<12} {:<8} {} reactions, adds {} species{}{}\n", md.name,
+                       on ? "active" : "off", md.reactions.size(), added.size(),
+                       added.empty() ? "" : ": ", fmt::join(added, " "));
+    if (verbose) {
+      for (auto r : md.reactions) {
+        const Reaction& rx = mech.reactions[r];
+        out += fmt::format("      {:<40} {}{}\n", rx.equation, rate_form_name(rx.rate.form),
+                           rx.source.empty() ? "" : "  [" + rx.source + "]");
+      }
+    }
+  }
+  for (std::size_t p = 0; p < mech.parameters.size(); ++p) {
+    out += fmt::format("  parameter {} = {} (default {}, range [{}, {}])\n", mech.parameters[p].name,
+                       spec.parameters.at(p), mech.parameters[p].default_value,
+                       mech.parameters[p].min, mech.parameters[p].max);
+  }
+  for (const auto& s : spec.sinks) {
+    out += fmt::format("  condensation sink {} below {} km, timescale {:g} s\n",
+                       mech.species[s.species].name, s.below_cm / constants::kCmPerKm, s.timescale_s);
+  }
+  out += fmt::format("  {} of {} active reactions balanced in every element; {} sinks (no "
+                     "products) exempt\n",
+                     balanced, active_reactions, sinks);
+  return out;
+}
+
+}  // namespace colchem

@@ -1,0 +1,69 @@
+// The `chemistry:` section of a scenario and the box-mode configuration.
+//
+//   chemistry:
+//     mechanism: FILE          # relative to the scenario
+//     modules: [base, ...]     # default: every module
+//     parameters: {name: value}
+//     sinks: [{species: H2SO4, saturation: h2so4_ayers1980, timescale: 1 d, below: 70 km}]
+// Unknown modules and parameter names (did-you-mean), values outside a parameter's bounds
+// and inactive requirements are configuration errors (ExitCode::kConfig); a bad mechanism
+// file is ExitCode::kInputData. Keys are documented in docs-chem.md.
+#pragma once
+
+#include <filesystem>
+#include <map>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "chem/mechanism.hpp"
+#include "chem/stiff_integrator.hpp"
+#include "core/units.hpp"
+
+namespace colchem {
+
+class ConfigNode;
+struct Scenario;
+struct InputFile;
+
+/// Reads the section into sc.chemistry (the background section must be loaded: the rate
+/// constants are checked at the column's temperatures and densities).
+void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenario& sc);
+
+/// The common part: mechanism, modules, parameters (sinks only when allow_sinks).
+/// The mechanism file is appended to `inputs` for provenance.
+ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
+                                  std::vector<InputFile>& inputs, bool allow_sinks);
+
+/// A box-mode run: one well-mixed cell at fixed T and p (docs-chem.md "Box mode").
+struct BoxSpec {
+  std::string name;
+  std::string description;
+  std::filesystem::path file;
+  double temperature_K = 0.0;
+  double pressure_dyn_cm2 = 0.0;
+  double air_cm3 = 0.0;          ///< p / (k_B T)
+  double duration_s = 0.0;
+  std::size_t outputs = 50;
+  bool log_spacing = true;
+  double first_output_s = 0.0;   ///< log spacing: first output time (default duration 1e-6)
+  std::map<std::string, double> bulk_mole_fraction;
+  std::vector<double> initial_cm3;  ///< per species (mechanism order)
+  std::vector<std::pair<std::string, double>> photolysis;  ///< channel, J (s^-1)
+  std::vector<std::string> report;  ///< reactions (equations) whose rates the summary prints
+  ChemistrySpec chemistry;
+  StiffOptions solver;
+  std::filesystem::path output_file;
+  std::string resolved_yaml;
+  std::vector<std::string> overrides;
+};
+
+/// Loads a box configuration; `overrides` are "key.path=value" strings.
+BoxSpec load_box_config(const std::filesystem::path& file,
+                        const std::vector<std::string>& overrides, const UnitSystem& units);
+
+/// Text summary for `colchem check`: modules, what each adds (species, reactions; the
+/// reactions themselves when verbose), parameters, and the element-balance result.
+std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose);
+
+}  // namespace colchem

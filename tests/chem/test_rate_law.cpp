@@ -1,0 +1,258 @@
+// Rate constants against JPL Publication 19-5 (Burkholder et al. 2019). The JPL parameters
+// below are recalled (from memory), not looked up; each expected value is computed by hand
+// from them with the JPL formula, the arithmetic shown beside it. [M] = p/(k_B T) with
+// k_B = 1.380649e-23 J/K.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+
+#include "chem/kinetics.hpp"
+#include "chem/rate_law.hpp"
+#include "io/mechanism_loader.hpp"
+
+using namespace colchem;
+
+namespace {
+
+const char* kJpl = R"(
+mechanism: {name: jpl-check}
+species:
+  - {name: O}
+  - {name: O(1D)}
+  - {name: O2}
+  - {name: O3}
+  - {name: OH}
+  - {name: HO2}
+  - {name: H}
+  - {name: N2}
+  - {name: Cl}
+  - {name: ClO}
+  - {name: Cl2O2}
+  - {name: CH4}
+  - {name: CH3}
+  - {name: H2O}
+  - {name: CO}
+  - {name: CO2}
+  - {name: SO2}
+  - {name: SO3}
+  - {name: HSO3}
+  - {name: NO2}
+  - {name: HO2NO2}
+modules:
+  - name: all
+    reactions:
+      - {equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8.0e-12, E: 2060}}}
+      - {equation: OH + O3 -> HO2 + O2, rate: {arrhenius: {A: 1.7e-12, E: 940}}}
+      - {equation: O(1D) + N2 -> O + N2, rate: {arrhenius: {A: 2.15e-11, E: -110}}}
+      - {equation: Cl + O3 -> ClO + O2, rate: {arrhenius: {A: 2.3e-11, E: 200}}}
+      - {equation: OH + CH4 -> CH3 + H2O, rate: {arrhenius: {A: 2.45e-12, E: 1775}}}
+      - {equation: O + O2 + M -> O3 + M, rate: {falloff: {k0_300: 6.1e-34, n: 2.4, kinf_300: 0, m: 0}}}
+      - {equation: OH + SO2 + M -> HSO3 + M, rate: {falloff: {k0_300: 2.9e-31, n: 4.1, kinf_300: 1.7e-12, m: -0.2}}}
+      - {equation: O + SO2 + M -> SO3 + M, rate: {falloff: {k0_300: 1.8e-33, n: -2.0, kinf_300: 4.2e-14, m: -1.8}}}
+      - {equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
+      - {equation: ClO + ClO + M -> Cl2O2 + M, rate: {falloff: {k0_300: 1.9e-32, n: 3.6, kinf_300: 3.7e-12, m: 1.6}}}
+      - equation: Cl2O2 + M -> ClO + ClO + M
+        rate:
+          equilibrium_reverse:
+            forward: {falloff: {k0_300: 1.9e-32, n: 3.6, kinf_300: 3.7e-12, m: 1.6}}
+            A: 2.16e-27
+            B: 8537
+      - equation: HO2NO2 + M -> HO2 + NO2 + M
+        rate:
+          equilibrium_reverse:
+            forward: {falloff: {k0_300: 1.9e-31, n: 3.4, kinf_300: 4.0e-12, m: 0.3}}
+            A: 2.1e-27
+            B: 10900
+)";
+
+enum Rx { kOO3, kOHO3, kO1DN2, kClO3, kOHCH4, kOO2M, kOHSO2, kOSO2, kOHCO, kClOClO, kCl2O2, kHO2NO2 };
+
+double air(double p_pa, double T) { return p_pa * 10.0 / (1.380649e-16 * T); }
+
+double k_of(const Mechanism& m, Rx r, double T, double p_pa) {
+  return rate_constant(m.reactions[static_cast<std::size_t>(r)].rate, T, air(p_pa, T));
+}
+
+}  // namespace
+
+TEST_CASE("bimolecular Arrhenius rate constants match JPL 19-5", "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(kJpl, "jpl.yaml", units);
+  // JPL 19-5, from memory: O + O3, A = 8.0e-12, E/R = 2060 K.
+  // 298 K: 8.0e-12 exp(-2060/298) = 8.0e-12 * 9.9502e-4 = 7.9601e-15
+  CHECK(k_of(*m, kOO3, 298, 1e5) == Approx(7.9601e-15).epsilon(1e-4));
+  // 200 K: 8.0e-12 exp(-10.3) = 8.0e-12 * 3.3633e-5 = 2.6906e-16
+  CHECK(k_of(*m, kOO3, 200, 1e5) == Approx(2.6906e-16).epsilon(1e-4));
+  // JPL 19-5, from memory: OH + O3, 1.7e-12, 940 K. 298 K: 1.7e-12 * 0.042666 = 7.2532e-14
+  CHECK(k_of(*m, kOHO3, 298, 1e5) == Approx(7.2532e-14).epsilon(1e-4));
+  // 200 K: 1.7e-12 exp(-4.7) = 1.7e-12 * 9.0953e-3 = 1.5462e-14
+  CHECK(k_of(*m, kOHO3, 200, 1e5) == Approx(1.5462e-14).epsilon(1e-4));
+  // JPL 19-5, from memory: O(1D) + N2, 2.15e-11, -110 K. 298 K: 2.15e-11 * 1.44647 = 3.1099e-11
+  CHECK(k_of(*m, kO1DN2, 298, 1e5) == Approx(3.1099e-11).epsilon(1e-4));
+  // 200 K: 2.15e-11 exp(0.55) = 2.15e-11 * 1.73325 = 3.7265e-11
+  CHECK(k_of(*m, kO1DN2, 200, 1e5) == Approx(3.7265e-11).epsilon(1e-4));
+  // JPL 19-5, from memory: Cl + O3, 2.3e-11, 200 K. 298 K: 2.3e-11 * 0.51113 = 1.1756e-11
+  CHECK(k_of(*m, kClO3, 298, 1e5) == Approx(1.1756e-11).epsilon(1e-4));
+  // 200 K: 2.3e-11 exp(-1) = 2.3e-11 * 0.367879 = 8.4612e-12
+  CHECK(k_of(*m, kClO3, 200, 1e5) == Approx(8.4612e-12).epsilon(1e-4));
+  // JPL 19-5, from memory: OH + CH4, 2.45e-12, 1775 K. 298 K: 2.45e-12 * 2.58928e-3 = 6.3437e-15
+  CHECK(k_of(*m, kOHCH4, 298, 1e5) == Approx(6.3437e-15).epsilon(1e-4));
+  // 200 K: 2.45e-12 exp(-8.875) = 2.45e-12 * 1.39842e-4 = 3.4261e-16
+  CHECK(k_of(*m, kOHCH4, 200, 1e5) == Approx(3.4261e-16).epsilon(1e-4));
+}
+
+TEST_CASE("termolecular fall-off rate constants match JPL 19-5 at three pressures",
+          "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(kJpl, "jpl.yaml", units);
+  // [M] at 298 K: 1 bar 2.43053e19, 10 mbar 2.43053e17, 0.1 mbar 2.43053e15 cm-3.
+  // [M] at 200 K: 1 bar 3.62149e19, 10 mbar 3.62149e17, 0.1 mbar 3.62149e15 cm-3.
+  // JPL 19-5, from memory: O + O2 + M, k0_300 = 6.1e-34, n = 2.4, low-pressure limit only.
+  // k0(298) = 6.1e-34 (298/300)^-2.4 = 6.19872e-34; k = k0 [M]
+  CHECK(k_of(*m, kOO2M, 298, 1e5) == Approx(6.19872e-34 * 2.43053e19).epsilon(1e-4));  // 1.50661e-14
+  CHECK(k_of(*m, kOO2M, 298, 1e3) == Approx(1.50661e-16).epsilon(1e-4));
+  CHECK(k_of(*m, kOO2M, 298, 10) == Approx(1.50661e-18).epsilon(1e-4));
+  // k0(200) = 6.1e-34 (2/3)^-2.4 = 1.61417e-33; at 1 bar 1.61417e-33 * 3.62149e19 = 5.84569e-14
+  CHECK(k_of(*m, kOO2M, 200, 1e5) == Approx(5.84569e-14).epsilon(1e-4));
+
+  // JPL 19-5, from memory: OH + SO2 + M, k0_300 = 2.9e-31, n = 4.1, kinf_300 = 1.7e-12, m = -0.2.
+  // 298 K: k0 = 2.98063e-31, kinf = 1.69773e-12.
+  //  1 bar: r = k0[M]/kinf = 4.26718, log10 r = 0.63013, F = 0.6^(1/1.39708) = 0.69375,
+  //         k = 7.24451e-12/5.26718 * 0.69375 = 9.5419e-13
+  CHECK(k_of(*m, kOHSO2, 298, 1e5) == Approx(9.5419e-13).epsilon(1e-4));
+  //  10 mbar: r = 0.0426718, log10 r = -1.36987, F = 0.6^(1/2.87651) = 0.83729,
+  //         k = 7.24451e-14/1.0426718 * 0.83729 = 5.8175e-14
+  CHECK(k_of(*m, kOHSO2, 298, 1e3) == Approx(5.8175e-14).epsilon(1e-4));
+  //  0.1 mbar: r = 4.26718e-4, log10 r = -3.36987, F = 0.6^(1/12.3559) = 0.95950,
+  //         k = 7.24451e-16/1.000427 * 0.95950 = 6.9481e-16
+  CHECK(k_of(*m, kOHSO2, 298, 10) == Approx(6.9481e-16).epsilon(1e-4));
+  // 200 K, 1 bar: k0 = 1.52888e-30, kinf = 1.56758e-12, r = 35.3206, log10 r = 1.54802,
+  //   F = 0.6^(1/3.39639) = 0.86036, k = 5.53682e-11/36.3206 * 0.86036 = 1.3116e-12
+  CHECK(k_of(*m, kOHSO2, 200, 1e5) == Approx(1.3116e-12).epsilon(1e-4));
+
+  // JPL 19-5, from memory: O + SO2 + M, 1.8e-33, n = -2.0, kinf_300 = 4.2e-14, m = -1.8.
+  // 298 K, 1 bar: k0 = 1.77608e-33, kinf = 4.14973e-14, r = 1.04026, log10 r = 0.017142,
+  //   F = 0.6^(1/1.000294) = 0.60009, k = 4.31681e-14/2.04026 * 0.60009 = 1.2697e-14
+  CHECK(k_of(*m, kOSO2, 298, 1e5) == Approx(1.2697e-14).epsilon(1e-4));
+  // 10 mbar: r = 0.0104026, k = 4.31681e-16/1.0104026 * 0.6^(1/(1+1.98296^2)) = 3.8520e-16
+  CHECK(k_of(*m, kOSO2, 298, 1e3) == Approx(3.8520e-16).epsilon(1e-4));
+  // 0.1 mbar: r = 1.04026e-4, k = 4.31681e-18/1.000104 * 0.6^(1/(1+3.98283^2)) = 4.1876e-18
+  CHECK(k_of(*m, kOSO2, 298, 10) == Approx(4.1876e-18).epsilon(1e-4));
+  // 200 K, 0.1 mbar: k0 = 8.0e-34, kinf = 2.02435e-14, r = 1.43117e-4, k = 2.8045e-18
+  CHECK(k_of(*m, kOSO2, 200, 10) == Approx(2.8045e-18).epsilon(1e-4));
+}
+
+TEST_CASE("chemical-activation channel OH + CO -> H + CO2 matches JPL 19-5", "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(kJpl, "jpl.yaml", units);
+  // JPL 19-5, from memory: k0_300 = 1.5e-13 cm3 s-1, n = -0.6, kinf_300 = 2.1e9 s-1, m = -6.1.
+  // 298 K: k0 = 1.5e-13 (298/300)^0.6 = 1.49399e-13, kinf = 2.1e9 (298/300)^6.1 = 2.01604e9.
+  //  1 bar: r = k0[M]/kinf = 1.49399e-13 * 2.43053e19 / 2.01604e9 = 1.80115e-3,
+  //         log10 r = -2.74445, F = 0.6^(1/8.53200) = 0.94189,
+  //         k = 1.49399e-13 / 1.0018012 * 0.94189 = 1.4046e-13
+  CHECK(k_of(*m, kOHCO, 298, 1e5) == Approx(1.4046e-13).epsilon(1e-4));
+  //  10 mbar: r = 1.80115e-5, k = 1.49399e-13/1.000018 * 0.6^(1/(1+4.74445^2)) = 1.4619e-13
+  CHECK(k_of(*m, kOHCO, 298, 1e3) == Approx(1.4619e-13).epsilon(1e-4));
+  // 200 K, 1 bar: k0 = 1.17608e-13, kinf = 1.77036e8, r = 0.0240581,
+  //         k = 1.17608e-13/1.0240581 * 0.6^(1/(1+1.61873^2)) = 9.9732e-14
+  CHECK(k_of(*m, kOHCO, 200, 1e5) == Approx(9.9732e-14).epsilon(1e-4));
+  // Zero pressure: the bimolecular low-pressure limit k0(T) * 0.6^0 = k0.
+  CHECK(rate_constant(m->reactions[kOHCO].rate, 298, 0.0) == Approx(1.49399e-13).epsilon(1e-4));
+}
+
+TEST_CASE("equilibrium constants give JPL 19-5 reverse rates", "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(kJpl, "jpl.yaml", units);
+  // JPL 19-5, from memory: ClO + ClO <=> Cl2O2, K = 2.16e-27 exp(8537/T) cm3.
+  // 298 K: K = 2.16e-27 * exp(28.6477) = 5.96995e-15 cm3. Forward at 1 bar
+  //   (k0 1.9e-32 n 3.6, kinf 3.7e-12 m 1.6): k0 = 1.94631e-32, kinf = 3.73981e-12,
+  //   r = 0.126492, k_f = 3.16493e-13; reverse k = k_f / K = 53.014 s-1.
+  CHECK(k_of(*m, kClOClO, 298, 1e5) == Approx(3.16493e-13).epsilon(1e-4));
+  CHECK(k_of(*m, kCl2O2, 298, 1e5) == Approx(53.014).epsilon(1e-4));
+  // 200 K: K = 2.16e-27 exp(42.685) = 7.45270e-9 cm3; k_f = 1.33566e-12; k = 1.7922e-4 s-1.
+  CHECK(k_of(*m, kCl2O2, 200, 1e5) == Approx(1.7922e-4).epsilon(1e-4));
+  // JPL 19-5, from memory: HO2 + NO2 <=> HO2NO2, K = 2.1e-27 exp(10900/T) cm3,
+  //   forward k0 1.9e-31 n 3.4, kinf 4.0e-12 m 0.3. 298 K, 1 bar: K = 1.61245e-11,
+  //   k_f = 1.30440e-12, reverse k = 0.080896 s-1.
+  CHECK(k_of(*m, kHO2NO2, 298, 1e5) == Approx(0.080896).epsilon(1e-4));
+  // 200 K: K = 9.80096e-4, k_f = 2.82278e-12, reverse k = 2.8801e-9 s-1.
+  CHECK(k_of(*m, kHO2NO2, 200, 1e5) == Approx(2.8801e-9).epsilon(1e-4));
+}
+
+TEST_CASE("Troe form without broadening and at the centre of the fall-off",
+          "[chem][rate]") {
+  RateLaw troe;
+  troe.form = RateForm::kTroe;
+  troe.k0 = {2.9e-31, -4.1, 0.0};
+  troe.kinf = {1.7e-12, 0.2, 0.0};
+  // alpha = 0, T3 huge: Fcent = exp(-T/T3) -> 1 (no broadening): k = kinf Pr/(1+Pr) (analytic).
+  troe.alpha = 0.0;
+  troe.T3 = 1e30;
+  troe.T1 = 1.0;
+  const double T = 298.0;
+  const double M = 2.43053e19;
+  const double k0 = 2.9e-31 * std::pow(T / 300.0, -4.1);
+  const double kinf = 1.7e-12 * std::pow(T / 300.0, 0.2);
+  const double pr = k0 * M / kinf;
+  CHECK(rate_constant(troe, T, M) == Approx(kinf * pr / (1 + pr)).epsilon(1e-12));  // analytic
+  troe.alpha = 0.4;
+  troe.T3 = 200.0;
+  troe.T1 = 1500.0;
+  // Centre of the fall-off (Pr = 1): log10 F = log10 Fcent / (1 + (c/(N - 0.14 c))^2) (Troe 1983).
+  const double fc = 0.6 * std::exp(-T / 200.0) + 0.4 * std::exp(-T / 1500.0);
+  const double lf = std::log10(fc);
+  const double c = -0.4 - 0.67 * lf;
+  const double N = 0.75 - 1.27 * lf;
+  const double y = c / (N - 0.14 * c);
+  const double Mc = kinf / k0;
+  CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, lf / (1 + y * y))).epsilon(1e-10));
+  // The optional T2 term adds exp(-T2/T) to Fcent (Troe 1983): with alpha = 0, T3 -> 0 and
+  // T2 = T ln 2, Fcent = 0.5; at Pr = 1, c = -0.4 + 0.67 log10 2, N = 0.75 + 1.27 log10 2.
+  troe.alpha = 0.0;
+  troe.T3 = 1e-30;
+  troe.has_T2 = true;
+  troe.T2 = T * std::log(2.0);
+  const double l2 = std::log10(0.5);
+  const double c2 = -0.4 - 0.67 * l2;
+  const double N2 = 0.75 - 1.27 * l2;
+  const double y2 = c2 / (N2 - 0.14 * c2);
+  CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, l2 / (1 + y2 * y2))).epsilon(1e-10));
+}
+
+TEST_CASE("rate_constants evaluates every reaction at every level in one call", "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(kJpl, "jpl.yaml", units);
+  std::vector<std::size_t> mods{0};
+  Kinetics kin(m, mods, {});
+  const std::vector<double> T{298.0, 200.0};
+  const std::vector<double> n{air(1e5, 298.0), air(10, 200.0)};
+  kin.set_conditions(T, n, {{"N2", 1.0}});
+  const auto k = kin.rate_constants();
+  REQUIRE(k.size() == m->reactions.size() * 2);
+  // Same values as the scalar cases above (JPL 19-5, from memory).
+  CHECK(k[kOO3 * 2 + 0] == Approx(7.9601e-15).epsilon(1e-4));
+  CHECK(k[kOO3 * 2 + 1] == Approx(2.6906e-16).epsilon(1e-4));
+  CHECK(k[kOSO2 * 2 + 1] == Approx(2.8045e-18).epsilon(1e-4));
+  CHECK(k[kOHCO * 2 + 0] == Approx(1.4046e-13).epsilon(1e-4));
+}
+
+TEST_CASE("a chemical-activation channel written with + M is not multiplied by [M] again",
+          "[chem][rate]") {
+  const UnitSystem units;
+  const auto m = load_mechanism_text(R"(
+mechanism: {name: ca}
+species: [{name: OH}, {name: CO}, {name: H}, {name: CO2}]
+modules:
+  - name: m
+    reactions:
+      - {equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
+      - equation: OH + CO + M -> H + CO2 + M
+        rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}
+        duplicate: true
+)", "ca.yaml", units);
+  Kinetics kin(m, std::vector<std::size_t>{0}, {});
+  kin.set_conditions(std::vector<double>{298.0}, std::vector<double>{2.43053e19}, {{"N2", 1.0}});
+  // Both give the bimolecular 1.4046e-13 cm3 s-1 (JPL 19-5, from memory; see above).
+  CHECK(kin.rate_constants()[0] == Approx(1.4046e-13).epsilon(1e-4));
+  CHECK(kin.rate_constants()[1] == Approx(1.4046e-13).epsilon(1e-4));
+}
