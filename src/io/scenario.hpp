@@ -11,6 +11,7 @@
 
 #include "core/background.hpp"
 #include "core/units.hpp"
+#include "io/solver_section.hpp"
 
 namespace colchem {
 
@@ -31,6 +32,7 @@ struct Scenario {
   std::filesystem::path file;
   BackgroundSpec background;
   OutputSpec output;
+  SolverSpec solver;  ///< `solver:` (io/solver_section.hpp); defaults when absent
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

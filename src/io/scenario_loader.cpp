@@ -247,6 +247,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
   if (auto o = root.find("output")) load_output(*o, ctx);
+  if (auto s = root.find("solver")) sc.solver = load_solver_section(*s, units);
   if (sc.output.file.empty()) sc.output.file = sc.name + ".nc";
   root.done();
   return sc;
