@@ -11,9 +11,15 @@
 //     absolute_density: 1 cm-3  # a of the scaled norm and of relative changes
 //     positivity_fraction: 0.1
 //     checkpoint_every: 50      # iterations (steady) or accepted steps (split)
-//     transient: {end: 30 day, step: 1 h, adaptive: true, relative_tolerance: 1e-3,
-//                 min_step: 1e-6 s, max_step: 10 day, outputs: [1, 10] day | output_count: 10,
-//                 steady_check_every: 1}
+//     transient:
+//       end: 30 day
+//       step: 1 h               # fixed step, or the first adaptive one
+//       adaptive: true
+//       relative_tolerance: 1e-3
+//       min_step: 1e-6 s
+//       max_step: 10 day
+//       outputs: [1 day, 10 day]  # or "[1, 10] day", or output_count: 10
+//       steady_check_every: 1
 #pragma once
 
 #include <limits>
