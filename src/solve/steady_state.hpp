@@ -41,7 +41,7 @@ struct SteadyStateOptions {
   double initial_pseudo_step_s = 1e-6;
   double max_pseudo_step_s = 1e16;    ///< the Newton limit
   double min_pseudo_step_s = 1e-14;   ///< below this the solve fails
-  double growth_increment = 1.5;      ///< g in the SER formula
+  double growth_increment = 2.0;      ///< g in the SER formula
   double max_growth = 10.0;
   double min_growth = 0.5;
   double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
