@@ -7,10 +7,11 @@
 // handlers when destroyed. A second signal while the flag is set falls through to the
 // previous (default) handler, so a hung run can still be killed with a second Ctrl-C.
 //
-// The flag is the one piece of file-scope mutable state in the library (interrupt.cpp): a
-// POSIX signal handler receives no user pointer, so the only thing it can legally touch is
-// a static object of type volatile std::sig_atomic_t (or a lock-free std::atomic). Only
-// one guard may exist at a time; constructing a second one throws RunError.
+// The flag (with the saved previous handlers) is the one piece of file-scope mutable state
+// in the library (interrupt.cpp): a POSIX signal handler receives no user pointer, so the
+// only thing it can legally touch is a static object of type volatile std::sig_atomic_t
+// (or a lock-free std::atomic). Only one guard may exist at a time; constructing a second
+// one throws RunError.
 #pragma once
 
 #include <functional>
