@@ -73,8 +73,8 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
 
   auto finish = [&](SolveStatus st, std::string why) {
     res.status = st;
-    res.reason = std::move(why);
     res.residual_norm = scaled_residual_norm(system_, x, o.scale, res.time_s).value;
+    res.reason = std::move(why) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
     res.wall_s = since(t_start);
     return res;
   };
