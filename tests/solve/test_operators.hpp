@@ -204,6 +204,8 @@ class OxygenCycle final : public ColumnOperator {
     }
   }
   bool implicit_step(std::span<double>, double, double) override { return false; }
+  /// Rates per cell, for a photolysis refresh.
+  std::vector<Cell>& cells() { return c_; }
   static double steady_o(const Cell& r) {
     return (r.j1 * r.k4 + std::sqrt(r.j1 * r.j1 * r.k4 * r.k4 + 4 * r.k2 * r.k4 * r.j1 * r.j3)) /
            (2 * r.k2 * r.k4);
