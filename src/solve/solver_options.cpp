@@ -1,7 +1,6 @@
 // SolverSpec -> solver options: see solver_options.hpp.
 #include "solve/solver_options.hpp"
 
-#include <algorithm>
 
 namespace colchem {
 
@@ -23,7 +22,6 @@ SteadyStateOptions steady_options(const SolverSpec& spec) {
   o.max_pseudo_step_s = spec.max_pseudo_step_s;
   o.positivity_fraction = spec.positivity_fraction;
   o.checkpoint_every = spec.checkpoint_every;
-  o.newton_switch = std::max(o.newton_switch, spec.tolerance);
   o.scale = scale_of(spec);
   return o;
 }

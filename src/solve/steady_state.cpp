@@ -203,7 +203,8 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       }
     }
     dtau_before_newton = 0.0;
-    if (norm.value < o.newton_switch && dtau < o.max_pseudo_step_s) {
+    // Never below the tolerance: convergence is declared only after a Newton step.
+    if (norm.value < std::max(o.newton_switch, o.tolerance) && dtau < o.max_pseudo_step_s) {
       dtau_before_newton = dtau;
       dtau = o.max_pseudo_step_s;
     }
