@@ -13,6 +13,7 @@
 #include "core/units.hpp"
 #include "transport/column_species.hpp"
 #include "io/chemistry_section.hpp"
+#include "io/solver_section.hpp"
 
 namespace colchem {
 
@@ -35,6 +36,7 @@ struct Scenario {
   OutputSpec output;
   ColumnSpeciesSpec species_setup;  ///< `species:` and `injections:` (io/species_section)
   ChemistrySpec chemistry;  ///< empty mechanism when the scenario has no chemistry section
+  SolverSpec solver;  ///< `solver:` (io/solver_section.hpp); defaults when absent
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

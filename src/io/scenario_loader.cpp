@@ -251,6 +251,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   if (auto o = root.find("output")) load_output(*o, ctx);
   if (auto s = root.find("species")) load_species_section(*s, units, sc.species_setup, &sc.inputs);
   if (auto i = root.find("injections")) load_injections_section(*i, units, sc.species_setup);
+  if (auto s = root.find("solver")) sc.solver = load_solver_section(*s, units);
   if (sc.output.file.empty()) sc.output.file = sc.name + ".nc";
   root.done();
   return sc;

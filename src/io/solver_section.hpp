@@ -1,0 +1,65 @@
+// The scenario's `solver:` section as typed values (keys documented in docs-solve.md).
+//
+//   solver:
+//     method: steady            # steady | transient | split_steady
+//     tolerance: 1e-8           # scaled coupled residual ||F||_s (dimensionless)
+//     step_tolerance: 1e-6      # max |dx|/(|x| + a) of the last Newton step
+//     max_iterations: 200
+//     initial_pseudo_step: 1e-6 s
+//     max_pseudo_step: 1e16 s
+//     reference_time: 1e10 s    # t_ref of the scaled norm
+//     absolute_density: 1 cm-3  # a of the scaled norm and of relative changes
+//     positivity_fraction: 0.1
+//     checkpoint_every: 50      # iterations (steady) or accepted steps (split)
+//     transient:
+//       end: 30 day
+//       step: 1 h               # fixed step, or the first adaptive one
+//       adaptive: true
+//       relative_tolerance: 1e-3
+//       min_step: 1e-6 s
+//       max_step: 10 day
+//       outputs: [1 day, 10 day]  # or "[1, 10] day", or output_count: 10
+//       steady_check_every: 1
+#pragma once
+
+#include <limits>
+#include <vector>
+
+#include "core/units.hpp"
+
+namespace colchem {
+
+class ConfigNode;
+
+enum class SolverMethod { kSteady, kTransient, kSplitSteady };
+
+struct TransientSpec {
+  double end_s = 30.0 * 86400.0;
+  double step_s = 3600.0;
+  bool adaptive = true;
+  double relative_tolerance = 1e-3;
+  double min_step_s = 1e-6;
+  double max_step_s = std::numeric_limits<double>::infinity();
+  std::vector<double> output_times_s;  ///< explicit list, or filled from output_count
+  int output_count = 0;                ///< evenly spaced outputs over (0, end]
+  int steady_check_every = 1;
+};
+
+struct SolverSpec {
+  SolverMethod method = SolverMethod::kSteady;
+  double tolerance = 1e-8;
+  double step_tolerance = 1e-6;
+  int max_iterations = 200;
+  double initial_pseudo_step_s = 1e-6;
+  double max_pseudo_step_s = 1e16;
+  double reference_time_s = 1e10;
+  double absolute_density_cm3 = 1.0;
+  double positivity_fraction = 0.1;
+  int checkpoint_every = 0;
+  TransientSpec transient;
+};
+
+/// Reads `solver:`; every bad value is an InputError naming file, line and key.
+SolverSpec load_solver_section(const ConfigNode& n, const UnitSystem& units);
+
+}  // namespace colchem

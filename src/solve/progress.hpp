@@ -1,0 +1,63 @@
+// A live progress display for the solvers.
+//
+// On a terminal (stderr is a tty) one line is rewritten in place with "\r":
+//   it 12  dtau 3.2e+04 s  |F| 4.1e-06  change 2.0e-03  elapsed 0.21 s
+// Otherwise (a log file, a batch job) the same text goes as plain info lines through the
+// spdlog::logger passed in. Both are rate-limited to one line per min_interval_s; the
+// final state is always shown (finish()).
+#pragma once
+
+#include <spdlog/logger.h>
+
+#include <chrono>
+#include <cstdio>
+#include <string>
+
+#include "solve/split_integrator.hpp"
+#include "solve/steady_state.hpp"
+
+namespace colchem {
+
+struct ProgressOptions {
+  double min_interval_s = 0.2;  ///< at most one line per interval (0: every update)
+  /// Where the live line goes and whether it is a terminal; by default stderr and
+  /// isatty(stderr). Tests set both.
+  std::FILE* stream = nullptr;
+  int terminal = -1;  ///< -1: detect, 0: no (log lines), 1: yes (live line)
+};
+
+class Progress {
+ public:
+  Progress(spdlog::logger& log, std::string label, ProgressOptions options = {});
+  ~Progress();
+  Progress(const Progress&) = delete;
+  Progress& operator=(const Progress&) = delete;
+
+  void update(const SteadyIteration& it);
+  void update(const SplitStepRecord& step);
+  /// Shows the last line regardless of the rate limit and ends it (newline on a terminal).
+  void finish(const std::string& outcome);
+
+  [[nodiscard]] bool on_terminal() const { return terminal_; }
+  /// Lines shown so far (for tests).
+  [[nodiscard]] long lines_shown() const { return shown_; }
+
+  static std::string format(const SteadyIteration& it);
+  static std::string format(const SplitStepRecord& step);
+
+ private:
+  void show(const std::string& text, bool force);
+
+  spdlog::logger& log_;
+  std::string label_;
+  ProgressOptions options_;
+  std::FILE* stream_;
+  bool terminal_;
+  bool line_open_ = false;
+  long shown_ = 0;
+  std::string pending_;
+  std::chrono::steady_clock::time_point last_{};
+  bool any_ = false;
+};
+
+}  // namespace colchem

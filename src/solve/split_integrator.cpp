@@ -1,0 +1,179 @@
+// Strang-split integration with step doubling: see split_integrator.hpp.
+#include "solve/split_integrator.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+
+#include "core/error.hpp"
+
+namespace colchem {
+
+namespace {
+using Clock = std::chrono::steady_clock;
+double since(Clock::time_point t0) {
+  return std::chrono::duration<double>(Clock::now() - t0).count();
+}
+std::string sci(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.4g", v);
+  return buf;
+}
+}  // namespace
+
+SplitIntegrator::SplitIntegrator(ColumnOperator& transport, ColumnOperator& chemistry,
+                                 std::size_t cells, std::size_t species, SplitOptions options)
+    : transport_(transport),
+      chemistry_(chemistry),
+      system_{{&transport, &chemistry}, cells, species},
+      options_(std::move(options)) {
+  if (!(options_.end_s > options_.start_s) || !(options_.step_s > 0.0) ||
+      !(options_.min_step_s > 0.0)) {
+    throw RunError(ExitCode::kInternal,
+                   "split integrator: need end > start and positive steps");
+  }
+}
+
+bool SplitIntegrator::strang_step(std::vector<double>& x, double t, double dt,
+                                  const SplitCallbacks& cb) const {
+  if (!transport_.implicit_step(x, t, 0.5 * dt)) return false;
+  if (cb.refresh) cb.refresh(x, t + 0.5 * dt);
+  if (!chemistry_.implicit_step(x, t, dt)) return false;
+  if (!transport_.implicit_step(x, t + 0.5 * dt, 0.5 * dt)) return false;
+  for (double v : x) {
+    if (!std::isfinite(v)) return false;
+  }
+  return true;
+}
+
+SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& cb) const {
+  const auto t_start = Clock::now();
+  const SplitOptions& o = options_;
+  const std::size_t S = system_.species;
+  SplitResult res;
+  if (x0.size() != system_.size()) {
+    throw RunError(ExitCode::kInternal, "split integrator: state of wrong size");
+  }
+  res.x = std::move(x0);
+  std::vector<double>& x = res.x;
+  res.time_s = o.start_s;
+
+  // Times to land on exactly, in order, within (start, end].
+  std::vector<double> stops;
+  for (double s : o.output_times_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  for (double s : o.breakpoints_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  stops.push_back(o.end_s);
+  std::sort(stops.begin(), stops.end());
+  stops.erase(std::unique(stops.begin(), stops.end()), stops.end());
+  auto is_output = [&](double t) {
+    return std::find(o.output_times_s.begin(), o.output_times_s.end(), t) !=
+           o.output_times_s.end();
+  };
+
+  auto finish = [&](SolveStatus st, std::string why) {
+    res.status = st;
+    res.residual_norm = scaled_residual_norm(system_, x, o.scale, res.time_s).value;
+    res.reason = std::move(why) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
+    res.wall_s = since(t_start);
+    return res;
+  };
+
+  double dt_want = std::min(o.step_s, o.max_step_s);
+  std::size_t next_stop = 0;
+  std::vector<double> x1, x2;
+  while (true) {
+    if (cb.stop_requested && cb.stop_requested()) {
+      return finish(SolveStatus::kInterrupted,
+                    "interrupted at t = " + sci(res.time_s) + " s after " +
+                        std::to_string(res.steps) + " steps");
+    }
+    if (res.steps >= o.max_steps) {
+      return finish(SolveStatus::kNotConverged,
+                    "step limit " + std::to_string(o.max_steps) + " reached at t = " +
+                        sci(res.time_s) + " s");
+    }
+    const double t = res.time_s;
+    const double stop = stops[next_stop];
+    // Land on the stop exactly; avoid a sliver step just before it.
+    double dt = dt_want;
+    const bool hits_stop = t + dt >= stop * (1.0 - 1e-12) || t + 1.01 * dt >= stop;
+    if (hits_stop) dt = stop - t;
+
+    double err = 0.0;
+    bool ok = false;
+    x1 = x;
+    if (!o.adaptive) {
+      ok = strang_step(x1, t, dt, cb);
+    } else {
+      x2 = x;
+      ok = strang_step(x1, t, dt, cb) && strang_step(x2, t, 0.5 * dt, cb) &&
+           strang_step(x2, t + 0.5 * dt, 0.5 * dt, cb);
+      if (ok) {
+        for (std::size_t i = 0; i < x.size(); ++i) {
+          const double e = std::abs(x2[i] - x1[i]) /
+                           (o.relative_tolerance * (std::abs(x2[i]) + o.scale.absolute(i % S)));
+          err = std::max(err, e);
+        }
+        ok = err <= 1.0;
+        if (ok) std::swap(x1, x2);  // keep the more accurate two half steps
+      }
+    }
+    if (!ok) {
+      ++res.rejected_steps;
+      dt_want = 0.5 * dt;
+      if (dt_want < o.min_step_s) {
+        return finish(SolveStatus::kFailed,
+                      "step size fell below " + sci(o.min_step_s) + " s at t = " + sci(t) +
+                          " s (" + (err > 1.0 ? "error estimate " + sci(err)
+                                              : std::string("an implicit sub-step failed")) +
+                          ")");
+      }
+      continue;
+    }
+
+    // Accept.
+    x.swap(x1);
+    const double t_new = hits_stop ? stop : t + dt;
+    res.time_s = t_new;
+    ++res.steps;
+    if (o.adaptive) {
+      const double grow = err > 0.0 ? 0.9 * std::pow(err, -1.0 / 3.0) : 5.0;
+      const double next = dt * std::clamp(grow, 0.2, 5.0);
+      // A step shortened to hit a stop says nothing about the step the error allows.
+      dt_want = std::min(hits_stop ? std::max(next, dt_want) : next, o.max_step_s);
+    }
+    if (cb.on_time_crossed) cb.on_time_crossed(t, t_new, x);
+
+    SplitStepRecord rec{res.steps, t_new, dt, err, std::numeric_limits<double>::quiet_NaN(),
+                        since(t_start)};
+    const bool check_steady =
+        o.to_steady_state && res.steps % std::max(1, o.steady_check_every) == 0;
+    if (check_steady) rec.residual_norm = scaled_residual_norm(system_, x, o.scale, t_new).value;
+    res.history.push_back(rec);
+    if (cb.on_step) cb.on_step(rec);
+    if (hits_stop && is_output(stop)) res.snapshots.push_back(SplitSnapshot{stop, x});
+    if (o.checkpoint_every > 0 && cb.checkpoint && res.steps % o.checkpoint_every == 0) {
+      cb.checkpoint(res.steps, t_new, x);
+    }
+    if (check_steady && rec.residual_norm < o.steady_tolerance) {
+      return finish(SolveStatus::kConverged, "coupled scaled residual " +
+                                                 sci(rec.residual_norm) + " < " +
+                                                 sci(o.steady_tolerance) + " at t = " +
+                                                 sci(t_new) + " s");
+    }
+    if (hits_stop) {
+      if (stop >= o.end_s) {
+        if (o.to_steady_state) {
+          return finish(SolveStatus::kNotConverged,
+                        "end time " + sci(o.end_s) + " s reached before the coupled residual "
+                        "fell below " + sci(o.steady_tolerance));
+        }
+        return finish(SolveStatus::kCompleted, "end time " + sci(o.end_s) + " s reached");
+      }
+      ++next_stop;
+    }
+  }
+}
+
+}  // namespace colchem

@@ -1,0 +1,247 @@
+// Pseudo-transient continuation with switched evolution relaxation: see steady_state.hpp
+// for the equations, the step-size rule, positivity and the convergence test.
+#include "solve/steady_state.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <limits>
+
+#include "core/error.hpp"
+#include "solve/ptc_linear_solver.hpp"
+
+namespace colchem {
+
+const char* to_string(SolveStatus s) {
+  switch (s) {
+    case SolveStatus::kConverged: return "converged";
+    case SolveStatus::kCompleted: return "completed";
+    case SolveStatus::kNotConverged: return "not_converged";
+    case SolveStatus::kFailed: return "failed";
+    case SolveStatus::kInterrupted: return "interrupted";
+  }
+  return "unknown";
+}
+
+SteadyStateSolver::SteadyStateSolver(ColumnSystem system, SteadyStateOptions options)
+    : system_(std::move(system)), options_(std::move(options)) {
+  if (system_.size() == 0) throw RunError(ExitCode::kInternal, "steady state: empty column");
+  if (!(options_.initial_pseudo_step_s > 0.0) ||
+      !(options_.max_pseudo_step_s >= options_.initial_pseudo_step_s) ||
+      !(options_.positivity_fraction >= 0.0 && options_.positivity_fraction < 1.0) ||
+      !(options_.min_growth > 0.0 && options_.min_growth <= 1.0 && options_.max_growth >= 1.0)) {
+    throw RunError(ExitCode::kInternal, "steady state: inconsistent solver options");
+  }
+}
+
+namespace {
+
+using Clock = std::chrono::steady_clock;
+
+double since(Clock::time_point t0) {
+  return std::chrono::duration<double>(Clock::now() - t0).count();
+}
+
+std::string where(std::size_t cell, std::size_t species) {
+  return "cell " + std::to_string(cell) + ", species " + std::to_string(species);
+}
+
+std::string sci(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.3g", v);
+  return buf;
+}
+
+/// A row is held fixed when the operators give it neither tendency nor Jacobian entries.
+void find_held_rows(const BlockTridiagonal& jac, std::span<const double> f,
+                    std::vector<char>& held) {
+  const std::size_t S = jac.species;
+  for (std::size_t j = 0; j < jac.cells; ++j) {
+    for (std::size_t r = 0; r < S; ++r) {
+      const std::size_t i = j * S + r;
+      bool zero = f[i] == 0.0 && jac.l(j, r) == 0.0 && jac.u(j, r) == 0.0;
+      for (std::size_t c = 0; zero && c < S; ++c) zero = jac.d(j, r, c) == 0.0;
+      held[i] = zero ? 1 : 0;
+    }
+  }
+}
+
+/// Largest lambda <= 1 keeping x_i + lambda dx_i >= f x_i for densities above a_s.
+double positivity_damping(std::span<const double> x, std::span<const double> dx,
+                          std::size_t species, const SteadyStateOptions& o) {
+  double lambda = 1.0;
+  const double keep = 1.0 - o.positivity_fraction;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    if (dx[i] < 0.0 && x[i] > o.scale.absolute(i % species)) {
+      lambda = std::min(lambda, keep * x[i] / -dx[i]);
+    }
+  }
+  return lambda;
+}
+
+}  // namespace
+
+SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
+                                           const SteadyStateCallbacks& cb) const {
+  const auto t_start = Clock::now();
+  const SteadyStateOptions& o = options_;
+  const std::size_t n = system_.size();
+  const std::size_t S = system_.species;
+  if (x0.size() != n) {
+    throw RunError(ExitCode::kInternal, "steady state: state has " + std::to_string(x0.size()) +
+                                            " values, expected " + std::to_string(n));
+  }
+  SteadyStateResult res;
+  res.x = std::move(x0);
+  std::vector<double>& x = res.x;
+  for (double& v : x) v = std::max(v, 0.0);  // densities start non-negative
+
+  PtcLinearSolver linear(system_.cells, S);
+  std::vector<double> f(n), dx(n), x_prev(n);
+  std::vector<char> held(n, 0);
+  BlockTridiagonal jac(system_.cells, S);
+
+  double dtau = o.initial_pseudo_step_s;
+  double dtau_before_newton = 0.0;  // > 0 while the last step was a Newton jump
+  double prev_norm = std::numeric_limits<double>::quiet_NaN();
+  double last_change = std::numeric_limits<double>::infinity();
+  double last_dtau = 0.0;
+  bool have_prev = false;
+
+  auto finish = [&](SolveStatus st, std::string why, double norm) {
+    res.status = st;
+    res.reason = std::move(why);
+    res.residual_norm = norm;
+    res.max_relative_change = last_change;
+    res.assembly_s = linear.assembly_seconds();
+    res.factor_solve_s = linear.factor_solve_seconds();
+    res.wall_s = since(t_start);
+    return res;
+  };
+  auto shrink_or_fail = [&]() -> bool {
+    ++res.rejected_steps;
+    last_dtau = 0.0;  // the undone step neither counts as Newton step nor as change
+    last_change = std::numeric_limits<double>::infinity();
+    dtau *= 0.1;
+    dtau_before_newton = 0.0;
+    return dtau >= o.min_pseudo_step_s;
+  };
+
+  for (int it = 0;; ++it) {
+    if (cb.stop_requested && cb.stop_requested()) {
+      const double nrm = res.history.empty() ? std::numeric_limits<double>::quiet_NaN()
+                                             : res.history.back().residual_norm;
+      return finish(SolveStatus::kInterrupted,
+                    "interrupted after " + std::to_string(res.iterations) + " iterations", nrm);
+    }
+    if (cb.refresh) cb.refresh(x);
+
+    const auto t_eval = Clock::now();
+    evaluate_tendency(system_, x, o.time_s, f);
+    evaluate_jacobian(system_, x, o.time_s, jac);
+    const ScaledNorm norm = scaled_norm(f, jac, x, o.scale);
+    res.evaluate_s += since(t_eval);
+
+    if (!std::isfinite(norm.value)) {
+      if (!have_prev) {
+        return finish(SolveStatus::kFailed,
+                      "non-finite residual at the initial state (" +
+                          where(norm.cell, norm.species) + ")",
+                      norm.value);
+      }
+      x = x_prev;  // undo the step and retry it shorter
+      if (!shrink_or_fail()) {
+        return finish(SolveStatus::kFailed,
+                      "pseudo-time step collapsed below " + sci(o.min_pseudo_step_s) +
+                          " s after non-finite residuals (last at " +
+                          where(norm.cell, norm.species) + ")",
+                      norm.value);
+      }
+      continue;
+    }
+
+    SteadyIteration rec;
+    rec.iteration = it;
+    rec.residual_norm = norm.value;
+    rec.max_relative_change = last_change;
+    rec.worst_cell = norm.cell;
+    rec.worst_species = norm.species;
+
+    auto record = [&](double step, double lambda) {
+      rec.pseudo_step_s = step;
+      rec.damping = lambda;
+      rec.wall_s = since(t_start);
+      res.history.push_back(rec);
+      if (cb.on_iteration) cb.on_iteration(rec);
+    };
+
+    const bool newton_step_done = last_dtau >= o.max_pseudo_step_s;
+    if (norm.value < o.tolerance && newton_step_done && last_change < o.step_tolerance) {
+      record(0.0, 1.0);
+      return finish(SolveStatus::kConverged,
+                    "scaled residual " + sci(norm.value) + " < " + sci(o.tolerance) +
+                        ", last relative change " + sci(last_change),
+                    norm.value);
+    }
+    if (res.iterations >= o.max_iterations) {
+      record(0.0, 1.0);
+      return finish(SolveStatus::kNotConverged,
+                    "no convergence in " + std::to_string(o.max_iterations) +
+                        " iterations (scaled residual " + sci(norm.value) + " at " +
+                        where(norm.cell, norm.species) + ", tolerance " + sci(o.tolerance) + ")",
+                    norm.value);
+    }
+
+    // Switched evolution relaxation.
+    if (have_prev) {
+      const double ratio = prev_norm / std::max(norm.value, 1e-300);
+      if (dtau_before_newton > 0.0 && ratio < 1.0) {
+        dtau = dtau_before_newton * o.min_growth;  // the Newton jump did not pay off
+      } else {
+        dtau *= std::clamp(o.growth_increment * ratio, o.min_growth, o.max_growth);
+      }
+    }
+    dtau_before_newton = 0.0;
+    // Never below the tolerance: convergence is declared only after a Newton step.
+    if (norm.value < std::max(o.newton_switch, o.tolerance) && dtau < o.max_pseudo_step_s) {
+      dtau_before_newton = dtau;
+      dtau = o.max_pseudo_step_s;
+    }
+    dtau = std::min(dtau, o.max_pseudo_step_s);
+
+    find_held_rows(jac, f, held);
+    std::string why;
+    if (!linear.solve(jac, 1.0 / dtau, held, f, dx, why)) {
+      record(dtau, 0.0);
+      prev_norm = norm.value;
+      have_prev = true;
+      if (!shrink_or_fail()) {
+        return finish(SolveStatus::kFailed,
+                      "pseudo-time step collapsed below " + sci(o.min_pseudo_step_s) +
+                          " s: " + why,
+                      norm.value);
+      }
+      continue;
+    }
+    ++res.iterations;
+
+    const double lambda = positivity_damping(x, dx, S, o);
+    x_prev = x;
+    for (std::size_t i = 0; i < n; ++i) {
+      x[i] = std::max(x[i] + lambda * dx[i], o.positivity_fraction * x[i]);
+      dx[i] = x[i] - x_prev[i];
+    }
+    last_change = max_relative_change(dx, x, S, o.scale);
+    last_dtau = dtau;
+    prev_norm = norm.value;
+    have_prev = true;
+    record(dtau, lambda);
+
+    if (o.checkpoint_every > 0 && cb.checkpoint && res.iterations % o.checkpoint_every == 0) {
+      cb.checkpoint(res.iterations, x);
+    }
+  }
+}
+
+}  // namespace colchem

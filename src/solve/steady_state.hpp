@@ -1,0 +1,108 @@
+// Coupled steady state of the column: F(x) = sum_k f_k(x) = 0 for all species and cells.
+//
+// Pseudo-transient continuation (Kelley and Keyes 1998, SIAM J. Numer. Anal. 35, 508):
+//   (I/dtau_k - J(x_k)) dx_k = F(x_k),   x_{k+1} = x_k + lambda_k dx_k
+// with switched evolution relaxation (SER; Coffey, Kelley and Keyes 2003, SIAM J. Sci.
+// Comput. 25, 553) for the pseudo-time step:
+//   dtau_{k+1} = dtau_k * clamp(g * ||F_{k-1}||_s / ||F_k||_s, 1/2, 10),
+// g = growth_increment (> 1 so that a stalled residual still lengthens the step), and
+// dtau = max_pseudo_step_s (Newton's method) once ||F||_s < newton_switch. If a Newton jump
+// makes the residual grow, dtau returns to half its value before the jump.
+// Positivity: the update is damped, lambda_k = min(1, (1 - f) n_i / -dx_i over densities
+// that would fall), so that no density above a_s drops below f = positivity_fraction of
+// itself in one step; densities below a_s are clipped at f n_i instead. A non-finite
+// residual after a step undoes the step and divides dtau by 10; dtau below
+// min_pseudo_step_s is a failure ("pseudo-time step collapsed").
+// Converged: ||F||_s < tolerance (residual_norm.hpp) AND the last step was a full Newton
+// step (dtau = max_pseudo_step_s) whose relative change max|dx|/(|x| + a_s) was below
+// step_tolerance. Photolysis feedback: refresh(x) is called before every iteration, so the
+// rates lag the state by one pseudo-time step and converge together with it.
+#pragma once
+
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "solve/column_system.hpp"
+#include "solve/residual_norm.hpp"
+
+namespace colchem {
+
+/// kCompleted: a transient run reached its end time (no steady state asked for).
+enum class SolveStatus { kConverged, kCompleted, kNotConverged, kFailed, kInterrupted };
+
+/// "converged", "completed", "not_converged", "failed", "interrupted".
+const char* to_string(SolveStatus s);
+
+struct SteadyStateOptions {
+  double tolerance = 1e-8;            ///< on ||F||_s (dimensionless)
+  double step_tolerance = 1e-6;       ///< on max|dx|/(|x| + a_s) of the last step
+  int max_iterations = 200;           ///< linear solves
+  double initial_pseudo_step_s = 1e-6;
+  double max_pseudo_step_s = 1e16;    ///< the Newton limit
+  double min_pseudo_step_s = 1e-14;   ///< below this the solve fails
+  double growth_increment = 2.0;      ///< g in the SER formula
+  double max_growth = 10.0;
+  double min_growth = 0.5;
+  double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
+  double positivity_fraction = 0.1;   ///< f: x_new >= f x_old
+  double time_s = 0.0;                ///< the t handed to the operators
+  int checkpoint_every = 0;           ///< iterations between checkpoint calls (0: never)
+  ResidualScale scale;
+};
+
+struct SteadyIteration {
+  int iteration = 0;
+  double pseudo_step_s = 0.0;        ///< dtau of the step taken from this state (0: none)
+  double residual_norm = 0.0;        ///< ||F||_s at this state
+  double max_relative_change = 0.0;  ///< of the step that led here (inf for the first)
+  double damping = 1.0;              ///< lambda of the step taken from this state
+  double wall_s = 0.0;               ///< since the start of solve()
+  std::size_t worst_cell = 0;        ///< where ||F||_s is attained
+  std::size_t worst_species = 0;
+};
+
+struct SteadyStateCallbacks {
+  /// Called with the current state before each iteration (photolysis rates, ...).
+  std::function<void(const std::vector<double>&)> refresh;
+  /// Polled once per iteration; true stops with status kInterrupted.
+  std::function<bool()> stop_requested;
+  /// Called after each residual evaluation (progress display).
+  std::function<void(const SteadyIteration&)> on_iteration;
+  /// Called every checkpoint_every iterations with (iteration, state).
+  std::function<void(int, const std::vector<double>&)> checkpoint;
+};
+
+struct SteadyStateResult {
+  SolveStatus status = SolveStatus::kFailed;
+  std::string reason;               ///< why it stopped, in words
+  std::vector<double> x;            ///< the final (or current) state
+  int iterations = 0;               ///< linear solves performed
+  int rejected_steps = 0;           ///< steps undone (non-finite residual, failed solve)
+  double residual_norm = 0.0;       ///< ||F||_s of x
+  double max_relative_change = 0.0;
+  std::vector<SteadyIteration> history;
+  double wall_s = 0.0;
+  double evaluate_s = 0.0;          ///< operators' tendency + Jacobian
+  double assembly_s = 0.0;          ///< PETSc matrix assembly
+  double factor_solve_s = 0.0;      ///< LU factorisation + triangular solves
+
+  [[nodiscard]] bool converged() const { return status == SolveStatus::kConverged; }
+};
+
+class SteadyStateSolver {
+ public:
+  SteadyStateSolver(ColumnSystem system, SteadyStateOptions options = {});
+
+  /// Runs PTC from x0. Never throws for non-convergence: the status says what happened.
+  /// PETSc failures other than a failed factorisation throw RunError.
+  SteadyStateResult solve(std::vector<double> x0, const SteadyStateCallbacks& cb = {}) const;
+
+  [[nodiscard]] const SteadyStateOptions& options() const { return options_; }
+
+ private:
+  ColumnSystem system_;
+  SteadyStateOptions options_;
+};
+
+}  // namespace colchem
