@@ -11,6 +11,7 @@
 
 #include "core/background.hpp"
 #include "core/units.hpp"
+#include "photo/photolysis_spec.hpp"
 
 namespace colchem {
 
@@ -31,6 +32,8 @@ struct Scenario {
   std::filesystem::path file;
   BackgroundSpec background;
   OutputSpec output;
+  PhotolysisSpec photolysis;    ///< the photolysis section, when has_photolysis
+  bool has_photolysis = false;
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

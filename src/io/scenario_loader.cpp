@@ -5,6 +5,7 @@
 #include "core/constants.hpp"
 #include "core/composition.hpp"
 #include "io/config_node.hpp"
+#include "io/photolysis_loader.hpp"
 #include "io/scenario.hpp"
 #include "io/table.hpp"
 
@@ -246,6 +247,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_planet(root.child("planet"), ctx);
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
+  if (auto p = root.find("photolysis")) load_photolysis_section(*p, units, sc);
   if (auto o = root.find("output")) load_output(*o, ctx);
   if (sc.output.file.empty()) sc.output.file = sc.name + ".nc";
   root.done();
