@@ -25,7 +25,7 @@ def loginterp(anchors, x):
     for (x0, y0), (x1, y1) in zip(anchors, anchors[1:]):
         if x0 <= x <= x1:
             if y0 <= 0 or y1 <= 0:
-                return y0 + (y1 - y0) * (x - x0) / (x1 - x0)
+                return max(0.0, y0 + (y1 - y0) * (x - x0) / (x1 - x0))
             w = (x - x0) / (x1 - x0)
             return math.exp((1 - w) * math.log(y0) + w * math.log(y1))
     return None

@@ -19,6 +19,16 @@ struct Ctx {
   std::vector<InputFile>* inputs;
 };
 
+/// True when `unit` converts linearly to `ref`. UDUNITS-2 also "converts" reciprocal units
+/// (nm to cm-1 by inversion), which must not pass for a change of unit.
+bool same_dimension(const UnitSystem& units, const std::string& unit, const std::string& ref) {
+  const auto a = units.convert(1.0, unit, ref);
+  const auto b = units.convert(2.0, unit, ref);
+  const auto z = units.convert(0.0, unit, ref);
+  if (!a || !b || !z) return false;
+  return std::abs((*b - *z) - 2.0 * (*a - *z)) <= 1e-9 * std::abs(*a - *z);
+}
+
 /// The file name plus its '#' comment lines (the source label).
 std::string table_label(const Table& t) {
   std::string label = t.file();
@@ -141,17 +151,17 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
   const std::string& unit = t.unit(column);
   std::string target;
-  if (ctx.units.convertible(unit, "cm-2 s-1 nm-1")) {
+  if (same_dimension(ctx.units, unit, "cm-2 s-1 nm-1")) {
     target = "cm-2 s-1 nm-1";
     s.energy = false;
-  } else if (ctx.units.convertible(unit, "erg cm-2 s-1 nm-1")) {
+  } else if (same_dimension(ctx.units, unit, "erg cm-2 s-1 nm-1")) {
     target = "erg cm-2 s-1 nm-1";
     s.energy = true;
   } else {
-    throw InputError(ExitCode::kInputData, SourceLocation{t.file()}, column,
-                     "a photon flux unit (e.g. 'cm-2 s-1 nm-1') or an energy flux unit (e.g. "
-                     "'W m-2 nm-1')",
-                     unit.empty() ? std::string("no unit") : "'" + unit + "'");
+    table->fail("a spectrum column in a photon flux unit (e.g. 'cm-2 s-1 nm-1') or an energy "
+                "flux unit (e.g. 'W m-2 nm-1')",
+                "column '" + column + "' in " + t.file() + " with " +
+                    (unit.empty() ? std::string("no unit") : "unit '" + unit + "'"));
   }
   t.require_increasing(wl_column);
   s.table.wavelength_nm = t.column(wl_column, ctx.units, "nm");
@@ -161,6 +171,14 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
   s.table.source = table_label(t);
   if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", file, t.text()});
+}
+
+/// An angle in radians. UDUNITS-2 spells degrees "degree" (or "arc_degree"); the common
+/// abbreviation "deg" is accepted as well.
+double angle(const ConfigNode& n, const UnitSystem& units, const std::string& example) {
+  const auto q = split_quantity(n.text());
+  if (q && q->unit == "deg") return q->value * constants::kPi / 180.0;
+  return n.quantity(units, "rad", example);
 }
 
 void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
@@ -178,7 +196,7 @@ void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   if (zen) {
     if (dec || pts) n.fail("'zenith_angle' without 'declination' or 'hour_angle_points'", "both forms");
     il.form = IlluminationForm::kFixed;
-    il.zenith_angle_rad = zen->quantity(ctx.units, "rad", "60 deg");
+    il.zenith_angle_rad = angle(*zen, ctx.units, "60 deg");
     if (!(il.zenith_angle_rad >= 0.0 && il.zenith_angle_rad <= deg90)) {
       zen->fail("a zenith angle from 0 to 90 deg");
     }
@@ -189,10 +207,10 @@ void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   } else {
     if (frac) frac->fail("no 'day_fraction' with 'latitude' (the quadrature gives the day length)", frac->describe());
     il.form = IlluminationForm::kDiurnal;
-    il.latitude_rad = lat->quantity(ctx.units, "rad", "30 deg");
+    il.latitude_rad = angle(*lat, ctx.units, "30 deg");
     if (std::abs(il.latitude_rad) > deg90) lat->fail("a latitude from -90 to 90 deg");
     const auto d = n.child("declination");
-    il.declination_rad = d.quantity(ctx.units, "rad", "0 deg");
+    il.declination_rad = angle(d, ctx.units, "0 deg");
     if (std::abs(il.declination_rad) > deg90) d.fail("a declination from -90 to 90 deg");
     if (pts) {
       const long k = pts->integer();
@@ -267,7 +285,7 @@ OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx) {
   if (!(b.center_nm > 0.0)) c.fail("a positive wavelength");
   const auto w = n.child("width");
   const auto wq = split_quantity(w.text());
-  if (wq && ctx.units.convertible(wq->unit, "cm-1")) {
+  if (wq && same_dimension(ctx.units, wq->unit, "cm-1")) {
     b.fwhm_cm1 = w.quantity(ctx.units, "cm-1", "100 cm-1");
   } else {
     // A width in wavelength: FWHM in wavenumber dnu~ = dlambda / lambda^2.
