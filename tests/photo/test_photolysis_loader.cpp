@@ -162,3 +162,27 @@ TEST_CASE("bad photolysis inputs are InputErrors naming file, line and key", "[p
     CHECK(msg.find("increasing") != std::string::npos);
   }
 }
+
+TEST_CASE("a scenario's photolysis section reaches Scenario::photolysis", "[photo][io]") {
+  const UnitSystem units;
+  const auto file = test::write_file("scenario_photo.yaml",
+      "scenario: {name: photo_check}\n"
+      "planet: {name: invented, radius: 6000 km, surface_gravity: 9 m s-2, star_distance: 0.72 au}\n"
+      "grid: {bottom: 0 km, top: 50 km, cells: 10}\n"
+      "atmosphere:\n"
+      "  bulk_composition: {CO2: 0.965, N2: 0.035}\n"
+      "  temperature: {isothermal: 230 K}\n"
+      "  pressure: {hydrostatic: {base: 1 bar}}\n"
+      "  eddy_diffusion: {constant: 1e5 cm2 s-1}\n"
+      "photolysis:\n"
+      "  data: " + kSource + "/configs/photolysis/representative_data.yaml\n"
+      "  spectrum: {table: " + kSource + "/configs/photolysis/solar_1au.csv}\n");
+  const Scenario sc = load_scenario(file, {}, units);
+  CHECK(sc.has_photolysis);
+  CHECK(sc.photolysis.channels.size() == 15);
+  // Defaults (docs-photo.md): 60 deg with a day fraction of 0.5, plane-parallel paths.
+  CHECK(sc.photolysis.illumination.zenith_angle_rad == Approx(constants::kPi / 3.0));
+  CHECK(sc.photolysis.illumination.day_fraction == Approx(0.5));
+  // Every table read is kept for provenance: data file, 15 tables, spectrum.
+  CHECK(sc.inputs.size() >= 17);
+}
