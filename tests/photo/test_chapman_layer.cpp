@@ -73,6 +73,8 @@ TEST_CASE("Chapman layer: peak height and peak rate", "[photo][chapman][validati
   // 140 km over 140 cells: dz = 1 km, about H/7.
   const auto r = chapman_layer(140);
   const double H = test::flat_isothermal(140, 140.0).scale_height_cm[0];
+  INFO("peak at " << r.peak_z / 1e5 << " km (expected " << r.expected_z / 1e5 << " km, H = "
+       << H / 1e5 << " km); q_max " << r.peak_q << " (expected " << r.expected_q << ")");
   // Chapman (1931): the peak lies where sigma n H / mu0 = 1 ...
   CHECK(std::abs(r.peak_z - r.expected_z) < 0.01 * H);
   // ... and q_max = F mu0 / (e H).
