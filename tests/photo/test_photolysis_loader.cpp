@@ -50,8 +50,8 @@ TEST_CASE("the shipped data file and spectrum load", "[photo][io]") {
       "  bins: {from: 100 nm, to: 1000 nm, width: 2 nm}\n"
       "  illumination: {latitude: 30 deg, declination: -10 deg, hour_angle_points: 6}\n"
       "  slant_path: spherical\n");
-  CHECK(spec.absorbers.size() == 14);  // as listed in the file
-  CHECK(spec.channels.size() == 15);
+  CHECK(spec.absorbers.size() == 15);  // as listed in the file
+  CHECK(spec.channels.size() == 16);
   CHECK(spec.spectrum.energy);  // W m-2 nm-1 detected as an energy flux
   CHECK(spec.spectrum.table.value[0] == Approx(2e-5 * 1e3));  // W m-2 -> erg cm-2 s-1 (analytic)
   CHECK(spec.bin_edges_nm.size() == 451);
@@ -179,10 +179,10 @@ TEST_CASE("a scenario's photolysis section reaches Scenario::photolysis", "[phot
       "  spectrum: {table: " + kSource + "/configs/photolysis/solar_1au.csv}\n");
   const Scenario sc = load_scenario(file, {}, units);
   CHECK(sc.has_photolysis);
-  CHECK(sc.photolysis.channels.size() == 15);
+  CHECK(sc.photolysis.channels.size() == 16);
   // Defaults (docs-photo.md): 60 deg with a day fraction of 0.5, plane-parallel paths.
   CHECK(sc.photolysis.illumination.zenith_angle_rad == Approx(constants::kPi / 3.0));
   CHECK(sc.photolysis.illumination.day_fraction == Approx(0.5));
-  // Every table read is kept for provenance: data file, 15 tables, spectrum.
-  CHECK(sc.inputs.size() >= 17);
+  // Every table read is kept for provenance: data file, 18 tables, spectrum.
+  CHECK(sc.inputs.size() >= 20);
 }
