@@ -14,6 +14,7 @@
 #include "transport/column_species.hpp"
 #include "io/chemistry_section.hpp"
 #include "io/solver_section.hpp"
+#include "photo/photolysis_spec.hpp"
 
 namespace colchem {
 
@@ -37,6 +38,8 @@ struct Scenario {
   ColumnSpeciesSpec species_setup;  ///< `species:` and `injections:` (io/species_section)
   ChemistrySpec chemistry;  ///< empty mechanism when the scenario has no chemistry section
   SolverSpec solver;  ///< `solver:` (io/solver_section.hpp); defaults when absent
+  PhotolysisSpec photolysis;    ///< the photolysis section, when has_photolysis
+  bool has_photolysis = false;
 
   std::string resolved_yaml;               ///< the scenario after overrides
   std::vector<std::string> overrides;      ///< as given on the command line

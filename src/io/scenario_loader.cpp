@@ -5,6 +5,7 @@
 #include "core/constants.hpp"
 #include "core/composition.hpp"
 #include "io/config_node.hpp"
+#include "io/photolysis_loader.hpp"
 #include "io/scenario.hpp"
 #include "io/species_section.hpp"
 #include "io/table.hpp"
@@ -248,6 +249,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
   if (auto c = root.find("chemistry")) load_chemistry_section(*c, units, sc);
+  if (auto p = root.find("photolysis")) load_photolysis_section(*p, units, sc);
   if (auto o = root.find("output")) load_output(*o, ctx);
   if (auto s = root.find("species")) load_species_section(*s, units, sc.species_setup, &sc.inputs);
   if (auto i = root.find("injections")) load_injections_section(*i, units, sc.species_setup);

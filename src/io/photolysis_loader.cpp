@@ -1,0 +1,480 @@
+// Photolysis loader: YAML and tables -> PhotolysisSpec (keys in docs-photo.md).
+#include "io/photolysis_loader.hpp"
+
+#include <cmath>
+#include <set>
+#include <sstream>
+
+#include "core/constants.hpp"
+#include "io/table.hpp"
+
+namespace colchem {
+
+namespace {
+
+constexpr double kSolarRadiusCm = 6.957e10;  // IAU 2015 nominal solar radius (exact)
+
+struct Ctx {
+  const UnitSystem& units;
+  std::vector<InputFile>* inputs;
+};
+
+/// True when `unit` converts linearly to `ref`. UDUNITS-2 also "converts" reciprocal units
+/// (nm to cm-1 by inversion), which must not pass for a change of unit.
+bool same_dimension(const UnitSystem& units, const std::string& unit, const std::string& ref) {
+  const auto a = units.convert(1.0, unit, ref);
+  const auto b = units.convert(2.0, unit, ref);
+  const auto z = units.convert(0.0, unit, ref);
+  if (!a || !b || !z) return false;
+  return std::abs((*b - *z) - 2.0 * (*a - *z)) <= 1e-9 * std::abs(*a - *z);
+}
+
+/// The file name plus its '#' comment lines (the source label).
+std::string table_label(const Table& t) {
+  std::string label = t.file();
+  std::stringstream ss(t.text());
+  std::string line;
+  while (std::getline(ss, line)) {
+    const auto h = line.find('#');
+    if (h == std::string::npos) continue;
+    auto c = line.substr(h + 1);
+    c.erase(0, c.find_first_not_of(" \t"));
+    if (!c.empty()) label += (label == t.file() ? ": " : " ") + c;
+  }
+  return label;
+}
+
+/// A wavelength table: {table: FILE, column: NAME, wavelength_column: NAME} or FILE.
+/// `target_unit` is the unit of the value column; nonnegative values are required.
+TabulatedSpectrum read_spectrum_table(const ConfigNode& n, Ctx& ctx, const std::string& role,
+                                      const std::string& default_column,
+                                      const std::string& target_unit, Table* keep = nullptr) {
+  std::filesystem::path file;
+  std::string column = default_column;
+  std::string wl_column = "wavelength";
+  if (n.is_scalar()) {
+    file = n.path();
+  } else {
+    file = n.child("table").path();
+    if (auto c = n.find("column")) column = c->text();
+    if (auto c = n.find("wavelength_column")) wl_column = c->text();
+    n.done();
+  }
+  const Table t = Table::read(file);
+  t.require_increasing(wl_column);
+  TabulatedSpectrum s;
+  s.wavelength_nm = t.column(wl_column, ctx.units, "nm");
+  s.value = t.column(column, ctx.units, target_unit);
+  for (std::size_t r = 0; r < s.value.size(); ++r) {
+    if (!(s.value[r] >= 0.0)) t.fail_row(r, column, "a value >= 0", std::to_string(t.raw(column)[r]));
+  }
+  if (s.wavelength_nm.front() <= 0.0) t.fail_row(0, wl_column, "a positive wavelength", "<= 0");
+  s.source = table_label(t);
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{role, file, t.text()});
+  if (keep) *keep = t;
+  return s;
+}
+
+void load_bins(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
+  const auto edges = n.find("edges");
+  const auto from = n.find("from");
+  const auto to = n.find("to");
+  const auto width = n.find("width");
+  n.done();
+  std::vector<double> e;
+  if (edges) {
+    if (from || to || width) edges->fail("either 'edges' or 'from', 'to' and 'width'", "both forms");
+    e = edges->quantity_list(ctx.units, "nm", "100 nm");
+    if (e.size() < 2) edges->fail("at least two bin edges");
+    for (std::size_t i = 1; i < e.size(); ++i) {
+      if (!(e[i] > e[i - 1])) edges->fail("edges increasing strictly", "a decrease at entry " + std::to_string(i));
+    }
+    if (e.front() <= 0.0) edges->fail("positive wavelengths");
+  } else {
+    if (!from || !to || !width) n.fail("'from', 'to' and 'width' (or a list of 'edges')", "an incomplete set");
+    const double a = from->quantity(ctx.units, "nm", "100 nm");
+    const double b = to->quantity(ctx.units, "nm", "1000 nm");
+    const double w = width->quantity(ctx.units, "nm", "1 nm");
+    if (!(a > 0.0)) from->fail("a positive wavelength");
+    if (!(b > a)) to->fail("a wavelength above 'from'");
+    if (!(w > 0.0)) width->fail("a positive bin width");
+    const double count = std::round((b - a) / w);
+    if (count > 200000) width->fail("at most 200000 bins", std::to_string(count) + " bins");
+    if (std::abs(count * w - (b - a)) > 1e-6 * w) {
+      width->fail("a width that divides 'to' - 'from' into whole bins", width->describe());
+    }
+    const auto nb = static_cast<std::size_t>(count);
+    for (std::size_t i = 0; i <= nb; ++i) e.push_back(a + (b - a) * static_cast<double>(i) / static_cast<double>(nb));
+  }
+  spec.bin_edges_nm = std::move(e);
+}
+
+void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
+  StellarSpectrumSpec& s = spec.spectrum;
+  const auto table = n.find("table");
+  const auto planck = n.find("planck");
+  if ((table ? 1 : 0) + (planck ? 1 : 0) != 1) n.fail("exactly one of 'table' or 'planck'");
+  if (planck) {
+    n.done();
+    s.form = SpectrumForm::kPlanck;
+    const auto T = planck->child("temperature");
+    s.temperature_K = T.quantity(ctx.units, "K", "5772 K");
+    if (!(s.temperature_K > 0.0)) T.fail("a positive temperature");
+    const auto r = planck->child("radius");
+    const auto q = split_quantity(r.text());
+    if (q && (q->unit == "R_sun" || q->unit == "Rsun")) {
+      s.radius_cm = q->value * kSolarRadiusCm;
+    } else {
+      s.radius_cm = r.quantity(ctx.units, "cm", "6.957e5 km' or '1 R_sun");
+    }
+    if (!(s.radius_cm > 0.0)) r.fail("a positive radius");
+    planck->done();
+    return;
+  }
+  s.form = SpectrumForm::kTable;
+  // The flux column: named by `column`, else the first column after the wavelength.
+  const std::filesystem::path file = table->path();
+  std::string column;
+  std::string wl_column = "wavelength";
+  if (auto c = n.find("column")) column = c->text();
+  if (auto c = n.find("wavelength_column")) wl_column = c->text();
+  n.done();
+  const Table t = Table::read(file);
+  if (column.empty()) {
+    for (const auto& name : t.names()) {
+      if (name != wl_column) {
+        column = name;
+        break;
+      }
+    }
+    if (column.empty()) table->fail("a table with a wavelength and a flux column", "one column");
+  }
+  const std::string& unit = t.unit(column);
+  std::string target;
+  if (same_dimension(ctx.units, unit, "cm-2 s-1 nm-1")) {
+    target = "cm-2 s-1 nm-1";
+    s.energy = false;
+  } else if (same_dimension(ctx.units, unit, "erg cm-2 s-1 nm-1")) {
+    target = "erg cm-2 s-1 nm-1";
+    s.energy = true;
+  } else {
+    table->fail("a spectrum column in a photon flux unit (e.g. 'cm-2 s-1 nm-1') or an energy "
+                "flux unit (e.g. 'W m-2 nm-1')",
+                "column '" + column + "' in " + t.file() + " with " +
+                    (unit.empty() ? std::string("no unit") : "unit '" + unit + "'"));
+  }
+  t.require_increasing(wl_column);
+  s.table.wavelength_nm = t.column(wl_column, ctx.units, "nm");
+  s.table.value = t.column(column, ctx.units, target);
+  for (std::size_t r = 0; r < s.table.value.size(); ++r) {
+    if (!(s.table.value[r] >= 0.0)) t.fail_row(r, column, "a flux >= 0", std::to_string(t.raw(column)[r]));
+  }
+  s.table.source = table_label(t);
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", file, t.text()});
+}
+
+/// An angle in radians. UDUNITS-2 spells degrees "degree" (or "arc_degree"); the common
+/// abbreviation "deg" is accepted as well.
+double angle(const ConfigNode& n, const UnitSystem& units, const std::string& example) {
+  const auto q = split_quantity(n.text());
+  if (q && q->unit == "deg") return q->value * constants::kPi / 180.0;
+  return n.quantity(units, "rad", example);
+}
+
+void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
+  IlluminationSpec& il = spec.illumination;
+  const auto zen = n.find("zenith_angle");
+  const auto lat = n.find("latitude");
+  const auto frac = n.find("day_fraction");
+  const auto dec = n.find("declination");
+  const auto pts = n.find("hour_angle_points");
+  n.done();
+  if ((zen ? 1 : 0) + (lat ? 1 : 0) != 1) {
+    n.fail("either 'zenith_angle' (with 'day_fraction') or 'latitude' and 'declination'");
+  }
+  const double deg90 = 0.5 * constants::kPi * (1.0 + 1e-12);
+  if (zen) {
+    if (dec || pts) n.fail("'zenith_angle' without 'declination' or 'hour_angle_points'", "both forms");
+    il.form = IlluminationForm::kFixed;
+    il.zenith_angle_rad = angle(*zen, ctx.units, "60 deg");
+    if (!(il.zenith_angle_rad >= 0.0 && il.zenith_angle_rad <= deg90)) {
+      zen->fail("a zenith angle from 0 to 90 deg");
+    }
+    if (frac) {
+      il.day_fraction = frac->number();
+      if (!(il.day_fraction >= 0.0 && il.day_fraction <= 1.0)) frac->fail("a fraction from 0 to 1");
+    }
+  } else {
+    if (frac) frac->fail("no 'day_fraction' with 'latitude' (the quadrature gives the day length)", frac->describe());
+    il.form = IlluminationForm::kDiurnal;
+    il.latitude_rad = angle(*lat, ctx.units, "30 deg");
+    if (std::abs(il.latitude_rad) > deg90) lat->fail("a latitude from -90 to 90 deg");
+    const auto d = n.child("declination");
+    il.declination_rad = angle(d, ctx.units, "0 deg");
+    if (std::abs(il.declination_rad) > deg90) d.fail("a declination from -90 to 90 deg");
+    if (pts) {
+      const long k = pts->integer();
+      if (k < 1 || k > 64) pts->fail("a number of points from 1 to 64");
+      il.hour_angle_points = static_cast<int>(k);
+    }
+  }
+}
+
+void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
+  AerosolSpec& a = spec.aerosol;
+  const std::filesystem::path file = n.child("table").path();
+  std::string column = "extinction";
+  std::string alt = "altitude";
+  if (auto c = n.find("column")) column = c->text();
+  if (auto c = n.find("altitude_column")) alt = c->text();
+  if (auto e = n.find("wavelength_exponent")) a.wavelength_exponent = e->number();
+  if (auto r = n.find("reference_wavelength")) {
+    a.reference_nm = r->quantity(ctx.units, "nm", "550 nm");
+    if (!(a.reference_nm > 0.0)) r->fail("a positive wavelength");
+  }
+  n.done();
+  const Table t = Table::read(file);
+  t.require_increasing(alt);
+  a.altitude_cm = t.column(alt, ctx.units, "cm");
+  a.extinction_cm1 = t.column(column, ctx.units, "cm-1");
+  for (std::size_t r = 0; r < a.extinction_cm1.size(); ++r) {
+    if (!(a.extinction_cm1[r] >= 0.0)) t.fail_row(r, column, "an extinction >= 0", std::to_string(t.raw(column)[r]));
+  }
+  a.source = table_label(t);
+  a.present = true;
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol extinction table", file, t.text()});
+}
+
+// --- Data file ----------------------------------------------------------------------
+
+void load_cross_section(const ConfigNode& n, Ctx& ctx, AbsorberSpec& ab) {
+  const std::string role = "cross section of " + ab.species;
+  if (n.is_scalar()) {
+    ab.cross_section.tables.push_back(read_spectrum_table(n, ctx, role, "cross_section", "cm2"));
+    return;
+  }
+  const auto one = n.find("table");
+  const auto many = n.find("tables");
+  if ((one ? 1 : 0) + (many ? 1 : 0) != 1) n.fail("exactly one of 'table' or 'tables'");
+  if (one) {
+    ab.cross_section.tables.push_back(read_spectrum_table(n, ctx, role, "cross_section", "cm2"));
+    return;
+  }
+  n.done();
+  for (const auto& item : many->items()) {
+    const auto T = item.child("temperature");
+    const double TK = T.quantity(ctx.units, "K", "295 K");
+    if (!(TK > 0.0)) T.fail("a positive temperature");
+    if (!ab.cross_section.temperature_K.empty() && !(TK > ab.cross_section.temperature_K.back())) {
+      T.fail("temperatures increasing down the list", T.describe());
+    }
+    ConfigNode tn = item;
+    tn.allow({"temperature"});
+    ab.cross_section.temperature_K.push_back(TK);
+    ab.cross_section.tables.push_back(
+        read_spectrum_table(tn, ctx, role + " at " + T.text(), "cross_section", "cm2"));
+  }
+  if (ab.cross_section.tables.empty()) many->fail("at least one {temperature, table}");
+}
+
+OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx) {
+  OvertoneBandSpec b;
+  if (auto l = n.find("label")) b.label = l->text();
+  const auto c = n.child("center");
+  b.center_nm = c.quantity(ctx.units, "nm", "740 nm");
+  if (!(b.center_nm > 0.0)) c.fail("a positive wavelength");
+  const auto w = n.child("width");
+  const auto wq = split_quantity(w.text());
+  if (wq && same_dimension(ctx.units, wq->unit, "cm-1")) {
+    b.fwhm_cm1 = w.quantity(ctx.units, "cm-1", "100 cm-1");
+  } else {
+    // A width in wavelength: FWHM in wavenumber dnu~ = dlambda / lambda^2.
+    const double wl_nm = w.quantity(ctx.units, "nm", "5 nm' or '100 cm-1");
+    b.fwhm_cm1 = wl_nm * 1e-7 / std::pow(b.center_nm * 1e-7, 2);
+  }
+  if (!(b.fwhm_cm1 > 0.0)) w.fail("a positive width");
+  if (auto s = n.find("shape")) {
+    b.shape = s->choice({"gaussian", "lorentzian"}) == "gaussian" ? BandShape::kGaussian
+                                                                  : BandShape::kLorentzian;
+  }
+  const auto S = n.find("strength");
+  const auto f = n.find("oscillator_strength");
+  if ((S ? 1 : 0) + (f ? 1 : 0) != 1) {
+    n.fail("exactly one of 'strength' (cm, integrated over wavenumber) or 'oscillator_strength'");
+  }
+  if (S) {
+    b.strength_cm = S->quantity(ctx.units, "cm", "1e-20 cm");
+    if (!(b.strength_cm >= 0.0)) S->fail("a strength >= 0");
+  } else {
+    const double fv = f->number();
+    if (!(fv >= 0.0)) f->fail("an oscillator strength >= 0");
+    const double e2 = constants::kElementaryCharge * constants::kElementaryCharge;
+    b.strength_cm = constants::kPi * e2 /
+                    (constants::kElectronMass * constants::kSpeedOfLight * constants::kSpeedOfLight) * fv;
+  }
+  n.done();
+  return b;
+}
+
+double unit_fraction(const ConfigNode& n) {
+  const double v = n.number();
+  if (!(v >= 0.0 && v <= 1.0)) n.fail("a quantum yield from 0 to 1");
+  return v;
+}
+
+QuantumYieldSpec load_yield(const ConfigNode& n, Ctx& ctx, const std::string& channel) {
+  QuantumYieldSpec q;
+  if (n.is_scalar()) {
+    q.form = YieldForm::kConstant;
+    q.value = unit_fraction(n);
+    return q;
+  }
+  const auto table = n.find("table");
+  const auto step = n.find("step");
+  if ((table ? 1 : 0) + (step ? 1 : 0) != 1) {
+    n.fail("a number, {table: FILE} or {step: {below: WAVELENGTH, value: PHI}}");
+  }
+  if (table) {
+    q.form = YieldForm::kTable;
+    Table t;
+    q.table = read_spectrum_table(n, ctx, "quantum yield of " + channel, "quantum_yield", "1", &t);
+    for (std::size_t r = 0; r < q.table.value.size(); ++r) {
+      if (q.table.value[r] > 1.0) t.fail_row(r, "quantum_yield", "a quantum yield from 0 to 1", std::to_string(q.table.value[r]));
+    }
+    return q;
+  }
+  n.done();
+  q.form = YieldForm::kStep;
+  const auto below = step->child("below");
+  q.step_nm = below.quantity(ctx.units, "nm", "219 nm");
+  if (!(q.step_nm > 0.0)) below.fail("a positive wavelength");
+  q.below_value = unit_fraction(step->child("value"));
+  q.above_value = 0.0;
+  if (auto a = step->find("above_value")) q.above_value = unit_fraction(*a);
+  step->done();
+  return q;
+}
+
+}  // namespace
+
+void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& units,
+                          PhotolysisSpec& spec, std::vector<InputFile>* inputs) {
+  const ConfigDocument doc = ConfigDocument::load(file, ExitCode::kInputData);
+  Ctx ctx{units, inputs};
+  if (inputs) {
+    inputs->push_back(InputFile{"photolysis data", file, doc.resolved_text()});
+  }
+  spec.data_source = file.string();
+  const ConfigNode root = doc.root();
+  if (auto d = root.find("description")) (void)d->text();
+  if (auto s = root.find("source")) (void)s->text();
+
+  std::set<std::string> absorbers;
+  for (const auto& item : root.child("absorbers").items()) {
+    AbsorberSpec ab;
+    const auto sp = item.child("species");
+    ab.species = sp.text();
+    if (!absorbers.insert(ab.species).second) sp.fail("each absorber declared once", "'" + ab.species + "' again");
+    const auto cs = item.find("cross_section");
+    if (cs) load_cross_section(*cs, ctx, ab);
+    if (auto bands = item.find("bands")) {
+      for (const auto& b : bands->items()) ab.bands.push_back(load_band(b, ctx));
+    }
+    if (!cs && ab.bands.empty()) item.fail("a 'cross_section' or 'bands' (or both)", "neither");
+    item.done();
+    spec.absorbers.push_back(std::move(ab));
+  }
+
+  std::set<std::string> names;
+  std::vector<std::string> declared(absorbers.begin(), absorbers.end());
+  if (auto chans = root.find("channels")) {
+    for (const auto& item : chans->items()) {
+      ChannelSpec ch;
+      const auto nm = item.child("name");
+      ch.name = nm.text();
+      if (ch.name.empty() || ch.name.find_first_of(" \t/") != std::string::npos) {
+        nm.fail("a channel name without spaces or '/' (it names the output variable J_<name>)");
+      }
+      if (!names.insert(ch.name).second) nm.fail("distinct channel names", "'" + ch.name + "' again");
+      const auto ab = item.child("absorber");
+      ch.absorber = ab.text();
+      if (absorbers.count(ch.absorber) == 0) {
+        std::string hint;
+        if (auto near = nearest_word(ch.absorber, declared)) hint = "did you mean '" + *near + "'?";
+        ab.fail("an absorber declared under 'absorbers'", "'" + ch.absorber + "'", hint);
+      }
+      if (auto p = item.find("products")) ch.products = p->text();
+      if (auto q = item.find("quantum_yield")) ch.quantum_yield = load_yield(*q, ctx, ch.name);
+      if (auto b = item.find("branching")) {
+        ch.branching = b->number();
+        if (!(ch.branching >= 0.0 && ch.branching <= 1.0)) b->fail("a branching fraction from 0 to 1");
+      }
+      if (auto t = item.find("threshold")) {
+        ch.threshold_nm = t->quantity(units, "nm", "219 nm");
+        if (!(ch.threshold_nm > 0.0)) t->fail("a positive wavelength");
+      }
+      item.done();
+      spec.channels.push_back(std::move(ch));
+    }
+  }
+
+  if (auto ray = root.find("rayleigh")) {
+    for (const auto& [gas, node] : ray->entries()) {
+      RayleighSpec r;
+      r.gas = gas;
+      const auto cs = node.child("cross_section");
+      r.cross_section_cm2 = cs.quantity(units, "cm2", "4.5e-27 cm2");
+      if (!(r.cross_section_cm2 >= 0.0)) cs.fail("a cross section >= 0");
+      const auto at = node.child("at");
+      r.reference_nm = at.quantity(units, "nm", "550 nm");
+      if (!(r.reference_nm > 0.0)) at.fail("a positive wavelength");
+      if (auto e = node.find("exponent")) r.exponent = e->number();
+      node.done();
+      spec.rayleigh.push_back(r);
+    }
+  }
+  root.done();
+}
+
+PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
+                               std::vector<InputFile>* inputs) {
+  PhotolysisSpec spec;
+  Ctx ctx{units, inputs};
+  const auto data = n.child("data");
+  const auto spectrum = n.child("spectrum");
+  const auto bins = n.find("bins");
+  const auto illum = n.find("illumination");
+  const auto slant = n.find("slant_path");
+  const auto aerosol = n.find("aerosol");
+  n.done();
+  load_photolysis_data(data.path(), units, spec, inputs);
+  load_spectrum(spectrum, ctx, spec);
+  if (bins) load_bins(*bins, ctx, spec);
+  if (illum) {
+    load_illumination(*illum, ctx, spec);
+  } else {
+    spec.illumination.zenith_angle_rad = constants::kPi / 3.0;  // 60 deg
+    spec.illumination.day_fraction = 0.5;
+  }
+  if (slant) {
+    spec.slant_path = slant->choice({"plane_parallel", "spherical"}) == "spherical"
+                          ? SlantPath::kSpherical
+                          : SlantPath::kPlaneParallel;
+  }
+  if (spec.slant_path == SlantPath::kPlaneParallel &&
+      spec.illumination.form == IlluminationForm::kFixed &&
+      std::cos(spec.illumination.zenith_angle_rad) < 1e-6) {
+    illum->child("zenith_angle")
+        .fail("a zenith angle below 90 deg for plane_parallel paths",
+              illum->child("zenith_angle").describe(), "use slant_path: spherical at 90 deg");
+  }
+  if (aerosol) load_aerosol(*aerosol, ctx, spec);
+  return spec;
+}
+
+void load_photolysis_section(const ConfigNode& section, const UnitSystem& units, Scenario& sc) {
+  sc.photolysis = load_photolysis(section, units, &sc.inputs);
+  sc.has_photolysis = true;
+}
+
+}  // namespace colchem

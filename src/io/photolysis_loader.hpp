@@ -1,0 +1,28 @@
+// Photolysis section of a scenario and the photolysis data file it names -> PhotolysisSpec.
+// Every key is documented in docs-photo.md ("Scenario keys", "Data file schema"); every bad
+// input is an InputError naming the file, line and key.
+#pragma once
+
+#include <filesystem>
+#include <vector>
+
+#include "core/units.hpp"
+#include "io/config_node.hpp"
+#include "io/scenario.hpp"
+#include "photo/photolysis_spec.hpp"
+
+namespace colchem {
+
+/// Reads the scenario's `photolysis:` section (and the data file and tables it names) into
+/// sc.photolysis, sets sc.has_photolysis and records every file read in sc.inputs.
+void load_photolysis_section(const ConfigNode& section, const UnitSystem& units, Scenario& sc);
+
+/// The same, into a spec (files read are appended to `inputs` when given).
+PhotolysisSpec load_photolysis(const ConfigNode& section, const UnitSystem& units,
+                               std::vector<InputFile>* inputs = nullptr);
+
+/// Reads a photolysis data file (absorbers, channels, rayleigh) into `spec`.
+void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& units,
+                          PhotolysisSpec& spec, std::vector<InputFile>* inputs = nullptr);
+
+}  // namespace colchem

@@ -1,0 +1,313 @@
+#include "photo/photolysis_model.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <stdexcept>
+
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "photo/spectral_binning.hpp"
+
+namespace colchem {
+
+namespace {
+
+/// Exact bin average of (lambda_ref / lambda)^e over [a, b].
+double power_law_average(double ref, double e, double a, double b) {
+  if (e == 0.0) return 1.0;
+  if (std::abs(e - 1.0) < 1e-12) return ref * std::log(b / a) / (b - a);
+  return std::pow(ref, e) * (std::pow(b, 1.0 - e) - std::pow(a, 1.0 - e)) / ((1.0 - e) * (b - a));
+}
+
+/// First and one-past-last bin with a non-zero value in any level.
+void nonzero_range(const std::vector<double>& v, std::size_t bins, std::size_t& lo,
+                   std::size_t& hi) {
+  lo = bins;
+  hi = 0;
+  for (std::size_t i = 0; i < v.size(); ++i) {
+    if (v[i] != 0.0) {
+      const std::size_t b = i % bins;
+      lo = std::min(lo, b);
+      hi = std::max(hi, b + 1);
+    }
+  }
+  if (lo > hi) lo = hi = 0;
+}
+
+}  // namespace
+
+PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& bg,
+                                 const std::vector<std::string>& species_names) {
+  levels_ = bg.grid.cells();
+  species_ = species_names.size();
+  edges_ = spec.bin_edges_nm.empty() ? default_bin_edges() : spec.bin_edges_nm;
+  if (edges_.size() < 2) throw std::invalid_argument("photolysis: fewer than two bin edges");
+  bins_ = edges_.size() - 1;
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  for (std::size_t b = 0; b < B; ++b) {
+    widths_.push_back(edges_[b + 1] - edges_[b]);
+    centers_.push_back(0.5 * (edges_[b] + edges_[b + 1]));
+  }
+
+  // Stellar photons per bin at the planet: F_1au / r^2 times the bin width.
+  std::vector<double> per_nm;
+  switch (spec.spectrum.form) {
+    case SpectrumForm::kTable:
+      per_nm = spec.spectrum.energy ? bin_average_photons_from_energy(spec.spectrum.table, edges_)
+                                    : bin_average(spec.spectrum.table, edges_);
+      break;
+    case SpectrumForm::kPlanck:
+      per_nm = planck_photon_flux_1au(spec.spectrum.temperature_K, spec.spectrum.radius_cm, edges_);
+      break;
+  }
+  const double r2 = bg.planet.star_distance_au * bg.planet.star_distance_au;
+  top_flux_.resize(B);
+  for (std::size_t b = 0; b < B; ++b) top_flux_[b] = per_nm[b] * widths_[b] / r2;
+
+  air_density_ = bg.air_density_cm3;
+  for (std::size_t j = 0; j < N; ++j) dz_.push_back(bg.grid.width_cm(j));
+  const double H_top = bg.scale_height_cm[N - 1];
+  top_height_ = H_top * std::exp(-0.5 * dz_[N - 1] / H_top);
+
+  const SourceLocation where{spec.data_source};
+  auto locate = [&](const std::string& name, Attenuator& a, bool required) {
+    for (std::size_t s = 0; s < species_names.size(); ++s) {
+      if (species_names[s] == name) {
+        a.species = static_cast<int>(s);
+        return true;
+      }
+    }
+    auto it = bg.bulk_mole_fraction.find(name);
+    if (it != bg.bulk_mole_fraction.end()) {
+      a.bulk_fraction = it->second;
+      return true;
+    }
+    if (required) {
+      throw InputError(ExitCode::kConfig, where, "absorbers",
+                       "absorber '" + name + "' to be a model species or a bulk gas",
+                       "neither", "remove it from the photolysis data or add the species");
+    }
+    return false;
+  };
+
+  // Absorbers: tables (interpolated in T per level, clamped) plus overtone bands.
+  std::vector<std::size_t> absorber_attenuator;
+  for (const auto& ab : spec.absorbers) {
+    Attenuator a;
+    locate(ab.species, a, true);
+    const auto& cs = ab.cross_section;
+    std::vector<std::vector<double>> binned;
+    for (const auto& t : cs.tables) binned.push_back(bin_average(t, edges_));
+    std::vector<double> bands(B, 0.0);
+    for (const auto& band : ab.bands) {
+      const auto v = band_onto_bins(band, edges_);
+      for (std::size_t b = 0; b < B; ++b) bands[b] += v[b];
+    }
+    a.per_level = binned.size() > 1;
+    if (a.per_level) {
+      a.sigma.assign(N * B, 0.0);
+      const auto& Ts = cs.temperature_K;
+      for (std::size_t j = 0; j < N; ++j) {
+        const double T = std::clamp(bg.temperature_K[j], Ts.front(), Ts.back());
+        std::size_t k = 1;
+        while (k + 1 < Ts.size() && Ts[k] < T) ++k;
+        const double w = (T - Ts[k - 1]) / (Ts[k] - Ts[k - 1]);
+        for (std::size_t b = 0; b < B; ++b) {
+          a.sigma[j * B + b] = (1.0 - w) * binned[k - 1][b] + w * binned[k][b] + bands[b];
+        }
+      }
+    } else {
+      a.sigma = bands;
+      if (!binned.empty()) {
+        for (std::size_t b = 0; b < B; ++b) a.sigma[b] += binned[0][b];
+      }
+    }
+    nonzero_range(a.sigma, B, a.lo, a.hi);
+    absorber_attenuator.push_back(attenuators_.size());
+    attenuators_.push_back(std::move(a));
+  }
+
+  // Channels: sigma * phi * (fraction of the bin short of the threshold) * branching.
+  for (const auto& ch : spec.channels) {
+    std::size_t ai = spec.absorbers.size();
+    for (std::size_t i = 0; i < spec.absorbers.size(); ++i) {
+      if (spec.absorbers[i].species == ch.absorber) ai = i;
+    }
+    if (ai == spec.absorbers.size()) {
+      throw InputError(ExitCode::kConfig, where, "channels." + ch.name,
+                       "a declared absorber", "'" + ch.absorber + "'");
+    }
+    const Attenuator& a = attenuators_[absorber_attenuator[ai]];
+    std::vector<double> phi(B, ch.quantum_yield.value);
+    if (ch.quantum_yield.form == YieldForm::kTable) {
+      phi = bin_average_held(ch.quantum_yield.table, edges_);
+    } else if (ch.quantum_yield.form == YieldForm::kStep) {
+      for (std::size_t b = 0; b < B; ++b) {
+        const double f = fraction_below(edges_[b], edges_[b + 1], ch.quantum_yield.step_nm);
+        phi[b] = f * ch.quantum_yield.below_value + (1.0 - f) * ch.quantum_yield.above_value;
+      }
+    }
+    for (std::size_t b = 0; b < B; ++b) {
+      phi[b] *= ch.branching * fraction_below(edges_[b], edges_[b + 1], ch.threshold_nm);
+    }
+    Channel c;
+    c.per_level = a.per_level;
+    c.sigma_phi = a.sigma;
+    for (std::size_t i = 0; i < c.sigma_phi.size(); ++i) c.sigma_phi[i] *= phi[i % B];
+    nonzero_range(c.sigma_phi, B, c.lo, c.hi);
+    chans_.push_back(std::move(c));
+    channel_names_.push_back(ch.name);
+    products_.push_back(ch.products);
+  }
+
+  // Rayleigh scattering of bulk gases: exact bin average of the lambda^-e law.
+  for (const auto& r : spec.rayleigh) {
+    Attenuator a;
+    if (!locate(r.gas, a, false)) continue;
+    a.sigma.resize(B);
+    for (std::size_t b = 0; b < B; ++b) {
+      a.sigma[b] = r.cross_section_cm2 *
+                   power_law_average(r.reference_nm, r.exponent, edges_[b], edges_[b + 1]);
+    }
+    a.lo = 0;
+    a.hi = B;
+    attenuators_.push_back(std::move(a));
+  }
+
+  // Aerosol: extinction at cell centres (linear in z, end values held) times dz.
+  aerosol_dtau_.assign(N * B, 0.0);
+  if (spec.aerosol.present) {
+    for (std::size_t j = 0; j < N; ++j) {
+      const double beta = interp_linear_hold(spec.aerosol.altitude_cm, spec.aerosol.extinction_cm1,
+                                             bg.grid.center_cm[j]);
+      for (std::size_t b = 0; b < B; ++b) {
+        aerosol_dtau_[j * B + b] =
+            beta * dz_[j] *
+            power_law_average(spec.aerosol.reference_nm, spec.aerosol.wavelength_exponent,
+                              edges_[b], edges_[b + 1]);
+      }
+    }
+  }
+
+  // Geometry.
+  nodes_ = illumination_nodes(spec.illumination);
+  spherical_ = spec.slant_path == SlantPath::kSpherical;
+  if (spherical_) {
+    const double R = bg.planet.radius_cm;
+    const double r_top = R + bg.grid.edge_cm[N];
+    for (const auto& node : nodes_) {
+      const double sin_chi = std::sqrt(std::max(0.0, 1.0 - node.mu0 * node.mu0));
+      std::vector<double> pf(N * N, 0.0);
+      std::vector<double> tf(N, 0.0);
+      for (std::size_t j = 0; j < N; ++j) {
+        const double rj = R + bg.grid.center_cm[j];
+        const double p2 = std::pow(rj * sin_chi, 2);
+        auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
+        double below = rj * node.mu0;  // distance from the tangent point to the cell centre
+        for (std::size_t k = j; k < N; ++k) {
+          const double above = chord(R + bg.grid.edge_cm[k + 1]);
+          pf[j * N + k] = (above - below) / dz_[k];
+          below = above;
+        }
+        const double sin_top = std::min(1.0, rj * sin_chi / r_top);
+        tf[j] = chapman_function(r_top / H_top, std::asin(sin_top));
+      }
+      path_factor_.push_back(std::move(pf));
+      top_factor_.push_back(std::move(tf));
+    }
+  }
+
+  dtau_.assign(N * B, 0.0);
+  vtau_.assign(N * B, 0.0);
+  tau_top_.assign(B, 0.0);
+  beam_.assign(B, 0.0);
+}
+
+int PhotolysisModel::channel_index(const std::string& name) const {
+  for (std::size_t c = 0; c < channel_names_.size(); ++c) {
+    if (channel_names_[c] == name) return static_cast<int>(c);
+  }
+  return -1;
+}
+
+double PhotolysisModel::density(const Attenuator& a, std::span<const double> n,
+                                std::size_t j) const {
+  // Negative densities (undershoots of a solver iterate) must not amplify the beam.
+  if (a.species >= 0) return std::max(0.0, n[j * species_ + static_cast<std::size_t>(a.species)]);
+  return a.bulk_fraction * air_density_[j];
+}
+
+void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
+                              std::span<double> actinic_flux) {
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  if (n.size() != N * species_ || J.size() != chans_.size() * N ||
+      (!actinic_flux.empty() && actinic_flux.size() != N * B)) {
+    throw std::invalid_argument("PhotolysisModel::compute: span sizes do not match the model");
+  }
+
+  // 1. Optical thickness of every cell and of the column above the top, per bin.
+  std::copy(aerosol_dtau_.begin(), aerosol_dtau_.end(), dtau_.begin());
+  std::fill(tau_top_.begin(), tau_top_.end(), 0.0);
+  for (const auto& a : attenuators_) {
+    for (std::size_t j = 0; j < N; ++j) {
+      const double col = density(a, n, j) * dz_[j];
+      if (col == 0.0) continue;
+      const double* s = a.sigma.data() + (a.per_level ? j * B : 0);
+      double* d = dtau_.data() + j * B;
+      for (std::size_t b = a.lo; b < a.hi; ++b) d[b] += s[b] * col;
+    }
+    const double col_top = density(a, n, N - 1) * top_height_;
+    const double* s = a.sigma.data() + (a.per_level ? (N - 1) * B : 0);
+    for (std::size_t b = a.lo; b < a.hi; ++b) tau_top_[b] += s[b] * col_top;
+  }
+  if (!spherical_) {
+    // Vertical optical depth at cell centres: half the own cell plus everything above.
+    std::copy(tau_top_.begin(), tau_top_.end(), beam_.begin());
+    for (std::size_t jj = N; jj-- > 0;) {
+      for (std::size_t b = 0; b < B; ++b) {
+        const double d = dtau_[jj * B + b];
+        vtau_[jj * B + b] = beam_[b] + 0.5 * d;
+        beam_[b] += d;
+      }
+    }
+  }
+
+  // 2. Attenuated beam and J for every sun position, weighted into the average.
+  std::fill(J.begin(), J.end(), 0.0);
+  std::fill(actinic_flux.begin(), actinic_flux.end(), 0.0);
+  for (std::size_t k = 0; k < nodes_.size(); ++k) {
+    const double w = nodes_[k].weight;
+    const double inv_mu = 1.0 / nodes_[k].mu0;
+    for (std::size_t j = 0; j < N; ++j) {
+      if (spherical_) {
+        const double tf = top_factor_[k][j];
+        for (std::size_t b = 0; b < B; ++b) beam_[b] = tau_top_[b] * tf;
+        const double* pf = path_factor_[k].data() + j * N;
+        for (std::size_t kk = j; kk < N; ++kk) {
+          const double f = pf[kk];
+          const double* d = dtau_.data() + kk * B;
+          for (std::size_t b = 0; b < B; ++b) beam_[b] += f * d[b];
+        }
+        for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-beam_[b]);
+      } else {
+        const double* v = vtau_.data() + j * B;
+        for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-v[b] * inv_mu);
+      }
+      for (std::size_t c = 0; c < chans_.size(); ++c) {
+        const Channel& ch = chans_[c];
+        const double* sp = ch.sigma_phi.data() + (ch.per_level ? j * B : 0);
+        double sum = 0.0;
+        for (std::size_t b = ch.lo; b < ch.hi; ++b) sum += sp[b] * beam_[b];
+        J[c * N + j] += w * sum;
+      }
+      if (!actinic_flux.empty()) {
+        double* F = actinic_flux.data() + j * B;
+        for (std::size_t b = 0; b < B; ++b) F[b] += w * beam_[b] / widths_[b];
+      }
+    }
+  }
+}
+
+}  // namespace colchem

@@ -1,0 +1,79 @@
+#include "photo/photolysis_output.hpp"
+
+#include <fmt/format.h>
+
+#include <stdexcept>
+#include <vector>
+
+#include "core/constants.hpp"
+
+namespace colchem {
+
+void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool with_spectrum) {
+  nc.dimension("wavelength", model.bins());
+  nc.variable("wavelength", {"wavelength"},
+              {"nm", "centre of the wavelength bin", "radiation_wavelength",
+               {{"bounds", "wavelength_bounds"}}});
+  nc.variable("wavelength_bounds", {"wavelength", "nv"}, {"nm", "wavelength bin edges", "", {}});
+  nc.variable("stellar_photon_flux", {"wavelength"},
+              {"cm-2 s-1 nm-1", "stellar photon flux at the top of the atmosphere (bin average)",
+               "", {}});
+  for (std::size_t c = 0; c < model.channels().size(); ++c) {
+    const std::string& name = model.channels()[c];
+    std::string long_name = "photolysis rate coefficient of channel " + name;
+    if (!model.channel_products()[c].empty()) long_name += " (-> " + model.channel_products()[c] + ")";
+    nc.variable("J_" + name, {"altitude"}, {"s-1", long_name, "", {}});
+  }
+  if (with_spectrum) {
+    nc.variable("actinic_flux", {"altitude", "wavelength"},
+                {"cm-2 s-1 nm-1",
+                 "direct-beam stellar photon flux (illumination-averaged, bin average)", "", {}});
+  }
+}
+
+void write_photolysis_output(NcWriter& nc, const PhotolysisModel& model,
+                             std::span<const double> J, std::span<const double> actinic_flux) {
+  const std::size_t N = model.levels();
+  const std::size_t B = model.bins();
+  if (J.size() != model.channels().size() * N) {
+    throw std::invalid_argument("write_photolysis_output: J has the wrong size");
+  }
+  const auto& e = model.bin_edges_nm();
+  std::vector<double> centre(B), bounds(2 * B), flux(B);
+  for (std::size_t b = 0; b < B; ++b) {
+    centre[b] = 0.5 * (e[b] + e[b + 1]);
+    bounds[2 * b] = e[b];
+    bounds[2 * b + 1] = e[b + 1];
+    flux[b] = model.top_photons_per_bin()[b] / (e[b + 1] - e[b]);
+  }
+  nc.put("wavelength", centre);
+  nc.put("wavelength_bounds", bounds);
+  nc.put("stellar_photon_flux", flux);
+  for (std::size_t c = 0; c < model.channels().size(); ++c) {
+    nc.put("J_" + model.channels()[c], J.subspan(c * N, N));
+  }
+  if (!actinic_flux.empty()) nc.put("actinic_flux", actinic_flux);
+}
+
+std::string format_jvalue_table(const PhotolysisModel& model, std::span<const double> J,
+                                const Grid& grid) {
+  const std::size_t N = model.levels();
+  std::size_t width = 11;
+  for (const auto& name : model.channels()) width = std::max(width, name.size() + 2);
+  std::string out = fmt::format("{:>10}", "z [km]");
+  for (const auto& name : model.channels()) out += fmt::format("{:>{}}", name, width);
+  out += "\n";
+  out += fmt::format("{:>10}", "");
+  for (std::size_t c = 0; c < model.channels().size(); ++c) out += fmt::format("{:>{}}", "[s-1]", width);
+  out += "\n";
+  for (std::size_t jj = N; jj-- > 0;) {  // top first, as the beam goes
+    out += fmt::format("{:10.2f}", grid.center_cm[jj] / constants::kCmPerKm);
+    for (std::size_t c = 0; c < model.channels().size(); ++c) {
+      out += fmt::format("{:>{}.3e}", J[c * N + jj], width);
+    }
+    out += "\n";
+  }
+  return out;
+}
+
+}  // namespace colchem

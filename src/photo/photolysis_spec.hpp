@@ -1,0 +1,128 @@
+// Typed, validated input of the photolysis module (built by io/photolysis_loader.cpp; the
+// physics code never sees YAML). Every quantity is already in internal units: wavelengths
+// nm, cross sections cm^2, photon fluxes cm^-2 s^-1 nm^-1 at 1 au, temperatures K,
+// lengths cm, band strengths cm (per molecule, integrated over wavenumber in cm^-1).
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace colchem {
+
+/// A function of wavelength tabulated at strictly increasing points; read as piecewise
+/// linear between them and zero outside [front, back].
+struct TabulatedSpectrum {
+  std::vector<double> wavelength_nm;
+  std::vector<double> value;
+  std::string source;  ///< file and its '#' label lines, for provenance and messages
+};
+
+/// Cross section tables of one absorber at one or more temperatures (increasing). Between
+/// temperatures the bin-averaged cross section is interpolated linearly in T; outside the
+/// range the end table is used (clamped).
+struct CrossSectionSpec {
+  std::vector<double> temperature_K;      ///< empty or one entry: temperature-independent
+  std::vector<TabulatedSpectrum> tables;  ///< one per temperature (or a single table)
+};
+
+enum class BandShape { kGaussian, kLorentzian };
+
+/// A weak vibrational-overtone band: sigma(nu~) = S g(nu~ - nu~0) with g a unit-area shape
+/// in wavenumber; S = integral of sigma over wavenumber (cm per molecule).
+struct OvertoneBandSpec {
+  std::string label;
+  double center_nm = 0.0;
+  double fwhm_cm1 = 0.0;  ///< full width at half maximum in wavenumber (cm^-1)
+  BandShape shape = BandShape::kGaussian;
+  double strength_cm = 0.0;
+};
+
+struct AbsorberSpec {
+  std::string species;
+  CrossSectionSpec cross_section;  ///< may hold no table when only bands are given
+  std::vector<OvertoneBandSpec> bands;
+};
+
+enum class YieldForm { kConstant, kTable, kStep };
+
+/// Quantum yield phi(lambda): a constant, a table (held at its end values outside), or a
+/// step: `below_value` short of `step_nm`, `above_value` longward of it.
+struct QuantumYieldSpec {
+  YieldForm form = YieldForm::kConstant;
+  double value = 1.0;
+  TabulatedSpectrum table;
+  double step_nm = 0.0;
+  double below_value = 1.0;
+  double above_value = 0.0;
+};
+
+struct ChannelSpec {
+  std::string name;      ///< referred to by the mechanism (rate: {photolysis: {channel: ...}})
+  std::string absorber;  ///< species of a declared absorber
+  std::string products;  ///< text, for output and documentation ("SO + O")
+  QuantumYieldSpec quantum_yield;
+  double branching = 1.0;     ///< extra constant factor (e.g. beta of a split channel)
+  double threshold_nm = 0.0;  ///< photons longward of this do not photolyse; 0 = no limit
+};
+
+/// Rayleigh scattering of one bulk gas: sigma_R = sigma_0 (lambda_0 / lambda)^exponent.
+struct RayleighSpec {
+  std::string gas;
+  double cross_section_cm2 = 0.0;
+  double reference_nm = 550.0;
+  double exponent = 4.0;
+};
+
+enum class SpectrumForm { kTable, kPlanck };
+
+struct StellarSpectrumSpec {
+  SpectrumForm form = SpectrumForm::kTable;
+  /// kTable: photon flux (cm^-2 s^-1 nm^-1) at 1 au, or energy flux (erg cm^-2 s^-1 nm^-1)
+  /// when `energy` is set; energy is turned into photons per bin with E = h c / lambda
+  /// integrated exactly over the piecewise-linear table.
+  TabulatedSpectrum table;
+  bool energy = false;
+  double temperature_K = 0.0;  ///< kPlanck
+  double radius_cm = 0.0;      ///< kPlanck: stellar radius
+};
+
+enum class IlluminationForm { kFixed, kDiurnal };
+
+struct IlluminationSpec {
+  IlluminationForm form = IlluminationForm::kFixed;
+  double zenith_angle_rad = 0.0;  ///< kFixed
+  double day_fraction = 1.0;      ///< kFixed: J is multiplied by it
+  double latitude_rad = 0.0;      ///< kDiurnal
+  double declination_rad = 0.0;   ///< kDiurnal
+  int hour_angle_points = 8;      ///< kDiurnal: Gauss-Legendre nodes from noon to sunset
+};
+
+enum class SlantPath { kPlaneParallel, kSpherical };
+
+/// Prescribed aerosol or cloud extinction: beta(z, lambda) = beta(z) (lambda_ref/lambda)^a.
+struct AerosolSpec {
+  bool present = false;
+  std::vector<double> altitude_cm;
+  std::vector<double> extinction_cm1;
+  double wavelength_exponent = 0.0;
+  double reference_nm = 550.0;
+  std::string source;
+};
+
+struct PhotolysisSpec {
+  std::vector<double> bin_edges_nm;  ///< strictly increasing; empty = default_bin_edges()
+  StellarSpectrumSpec spectrum;
+  std::vector<AbsorberSpec> absorbers;
+  std::vector<ChannelSpec> channels;
+  std::vector<RayleighSpec> rayleigh;
+  IlluminationSpec illumination;
+  SlantPath slant_path = SlantPath::kPlaneParallel;
+  AerosolSpec aerosol;
+  std::string data_source;  ///< the data file, for provenance
+};
+
+/// The default spectral grid: 1 nm bins from 100 to 350 nm (resolves the SO2 and O3
+/// band envelopes at the resolution of tabulated data), 5 nm bins from 350 to 1000 nm.
+std::vector<double> default_bin_edges();
+
+}  // namespace colchem
