@@ -1,35 +1,109 @@
-// colchem run CONFIG [-o OUT.nc] [--set key=value ...]: run a scenario, write CF NetCDF.
+// colchem run CONFIG [-o OUT.nc] [--set key=value ...] [--restart OLD.nc]: solve a scenario's
+// column (coupled steady state or transient) and write its CF NetCDF output.
+#include <fmt/format.h>
+
+#include <iostream>
+
+#include "analysis/observations.hpp"
+#include "analysis/score.hpp"
 #include "app/commands.hpp"
-#include "core/background.hpp"
+#include "app/summary.hpp"
+#include "core/constants.hpp"
+#include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/run_output.hpp"
 #include "io/scenario.hpp"
+#include "io/score_output.hpp"
+#include "solve/column_run.hpp"
+#include "solve/interrupt.hpp"
+#include "solve/petsc_session.hpp"
 
 namespace colchem::app {
 
-void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
-  auto* cmd = app.add_subcommand("run", "Run a scenario and write its CF NetCDF output.");
-  auto config = std::make_shared<std::string>();
-  auto sets = std::make_shared<std::vector<std::string>>();
-  auto output = std::make_shared<std::string>();
-  cmd->add_option("CONFIG", *config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
-  cmd->add_option("-o,--output", *output, "Output NetCDF file (default: output.file of the "
-                                          "scenario, else SCENARIO_NAME.nc)");
-  cmd->add_option("--set", *sets, "Override a config value by its dotted key path, e.g. "
-                                  "--set grid.cells=120 (repeatable)");
-  out.emplace_back(cmd, [config, sets, output](Context& ctx) {
-    const UnitSystem units;
-    Scenario sc = load_scenario(*config, *sets, units);
-    if (!output->empty()) sc.output.file = *output;
-    ctx.log->info("scenario {} ({} cells)", sc.name, sc.background.grid.cells());
-    const Background bg = build_background(sc.background);
+namespace {
+std::filesystem::path checkpoint_path(const std::filesystem::path& out) {
+  std::filesystem::path p = out;
+  p.replace_extension(".checkpoint.nc");
+  return p;
+}
+}  // namespace
 
-    NcWriter nc(sc.output.file);
-    write_provenance(nc, sc, ctx.command_line);
-    define_background(nc, bg);
-    nc.end_definitions();
-    write_background_data(nc, bg);
-    nc.commit();
+void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand("run", "Solve a scenario's column and write its CF NetCDF output.");
+  struct Options {
+    std::string config, output, restart;
+    std::vector<std::string> sets;
+  };
+  auto o = std::make_shared<Options>();
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", o->output, "Output NetCDF file (default: output.file of the "
+                                            "scenario, else SCENARIO_NAME.nc)");
+  cmd->add_option("--set", o->sets, "Override a config value by its dotted key path, e.g. "
+                                    "--set grid.cells=120 (repeatable)");
+  cmd->add_option("--restart", o->restart,
+                  "Start from an earlier output or checkpoint (interpolated onto this grid)")
+      ->check(CLI::ExistingFile);
+  out.emplace_back(cmd, [o](Context& ctx) {
+    const UnitSystem units;
+    Scenario sc = load_scenario(o->config, o->sets, units);
+    if (!o->output.empty()) sc.output.file = o->output;
+    ColumnModel model(sc);
+    ctx.log->info("scenario {}: {} cells, {} species", sc.name, model.cells(), model.species_count());
+    std::vector<SpeciesScore> scores;
+    ObservationSet obs;
+    if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+
+    if (!model.has_chemistry()) {  // the background column alone
+      RunOutcome none;
+      none.status = SolveStatus::kCompleted;
+      none.method = "none";
+      none.reason = "no chemistry section: background column only";
+      write_run_file(sc.output.file, sc, model, none, ctx.command_line, {});
+      ctx.log->info("wrote {} (background only)", sc.output.file.string());
+      return 0;
+    }
+
+    const PetscSession petsc;
+    const InterruptGuard interrupt;
+    std::vector<double> x0 = model.initial_state();
+    if (!o->restart.empty()) {
+      const std::size_t n = model.take_restart(o->restart, x0);
+      ctx.log->info("restart from {}: {} of {} species", o->restart, n, model.species_count());
+    }
+    const auto ckpt = checkpoint_path(sc.output.file);
+    RunControls controls;
+    controls.log = ctx.log.get();
+    controls.stop_requested = interrupt.query();
+    controls.checkpoint = [&](long it, double t, const std::vector<double>& x) {
+      write_checkpoint(ckpt, sc, model, x, t, it, ctx.command_line);
+    };
+    RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
+
+    if (r.status == SolveStatus::kInterrupted) {
+      write_checkpoint(ckpt, sc, model, r.x, r.time_s, r.iterations, ctx.command_line);
+      ctx.log->warn("interrupted (signal {}); checkpoint written to {}; continue with "
+                    "--restart {}",
+                    interrupt.signal_number(), ckpt.string(), ckpt.string());
+      return static_cast<int>(ExitCode::kInterrupted);
+    }
+    if (!obs.points.empty()) {
+      const std::size_t S = model.species_count(), N = model.cells();
+      std::vector<double> f(S * N);
+      for (std::size_t s = 0; s < S; ++s) {
+        for (std::size_t j = 0; j < N; ++j) {
+          f[s * N + j] = r.x[j * S + s] / model.background().air_density_cm3[j];
+        }
+      }
+      scores = score_column(model.background().grid.center_cm, model.species(), f, obs, 0);
+    }
+    write_run_file(sc.output.file, sc, model, r, ctx.command_line, scores);
+    std::cout << summarize_run(sc, model, r);
+    if (!scores.empty()) std::cout << format_scores(scores);
     ctx.log->info("wrote {}", sc.output.file.string());
+    if (!r.ok()) {
+      ctx.log->error("{} solve did not converge: {}", r.method, r.reason);
+      return static_cast<int>(ExitCode::kNotConverged);
+    }
     return 0;
   });
 }

@@ -35,6 +35,7 @@ struct Scenario {
   std::filesystem::path file;
   BackgroundSpec background;
   OutputSpec output;
+  std::filesystem::path observations;  ///< optional: scored at the end of `colchem run`
   ColumnSpeciesSpec species_setup;  ///< `species:` and `injections:` (io/species_section)
   ChemistrySpec chemistry;  ///< empty mechanism when the scenario has no chemistry section
   SolverSpec solver;  ///< `solver:` (io/solver_section.hpp); defaults when absent

@@ -251,6 +251,7 @@ Scenario load_scenario(const std::filesystem::path& file,
   if (auto c = root.find("chemistry")) load_chemistry_section(*c, units, sc);
   if (auto p = root.find("photolysis")) load_photolysis_section(*p, units, sc);
   if (auto o = root.find("output")) load_output(*o, ctx);
+  if (auto o = root.find("observations")) sc.observations = o->path();
   if (auto s = root.find("species")) load_species_section(*s, units, sc.species_setup, &sc.inputs);
   if (auto i = root.find("injections")) load_injections_section(*i, units, sc.species_setup);
   if (auto s = root.find("solver")) sc.solver = load_solver_section(*s, units);

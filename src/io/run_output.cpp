@@ -1,0 +1,185 @@
+#include "io/run_output.hpp"
+
+#include "core/constants.hpp"
+#include "io/netcdf_file.hpp"
+#include "io/output.hpp"
+#include "io/score_output.hpp"
+#include "photo/photolysis_output.hpp"
+
+namespace colchem {
+
+namespace {
+BudgetInputs budget_inputs(const ColumnModel& model, const ColumnDiagnostics& d) {
+  BudgetInputs in;
+  in.edge_cm = model.background().grid.edge_cm;
+  in.species = model.species();
+  in.equations = d.equations;
+  in.net_stoichiometry = d.net_stoichiometry;
+  in.reaction_rate = d.reaction_rate;
+  in.transport_tendency = d.transport_tendency;
+  in.net_tendency = d.net_tendency;
+  return in;
+}
+
+void write_status(NcWriter& nc, const RunOutcome& o) {
+  nc.global_text("colchem_solver_method", o.method);
+  nc.global_text("colchem_solver_status", to_string(o.status));
+  nc.global_text("colchem_solver_reason", o.reason);
+  nc.global_number("colchem_residual_norm", o.residual_norm);
+  nc.global_number("colchem_iterations", static_cast<double>(o.iterations));
+  nc.global_number("colchem_model_time_s", o.time_s);
+}
+}  // namespace
+
+std::vector<ElementBudget> column_element_budgets(const ColumnModel& model,
+                                                  const ColumnDiagnostics& d) {
+  const Mechanism& mech = model.chemistry().kinetics().mechanism();
+  std::vector<std::vector<std::pair<std::string, int>>> atoms;
+  std::vector<bool> held;
+  for (std::size_t s = 0; s < model.species_count(); ++s) {
+    atoms.emplace_back(mech.species[s].composition.atoms.begin(),
+                       mech.species[s].composition.atoms.end());
+    held.push_back(model.held(s));
+  }
+  return element_budgets(budget_inputs(model, d), atoms, held, d.bottom_flux, d.top_flux);
+}
+
+void write_run_file(const std::filesystem::path& file, const Scenario& sc, ColumnModel& model,
+                    const RunOutcome& o, const std::string& command_line,
+                    const std::vector<SpeciesScore>& scores) {
+  const Background& bg = model.background();
+  const std::size_t S = model.species_count(), N = model.cells();
+  NcWriter nc(file);
+  write_provenance(nc, sc, command_line);
+  write_status(nc, o);
+  define_background(nc, bg);
+  const bool chem = model.has_chemistry();
+  ColumnDiagnostics d;
+  std::vector<ElementBudget> budgets;
+  if (chem) {
+    model.refresh_photolysis(o.x);
+    d = model.diagnostics(o.x, o.time_s);
+    budgets = column_element_budgets(model, d);
+    define_species(nc, model.species());
+    define_reactions(nc, d.equations.size());
+    nc.variable("held_fixed", {"species"}, {"1", "1 where the species is held at its background mixing ratio", "", {}});
+    for (const char* v : {"flux", "eddy_flux", "molecular_flux"}) {
+      nc.variable(v, {"species", "altitude_edge"},
+                  {"cm-2 s-1", std::string(v) + " through cell edges, positive upward", "", {}});
+    }
+    nc.variable("bottom_flux", {"species"}, {"cm-2 s-1", "upward flux through the bottom edge", "", {}});
+    nc.variable("top_flux", {"species"}, {"cm-2 s-1", "upward flux through the top edge", "", {}});
+    nc.dimension("element", budgets.size());
+    nc.string_variable("element", "element", "chemical element");
+    for (const auto& [v, what] : std::vector<std::pair<std::string, std::string>>{
+             {"element_boundary_in", "atoms entering through the bottom minus leaving through the top"},
+             {"element_chemistry", "chemical change of the transported species"},
+             {"element_held_supply", "chemical change of held species (supplied from outside)"},
+             {"element_sinks", "removal by sinks (condensation, product-less reactions)"},
+             {"element_imbalance", "boundary_in + chemistry: column change of the element"}}) {
+      nc.variable(v, {"element"}, {"cm-2 s-1", what, "", {}});
+    }
+    nc.variable("element_relative_imbalance", {"element"},
+                {"1", "|imbalance| / gross (sum of magnitudes of every column term)", "", {}});
+    if (model.photolysis()) define_photolysis_output(nc, *model.photolysis(), false);
+    if (!o.snapshots.empty()) {
+      nc.dimension("snapshot", o.snapshots.size());
+      nc.variable("snapshot_time", {"snapshot"}, {"s", "model time of the snapshot", "time", {}});
+      nc.variable("snapshot_number_density", {"snapshot", "species", "altitude"},
+                  {"cm-3", "number density at the snapshot time", "", {}});
+      nc.variable("snapshot_column_density", {"snapshot", "species"},
+                  {"cm-2", "column density at the snapshot time", "", {}});
+    }
+  }
+  nc.dimension("iteration", o.history.size());
+  nc.variable("history_residual_norm", {"iteration"}, {"1", "scaled coupled residual", "", {}});
+  nc.variable("history_step", {"iteration"}, {"s", "pseudo-time step (steady) or time step (transient)", "", {}});
+  nc.variable("history_change", {"iteration"}, {"1", "max relative change (steady) or step error estimate (transient)", "", {}});
+  nc.variable("history_time", {"iteration"}, {"s", "model time (transient)", "", {}});
+  nc.variable("history_wall_time", {"iteration"}, {"s", "wall time since the solve started", "", {}});
+  if (!scores.empty()) define_scores(nc, scores);
+  nc.end_definitions();
+
+  write_background_data(nc, bg);
+  if (chem) {
+    write_species_data(nc, bg, model.species(), o.x);
+    write_reaction_data(nc, {d.equations, d.net_stoichiometry, d.reaction_rate, d.chemical_tendency,
+                             d.transport_tendency, d.net_tendency});
+    std::vector<double> heldv;
+    for (std::size_t s = 0; s < S; ++s) heldv.push_back(model.held(s) ? 1.0 : 0.0);
+    nc.put("held_fixed", heldv);
+    nc.put("flux", d.edge_flux);
+    nc.put("eddy_flux", d.eddy_flux);
+    nc.put("molecular_flux", d.molecular_flux);
+    nc.put("bottom_flux", d.bottom_flux);
+    nc.put("top_flux", d.top_flux);
+    std::vector<std::string> el;
+    std::vector<double> bin, ch, hs, sk, im, rel;
+    for (const auto& b : budgets) {
+      el.push_back(b.element);
+      bin.push_back(b.boundary_in);
+      ch.push_back(b.chemistry);
+      hs.push_back(b.held_supply);
+      sk.push_back(b.sinks);
+      im.push_back(b.imbalance);
+      rel.push_back(b.relative_imbalance);
+    }
+    nc.put_strings("element", el);
+    nc.put("element_boundary_in", bin);
+    nc.put("element_chemistry", ch);
+    nc.put("element_held_supply", hs);
+    nc.put("element_sinks", sk);
+    nc.put("element_imbalance", im);
+    nc.put("element_relative_imbalance", rel);
+    if (model.photolysis()) write_photolysis_output(nc, *model.photolysis(), model.jvalues(), {});
+    if (!o.snapshots.empty()) {
+      nc.put("snapshot_time", o.snapshot_times_s);
+      std::vector<double> snd, scol;
+      for (const auto& x : o.snapshots) {
+        for (std::size_t s = 0; s < S; ++s) {
+          double col = 0.0;
+          for (std::size_t j = 0; j < N; ++j) {
+            snd.push_back(x[j * S + s]);
+            col += x[j * S + s] * bg.grid.width_cm(j);
+          }
+          scol.push_back(col);
+        }
+      }
+      nc.put("snapshot_number_density", snd);
+      nc.put("snapshot_column_density", scol);
+    }
+  }
+  std::vector<double> hr, hs, hc, ht, hw;
+  for (const auto& h : o.history) {
+    hr.push_back(h.residual_norm);
+    hs.push_back(h.step_s);
+    hc.push_back(h.change);
+    ht.push_back(h.time_s);
+    hw.push_back(h.wall_s);
+  }
+  nc.put("history_residual_norm", hr);
+  nc.put("history_step", hs);
+  nc.put("history_change", hc);
+  nc.put("history_time", ht);
+  nc.put("history_wall_time", hw);
+  if (!scores.empty()) write_scores(nc, scores);
+  nc.commit();
+}
+
+void write_checkpoint(const std::filesystem::path& file, const Scenario& sc,
+                      const ColumnModel& model, const std::vector<double>& x, double time_s,
+                      long iteration, const std::string& command_line) {
+  NcWriter nc(file);
+  write_provenance(nc, sc, command_line);
+  nc.global_text("colchem_solver_status", "checkpoint");
+  nc.global_number("colchem_model_time_s", time_s);
+  nc.global_number("colchem_iterations", static_cast<double>(iteration));
+  define_background(nc, model.background());
+  define_species(nc, model.species());
+  nc.end_definitions();
+  write_background_data(nc, model.background());
+  write_species_data(nc, model.background(), model.species(), x);
+  nc.commit();
+}
+
+}  // namespace colchem

@@ -1,0 +1,204 @@
+#include "solve/column_model.hpp"
+
+#include <cmath>
+
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "core/interp.hpp"
+#include "io/netcdf_file.hpp"
+#include "io/output.hpp"
+
+namespace colchem {
+
+ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.background)) {
+  species_setup_ = sc.species_setup;
+  const double air_amu = bg_.molecule_mass_g / constants::kAtomicMassUnit;
+  if (sc.chemistry.mechanism) {
+    chemistry_ = std::make_unique<ChemistryOperator>(sc.chemistry, bg_);
+    for (const auto& sk : sc.chemistry.sinks) sink_species_.push_back(sk.species);
+    const Mechanism& mech = *sc.chemistry.mechanism;
+    for (const auto& sp : mech.species) {
+      names_.push_back(sp.name);
+      held_.push_back(sp.fixed);
+      TransportSpecies ts = default_transport_species(sp.name, sp.molar_mass_g_mol, air_amu);
+      const DiffusionParams d = sp.diffusion_params(air_amu);
+      ts.diffusion_A = d.A;
+      ts.diffusion_s = d.s;
+      ts.thermal_diffusion = sp.thermal_diffusion_factor();
+      ts.fixed = sp.fixed;
+      transport_species_.push_back(ts);
+    }
+  }
+  // Every species the scenario configures must be a species of the mechanism.
+  for (const auto& entry : species_setup_.species) {
+    bool known = false;
+    for (const auto& n : names_) known = known || n == entry.name;
+    if (!known) {
+      std::string list;
+      for (const auto& n : names_) list += (list.empty() ? "" : ", ") + n;
+      throw InputError(ExitCode::kConfig, entry.where, "species." + entry.name,
+                       names_.empty() ? std::string("a chemistry section declaring the species")
+                                      : "a species of the mechanism (" + list + ")",
+                       "'" + entry.name + "'");
+    }
+  }
+  apply_species_settings(species_setup_, transport_species_);
+  for (std::size_t s = 0; s < names_.size(); ++s) {
+    held_[s] = transport_species_[s].fixed;
+    const auto it = bg_.bulk_mole_fraction.find(names_[s]);
+    held_mixing_ratio_.push_back(it == bg_.bulk_mole_fraction.end() ? 0.0 : it->second);
+  }
+  if (names_.empty()) return;
+
+  try {
+    transport_ = std::make_unique<TransportOperator>(bg_, transport_species_,
+                                                     boundaries_for(species_setup_, transport_species_));
+  } catch (const std::invalid_argument& e) {
+    throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "species",
+                     "boundary conditions that fit their boundary", e.what());
+  }
+  injections_ = resolve_injections(species_setup_, bg_, transport_species_);
+
+  const auto& channels = chemistry_->photolysis_channels();
+  if (!channels.empty()) {
+    if (!sc.has_photolysis) {
+      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",
+                       "a photolysis section (the mechanism has photolysis channel '" +
+                           channels.front() + "')",
+                       "none");
+    }
+    photo_ = std::make_unique<PhotolysisModel>(sc.photolysis, bg_, names_);
+    for (const auto& c : channels) {
+      const int pc = photo_->channel_index(c);
+      if (pc < 0) {
+        throw InputError(ExitCode::kInputData, SourceLocation{sc.photolysis.data_source},
+                         "channels", "a channel named '" + c + "' (used by the mechanism)", "none");
+      }
+      channel_map_.push_back(static_cast<std::size_t>(pc));
+    }
+    J_.assign(photo_->channels().size() * cells(), 0.0);
+  }
+}
+
+ColumnSystem ColumnModel::system() {
+  ColumnSystem sys;
+  sys.cells = cells();
+  sys.species = species_count();
+  if (transport_) sys.operators.push_back(transport_.get());
+  if (chemistry_) sys.operators.push_back(chemistry_.get());
+  return sys;
+}
+
+void ColumnModel::impose_held(std::span<double> n) const {
+  if (chemistry_) chemistry_->impose_fixed(n);
+}
+
+std::vector<double> ColumnModel::initial_state() const {
+  std::vector<double> n = colchem::initial_state(species_setup_, bg_, transport_species_,
+                                                 held_mixing_ratio_);
+  impose_held(n);
+  return n;
+}
+
+std::size_t ColumnModel::take_restart(const std::filesystem::path& file,
+                                      std::vector<double>& n) const {
+  const NcReader nc(file);
+  const ModelColumn old = read_model_column(nc);
+  const std::size_t S = species_count(), N = cells();
+  std::size_t taken = 0;
+  for (std::size_t s = 0; s < S; ++s) {
+    const std::size_t o = old.index(names_[s]);
+    if (o >= old.species.size()) continue;
+    std::vector<double> y(old.cells());
+    const double floor = 1e-30;  // log interpolation needs positive values
+    for (std::size_t j = 0; j < old.cells(); ++j) {
+      y[j] = std::max(old.number_density[o * old.cells() + j], floor);
+    }
+    const auto v = *interpolate(old.altitude_cm, y, bg_.grid.center_cm, InterpScale::kLog,
+                                Extrapolation::kHoldEnds);
+    for (std::size_t j = 0; j < N; ++j) n[j * S + s] = v[j];
+    ++taken;
+  }
+  impose_held(n);
+  return taken;
+}
+
+void ColumnModel::refresh_photolysis(std::span<const double> n) {
+  if (!photo_) return;
+  photo_->compute(n, J_);
+  const std::size_t N = cells();
+  for (std::size_t c = 0; c < channel_map_.size(); ++c) {
+    chemistry_->set_photolysis_rates(c, std::span<const double>(J_.data() + channel_map_[c] * N, N));
+  }
+}
+
+ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) {
+  ColumnDiagnostics d;
+  const std::size_t S = species_count(), N = cells();
+  const Kinetics& kin = chemistry_->kinetics();
+  const Mechanism& mech = kin.mechanism();
+  const std::size_t R = kin.reaction_count();
+  // Condensation sinks appear as pseudo-reactions so that budgets list every term.
+  std::vector<double> cond(N * S, 0.0);
+  chemistry_->condensation_rates(n, cond);
+  std::vector<std::size_t> cond_species;
+  for (std::size_t s = 0; s < S; ++s) {
+    double any = 0.0;
+    for (std::size_t j = 0; j < N; ++j) any += std::abs(cond[j * S + s]);
+    bool declared = false;
+    for (std::size_t k : sink_species_) declared = declared || k == s;
+    if (declared || any > 0.0) cond_species.push_back(s);
+  }
+  const std::size_t RR = R + cond_species.size();
+  d.net_stoichiometry.assign(RR * S, 0.0);
+  for (std::size_t r = 0; r < R; ++r) {
+    const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
+    d.equations.push_back(rx.equation);
+    for (const auto& e : rx.reactants) d.net_stoichiometry[r * S + e.species] -= e.count;
+    for (const auto& e : rx.products) d.net_stoichiometry[r * S + e.species] += e.count;
+  }
+  for (std::size_t k = 0; k < cond_species.size(); ++k) {
+    d.equations.push_back(names_[cond_species[k]] + " -> (condensation onto the cloud deck)");
+    d.net_stoichiometry[(R + k) * S + cond_species[k]] = -1.0;
+  }
+  std::vector<double> rates(N * R);
+  chemistry_->reaction_rates(n, rates);
+  d.reaction_rate.assign(RR * N, 0.0);
+  for (std::size_t j = 0; j < N; ++j) {
+    for (std::size_t r = 0; r < R; ++r) d.reaction_rate[r * N + j] = rates[j * R + r];
+    for (std::size_t k = 0; k < cond_species.size(); ++k) {
+      d.reaction_rate[(R + k) * N + j] = cond[j * S + cond_species[k]];
+    }
+  }
+  std::vector<double> fc(N * S, 0.0), ft(N * S, 0.0);
+  chemistry_->add_tendency(n, t, fc);
+  transport_->add_tendency(n, t, ft);
+  d.chemical_tendency.resize(S * N);
+  d.transport_tendency.resize(S * N);
+  d.net_tendency.resize(S * N);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) {
+      d.chemical_tendency[s * N + j] = fc[j * S + s];
+      d.transport_tendency[s * N + j] = ft[j * S + s];
+      d.net_tendency[s * N + j] = fc[j * S + s] + ft[j * S + s];
+    }
+  }
+  d.edge_flux.resize(S * (N + 1));
+  transport_->edge_fluxes(n, t, d.edge_flux);
+  d.eddy_flux.resize(S * (N + 1));
+  d.molecular_flux.resize(S * (N + 1));
+  for (std::size_t s = 0; s < S; ++s) {
+    const EdgeFluxParts p = transport_->edge_flux_parts(n, t, s);
+    for (std::size_t e = 0; e <= N; ++e) {
+      d.eddy_flux[s * (N + 1) + e] = p.eddy[e];
+      d.molecular_flux[s * (N + 1) + e] = p.molecular[e];
+    }
+  }
+  for (const auto& b : transport_->boundary_fluxes(n, t)) {
+    d.bottom_flux.push_back(b.bottom);
+    d.top_flux.push_back(b.top);
+  }
+  return d;
+}
+
+}  // namespace colchem
