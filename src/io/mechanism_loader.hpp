@@ -29,7 +29,10 @@ std::shared_ptr<Mechanism> load_mechanism_text(const std::string& text, const st
 struct RateLimits {
   double first_order_s = 1e20;         ///< s^-1
   double bimolecular_cm3_s = 1e-8;     ///< cm^3 s^-1 (also bimolecular-equivalent k)
-  double termolecular_cm6_s = 1e-26;   ///< cm^6 s^-1 (k0 of fall-off forms)
+  /// cm^6 s^-1 (k0 of fall-off forms). Not lower: SO3 + 2 H2O -> H2SO4 + H2O (Lovejoy et
+  /// al. 1996), extrapolated as planetary models do to 170 K, reaches a few 1e-24 through its
+  /// water-complex route.
+  double termolecular_cm6_s = 1e-22;
 };
 
 /// Evaluates every thermal rate constant at every (T, n_air) pair with [M] from

@@ -107,6 +107,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
   double prev_norm = std::numeric_limits<double>::quiet_NaN();
   double last_change = std::numeric_limits<double>::infinity();
   double last_dtau = 0.0;
+  bool last_clipped = false;  // the last step clipped a density at its positivity floor
   bool have_prev = false;
 
   auto finish = [&](SolveStatus st, std::string why, double norm) {
@@ -201,6 +202,8 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       } else {
         dtau *= std::clamp(o.growth_increment * ratio, o.min_growth, o.max_growth);
       }
+      // A heavily damped or clipped step means dtau outran what the state can follow.
+      if (last_clipped) dtau = std::min(dtau, last_dtau * o.min_growth);
     }
     dtau_before_newton = 0.0;
     // Never below the tolerance: convergence is declared only after a Newton step.
@@ -226,10 +229,16 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     }
     ++res.iterations;
 
-    const double lambda = positivity_damping(x, dx, S, o);
+    // A single nearly-empty species must not stall the whole column: the global damping is
+    // bounded below, and every density is then clipped at f times itself individually.
+    const double lambda = std::max(positivity_damping(x, dx, S, o), o.min_damping);
     x_prev = x;
+    last_clipped = false;
     for (std::size_t i = 0; i < n; ++i) {
-      x[i] = std::max(x[i] + lambda * dx[i], o.positivity_fraction * x[i]);
+      const double want = x[i] + lambda * dx[i];
+      const double floor = o.positivity_fraction * x[i];
+      if (want < floor && x[i] > o.scale.absolute(i % S)) last_clipped = true;
+      x[i] = std::max(want, floor);
       dx[i] = x[i] - x_prev[i];
     }
     last_change = max_relative_change(dx, x, S, o.scale);

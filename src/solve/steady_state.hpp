@@ -46,6 +46,7 @@ struct SteadyStateOptions {
   double min_growth = 0.5;
   double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
   double positivity_fraction = 0.1;   ///< f: x_new >= f x_old
+  double min_damping = 0.2;           ///< lower bound of the global damping lambda
   double time_s = 0.0;                ///< the t handed to the operators
   int checkpoint_every = 0;           ///< iterations between checkpoint calls (0: never)
   ResidualScale scale;
