@@ -85,3 +85,10 @@ add_test(NAME cli.plot_profiles
           ${CMAKE_CURRENT_BINARY_DIR}/plots)
 colchem_cli_test(help_compare 0 "--fitted-parameters" $<TARGET_FILE:colchem> compare --help)
 colchem_cli_test(help_budget 0 "--bands" $<TARGET_FILE:colchem> budget --help)
+
+# Sweeps on one and two MPI ranks; a failing variant.
+add_test(NAME cli.sweep
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_work)
+set_tests_properties(cli.sweep PROPERTIES PROCESSORS 2)
+colchem_cli_test(help_sweep 0 "mpirun" $<TARGET_FILE:colchem> sweep --help)

@@ -1,0 +1,160 @@
+// colchem sweep SWEEP.yaml: run every variant of a scenario (module combinations x parameter
+// grids x config overrides), on one process or under mpirun, score each against the
+// observations, and write one NetCDF with a variant dimension plus a ranked table.
+#include <mpi.h>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <iostream>
+#include <limits>
+#include <set>
+
+#include "analysis/observations.hpp"
+#include "analysis/score.hpp"
+#include "analysis/sweep_runner.hpp"
+#include "app/commands.hpp"
+#include "core/error.hpp"
+#include "io/output.hpp"
+#include "io/scenario.hpp"
+#include "io/sweep_loader.hpp"
+#include "io/sweep_output.hpp"
+#include "solve/column_run.hpp"
+#include "solve/interrupt.hpp"
+#include "solve/petsc_session.hpp"
+
+namespace colchem::app {
+
+void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand(
+      "sweep", "Run a sweep of scenario variants (modules x parameters x overrides); under "
+               "mpirun the variants are shared among the ranks.");
+  struct Options {
+    std::string file;
+    std::vector<std::string> sets;
+    std::string output, table;
+  };
+  auto o = std::make_shared<Options>();
+  cmd->add_option("SWEEP", o->file, "Sweep file (YAML; README \"Sweeps\")")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--set", o->sets, "Override a value of the sweep file by its key path");
+  cmd->add_option("-o,--output", o->output, "NetCDF output (default: sweep.output)");
+  cmd->add_option("--table", o->table, "Ranked CSV table (default: sweep.table)");
+  out.emplace_back(cmd, [o](Context& ctx) {
+    const PetscSession petsc;  // initialises MPI as well
+    int rank = 0, size = 1;
+    MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+    MPI_Comm_size(MPI_COMM_WORLD, &size);
+    const UnitSystem units;
+    SweepSpec spec = load_sweep(o->file, o->sets);
+    if (!o->output.empty()) spec.output = o->output;
+    if (!o->table.empty()) spec.table = o->table;
+    const auto variants = expand_variants(spec);
+
+    // The base scenario fixes the grid and species every variant must share.
+    const Scenario base = load_scenario(spec.scenario, spec.common_overrides, units);
+    ColumnModel base_model(base);
+    if (!base_model.has_chemistry()) {
+      throw InputError(ExitCode::kConfig, SourceLocation{spec.scenario.string()}, "chemistry",
+                       "a scenario with a chemistry section", "none");
+    }
+    const std::size_t S = base_model.species_count(), N = base_model.cells();
+    ObservationSet obs;
+    if (!spec.observations.empty()) obs = read_observations(spec.observations, units);
+    if (rank == 0) {
+      ctx.log->info("sweep {}: {} variants on {} rank{}", spec.name, variants.size(), size,
+                    size == 1 ? "" : "s");
+    }
+    const InterruptGuard interrupt;
+
+    const VariantRunner runner = [&](const Variant& v, const std::vector<double>* warm) {
+      VariantOutcome result;
+      const Scenario sc = load_scenario(spec.scenario, v.overrides, units);
+      ColumnModel model(sc);
+      if (model.species_count() != S || model.cells() != N) {
+        result.reason = "the variant changes the grid or the species of the base scenario";
+        return result;
+      }
+      std::vector<double> x0 = (warm && warm->size() == S * N) ? *warm : model.initial_state();
+      model.impose_held(x0);
+      RunControls controls;
+      controls.stop_requested = interrupt.query();
+      RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
+      result.converged = r.ok();
+      result.reason = r.ok() ? std::string("converged") : r.reason;
+      result.iterations = static_cast<int>(r.iterations);
+      result.residual = r.residual_norm;
+      result.values.resize(S * N);
+      for (std::size_t s = 0; s < S; ++s) {
+        for (std::size_t j = 0; j < N; ++j) {
+          result.values[s * N + j] = r.x[j * S + s] / model.background().air_density_cm3[j];
+        }
+      }
+      result.state = std::move(r.x);
+      return result;
+    };
+    const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+      ctx.log->info("variant {}/{} [{}] {} on rank {}: {} ({} iterations, {:.2f} s)", v.index + 1,
+                    variants.size(), v.label, r.warm_started ? "warm" : "cold", rank,
+                    r.converged ? "converged" : "FAILED: " + r.reason, r.iterations, r.wall_seconds);
+    };
+    std::vector<VariantOutcome> outcomes = run_variants(MPI_COMM_WORLD, variants, runner, done);
+    if (rank != 0) return 0;
+
+    SweepResults res;
+    res.variants = variants;
+    res.species = base_model.species();
+    for (const auto& a : spec.axes) res.parameter_names.push_back(a.name);
+    std::set<std::string> modules;
+    for (const auto& m : spec.module_sets) modules.insert(m.modules.begin(), m.modules.end());
+    res.module_names.assign(modules.begin(), modules.end());
+    for (auto& oc : outcomes) {
+      res.mole_fraction.push_back(oc.converged ? oc.values : std::vector<double>{});
+      std::vector<SpeciesScore> scores;
+      if (!obs.points.empty() && oc.converged) {
+        scores = score_column(base_model.background().grid.center_cm, res.species, oc.values, obs,
+                              static_cast<int>(spec.axes.size()));
+      }
+      res.scores.push_back(std::move(scores));
+      oc.state.clear();
+    }
+    if (!obs.points.empty()) {
+      // Failed variants get the observation layout with no model values, for a rectangular file.
+      std::vector<SpeciesScore> layout;
+      for (const auto& sc : res.scores) {
+        if (!sc.empty()) {
+          layout = sc;
+          break;
+        }
+      }
+      for (auto& sc : layout) {
+        sc.chi2_log = sc.chi2_linear = sc.reduced_chi2_log = sc.reduced_chi2_linear =
+            std::numeric_limits<double>::quiet_NaN();
+        for (auto& p : sc.points) p.model = std::numeric_limits<double>::quiet_NaN();
+      }
+      for (auto& sc : res.scores) {
+        if (sc.empty()) sc = layout;
+      }
+    }
+    res.outcomes = std::move(outcomes);
+    const auto ranking = rank_variants(res, spec.rank_by);
+    {
+      NcWriter nc(spec.output);
+      write_provenance(nc, base, ctx.command_line);
+      nc.global_text("colchem_sweep_file", spec.file.string());
+      nc.global_number("colchem_sweep_ranks", size);
+      write_sweep_netcdf(nc, base_model.background(), res, ranking);
+      nc.commit();
+    }
+    write_text_file(spec.table, sweep_table_csv(res, ranking, spec.rank_by));
+    std::cout << sweep_table_text(res, ranking, spec.rank_by);
+    std::size_t failed = 0;
+    for (const auto& oc : res.outcomes) failed += oc.converged ? 0 : 1;
+    ctx.log->info("wrote {} and {}; {} of {} variants converged", spec.output.string(),
+                  spec.table.string(), res.outcomes.size() - failed, res.outcomes.size());
+    return 0;
+  });
+}
+
+}  // namespace colchem::app
