@@ -24,6 +24,7 @@ using CommandAction = std::function<int(Context&)>;
 void add_check_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
+void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_budget_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);

@@ -92,3 +92,12 @@ add_test(NAME cli.sweep
           ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_work)
 set_tests_properties(cli.sweep PROPERTIES PROCESSORS 2)
 colchem_cli_test(help_sweep 0 "mpirun" $<TARGET_FILE:colchem> sweep --help)
+
+# colchem run / budget / compare / restart / interrupt on the Tellin scenario.
+add_test(NAME cli.run_tellin
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/run_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/run_work)
+colchem_cli_test(help_photo 0 "--spectrum" $<TARGET_FILE:colchem> photo --help)
+colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml)
+colchem_cli_test(run_unknown_species 3 "'species.SO3x': expected a species of the mechanism"
+  $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --set species.SO3x.initial=1e-9)

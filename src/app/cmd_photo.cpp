@@ -1,0 +1,62 @@
+// colchem photo CONFIG [--from RUN.nc] [-o OUT.nc] [--spectrum]: the J-values of a scenario's
+// photolysis channels at every level, for its initial state or a run's final state, without
+// solving anything.
+#include <iostream>
+
+#include "app/commands.hpp"
+#include "core/error.hpp"
+#include "io/output.hpp"
+#include "io/scenario.hpp"
+#include "photo/photolysis_output.hpp"
+#include "solve/column_model.hpp"
+
+namespace colchem::app {
+
+void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand(
+      "photo", "Print (and optionally write) the J-values of a scenario without solving.");
+  struct Options {
+    std::string config, from, output;
+    std::vector<std::string> sets;
+    bool spectrum = false;
+  };
+  auto o = std::make_shared<Options>();
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("--from", o->from, "Take the absorbers' densities from a run output")
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", o->output, "Write J-values (and the spectrum) to NetCDF");
+  cmd->add_flag("--spectrum", o->spectrum, "Also write the actinic flux spectrum (with -o)");
+  cmd->add_option("--set", o->sets, "Override a config value by its dotted key path");
+  out.emplace_back(cmd, [o](Context& ctx) {
+    const UnitSystem units;
+    const Scenario sc = load_scenario(o->config, o->sets, units);
+    ColumnModel model(sc);
+    if (!model.photolysis()) {
+      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",
+                       "a scenario with photolysis channels", "none");
+    }
+    std::vector<double> n = model.initial_state();
+    if (!o->from.empty()) model.take_restart(o->from, n);
+    const PhotolysisModel& photo = *model.photolysis();
+    std::vector<double> J(photo.channels().size() * model.cells());
+    std::vector<double> F(o->spectrum ? model.cells() * photo.bins() : 0);
+    // A model of our own (not the column model's) so that the spectrum can be asked for.
+    PhotolysisModel local(sc.photolysis, model.background(), model.species());
+    local.compute(n, J, F);
+    std::cout << format_jvalue_table(local, J, model.background().grid);
+    if (!o->output.empty()) {
+      NcWriter nc(o->output);
+      write_provenance(nc, sc, ctx.command_line);
+      define_background(nc, model.background());
+      define_photolysis_output(nc, local, o->spectrum);
+      nc.end_definitions();
+      write_background_data(nc, model.background());
+      write_photolysis_output(nc, local, J, F);
+      nc.commit();
+      ctx.log->info("wrote {}", o->output);
+    }
+    return 0;
+  });
+}
+
+}  // namespace colchem::app
