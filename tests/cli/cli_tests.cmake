@@ -101,3 +101,6 @@ colchem_cli_test(help_photo 0 "--spectrum" $<TARGET_FILE:colchem> photo --help)
 colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml)
 colchem_cli_test(run_unknown_species 3 "'species.SO3x': expected a species of the mechanism"
   $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --set species.SO3x.initial=1e-9)
+add_test(NAME cli.labcell
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/labcell_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/labcell_work)
