@@ -52,6 +52,9 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
   NcWriter nc(file);
   write_provenance(nc, sc, command_line);
   write_status(nc, o);
+  if (!model.injections().empty()) {
+    nc.global_number("colchem_injection_time_s", model.injections().front().time_s);
+  }
   define_background(nc, bg);
   const bool chem = model.has_chemistry();
   ColumnDiagnostics d;
