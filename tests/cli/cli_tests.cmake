@@ -104,3 +104,9 @@ colchem_cli_test(run_unknown_species 3 "'species.SO3x': expected a species of th
 add_test(NAME cli.labcell
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/labcell_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/labcell_work)
+
+# The Tellin SO2 injection (a 130-day transient; several minutes).
+add_test(NAME validation.worlds.tellin_injection
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/run.sh $<TARGET_FILE:colchem>)
+set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400
+  ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_tellin_injection.nc")
