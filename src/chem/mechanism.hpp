@@ -1,6 +1,6 @@
 // A chemical mechanism as typed, validated data: species, named parameters, modules and
 // reactions. io/mechanism_loader.hpp builds it from a mechanism file (schema in
-// docs-chem.md); physics code (kinetics.hpp) compiles the active part into a network.
+// README.md, section Configuration reference); physics code (kinetics.hpp) compiles the active part into a network.
 //
 // Reaction rate R_r = s_r k_r(T, [M]) prod_s n_s^nu_s (cm^-3 s^-1), with the scale
 // s_r = prod over the reaction's scale list of p or (1 - p) (named parameters, e.g.

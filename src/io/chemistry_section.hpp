@@ -7,7 +7,7 @@
 //     sinks: [{species: H2SO4, saturation: h2so4_ayers1980, timescale: 1 d, below: 70 km}]
 // Unknown modules and parameter names (did-you-mean), values outside a parameter's bounds
 // and inactive requirements are configuration errors (ExitCode::kConfig); a bad mechanism
-// file is ExitCode::kInputData. Keys are documented in docs-chem.md.
+// file is ExitCode::kInputData. Keys are documented in README.md, section Configuration reference.
 #pragma once
 
 #include <filesystem>
@@ -35,7 +35,7 @@ void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenar
 ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
                                   std::vector<InputFile>& inputs, bool allow_sinks);
 
-/// A box-mode run: one well-mixed cell at fixed T and p (docs-chem.md "Box mode").
+/// A box-mode run: one well-mixed cell at fixed T and p (README.md, section Configuration reference "Box mode").
 struct BoxSpec {
   std::string name;
   std::string description;

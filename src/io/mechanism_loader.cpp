@@ -1,4 +1,4 @@
-// Mechanism file loader. Schema (docs-chem.md): mechanism {name, description}, species [..],
+// Mechanism file loader. Schema (README.md, section Configuration reference): mechanism {name, description}, species [..],
 // parameters [..], modules [{name, description, requires, reactions [..]}].
 #include "io/mechanism_loader.hpp"
 

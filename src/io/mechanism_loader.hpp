@@ -1,4 +1,4 @@
-// Mechanism files (YAML, colchem's own schema; docs-chem.md "Mechanism files") -> Mechanism.
+// Mechanism files (YAML, colchem's own schema; README.md, section Configuration reference "Mechanism files") -> Mechanism.
 //
 // Every check raises an InputError (ExitCode::kInputData) naming the file, the line and the
 // reaction's equation: element balance (sinks exempt; hv and M ignored), undeclared

@@ -1,4 +1,4 @@
-// Photolysis loader: YAML and tables -> PhotolysisSpec (keys in docs-photo.md).
+// Photolysis loader: YAML and tables -> PhotolysisSpec (keys in README.md, section Configuration reference).
 #include "io/photolysis_loader.hpp"
 
 #include <cmath>

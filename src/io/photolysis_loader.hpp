@@ -1,5 +1,5 @@
 // Photolysis section of a scenario and the photolysis data file it names -> PhotolysisSpec.
-// Every key is documented in docs-photo.md ("Scenario keys", "Data file schema"); every bad
+// Every key is documented in README.md, section Configuration reference ("Scenario keys", "Data file schema"); every bad
 // input is an InputError naming the file, line and key.
 #pragma once
 

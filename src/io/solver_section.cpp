@@ -1,4 +1,4 @@
-// Loader of the `solver:` section: see solver_section.hpp and docs-solve.md.
+// Loader of the `solver:` section: see solver_section.hpp and README.md, section What the model computes.
 #include "io/solver_section.hpp"
 
 #include <algorithm>

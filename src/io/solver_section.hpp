@@ -1,4 +1,4 @@
-// The scenario's `solver:` section as typed values (keys documented in docs-solve.md).
+// The scenario's `solver:` section as typed values (keys documented in README.md, section What the model computes).
 //
 //   solver:
 //     method: steady            # steady | transient | split_steady

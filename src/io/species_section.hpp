@@ -1,5 +1,5 @@
 // Loader for the scenario's `species:` and `injections:` sections -> ColumnSpeciesSpec
-// (transport/column_species.hpp). Every key is documented in docs-transport.md (to be
+// (transport/column_species.hpp). Every key is documented in README.md, section Configuration reference (to be
 // folded into README "Configuration reference"). Species names are kept as written with
 // their file position; the caller checks them against the mechanism.
 #pragma once

@@ -48,7 +48,7 @@ colchem_cli_test(set_malformed 2 "expected KEY.PATH=VALUE"
 colchem_cli_test(missing_file 2 "File does not exist"
   $<TARGET_FILE:colchem> check ${CFG}/no_such_file.yaml)
 
-# Box mode (docs-chem.md): help, a run against the analytic equilibrium of
+# Box mode (README.md, section Configuration reference): help, a run against the analytic equilibrium of
 # validation/chem/box_equilibrium (README there), a bad mechanism (exit 4), and the
 # chemistry summary of check.
 set(CHEMV ${CMAKE_SOURCE_DIR}/validation/chem)

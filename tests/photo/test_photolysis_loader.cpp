@@ -180,7 +180,7 @@ TEST_CASE("a scenario's photolysis section reaches Scenario::photolysis", "[phot
   const Scenario sc = load_scenario(file, {}, units);
   CHECK(sc.has_photolysis);
   CHECK(sc.photolysis.channels.size() == 16);
-  // Defaults (docs-photo.md): 60 deg with a day fraction of 0.5, plane-parallel paths.
+  // Defaults (README.md, section Configuration reference): 60 deg with a day fraction of 0.5, plane-parallel paths.
   CHECK(sc.photolysis.illumination.zenith_angle_rad == Approx(constants::kPi / 3.0));
   CHECK(sc.photolysis.illumination.day_fraction == Approx(0.5));
   // Every table read is kept for provenance: data file, 18 tables, spectrum.
