@@ -80,8 +80,9 @@ TEST_CASE("PTC: a density titrated away by 15 decades and an absent species conv
     // D: no process: stays at its start (analytic), finite.
     CHECK(std::abs(r.x[3 * j + 2] - 1e-20) < 1e-26);
   }
-  // A falls 15 decades after the titration. A rule that lets a density fall at most one
-  // decade (f = 0.1) per step needs at least 15 steps for that fall alone (analytic); the
-  // step in ln n takes it down in a few.
-  CHECK(r.iterations < 60);
+  // A falls 15 decades after the titration. Clipping at f n (one decade a step) under a
+  // global damping >= 0.2, the rule before, needed 53 iterations here; the ln-n step needs
+  // 44 (both measured on this case, docs-solve.md). The bound sits between them, so that a
+  // return to one decade a step fails this check.
+  CHECK(r.iterations <= 48);
 }
