@@ -217,6 +217,9 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     std::string why;
     if (!linear.solve(jac, 1.0 / dtau, held, f, dx, why)) {
       record(dtau, 0.0);
+      // A failed solve counts as an iteration: otherwise a matrix that is singular only in
+      // the Newton limit (a conserved mode) fails, shrinks, jumps back and loops forever.
+      ++res.iterations;
       prev_norm = norm.value;
       have_prev = true;
       if (!shrink_or_fail()) {
@@ -230,15 +233,24 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     ++res.iterations;
 
     // A single nearly-empty species must not stall the whole column: the global damping is
-    // bounded below, and every density is then clipped at f times itself individually.
+    // bounded below by min_damping (1 by default: no global damping), and each density is
+    // then limited on its own. Where the linear update would take n_i below f n_i, the
+    // update of Newton's method in ln n_i is used instead, n_i exp(lambda dx_i / n_i) (to
+    // first order the same step, positive for any dx_i), but at most f n_i: a density the
+    // linearisation overshoots by far (dx_i/n_i << -1, a species titrated away) falls many
+    // decades in one step, not one decade per step.
     const double lambda = std::max(positivity_damping(x, dx, S, o), o.min_damping);
     x_prev = x;
     last_clipped = false;
     for (std::size_t i = 0; i < n; ++i) {
       const double want = x[i] + lambda * dx[i];
       const double floor = o.positivity_fraction * x[i];
-      if (want < floor && x[i] > o.scale.absolute(i % S)) last_clipped = true;
-      x[i] = std::max(want, floor);
+      if (want >= floor) {
+        x[i] = want;
+      } else {
+        if (x[i] > o.scale.absolute(i % S)) last_clipped = true;
+        x[i] *= std::min(o.positivity_fraction, std::exp(lambda * dx[i] / x[i]));
+      }
       dx[i] = x[i] - x_prev[i];
     }
     last_change = max_relative_change(dx, x, S, o.scale);

@@ -8,9 +8,11 @@
 // g = growth_increment (> 1 so that a stalled residual still lengthens the step), and
 // dtau = max_pseudo_step_s (Newton's method) once ||F||_s < newton_switch. If a Newton jump
 // makes the residual grow, dtau returns to half its value before the jump.
-// Positivity: the update is damped, lambda_k = min(1, (1 - f) n_i / -dx_i over densities
-// that would fall), so that no density above a_s drops below f = positivity_fraction of
-// itself in one step; densities below a_s are clipped at f n_i instead. A non-finite
+// Positivity, per density (no global damping by default, min_damping = 1): where the linear
+// update n_i + dx_i would fall below f n_i (f = positivity_fraction), the density becomes
+// n_i min(f, exp(dx_i / n_i)), the step of Newton's method in ln n_i, bounded by f n_i, so
+// that densities stay positive and one titrated away falls many decades in one step; a
+// step that limits a density above a_s caps the next dtau at half this one. A non-finite
 // residual after a step undoes the step and divides dtau by 10; dtau below
 // min_pseudo_step_s is a failure ("pseudo-time step collapsed").
 // Converged: ||F||_s < tolerance (residual_norm.hpp) AND the last step was a full Newton
@@ -46,7 +48,7 @@ struct SteadyStateOptions {
   double min_growth = 0.5;
   double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
   double positivity_fraction = 0.1;   ///< f: x_new >= f x_old
-  double min_damping = 0.2;           ///< lower bound of the global damping lambda
+  double min_damping = 1.0;           ///< lower bound of the global damping lambda (1: none)
   double time_s = 0.0;                ///< the t handed to the operators
   int checkpoint_every = 0;           ///< iterations between checkpoint calls (0: never)
   ResidualScale scale;
