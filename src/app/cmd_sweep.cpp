@@ -6,6 +6,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cmath>
 #include <iostream>
 #include <limits>
 #include <set>
@@ -113,8 +114,8 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
       res.mole_fraction.push_back(oc.converged ? oc.values : std::vector<double>{});
       std::vector<SpeciesScore> scores;
       if (!obs.points.empty() && oc.converged) {
-        scores = score_column(base_model.background().grid.center_cm, res.species, oc.values, obs,
-                              static_cast<int>(spec.axes.size()));
+        // Every variant is a fixed model, not a fit: p = 0 in the reduced chi-square.
+        scores = score_column(base_model.background().grid.center_cm, res.species, oc.values, obs, 0);
       }
       res.scores.push_back(std::move(scores));
       oc.state.clear();
