@@ -3,6 +3,11 @@
 
 #include <mpi.h>
 
+#include <functional>
+#include <string>
+
+#include "core/error.hpp"
+
 namespace colchem_test {
 
 /// Initialises MPI on first use (a singleton MPI process outside mpirun). Only tests that need
@@ -11,6 +16,16 @@ inline void ensure_mpi() {
   int initialized = 0;
   MPI_Initialized(&initialized);
   if (!initialized) MPI_Init(nullptr, nullptr);
+}
+
+/// The message of the InputError that f throws, or "no error".
+inline std::string error_of(const std::function<void()>& f) {
+  try {
+    f();
+  } catch (const colchem::InputError& e) {
+    return e.what();
+  }
+  return "no error";
 }
 
 }  // namespace colchem_test

@@ -2,20 +2,13 @@
 // expected and what was found (acceptance of the foundation; messages are our own format).
 #include <catch2/catch.hpp>
 
+#include "../test_support.hpp"
+
 #include "io/config_node.hpp"
 
 using namespace colchem;
 
-namespace {
-std::string error_of(const std::function<void()>& f) {
-  try {
-    f();
-  } catch (const InputError& e) {
-    return e.what();
-  }
-  return "no error";
-}
-}  // namespace
+using colchem_test::error_of;
 
 TEST_CASE("unknown keys are rejected with the nearest valid key", "[config]") {
   const auto doc = ConfigDocument::from_text("grid:\n  bottom: 1 km\n  levles: 5\n", "s.yaml");

@@ -1,21 +1,14 @@
 // Table files: formats, unit conversion and every class of table error.
 #include <catch2/catch.hpp>
 
+#include "../test_support.hpp"
+
 #include "core/interp.hpp"
 #include "io/table.hpp"
 
 using namespace colchem;
 
-namespace {
-std::string error_of(const std::function<void()>& f) {
-  try {
-    f();
-  } catch (const InputError& e) {
-    return e.what();
-  }
-  return "no error";
-}
-}  // namespace
+using colchem_test::error_of;
 
 TEST_CASE("comma and white-space tables with units in the header", "[table]") {
   const UnitSystem units;
