@@ -74,15 +74,7 @@ void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     const UnitSystem units;
     BoxSpec box = load_box_config(*config, *sets, units);
     if (!output->empty()) box.output_file = *output;
-    BoxProblem pb;
-    pb.chemistry = box.chemistry;
-    pb.temperature_K = box.temperature_K;
-    pb.air_cm3 = box.air_cm3;
-    pb.bulk_mole_fraction = box.bulk_mole_fraction;
-    pb.initial_cm3 = box.initial_cm3;
-    pb.photolysis = box.photolysis;
-    pb.times_s = box_output_times(box.duration_s, box.outputs, box.log_spacing, box.first_output_s);
-    pb.solver = box.solver;
+    const BoxProblem pb = box_problem(box);
     const BoxResult res = run_box(pb);
     write_box(box, res, ctx.command_line);
 

@@ -287,4 +287,17 @@ std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec
   return out;
 }
 
+BoxProblem box_problem(const BoxSpec& box) {
+  BoxProblem pb;
+  pb.chemistry = box.chemistry;
+  pb.temperature_K = box.temperature_K;
+  pb.air_cm3 = box.air_cm3;
+  pb.bulk_mole_fraction = box.bulk_mole_fraction;
+  pb.initial_cm3 = box.initial_cm3;
+  pb.photolysis = box.photolysis;
+  pb.times_s = box_output_times(box.duration_s, box.outputs, box.log_spacing, box.first_output_s);
+  pb.solver = box.solver;
+  return pb;
+}
+
 }  // namespace colchem

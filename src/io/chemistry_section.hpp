@@ -10,6 +10,8 @@
 // file is ExitCode::kInputData. Keys are documented in README.md, section Configuration reference.
 #pragma once
 
+#include "chem/box_model.hpp"
+
 #include <filesystem>
 #include <map>
 #include <string>
@@ -65,5 +67,8 @@ BoxSpec load_box_config(const std::filesystem::path& file,
 /// Text summary for `colchem check`: modules, what each adds (species, reactions; the
 /// reactions themselves when verbose), parameters, and the element-balance result.
 std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose);
+
+/// The box integration problem a box configuration describes (output times included).
+BoxProblem box_problem(const BoxSpec& box);
 
 }  // namespace colchem

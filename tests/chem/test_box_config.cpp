@@ -107,14 +107,7 @@ chemistry: {mechanism: box_small_mech.yaml, parameters: {beta: 0.2}}
 )");
   const UnitSystem units;
   const BoxSpec box = load_box_config(cfg, {}, units);
-  BoxProblem pb;
-  pb.chemistry = box.chemistry;
-  pb.temperature_K = box.temperature_K;
-  pb.air_cm3 = box.air_cm3;
-  pb.bulk_mole_fraction = box.bulk_mole_fraction;
-  pb.initial_cm3 = box.initial_cm3;
-  pb.photolysis = box.photolysis;
-  pb.times_s = box_output_times(box.duration_s, box.outputs, box.log_spacing, box.first_output_s);
+  BoxProblem pb = box_problem(box);
   pb.solver.rtol = 1e-7;
   const BoxResult r = run_box(pb);
   const Mechanism& m = *box.chemistry.mechanism;
