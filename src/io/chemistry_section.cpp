@@ -119,8 +119,7 @@ void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenar
 
 BoxSpec load_box_config(const std::filesystem::path& file,
                         const std::vector<std::string>& overrides, const UnitSystem& units) {
-  ConfigDocument doc = ConfigDocument::load(file);
-  for (const auto& o : overrides) doc.apply_override(o);
+  const ConfigDocument doc = ConfigDocument::load(file, overrides);
   BoxSpec box;
   box.file = file;
   box.overrides = overrides;

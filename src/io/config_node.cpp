@@ -52,6 +52,13 @@ ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode 
   return doc;
 }
 
+ConfigDocument ConfigDocument::load(const std::filesystem::path& file,
+                                    const std::vector<std::string>& overrides, ExitCode code) {
+  ConfigDocument doc = load(file, code);
+  for (const auto& o : overrides) doc.apply_override(o);
+  return doc;
+}
+
 ConfigDocument ConfigDocument::from_text(const std::string& text, const std::string& name,
                                          ExitCode code) {
   ConfigDocument doc;

@@ -29,6 +29,11 @@ class ConfigDocument {
   /// Parses `file`; a syntax error throws InputError (ExitCode::kConfig) with its position.
   static ConfigDocument load(const std::filesystem::path& file,
                              ExitCode code = ExitCode::kConfig);
+  /// Parses `file` and applies each "key.path=value" override in order (the common start of
+  /// every loader: scenario, box, sweep).
+  static ConfigDocument load(const std::filesystem::path& file,
+                             const std::vector<std::string>& overrides,
+                             ExitCode code = ExitCode::kConfig);
   /// Parses text (used for tests and for documents embedded in outputs).
   static ConfigDocument from_text(const std::string& text, const std::string& name,
                                   ExitCode code = ExitCode::kConfig);

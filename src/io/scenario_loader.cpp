@@ -230,8 +230,7 @@ void load_output(const ConfigNode& n, LoadContext& ctx) {
 
 Scenario load_scenario(const std::filesystem::path& file,
                        const std::vector<std::string>& overrides, const UnitSystem& units) {
-  ConfigDocument doc = ConfigDocument::load(file);
-  for (const auto& o : overrides) doc.apply_override(o);
+  const ConfigDocument doc = ConfigDocument::load(file, overrides);
 
   Scenario sc;
   sc.file = file;

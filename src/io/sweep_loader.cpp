@@ -46,8 +46,7 @@ std::vector<double> load_axis_values(const ConfigNode& n, bool* logarithmic) {
 }  // namespace
 
 SweepSpec load_sweep(const std::filesystem::path& file, const std::vector<std::string>& overrides) {
-  ConfigDocument doc = ConfigDocument::load(file);
-  for (const auto& o : overrides) doc.apply_override(o);
+  const ConfigDocument doc = ConfigDocument::load(file, overrides);
   const ConfigNode root = doc.root();
   SweepSpec spec;
   spec.file = file;
