@@ -56,10 +56,11 @@ std::string summarize_scenario(const Scenario& sc, const Background& bg) {
 }
 
 std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutcome& r) {
-  std::string s = fmt::format("{}: {} {} after {} {} ({:.2f} s); coupled residual {:.2e}\n",
-                              sc.name, r.method, to_string(r.status), r.iterations,
-                              r.method == "steady" ? "iterations" : "steps", r.wall_s,
-                              r.residual_norm);
+  std::string s = fmt::format(
+      "{}: {} {} after {} {} ({:.2f} s); coupled residual {:.2e}; column balance {:.2e} ({})\n",
+      sc.name, r.method, to_string(r.status), r.iterations,
+      r.method == "steady" ? "iterations" : "steps", r.wall_s, r.residual_norm, r.balance.worst,
+      model.species()[r.balance.worst_species]);
   if (!r.ok()) s += "  reason: " + r.reason + "\n";
   model.refresh_photolysis(r.x);
   const ColumnDiagnostics d = model.diagnostics(r.x, r.time_s);

@@ -82,6 +82,17 @@ void ChemistryOperator::cell_jacobian(std::size_t j, const double* n, double* bl
   }
 }
 
+void ChemistryOperator::add_photolysis_tendency(std::span<const double> n,
+                                                std::span<const double> dJ,
+                                                std::span<double> out) const {
+  const std::size_t S = species_count(), N = cells(), C = kin_.channels().size();
+  std::vector<double> cell_dJ(C);
+  for (std::size_t j = 0; j < N; ++j) {
+    for (std::size_t c = 0; c < C; ++c) cell_dJ[c] = dJ[c * N + j];
+    kin_.add_photolysis_tendency(n.data() + j * S, cell_dJ.data(), out.data() + j * S);
+  }
+}
+
 void ChemistryOperator::add_tendency(std::span<const double> n, double /*t*/,
                                      std::span<double> tendency) {
   const std::size_t S = species_count();

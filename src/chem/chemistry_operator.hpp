@@ -55,6 +55,11 @@ class ChemistryOperator : public ColumnOperator {
   /// Copies the fixed species' densities into a state vector.
   void impose_fixed(std::span<double> n) const;
 
+  /// out[j*S + s] += sum_c d f_{j,s}/dJ_c dJ[c*N + j] over the chemistry's channels (the
+  /// photolysis reactions with J replaced by dJ; exact, the tendency being linear in J).
+  void add_photolysis_tendency(std::span<const double> n, std::span<const double> dJ,
+                               std::span<double> out) const;
+
   // --- ColumnOperator -------------------------------------------------------------------
   void add_tendency(std::span<const double> n, double t, std::span<double> tendency) override;
   void add_jacobian(std::span<const double> n, double t, BlockTridiagonal& jac) override;

@@ -244,10 +244,11 @@ void Kinetics::production_loss(std::size_t cell, const double* n, double* P, dou
   }
 }
 
-void Kinetics::add_tendency(std::size_t cell, const double* n, double* tendency) const {
-  const std::size_t N = levels_;
+template <class RateConstant>
+void Kinetics::accumulate(const double* n, RateConstant k_of, double* tendency) const {
   for (std::size_t a = 0; a < reactions_.size(); ++a) {
-    double r = k_[a * N + cell];
+    double r = k_of(a);
+    if (r == 0.0) continue;
     for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) r *= n[occ_species_[o]];
     for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
       const std::size_t s = occ_species_[o];
@@ -258,6 +259,22 @@ void Kinetics::add_tendency(std::size_t cell, const double* n, double* tendency)
       if (fixed_[s] == 0) tendency[s] += prod_[i].count * r;
     }
   }
+}
+
+void Kinetics::add_tendency(std::size_t cell, const double* n, double* tendency) const {
+  const std::size_t N = levels_;
+  accumulate(n, [&](std::size_t a) { return k_[a * N + cell]; }, tendency);
+}
+
+void Kinetics::add_photolysis_tendency(const double* n, const double* dJ,
+                                       double* tendency) const {
+  accumulate(
+      n,
+      [&](std::size_t a) {
+        const std::size_t c = reaction_channel_[a];
+        return c == npos ? 0.0 : scale_[a] * dJ[c];
+      },
+      tendency);
 }
 
 double Kinetics::partial(std::size_t occurrence, double k, const double* n) const {

@@ -69,6 +69,9 @@ class Kinetics {
                        double* R) const;
   /// tendency[s] += P_s - L_s (fixed species: nothing).
   void add_tendency(std::size_t cell, const double* n, double* tendency) const;
+  /// tendency[s] += d(P_s - L_s)/dJ . dJ: the photolysis reactions alone with their J
+  /// replaced by dJ[channel] (the tendency is linear in J, so this is exact).
+  void add_photolysis_tendency(const double* n, const double* dJ, double* tendency) const;
 
   // --- Jacobian: a sparse per-cell pattern computed once ------------------------------
   [[nodiscard]] const std::vector<std::size_t>& jacobian_row_start() const { return row_ptr_; }
@@ -83,6 +86,9 @@ class Kinetics {
 
  private:
   void rescale();
+  /// The mass-action kernel: tendency += sum_r nu_r k_r prod n, k_r = k_of(r) (0 skips r).
+  template <class RateConstant>
+  void accumulate(const double* n, RateConstant k_of, double* tendency) const;
   double partial(std::size_t occurrence, double k, const double* n) const;
 
   std::shared_ptr<const Mechanism> mech_;

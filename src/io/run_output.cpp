@@ -26,6 +26,7 @@ void write_status(NcWriter& nc, const RunOutcome& o) {
   nc.global_text("colchem_solver_status", to_string(o.status));
   nc.global_text("colchem_solver_reason", o.reason);
   nc.global_number("colchem_residual_norm", o.residual_norm);
+  nc.global_number("colchem_column_balance", o.balance.worst);
   nc.global_number("colchem_iterations", static_cast<double>(o.iterations));
   nc.global_number("colchem_model_time_s", o.time_s);
 }

@@ -79,6 +79,7 @@ SolverSpec load_solver_section(const ConfigNode& n, const UnitSystem& u) {
   }
   if (auto v = n.find("tolerance")) s.tolerance = positive_number(*v);
   if (auto v = n.find("step_tolerance")) s.step_tolerance = positive_number(*v);
+  if (auto v = n.find("balance_tolerance")) s.balance_tolerance = positive_number(*v);
   if (auto v = n.find("max_iterations")) s.max_iterations = count(*v, 1, 100000000);
   if (auto v = n.find("initial_pseudo_step")) {
     s.initial_pseudo_step_s = positive_quantity(*v, u, "s", "1e-6 s");

@@ -55,6 +55,7 @@ struct SolverSpec {
   double reference_time_s = 1e10;
   double absolute_density_cm3 = 1.0;
   double positivity_fraction = 0.1;
+  double balance_tolerance = 1e-8;  ///< on the column balance B (solve/column_model.hpp)
   int checkpoint_every = 0;
   TransientSpec transient;
 };

@@ -1,5 +1,6 @@
 #include "solve/column_model.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "core/constants.hpp"
@@ -84,6 +85,9 @@ ColumnSystem ColumnModel::system() {
   ColumnSystem sys;
   sys.cells = cells();
   sys.species = species_count();
+  if (photo_) sys.coupling = this;
+  sys.species_names = names_;
+  for (double z : bg_.grid.center_cm) sys.altitude_km.push_back(z * 1e-5);
   if (transport_) sys.operators.push_back(transport_.get());
   if (chemistry_) sys.operators.push_back(chemistry_.get());
   return sys;
@@ -130,6 +134,76 @@ void ColumnModel::refresh_photolysis(std::span<const double> n) {
   for (std::size_t c = 0; c < channel_map_.size(); ++c) {
     chemistry_->set_photolysis_rates(c, std::span<const double>(J_.data() + channel_map_[c] * N, N));
   }
+}
+
+void ColumnModel::add_jacobian_product(std::span<const double> x, std::span<const double> v,
+                                       std::span<double> out) {
+  if (!photo_) return;
+  const std::size_t S = species_count(), N = cells();
+  double vmax = 0.0;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    if (!held_[i % S]) vmax = std::max(vmax, std::abs(v[i]) / (std::abs(x[i]) + 1.0));
+  }
+  if (!(vmax > 0.0) || !std::isfinite(vmax)) return;
+  const double h = 1e-7 / vmax;
+  x_shifted_.assign(x.begin(), x.end());
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    if (!held_[i % S]) x_shifted_[i] += h * v[i];
+  }
+  J_shifted_.resize(J_.size());
+  photo_->compute(x_shifted_, J_shifted_);
+  // Channels in the chemistry's order, the J difference quotient of each.
+  dJ_.assign(channel_map_.size() * N, 0.0);
+  for (std::size_t c = 0; c < channel_map_.size(); ++c) {
+    const std::size_t pc = channel_map_[c] * N;
+    for (std::size_t j = 0; j < N; ++j) dJ_[c * N + j] = (J_shifted_[pc + j] - J_[pc + j]) / h;
+  }
+  chemistry_->add_photolysis_tendency(x, dJ_, out);
+}
+
+ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
+                                          double absolute_density_cm3,
+                                          double reference_time_s) {
+  const std::size_t S = species_count(), N = cells();
+  ColumnBalance out;
+  std::vector<double> f(N * S, 0.0), cond(N * S, 0.0), gross(S, 0.0), imbalance(S, 0.0);
+  transport_->add_tendency(x, t, f);
+  if (chemistry_) {
+    chemistry_->add_tendency(x, t, f);
+    chemistry_->condensation_rates(x, cond);
+    const Kinetics& kin = chemistry_->kinetics();
+    std::vector<double> P(S), L(S), R(kin.reaction_count());
+    for (std::size_t j = 0; j < N; ++j) {
+      kin.production_loss(j, x.data() + j * S, P.data(), L.data(), R.data());
+      for (std::size_t s = 0; s < S; ++s) {
+        gross[s] += (P[s] + L[s] + std::abs(cond[j * S + s])) * bg_.grid.width_cm(j);
+      }
+    }
+  }
+  for (std::size_t j = 0; j < N; ++j) {
+    for (std::size_t s = 0; s < S; ++s) imbalance[s] += std::abs(f[j * S + s]) * bg_.grid.width_cm(j);
+  }
+  const auto ends = transport_->boundary_fluxes(x, t);
+  const double height = bg_.grid.edge_cm.back() - bg_.grid.edge_cm.front();
+  for (std::size_t s = 0; s < S; ++s) {
+    if (held_[s]) continue;
+    const double ref = gross[s] + std::abs(ends[s].bottom) + std::abs(ends[s].top) +
+                       absolute_density_cm3 * height / reference_time_s;
+    const double b = imbalance[s] / ref;
+    if (!(b <= out.worst)) {  // NaN wins
+      out.worst = b;
+      out.worst_species = s;
+    }
+    for (std::size_t j = 0; j < N; ++j) {
+      const double mf = x[j * S + s] / bg_.air_density_cm3[j];
+      if (!(mf <= out.max_mole_fraction)) {
+        out.max_mole_fraction = mf;
+        out.max_species = s;
+        out.max_cell = j;
+      }
+    }
+  }
+  return out;
 }
 
 ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) {

@@ -2,11 +2,16 @@
 // into the operators the solvers use, plus the diagnostics the outputs need.
 //
 //   dn/dt = f_transport(n) + f_chemistry(n; J(n))
-// Transport and chemistry are ColumnOperators; photolysis is not an operator but supplies
-// the J-values of the chemistry's photolysis channels from the current state
-// (refresh_photolysis). In the coupled steady state J lags the state by one pseudo-time step
-// (an outer iteration that converges with it); in the split integrator J is refreshed before
-// every chemistry step.
+// Transport and chemistry are ColumnOperators; photolysis is the column's NonlocalCoupling
+// (column_system.hpp): it supplies the J-values of the chemistry's photolysis channels from
+// the current state (refresh), and the product of the Jacobian's photolysis part with a
+// vector (add_jacobian_product):
+//   (J_nl v)_{j,s} = sum_c d f_{j,s}/dJ_c(z_j) . dJ_c(z_j)[v],
+//   dJ[v] = (J(x + h v) - J(x)) / h,   h = 1e-7 / max_i |v_i| / (|x_i| + 1 cm^-3)
+// a one-sided directional derivative of whatever radiative transfer computes J (each
+// density moves by at most 1e-7 of itself: the truncation error is ~1e-7 relative), and the
+// exact derivative of the chemistry with respect to J (linear in J). In the split integrator
+// J is refreshed before every chemistry step.
 #pragma once
 
 #include <memory>
@@ -36,7 +41,23 @@ struct ColumnDiagnostics {
   std::vector<double> bottom_flux, top_flux;                 ///< [s]
 };
 
-class ColumnModel {
+/// A measure of a steady state whose meaning does not change with the grid (README, "What
+/// a converged state guarantees"): per species s, the column-integrated imbalance
+///   B_s = sum_j |F_js| dz_j / ( sum_j (P_js + L_js + C_js) dz_j + |Phi_s,bottom|
+///                               + |Phi_s,top| + a_s (z_top - z_bottom) / t_ref ),
+/// the absolute residual integrated over the column relative to the column's gross
+/// chemical production, loss and condensation and its boundary fluxes. Unlike the scaled
+/// norm it has no transport exchange K/dz^2 in its reference, so one tolerance means the
+/// same balance on every grid. Also the largest mole fraction of a free species (a state
+/// above 1 is no physical steady state).
+struct ColumnBalance {
+  double worst = 0.0;              ///< max_s B_s
+  std::size_t worst_species = 0;
+  double max_mole_fraction = 0.0;  ///< of the free (not held) species
+  std::size_t max_species = 0, max_cell = 0;
+};
+
+class ColumnModel : public NonlocalCoupling {
  public:
   /// Builds every part; inconsistencies between sections (a species in `species:` that the
   /// mechanism lacks, a photolysis channel without data) are InputErrors naming the entry.
@@ -66,8 +87,19 @@ class ColumnModel {
 
   /// Recomputes J from the state and hands them to the chemistry.
   void refresh_photolysis(std::span<const double> n);
+
+  // --- NonlocalCoupling (photolysis) ----------------------------------------------------
+  void refresh(std::span<const double> x) override { refresh_photolysis(x); }
+  void add_jacobian_product(std::span<const double> x, std::span<const double> v,
+                            std::span<double> out) override;
   /// The last J computed, [c*N + j] over the photolysis model's channels.
   [[nodiscard]] const std::vector<double>& jvalues() const { return J_; }
+
+  /// B_s of the state (its J-values must be those of x: refresh first), with a_s and t_ref
+  /// of the residual scale.
+  [[nodiscard]] ColumnBalance column_balance(std::span<const double> x, double t,
+                                             double absolute_density_cm3,
+                                             double reference_time_s);
 
   [[nodiscard]] ColumnDiagnostics diagnostics(std::span<const double> n, double t);
 
@@ -83,6 +115,7 @@ class ColumnModel {
   std::unique_ptr<PhotolysisModel> photo_;
   std::vector<std::size_t> channel_map_;  ///< chemistry channel -> photolysis channel
   std::vector<double> J_;
+  std::vector<double> x_shifted_, J_shifted_, dJ_;  ///< workspace of add_jacobian_product
   std::vector<Injection> injections_;
   std::vector<std::size_t> sink_species_;  ///< species with a condensation sink
 };

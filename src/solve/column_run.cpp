@@ -1,6 +1,7 @@
 #include "solve/column_run.hpp"
 
 #include <cmath>
+#include <cstdio>
 #include <memory>
 
 #include "solve/progress.hpp"
@@ -12,19 +13,42 @@ namespace colchem {
 
 double coupled_residual(ColumnModel& model, const SolverSpec& solver, std::span<const double> x,
                         double t) {
-  model.refresh_photolysis(x);
   return scaled_residual_norm(model.system(), x, steady_options(solver).scale, t).value;
 }
 
 namespace {
+
+std::string sci(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.3g", v);
+  return buf;
+}
+
+/// Why x is no acceptable steady state, or "" (the solver's reject_reason).
+std::string balance_defect(ColumnModel& model, const SolverSpec& solver,
+                           std::span<const double> x) {
+  const ColumnBalance b =
+      model.column_balance(x, 0.0, solver.absolute_density_cm3, solver.reference_time_s);
+  const auto& names = model.species();
+  if (!(b.max_mole_fraction <= 1.0)) {
+    return "mole fraction of " + names[b.max_species] + " is " + sci(b.max_mole_fraction) +
+           " at " + sci(model.background().grid.center_cm[b.max_cell] * 1e-5) +
+           " km: no physical steady state";
+  }
+  if (!(b.worst <= solver.balance_tolerance)) {
+    return "column balance of " + names[b.worst_species] + " is " + sci(b.worst) + " > " +
+           sci(solver.balance_tolerance);
+  }
+  return "";
+}
 
 RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<double> x0,
                       const RunControls& c) {
   std::unique_ptr<Progress> progress;
   if (c.log) progress = std::make_unique<Progress>(*c.log, "steady");
   SteadyStateCallbacks cb;
-  cb.refresh = [&](const std::vector<double>& x) { model.refresh_photolysis(x); };
   cb.stop_requested = c.stop_requested;
+  cb.reject_reason = [&](const std::vector<double>& x) { return balance_defect(model, solver, x); };
   cb.on_iteration = [&](const SteadyIteration& it) {
     if (progress) progress->update(it);
   };
@@ -109,6 +133,8 @@ RunOutcome run_column(ColumnModel& model, const SolverSpec& solver, std::vector<
   // Every end state is scored by the same coupled residual (a split "steady state" keeps its
   // splitting error; this number shows how far it is from the true one).
   out.residual_norm = coupled_residual(model, solver, out.x, out.time_s);
+  out.balance = model.column_balance(out.x, out.time_s, solver.absolute_density_cm3,
+                                     solver.reference_time_s);
   return out;
 }
 

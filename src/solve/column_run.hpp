@@ -39,6 +39,7 @@ struct RunOutcome {
   double time_s = 0.0;           ///< model time of x (transient)
   long iterations = 0;
   double residual_norm = 0.0;    ///< coupled scaled residual of x, always evaluated
+  ColumnBalance balance;         ///< column balance of x, always evaluated
   double wall_s = 0.0;
   std::vector<HistoryRow> history;
   std::vector<double> snapshot_times_s;

@@ -2,7 +2,9 @@
 #include "solve/ptc_linear_solver.hpp"
 
 #include <chrono>
+#include <algorithm>
 #include <cmath>
+#include <limits>
 
 #include "core/error.hpp"
 #include "solve/petsc_session.hpp"
@@ -48,6 +50,9 @@ PtcLinearSolver::PtcLinearSolver(std::size_t cells, std::size_t species)
 }
 
 PtcLinearSolver::~PtcLinearSolver() {
+  (void)KSPDestroy(&outer_);
+  (void)MatDestroy(&shell_);
+  (void)VecDestroy(&rhs_scaled_);
   (void)KSPDestroy(&ksp_);
   (void)VecDestroy(&x_);
   (void)VecDestroy(&b_);
@@ -55,12 +60,13 @@ PtcLinearSolver::~PtcLinearSolver() {
   (void)DMDestroy(&da_);
 }
 
-bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span<const char> held,
-                            std::span<const double> rhs, std::span<double> dx,
-                            std::string& reason) {
+void PtcLinearSolver::assemble(const BlockTridiagonal& jac, double shift,
+                               std::span<const char> held, std::span<const double> rhs,
+                               std::string& reason, bool& ok) {
   const auto t0 = std::chrono::steady_clock::now();
   const std::size_t S = species_;
   const std::size_t N = cells_;
+  ok = true;
   for (std::size_t j = 0; j < N; ++j) {
     for (std::size_t r = 0; r < S; ++r) {
       const std::size_t i = j * S + r;
@@ -86,7 +92,8 @@ bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span
         if (!std::isfinite(vals_[k])) {
           reason = "non-finite Jacobian entry at cell " + std::to_string(j) + ", species " +
                    std::to_string(r);
-          return false;
+          ok = false;
+          return;
         }
       }
       check(MatSetValues(mat_, 1, &row, n, cols_.data(), vals_.data(), INSERT_VALUES),
@@ -100,7 +107,9 @@ bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span
   for (std::size_t i = 0; i < rhs.size(); ++i) b[i] = held[i] ? 0.0 : rhs[i];
   check(VecRestoreArray(b_, &b), "VecRestoreArray");
   assembly_s_ += seconds_since(t0);
+}
 
+bool PtcLinearSolver::direct_solve(std::span<double> dx, std::string& reason) {
   const auto t1 = std::chrono::steady_clock::now();
   check(KSPSetOperators(ksp_, mat_, mat_), "KSPSetOperators");
   // A failed factorisation (zero pivot) is a solver outcome, not a program error: report it
@@ -126,6 +135,146 @@ bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span
   check(VecRestoreArrayRead(x_, &xs), "VecRestoreArrayRead");
   if (!finite) {
     reason = "linear solve produced non-finite values (singular matrix?)";
+    return false;
+  }
+  return true;
+}
+
+bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span<const char> held,
+                            std::span<const double> rhs, std::span<double> dx,
+                            std::string& reason) {
+  krylov_its_ = 0;
+  bool ok = true;
+  assemble(jac, shift, held, rhs, reason, ok);
+  return ok && direct_solve(dx, reason);
+}
+
+// y = W^-1 (P v - J_nl v); held rows: y = v (P has unit rows there, J_nl none).
+PetscErrorCode PtcLinearSolver::shell_mult(Mat A, Vec v, Vec y) {
+  void* raw = nullptr;
+  PetscErrorCode ierr = MatShellGetContext(A, &raw);
+  if (ierr != 0) return ierr;
+  auto* c = static_cast<ShellContext*>(raw);
+  ierr = MatMult(c->self->mat_, v, y);
+  if (ierr != 0) return ierr;
+  const PetscScalar* vs = nullptr;
+  PetscScalar* ys = nullptr;
+  if ((ierr = VecGetArrayRead(v, &vs)) != 0) return ierr;
+  if ((ierr = VecGetArray(y, &ys)) != 0) return ierr;
+  const std::size_t n = c->tmp.size();
+  std::fill(c->tmp.begin(), c->tmp.end(), 0.0);
+  try {
+    (*c->nonlocal)(std::span<const double>(vs, n), c->tmp);
+  } catch (...) {
+    // An exception must not cross PETSc's C frames: a NaN makes GMRES stop with
+    // KSP_DIVERGED_NANORINF, which the caller reports.
+    std::fill(c->tmp.begin(), c->tmp.end(), std::numeric_limits<double>::quiet_NaN());
+  }
+  for (std::size_t i = 0; i < n; ++i) {
+    ys[i] = c->held[i] ? vs[i] : (ys[i] - c->tmp[i]) / c->weights[i];
+  }
+  (void)VecRestoreArray(y, &ys);
+  (void)VecRestoreArrayRead(v, &vs);
+  return 0;
+}
+
+// z = P^-1 W r (the LU factors of the block-tridiagonal part).
+PetscErrorCode PtcLinearSolver::shell_precondition(PC pc, Vec r, Vec z) {
+  void* raw = nullptr;
+  PetscErrorCode ierr = PCShellGetContext(pc, &raw);
+  if (ierr != 0) return ierr;
+  auto* c = static_cast<ShellContext*>(raw);
+  PtcLinearSolver& s = *c->self;
+  const PetscScalar* rs = nullptr;
+  PetscScalar* bs = nullptr;
+  if ((ierr = VecGetArrayRead(r, &rs)) != 0) return ierr;
+  if ((ierr = VecGetArray(s.b_, &bs)) != 0) return ierr;
+  for (std::size_t i = 0; i < c->tmp.size(); ++i) bs[i] = c->held[i] ? rs[i] : rs[i] * c->weights[i];
+  (void)VecRestoreArray(s.b_, &bs);
+  (void)VecRestoreArrayRead(r, &rs);
+  return KSPSolve(s.ksp_, s.b_, z);
+}
+
+bool PtcLinearSolver::solve_coupled(const BlockTridiagonal& jac, double shift,
+                                    std::span<const char> held, std::span<const double> rhs,
+                                    std::span<const double> weights, const Product& nonlocal,
+                                    double rtol, std::span<double> dx, std::string& reason) {
+  krylov_its_ = 0;
+  bool ok = true;
+  assemble(jac, shift, held, rhs, reason, ok);
+  // The preconditioner's own step (the Newton step with lagged J_nl) starts GMRES.
+  if (!ok || !direct_solve(dx, reason)) return false;
+
+  const auto t0 = std::chrono::steady_clock::now();
+  const auto n = static_cast<PetscInt>(cells_ * species_);
+  if (shell_ == nullptr) {
+    check(MatCreateShell(PETSC_COMM_SELF, n, n, n, n, &ctx_, &shell_), "MatCreateShell");
+    check(MatShellSetOperation(shell_, MATOP_MULT, reinterpret_cast<void (*)(void)>(&shell_mult)),
+          "MatShellSetOperation");
+    check(VecDuplicate(b_, &rhs_scaled_), "VecDuplicate");
+    check(KSPCreate(PETSC_COMM_SELF, &outer_), "KSPCreate");
+    check(KSPSetOptionsPrefix(outer_, "colchem_nk_"), "KSPSetOptionsPrefix");
+    check(KSPSetType(outer_, KSPGMRES), "KSPSetType");
+    check(KSPGMRESSetRestart(outer_, 40), "KSPGMRESSetRestart");
+    check(KSPSetPCSide(outer_, PC_RIGHT), "KSPSetPCSide");
+    check(KSPSetNormType(outer_, KSP_NORM_UNPRECONDITIONED), "KSPSetNormType");
+    PC pc = nullptr;
+    check(KSPGetPC(outer_, &pc), "KSPGetPC");
+    check(PCSetType(pc, PCSHELL), "PCSetType");
+    check(PCShellSetContext(pc, &ctx_), "PCShellSetContext");
+    check(PCShellSetApply(pc, &shell_precondition), "PCShellSetApply");
+    check(KSPSetInitialGuessNonzero(outer_, PETSC_TRUE), "KSPSetInitialGuessNonzero");
+    check(KSPSetFromOptions(outer_), "KSPSetFromOptions");
+  }
+  ctx_.self = this;
+  ctx_.held = held;
+  ctx_.weights = weights;
+  ctx_.nonlocal = &nonlocal;
+  ctx_.tmp.assign(cells_ * species_, 0.0);
+  check(KSPSetOperators(outer_, shell_, shell_), "KSPSetOperators");
+  check(KSPSetTolerances(outer_, rtol, 0.0, 1e30, 80), "KSPSetTolerances");
+
+  PetscScalar* b = nullptr;
+  check(VecGetArray(rhs_scaled_, &b), "VecGetArray");
+  double rhs_norm = 0.0;
+  for (std::size_t i = 0; i < rhs.size(); ++i) {
+    b[i] = held[i] ? 0.0 : rhs[i] / weights[i];
+    rhs_norm += b[i] * b[i];
+  }
+  rhs_norm = std::sqrt(rhs_norm);
+  check(VecRestoreArray(rhs_scaled_, &b), "VecRestoreArray");
+  PetscScalar* xs = nullptr;
+  check(VecGetArray(x_, &xs), "VecGetArray");
+  for (std::size_t i = 0; i < dx.size(); ++i) xs[i] = dx[i];
+  check(VecRestoreArray(x_, &xs), "VecRestoreArray");
+
+  const PetscErrorCode ierr = KSPSolve(outer_, rhs_scaled_, x_);
+  KSPConvergedReason why = KSP_CONVERGED_ITERATING;
+  (void)KSPGetConvergedReason(outer_, &why);
+  PetscInt its = 0;
+  (void)KSPGetIterationNumber(outer_, &its);
+  krylov_its_ = static_cast<int>(its);
+  PetscReal rnorm = 0.0;
+  (void)KSPGetResidualNorm(outer_, &rnorm);
+  solve_s_ += seconds_since(t0);
+  const bool reduced = why == KSP_DIVERGED_ITS && rnorm <= 1e-2 * rhs_norm;
+  if (ierr != 0 || (why < 0 && !reduced) || !std::isfinite(rnorm)) {
+    reason = "Krylov solve failed (" +
+             std::string(ierr != 0 ? "PETSc error " + std::to_string(static_cast<int>(ierr))
+                                   : std::string(KSPConvergedReasons[why])) +
+             " after " + std::to_string(its) + " iterations)";
+    return false;
+  }
+  const PetscScalar* xr = nullptr;
+  check(VecGetArrayRead(x_, &xr), "VecGetArrayRead");
+  bool finite = true;
+  for (std::size_t i = 0; i < dx.size(); ++i) {
+    dx[i] = held[i] ? 0.0 : xr[i];
+    finite = finite && std::isfinite(xr[i]);
+  }
+  check(VecRestoreArrayRead(x_, &xr), "VecRestoreArrayRead");
+  if (!finite) {
+    reason = "Krylov solve produced non-finite values";
     return false;
   }
   return true;

@@ -8,11 +8,22 @@
 // the options prefix "colchem_" (-colchem_ksp_type gmres -colchem_pc_type ilu ...).
 // Rows flagged `held` (a species held fixed: zero Jacobian row and zero tendency) get a
 // unit diagonal, so that dx = 0 there even in the Newton limit dtau -> infinity.
+//
+// With a nonlocal coupling (column_system.hpp) the full matrix is A = shift I - J_bt - J_nl.
+// solve_coupled() then runs right-preconditioned GMRES (Saad and Schultz 1986) on the rows
+// scaled by the residual weights w (residual_norm.hpp), W^-1 A dx = W^-1 F, with the LU
+// factors of P = shift I - J_bt as the preconditioner (applied as P^-1 W) and the product
+// J_nl v supplied by the coupling: Jacobian-free Newton-Krylov with a physics-based
+// preconditioner (Knoll and Keyes 2004, J. Comput. Phys. 193, 357). Right preconditioning
+// keeps the residual GMRES minimises equal to the true residual of the scaled system, so
+// its tolerance reads like the scaled norm's: a fraction of each equation's gross turnover.
+// The outer KSP takes runtime options with the prefix "colchem_nk_".
 #pragma once
 
 #include <petscdmda.h>
 #include <petscksp.h>
 
+#include <functional>
 #include <span>
 #include <string>
 #include <vector>
@@ -34,6 +45,21 @@ class PtcLinearSolver {
   bool solve(const BlockTridiagonal& jac, double shift, std::span<const char> held,
              std::span<const double> rhs, std::span<double> dx, std::string& reason);
 
+  /// (v, out): out += J_nl v (the coupling's product; out arrives zeroed).
+  using Product = std::function<void(std::span<const double>, std::span<double>)>;
+
+  /// Solves (shift I - J - J_nl) dx = rhs by GMRES preconditioned with the LU of
+  /// shift I - J, to ||W^-1 r||_2 <= rtol ||W^-1 rhs||_2 (w > 0 per row, `weights`). Starts
+  /// from the preconditioner's own solution. Returns false (and a reason) when the
+  /// factorisation fails or GMRES neither converges nor reduces the residual by 1e-2.
+  bool solve_coupled(const BlockTridiagonal& jac, double shift, std::span<const char> held,
+                     std::span<const double> rhs, std::span<const double> weights,
+                     const Product& nonlocal, double rtol, std::span<double> dx,
+                     std::string& reason);
+
+  /// Krylov iterations of the last solve_coupled (0 after a direct solve).
+  [[nodiscard]] int krylov_iterations() const { return krylov_its_; }
+
   /// Seconds spent assembling the PETSc matrix and in KSPSolve (factorisation + solve).
   [[nodiscard]] double assembly_seconds() const { return assembly_s_; }
   [[nodiscard]] double factor_solve_seconds() const { return solve_s_; }
@@ -46,6 +72,25 @@ class PtcLinearSolver {
   Vec b_ = nullptr;
   Vec x_ = nullptr;
   KSP ksp_ = nullptr;
+  void assemble(const BlockTridiagonal& jac, double shift, std::span<const char> held,
+                std::span<const double> rhs, std::string& reason, bool& ok);
+  bool direct_solve(std::span<double> dx, std::string& reason);
+
+  struct ShellContext {
+    PtcLinearSolver* self = nullptr;
+    std::span<const char> held;
+    std::span<const double> weights;
+    const Product* nonlocal = nullptr;
+    std::vector<double> tmp;
+  };
+  static PetscErrorCode shell_mult(Mat A, Vec v, Vec y);
+  static PetscErrorCode shell_precondition(PC pc, Vec r, Vec z);
+
+  Mat shell_ = nullptr;
+  KSP outer_ = nullptr;
+  Vec rhs_scaled_ = nullptr;
+  ShellContext ctx_;
+  int krylov_its_ = 0;
   std::vector<PetscInt> cols_;
   std::vector<PetscScalar> vals_;
   double assembly_s_ = 0.0;

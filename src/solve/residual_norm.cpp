@@ -6,11 +6,10 @@
 
 namespace colchem {
 
-ScaledNorm scaled_norm(std::span<const double> tendency, const BlockTridiagonal& jac,
-                       std::span<const double> x, const ResidualScale& scale) {
+void residual_weights(const BlockTridiagonal& jac, std::span<const double> x,
+                      const ResidualScale& scale, std::span<double> w) {
   const std::size_t S = jac.species;
   const std::size_t N = jac.cells;
-  ScaledNorm out;
   for (std::size_t j = 0; j < N; ++j) {
     for (std::size_t r = 0; r < S; ++r) {
       const std::size_t i = j * S + r;
@@ -18,12 +17,27 @@ ScaledNorm scaled_norm(std::span<const double> tendency, const BlockTridiagonal&
       for (std::size_t c = 0; c < S; ++c) gross += std::abs(jac.d(j, r, c) * x[j * S + c]);
       if (j > 0) gross += std::abs(jac.l(j, r) * x[i - S]);
       if (j + 1 < N) gross += std::abs(jac.u(j, r) * x[i + S]);
-      const double w = (std::abs(x[i]) + scale.absolute(r)) / scale.reference_time_s + gross;
-      const double ri = std::abs(tendency[i]) / w;
-      if (!std::isfinite(ri) || !std::isfinite(x[i])) {
-        return ScaledNorm{std::numeric_limits<double>::quiet_NaN(), j, r};
-      }
-      if (ri > out.value) out = ScaledNorm{ri, j, r};
+      w[i] = (std::abs(x[i]) + scale.absolute(r)) / scale.reference_time_s + gross;
+    }
+  }
+}
+
+ScaledNorm scaled_norm(std::span<const double> tendency, const BlockTridiagonal& jac,
+                       std::span<const double> x, const ResidualScale& scale) {
+  const std::size_t S = jac.species;
+  std::vector<double> w(x.size());
+  residual_weights(jac, x, scale, w);
+  ScaledNorm out;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    const double ri = std::abs(tendency[i]) / w[i];
+    if (!std::isfinite(ri) || !std::isfinite(x[i])) {
+      const double nan = std::numeric_limits<double>::quiet_NaN();
+      return ScaledNorm{nan, i / S, i % S};
+    }
+    if (ri > out.value) {
+      out.value = ri;
+      out.cell = i / S;
+      out.species = i % S;
     }
   }
   return out;
@@ -31,6 +45,7 @@ ScaledNorm scaled_norm(std::span<const double> tendency, const BlockTridiagonal&
 
 ScaledNorm scaled_residual_norm(const ColumnSystem& sys, std::span<const double> x,
                                 const ResidualScale& scale, double t) {
+  if (sys.coupling != nullptr) sys.coupling->refresh(x);
   std::vector<double> f(sys.size());
   BlockTridiagonal jac(sys.cells, sys.species);
   evaluate_tendency(sys, x, t, f);

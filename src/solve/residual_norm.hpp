@@ -43,6 +43,10 @@ struct ScaledNorm {
   std::size_t species = 0;
 };
 
+/// The weights w_js above (cm^-3 s^-1), w[j*S + s].
+void residual_weights(const BlockTridiagonal& jac, std::span<const double> x,
+                      const ResidualScale& scale, std::span<double> w);
+
 /// ||F||_s from an evaluated F and J at x.
 ScaledNorm scaled_norm(std::span<const double> tendency, const BlockTridiagonal& jac,
                        std::span<const double> x, const ResidualScale& scale);

@@ -43,10 +43,6 @@ double since(Clock::time_point t0) {
   return std::chrono::duration<double>(Clock::now() - t0).count();
 }
 
-std::string where(std::size_t cell, std::size_t species) {
-  return "cell " + std::to_string(cell) + ", species " + std::to_string(species);
-}
-
 std::string sci(double v) {
   char buf[32];
   std::snprintf(buf, sizeof buf, "%.3g", v);
@@ -84,6 +80,9 @@ double positivity_damping(std::span<const double> x, std::span<const double> dx,
 
 SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
                                            const SteadyStateCallbacks& cb) const {
+  const auto where = [this](std::size_t cell, std::size_t species) {
+    return describe_entry(system_, cell, species);
+  };
   const auto t_start = Clock::now();
   const SteadyStateOptions& o = options_;
   const std::size_t n = system_.size();
@@ -98,7 +97,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
   for (double& v : x) v = std::max(v, 0.0);  // densities start non-negative
 
   PtcLinearSolver linear(system_.cells, S);
-  std::vector<double> f(n), dx(n), x_prev(n);
+  std::vector<double> f(n), dx(n), x_prev(n), weights(n);
   std::vector<char> held(n, 0);
   BlockTridiagonal jac(system_.cells, S);
 
@@ -136,9 +135,10 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       return finish(SolveStatus::kInterrupted,
                     "interrupted after " + std::to_string(res.iterations) + " iterations", nrm);
     }
-    if (cb.refresh) cb.refresh(x);
+    if (cb.on_state) cb.on_state(x);
 
     const auto t_eval = Clock::now();
+    if (system_.coupling != nullptr) system_.coupling->refresh(x);
     evaluate_tendency(system_, x, o.time_s, f);
     evaluate_jacobian(system_, x, o.time_s, jac);
     const ScaledNorm norm = scaled_norm(f, jac, x, o.scale);
@@ -178,19 +178,27 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     };
 
     const bool newton_step_done = last_dtau >= o.max_pseudo_step_s;
+    std::string refused;
     if (norm.value < o.tolerance && newton_step_done && last_change < o.step_tolerance) {
-      record(0.0, 1.0);
-      return finish(SolveStatus::kConverged,
-                    "scaled residual " + sci(norm.value) + " < " + sci(o.tolerance) +
-                        ", last relative change " + sci(last_change),
-                    norm.value);
+      if (cb.reject_reason) refused = cb.reject_reason(x);
+      if (refused.empty()) {
+        record(0.0, 1.0);
+        return finish(SolveStatus::kConverged,
+                      "scaled residual " + sci(norm.value) + " < " + sci(o.tolerance) +
+                          ", last relative change " + sci(last_change),
+                      norm.value);
+      }
     }
     if (res.iterations >= o.max_iterations) {
       record(0.0, 1.0);
       return finish(SolveStatus::kNotConverged,
                     "no convergence in " + std::to_string(o.max_iterations) +
-                        " iterations (scaled residual " + sci(norm.value) + " at " +
-                        where(norm.cell, norm.species) + ", tolerance " + sci(o.tolerance) + ")",
+                        " iterations (" +
+                        (refused.empty() ? "scaled residual " + sci(norm.value) + " at " +
+                                               where(norm.cell, norm.species) + ", tolerance " +
+                                               sci(o.tolerance)
+                                         : refused) +
+                        ")",
                     norm.value);
     }
 
@@ -214,8 +222,22 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     dtau = std::min(dtau, o.max_pseudo_step_s);
 
     find_held_rows(jac, f, held);
+    residual_weights(jac, x, o.scale, weights);
     std::string why;
-    if (!linear.solve(jac, 1.0 / dtau, held, f, dx, why)) {
+    bool solved = false;
+    if (system_.coupling != nullptr) {
+      const double eta = std::min(o.krylov_rtol_max, std::max(o.krylov_rtol_min, norm.value));
+      const PtcLinearSolver::Product product = [&](std::span<const double> v,
+                                                   std::span<double> out) {
+        system_.coupling->add_jacobian_product(x, v, out);
+      };
+      solved = linear.solve_coupled(jac, 1.0 / dtau, held, f, weights, product, eta, dx, why);
+      rec.krylov_iterations = linear.krylov_iterations();
+      res.krylov_iterations += linear.krylov_iterations();
+    } else {
+      solved = linear.solve(jac, 1.0 / dtau, held, f, dx, why);
+    }
+    if (!solved) {
       record(dtau, 0.0);
       // A failed solve counts as an iteration: otherwise a matrix that is singular only in
       // the Newton limit (a conserved mode) fails, shrinks, jumps back and loops forever.

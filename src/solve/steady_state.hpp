@@ -17,8 +17,15 @@
 // min_pseudo_step_s is a failure ("pseudo-time step collapsed").
 // Converged: ||F||_s < tolerance (residual_norm.hpp) AND the last step was a full Newton
 // step (dtau = max_pseudo_step_s) whose relative change max|dx|/(|x| + a_s) was below
-// step_tolerance. Photolysis feedback: refresh(x) is called before every iteration, so the
-// rates lag the state by one pseudo-time step and converge together with it.
+// step_tolerance, and the acceptance test of the caller (reject_reason) finds nothing wrong.
+//
+// Nonlocal coupling (photolysis): the system's coupling is refreshed at x_k before F and J
+// are evaluated, so F(x_k) is exact, and the linear system holds the full Jacobian: J_bt +
+// J_nl, solved by GMRES right-preconditioned with the LU of I/dtau - J_bt (Knoll and Keyes
+// 2004, J. Comput. Phys. 193, 357; ptc_linear_solver.hpp). The GMRES tolerance is the
+// forcing term eta_k = min(krylov_rtol_max, max(krylov_rtol_min, ||F_k||_s)) of an inexact
+// Newton method (Dembo, Eisenstat and Steihaug 1982, SIAM J. Numer. Anal. 19, 400): with
+// eta_k = O(||F_k||) the end phase converges quadratically.
 #pragma once
 
 #include <functional>
@@ -51,6 +58,8 @@ struct SteadyStateOptions {
   double min_damping = 1.0;           ///< lower bound of the global damping lambda (1: none)
   double time_s = 0.0;                ///< the t handed to the operators
   int checkpoint_every = 0;           ///< iterations between checkpoint calls (0: never)
+  double krylov_rtol_max = 1e-3;      ///< upper bound of the GMRES forcing term
+  double krylov_rtol_min = 1e-12;     ///< lower bound of the GMRES forcing term
   ResidualScale scale;
 };
 
@@ -63,11 +72,17 @@ struct SteadyIteration {
   double wall_s = 0.0;               ///< since the start of solve()
   std::size_t worst_cell = 0;        ///< where ||F||_s is attained
   std::size_t worst_species = 0;
+  int krylov_iterations = 0;         ///< GMRES iterations of the step taken from this state
 };
 
 struct SteadyStateCallbacks {
-  /// Called with the current state before each iteration (photolysis rates, ...).
-  std::function<void(const std::vector<double>&)> refresh;
+  /// Called with the current state before each iteration (observers; the physics of the
+  /// state, such as photolysis rates, is the system's NonlocalCoupling).
+  std::function<void(const std::vector<double>&)> on_state;
+  /// Called when the residual and step tests pass: a non-empty reason refuses to call the
+  /// state converged (a mole fraction above 1, a column budget that does not close), and
+  /// Newton steps go on.
+  std::function<std::string(const std::vector<double>&)> reject_reason;
   /// Polled once per iteration; true stops with status kInterrupted.
   std::function<bool()> stop_requested;
   /// Called after each residual evaluation (progress display).
@@ -88,7 +103,8 @@ struct SteadyStateResult {
   double wall_s = 0.0;
   double evaluate_s = 0.0;          ///< operators' tendency + Jacobian
   double assembly_s = 0.0;          ///< PETSc matrix assembly
-  double factor_solve_s = 0.0;      ///< LU factorisation + triangular solves
+  double factor_solve_s = 0.0;      ///< LU factorisation + triangular solves + GMRES
+  int krylov_iterations = 0;        ///< GMRES iterations over the whole solve
 
   [[nodiscard]] bool converged() const { return status == SolveStatus::kConverged; }
 };

@@ -64,7 +64,7 @@ TEST_CASE("PTC: a density titrated away by 15 decades and an absent species conv
   }
   double min_seen = 0.0;
   SteadyStateCallbacks cb;
-  cb.refresh = [&](const std::vector<double>& x) {
+  cb.on_state = [&](const std::vector<double>& x) {
     min_seen = std::min(min_seen, *std::min_element(x.begin(), x.end()));
   };
   const SteadyStateResult r = SteadyStateSolver(sys).solve(x0, cb);
