@@ -5,13 +5,14 @@
 //     flux through the edge uses the half-cell distance between the edge and the first
 //     (last) cell centre, and is reported like any other edge flux.
 //   fixed flux F:                 Phi_edge = F
-//   deposition velocity (bottom): Phi_bottom = -v_d n_1
-//   escape velocity (top):        Phi_top = v_e n_N
+//   deposition velocity (bottom): Phi_bottom = -v_d n(bottom edge)
+//   escape velocity (top):        Phi_top = v_e n(top edge)
+//     (the edge density follows from the half-cell flux, see transport_operator.hpp)
 //   Jeans escape (top):           v_J = U/(2 sqrt(pi)) (1 + lambda) exp(-lambda),
 //                                 U = sqrt(2 k T/m), lambda = G M m/(k T r)
 //                                 (Chamberlain and Hunten 1987, ch. 7)
 //   diffusion-limited (top):      Phi_top = b_i f_i / H_a (Hunten 1973), i.e. an escape
-//                                 velocity v = b_i/(H_a n_a) at the top
+//                                 velocity v = b_i/(H_a n_a) on the top edge
 //   zero flux (the default).
 // Every value may follow a piecewise-linear schedule in time (held constant outside it).
 #pragma once

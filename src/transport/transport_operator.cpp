@@ -38,6 +38,12 @@ bool dirichlet(BoundaryKind k) {
   return k == BoundaryKind::kMixingRatio || k == BoundaryKind::kDensity;
 }
 
+/// A flux proportional to the density on the boundary edge, Phi = v n_edge.
+bool velocity(BoundaryKind k) {
+  return k == BoundaryKind::kDepositionVelocity || k == BoundaryKind::kEscapeVelocity ||
+         k == BoundaryKind::kJeans || k == BoundaryKind::kDiffusionLimited;
+}
+
 // TR-BDF2 constants (Hosea and Shampine 1996): gamma = 2 - sqrt(2) makes the trapezoidal
 // stage weight gamma/2 equal the BDF2 weight (1 - gamma)/(2 - gamma).
 const double kGamma = 2.0 - std::sqrt(2.0);
@@ -67,6 +73,7 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
   coef_.assign(S_ * (N_ + 1), EdgeCoef{});
   drift_.assign(S_ * (N_ + 1), 0.0);
   top_velocity_.assign(S_, 0.0);
+  half_cell_.assign(S_ * 2, HalfCell{});
   lo_.assign(S_ * N_, 0.0);
   di_.assign(S_ * N_, 0.0);
   up_.assign(S_ * N_, 0.0);
@@ -138,6 +145,10 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
       c.right_K = f.upper_K;
       c.ghost_D = f.lower_D;
       c.right_D = f.upper_D;
+    } else if (velocity(b.bottom.kind)) {
+      // Phi = v n_edge: the edge density follows from the same half-cell flux.
+      const FluxPair f = half_cell(0, 0);
+      half_cell_[s * 2] = HalfCell{f.upper_K + f.upper_D, f.lower_K + f.lower_D};
     }
     if (dirichlet(b.top.kind)) {
       EdgeCoef& c = coef_[s * (N_ + 1) + N_];
@@ -146,6 +157,9 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
       c.ghost_K = f.upper_K;
       c.left_D = f.lower_D;
       c.ghost_D = f.upper_D;
+    } else if (velocity(b.top.kind)) {
+      const FluxPair f = half_cell(N_, N_ - 1);
+      half_cell_[s * 2 + 1] = HalfCell{f.lower_K + f.lower_D, f.upper_K + f.upper_D};
     }
 
     // Escape velocities that do not change in time.
@@ -154,10 +168,10 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
                                                          : bg.edge_temperature_K[N_];
       top_velocity_[s] = jeans_velocity(sp.mass_g, T, bg.planet.radius_cm + ze[N_], M_planet);
     } else if (b.top.kind == BoundaryKind::kDiffusionLimited) {
-      // Phi = b f_N / H_a = [b / (H_a n_a,N)] n_N.
+      // Phi = b f / H_a = [b / (H_a n_a)] n on the top edge.
       const double T = bg.edge_temperature_K[N_];
       const double H_a = k_B * T / (bg.molecule_mass_g * bg.edge_gravity_cm_s2[N_]);
-      top_velocity_[s] = sp.binary_diffusion(T) / (H_a * n_air_[N_ - 1]);
+      top_velocity_[s] = sp.binary_diffusion(T) / (H_a * edge_n_air_[N_]);
     }
 
     // Time-independent tridiagonal part of A (velocity boundaries are added per call).
@@ -192,9 +206,8 @@ double TransportOperator::imposed_flux(std::size_t s, bool top, double t) const 
   return b.kind == BoundaryKind::kFlux ? b.value.at(t) : 0.0;
 }
 
-namespace {
-/// Velocity boundary at time t: bottom returns -v_d (Phi_0 = -v_d n_0), top v_e (Phi_N = v_e n_N).
-double boundary_velocity(const BoundaryCondition& b, double fixed_top_velocity, double t) {
+double TransportOperator::edge_velocity(std::size_t s, bool top, double t) const {
+  const BoundaryCondition& b = top ? bc_[s].top : bc_[s].bottom;
   switch (b.kind) {
     case BoundaryKind::kDepositionVelocity:
       return -b.value.at(t);
@@ -202,12 +215,33 @@ double boundary_velocity(const BoundaryCondition& b, double fixed_top_velocity, 
       return b.value.at(t);
     case BoundaryKind::kJeans:
     case BoundaryKind::kDiffusionLimited:
-      return fixed_top_velocity;
+      return top_velocity_[s];
     default:
       return 0.0;
   }
 }
-}  // namespace
+
+double TransportOperator::boundary_velocity(std::size_t s, bool top, double t) const {
+  // Phi = v n_edge and Phi = c n_cell + g n_edge (half cell) give n_edge = c n_cell/(v - g),
+  // so Phi = v c/(v - g) n_cell. v - g is never 0 for v != 0: g > 0 at the bottom where
+  // v <= 0, g < 0 at the top where v >= 0.
+  const double v = edge_velocity(s, top, t);
+  if (v == 0.0) return 0.0;
+  const HalfCell& h = half_cell_[s * 2 + (top ? 1 : 0)];
+  return v * h.cell / (v - h.edge);
+}
+
+double TransportOperator::boundary_edge_density(std::span<const double> n, double t, std::size_t s,
+                                                bool top) const {
+  const BoundaryCondition& b = top ? bc_[s].top : bc_[s].bottom;
+  const double n_cell = n[(top ? N_ - 1 : 0) * S_ + s];
+  if (dirichlet(b.kind)) return ghost_density(s, top, t);
+  if (!velocity(b.kind) || species_[s].fixed) return n_cell;
+  const double v = edge_velocity(s, top, t);
+  const HalfCell& h = half_cell_[s * 2 + (top ? 1 : 0)];
+  if (v == 0.0 && h.edge == 0.0) return n_cell;
+  return h.cell * n_cell / (v - h.edge);
+}
 
 void TransportOperator::source(std::size_t s, double t, std::span<double> r) const {
   std::fill(r.begin(), r.end(), 0.0);
@@ -252,7 +286,7 @@ void TransportOperator::flux_of(std::span<const double> n, double t, std::size_t
       const double g = ghost_density(s, top, t);
       k += c.ghost_K * g;
       d += c.ghost_D * g;
-      const double v = boundary_velocity(top ? bc_[s].top : bc_[s].bottom, top_velocity_[s], t);
+      const double v = boundary_velocity(s, top, t);
       other = imposed_flux(s, top, t) + v * at(top ? N_ - 1 : 0);
     }
     total[e] = k + d + other;
@@ -281,8 +315,8 @@ void TransportOperator::add_jacobian(std::span<const double> /*n*/, double t,
       if (j > 0) jac.l(j, s) += lo_[s * N_ + j];
       if (j + 1 < N_) jac.u(j, s) += up_[s * N_ + j];
     }
-    jac.d(0, s, s) += boundary_velocity(bc_[s].bottom, top_velocity_[s], t) / dz_[0];
-    jac.d(N_ - 1, s, s) -= boundary_velocity(bc_[s].top, top_velocity_[s], t) / dz_[N_ - 1];
+    jac.d(0, s, s) += boundary_velocity(s, false, t) / dz_[0];
+    jac.d(N_ - 1, s, s) -= boundary_velocity(s, true, t) / dz_[N_ - 1];
   }
 }
 
@@ -358,13 +392,10 @@ bool TransportOperator::step_species(std::size_t s, std::span<double> n, double 
   const double* lo = &lo_[s * N];
   const double* di = &di_[s * N];
   const double* up = &up_[s * N];
-  const auto& bb = bc_[s].bottom;
-  const auto& bt = bc_[s].top;
-  const double vtop = top_velocity_[s];
   // Solves (I - c A(tau)) y = rhs in place.
   const auto solve = [&](double c, double tau, std::span<double> rhs) {
-    const double vb = boundary_velocity(bb, vtop, tau) / dz_[0];
-    const double vt = -boundary_velocity(bt, vtop, tau) / dz_[N - 1];
+    const double vb = boundary_velocity(s, false, tau) / dz_[0];
+    const double vt = -boundary_velocity(s, true, tau) / dz_[N - 1];
     return thomas(
         N, [&](std::size_t j) { return -c * lo[j]; },
         [&](std::size_t j) {
@@ -378,8 +409,8 @@ bool TransportOperator::step_species(std::size_t s, std::span<double> n, double 
 
   // Stage 1, trapezoidal rule over gamma dt.
   apply_A(s, y0_, yg_);
-  yg_[0] += boundary_velocity(bb, vtop, t) / dz_[0] * y0_[0];
-  yg_[N - 1] -= boundary_velocity(bt, vtop, t) / dz_[N - 1] * y0_[N - 1];
+  yg_[0] += boundary_velocity(s, false, t) / dz_[0] * y0_[0];
+  yg_[N - 1] -= boundary_velocity(s, true, t) / dz_[N - 1] * y0_[N - 1];
   source(s, t, r_);
   for (std::size_t j = 0; j < N; ++j) yg_[j] = y0_[j] + kD * dt * (yg_[j] + r_[j]);
   source(s, t + kGamma * dt, r_);
@@ -430,8 +461,8 @@ bool TransportOperator::steady_state(std::span<double> n, double t,
     const double* lo = &lo_[s * N_];
     const double* di = &di_[s * N_];
     const double* up = &up_[s * N_];
-    const double vb = boundary_velocity(bc_[s].bottom, top_velocity_[s], t) / dz_[0];
-    const double vt = -boundary_velocity(bc_[s].top, top_velocity_[s], t) / dz_[N_ - 1];
+    const double vb = boundary_velocity(s, false, t) / dz_[0];
+    const double vt = -boundary_velocity(s, true, t) / dz_[N_ - 1];
     source(s, t, r);
     for (std::size_t j = 0; j < N_; ++j) {
       rhs[j] = -r[j] - (production.empty() ? 0.0 : production[j * S_ + s]);

@@ -15,7 +15,13 @@
 //              Southwell 1955). Phi_D vanishes to round-off on n_{j+1}/n_j = exp(-x_e), the
 //              discrete diffusive equilibrium, and is second order in dz on smooth problems.
 // Boundary edges with a Dirichlet value use the half-cell distance to the first/last centre
-// (x from the trapezoid rule of m g/(kT) over the half cell).
+// (x from the trapezoid rule of m g/(kT) over the half cell). A velocity condition
+// (deposition, escape, Jeans, diffusion-limited) holds on the boundary edge, Phi = v n_edge:
+// with the same half-cell flux Phi = c n_cell + g n_edge, n_edge = c n_cell/(v - g) and
+//   Phi = v_eff n_cell,  v_eff = v c/(v - g)
+// (for eddy mixing alone |v_eff| = (n_a,edge/n_a,cell)/(1/|v| + h/K), h the half cell: the
+// velocity and the half cell's transfer resistance h/K in series). Taking n_cell itself for
+// n_edge would be an O(dz) error in the boundary flux: first order in the grid.
 //
 // The operator is affine in n and species decouple: per species a tridiagonal matrix A and a
 // (time-dependent, boundary-value) source r, f = A n + r. implicit_step uses TR-BDF2
@@ -81,8 +87,13 @@ class TransportOperator final : public ColumnOperator {
   /// The molecular drift x_e over interior edge e (1..N-1) for species s: the discrete
   /// diffusive equilibrium is n_e/n_{e-1} = exp(-x_e).
   [[nodiscard]] double molecular_drift(std::size_t s, std::size_t e) const;
-  /// The resolved escape velocity at the top (jeans, diffusion_limited, escape_velocity) or 0.
+  /// The resolved escape velocity v at the top edge (jeans, diffusion_limited) or 0.
   [[nodiscard]] double top_velocity(std::size_t s) const { return top_velocity_[s]; }
+  /// The density on the bottom (top = false) or top boundary edge: the Dirichlet value, or for
+  /// a velocity condition the edge density n_edge = c n_cell/(v - g) of its half cell;
+  /// otherwise the boundary cell's density.
+  [[nodiscard]] double boundary_edge_density(std::span<const double> n, double t, std::size_t s,
+                                             bool top) const;
 
   /// Species steps redone with backward Euler since construction (for diagnostics).
   [[nodiscard]] std::size_t positivity_fallbacks() const { return fallbacks_; }
@@ -105,6 +116,10 @@ class TransportOperator final : public ColumnOperator {
   /// Ghost density (Dirichlet) or imposed flux at the boundary at time t.
   [[nodiscard]] double ghost_density(std::size_t s, bool top, double t) const;
   [[nodiscard]] double imposed_flux(std::size_t s, bool top, double t) const;
+  /// The velocity v of Phi = v n_edge at time t (bottom: -v_d; top: v_e), 0 for other kinds.
+  [[nodiscard]] double edge_velocity(std::size_t s, bool top, double t) const;
+  /// The velocity that multiplies the boundary cell's density: Phi = v_eff n_cell.
+  [[nodiscard]] double boundary_velocity(std::size_t s, bool top, double t) const;
   /// The boundary-value part r of f = A n + r for species s at time t.
   void source(std::size_t s, double t, std::span<double> r) const;
   void flux_of(std::span<const double> n, double t, std::size_t s, std::span<double> total,
@@ -120,6 +135,11 @@ class TransportOperator final : public ColumnOperator {
   std::vector<SpeciesBoundaries> bc_;
   std::vector<EdgeCoef> coef_;
   std::vector<double> top_velocity_;
+  // Half-cell flux Phi = cell n_cell + edge n_edge at a velocity boundary, s*2 + (top ? 1 : 0).
+  struct HalfCell {
+    double cell = 0, edge = 0;
+  };
+  std::vector<HalfCell> half_cell_;
   std::vector<double> drift_;         // s*(N+1) + e
   std::vector<double> lo_, di_, up_;  // A per species: s*N + j
   // Work arrays (sized N), so that steps do not allocate.

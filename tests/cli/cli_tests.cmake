@@ -110,3 +110,8 @@ add_test(NAME validation.worlds.tellin_injection
   COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/run.sh $<TARGET_FILE:colchem>)
 set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400
   ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_tellin_injection.nc")
+
+# The cold thin world of validation/solve/thin_world_convergence loads and converges on its
+# own 70-cell grid (about 1 s; the grid series is the validation script).
+colchem_cli_test(run_frigid_thin 0 "frigid_thin: steady converged"
+  $<TARGET_FILE:colchem> run ${CFG}/frigid_thin.yaml -o frigid_thin_70.nc)
