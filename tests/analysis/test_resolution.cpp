@@ -9,7 +9,9 @@
 
 #include "../transport/transport_fixtures.hpp"
 #include "analysis/resolution.hpp"
+#include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
+#include "analysis/score.hpp"
 #include "io/scenario.hpp"
 
 using namespace colchem;
@@ -242,4 +244,43 @@ TEST_CASE("an equidistributed grid beats the uniform grid on the thin boundary l
   CHECK(p.order_rms[1] > 1.8);
   CHECK(p.order_rms[1] < 2.2);
   CHECK(p.order_rms[0] < p.order_rms[1]);  // approaching the asymptotic range from below
+}
+
+TEST_CASE("Richardson on the scores of the thin boundary layer", "[resolution][validation]") {
+  // Invented observations of SO at 1.3, 3.7 and 7.2 km (tests/analysis/data/
+  // boundary_layer_obs.csv). The true score is that of the closed form (analytic), sampled
+  // every 2.5 m so that its interpolation adds nothing visible.
+  const UnitSystem units;
+  const auto ex = boundary_layer();
+  const ObservationSet obs = read_observations(
+      COLCHEM_SOURCE_DIR "/tests/analysis/data/boundary_layer_obs.csv", units);
+  SolveRequest req = request();
+  req.observations = &obs;
+  const std::vector<double> base = Grid::uniform(0.0, 50.0e5, 50).edge_cm;
+  const ResolutionStudy st = run_resolution_study(req, base, 3, 2, ResolutionOptions{}, units);
+  REQUIRE(st.all_converged());
+  REQUIRE(st.scores.size() == 1);
+  const auto& q = st.scores[0];
+  REQUIRE(q.point.size() == 3);
+  std::vector<double> z, f;
+  for (int i = 0; i <= 20000; ++i) {
+    z.push_back(50.0e5 * i / 20000.0);
+    f.push_back(ex(z.back()));
+  }
+  const double chi2_exact = score_species("SO", z, f, obs.points, 0).chi2_log;
+  const double true_chi2_error = q.chi2_log[2] - chi2_exact;
+  WARN("chi2_log 50/100/200: " << q.chi2_log[0] << ", " << q.chi2_log[1] << ", " << q.chi2_log[2]
+                               << "; exact " << chi2_exact << "; order " << q.chi2.order
+                               << ", estimated error " << q.chi2.error << ", true "
+                               << true_chi2_error);
+  CHECK(q.chi2.status == ResolutionStatus::kAsymptotic);
+  CHECK(q.chi2.error / true_chi2_error > 1.0 / 1.5);  // Roache 1998 (factor: common practice)
+  CHECK(q.chi2.error / true_chi2_error < 1.5);
+  for (std::size_t i = 0; i < 3; ++i) {
+    const double truth = q.log10_model[2][i] - std::log10(ex(q.altitude_cm[i]));
+    INFO("point at " << q.altitude_cm[i] / 1e5 << " km: estimate " << q.point[i].error
+                     << ", true " << truth);
+    CHECK(q.point[i].error / truth > 1.0 / 1.5);  // Roache 1998
+    CHECK(q.point[i].error / truth < 1.5);
+  }
 }
