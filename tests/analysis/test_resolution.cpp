@@ -8,8 +8,8 @@
 #include <fstream>
 
 #include "../transport/transport_fixtures.hpp"
-#include "analysis/resolution.hpp"
 #include "analysis/observations.hpp"
+#include "analysis/resolution.hpp"
 #include "analysis/resolution_runner.hpp"
 #include "analysis/score.hpp"
 #include "io/scenario.hpp"
@@ -252,8 +252,8 @@ TEST_CASE("Richardson on the scores of the thin boundary layer", "[resolution][v
   // every 2.5 m so that its interpolation adds nothing visible.
   const UnitSystem units;
   const auto ex = boundary_layer();
-  const ObservationSet obs = read_observations(
-      COLCHEM_SOURCE_DIR "/tests/analysis/data/boundary_layer_obs.csv", units);
+  const ObservationSet obs =
+      read_observations(COLCHEM_SOURCE_DIR "/tests/analysis/data/boundary_layer_obs.csv", units);
   SolveRequest req = request();
   req.observations = &obs;
   const std::vector<double> base = Grid::uniform(0.0, 50.0e5, 50).edge_cm;
@@ -278,8 +278,8 @@ TEST_CASE("Richardson on the scores of the thin boundary layer", "[resolution][v
   CHECK(q.chi2.error / true_chi2_error < 1.5);
   for (std::size_t i = 0; i < 3; ++i) {
     const double truth = q.log10_model[2][i] - std::log10(ex(q.altitude_cm[i]));
-    INFO("point at " << q.altitude_cm[i] / 1e5 << " km: estimate " << q.point[i].error
-                     << ", true " << truth);
+    INFO("point at " << q.altitude_cm[i] / 1e5 << " km: estimate " << q.point[i].error << ", true "
+                     << truth);
     CHECK(q.point[i].error / truth > 1.0 / 1.5);  // Roache 1998
     CHECK(q.point[i].error / truth < 1.5);
   }
