@@ -21,6 +21,11 @@ bool in_range(double p, const AsymptoticRange& range) {
 double estimate_order(const RichardsonEstimate& e, const AsymptoticRange& range) {
   return e.status == ResolutionStatus::kAsymptotic ? e.order : range.formal_order;
 }
+
+/// Roache's error of the finest solution from its difference to the next coarser one.
+double finest_error(double d23, double ratio, double order) {
+  return d23 / (std::pow(ratio, order) - 1.0);
+}
 }  // namespace
 
 std::string resolution_status_name(ResolutionStatus s) {
@@ -47,13 +52,13 @@ RichardsonEstimate richardson_from_differences(double d12, double d23, double ra
   if (!std::isfinite(d12) || !std::isfinite(d23)) return e;
   if (d12 <= range.resolved_below && d23 <= range.resolved_below) {
     e.status = ResolutionStatus::kResolved;
-    e.error = d23 / (std::pow(ratio, range.formal_order) - 1.0);
+    e.error = finest_error(d23, ratio, range.formal_order);
     return e;
   }
   e.order = observed_order(d12, d23, ratio);
   e.status = (d23 < d12 && in_range(e.order, range)) ? ResolutionStatus::kAsymptotic
                                                      : ResolutionStatus::kNotAsymptotic;
-  e.error = d23 / (std::pow(ratio, estimate_order(e, range)) - 1.0);
+  e.error = finest_error(d23, ratio, estimate_order(e, range));
   return e;
 }
 
@@ -67,7 +72,7 @@ RichardsonEstimate richardson_scalar(double coarse, double medium, double fine, 
   if (std::abs(d12) <= range.resolved_below * scale &&
       std::abs(d23) <= range.resolved_below * scale) {
     e.status = ResolutionStatus::kResolved;
-    e.error = d23 / (std::pow(ratio, range.formal_order) - 1.0);
+    e.error = finest_error(d23, ratio, range.formal_order);
     return e;
   }
   e.order = observed_order(d12, d23, ratio);
@@ -76,7 +81,7 @@ RichardsonEstimate richardson_scalar(double coarse, double medium, double fine, 
   e.status = (monotone && std::abs(d23) < std::abs(d12) && in_range(e.order, range))
                  ? ResolutionStatus::kAsymptotic
                  : ResolutionStatus::kNotAsymptotic;
-  e.error = d23 / (std::pow(ratio, estimate_order(e, range)) - 1.0);
+  e.error = finest_error(d23, ratio, estimate_order(e, range));
   return e;
 }
 
@@ -176,12 +181,11 @@ SpeciesResolution compare_species(const std::string& name,
     r.status = ResolutionStatus::kNotAsymptotic;
   }
   const double q = r.status == ResolutionStatus::kAsymptotic ? r.by_rms.order : range.formal_order;
-  const double denom = std::pow(ratio, q) - 1.0;
   double emax = 0.0, sum2 = 0.0;
   std::size_t n = 0;
   for (std::size_t k = 0; k < K; ++k) {
     if (!r.compared[k]) continue;
-    const double e = (r.log10_f[L - 2][k] - r.log10_f[L - 1][k]) / denom;
+    const double e = finest_error(r.log10_f[L - 2][k] - r.log10_f[L - 1][k], ratio, q);
     r.error_log10[k] = e;
     emax = std::max(emax, std::abs(e));
     sum2 += e * e;
