@@ -149,6 +149,7 @@ SpeciesResolution compare_species(const std::string& name,
   r.compared.assign(K, peak > 0.0);
   r.log10_f.assign(L, std::vector<double>(K, kNaN));
   for (std::size_t l = 0; l < L; ++l) {
+    if (f[l].empty()) continue;  // a failed level: the others are still compared pairwise
     for (std::size_t k = 0; k < K; ++k) {
       const double v = value[l][k];
       if (std::isfinite(v) && v > 0.0) r.log10_f[l][k] = std::log10(v);

@@ -91,7 +91,7 @@ struct SpeciesResolution {
   std::string species;
   /// log10 f on the comparison altitudes, [level][k]; NaN where a level failed.
   std::vector<std::vector<double>> log10_f;
-  std::vector<bool> compared;  ///< altitudes counted (f above the floor on every level)
+  std::vector<bool> compared;  ///< altitudes counted (f above the floor on every converged level)
   /// Differences between consecutive levels, [level pair], pair i = levels i and i+1.
   std::vector<DifferenceNorms> differences;
   /// Per consecutive triple (levels i, i+1, i+2): the observed order from the RMS and the

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/interp.hpp"
 #include "io/scenario.hpp"
@@ -15,7 +16,7 @@ namespace colchem {
 std::string grid_override(std::span<const double> edges_cm) {
   std::string s = "grid={edges: {unit: km, values: [";
   for (std::size_t k = 0; k < edges_cm.size(); ++k) {
-    s += fmt::format("{}{:.17g}", k ? ", " : "", edges_cm[k] / 1e5);
+    s += fmt::format("{}{:.17g}", k ? ", " : "", edges_cm[k] / constants::kCmPerKm);
   }
   return s + "]}}";
 }
@@ -37,7 +38,10 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
   for (std::size_t s = 0; s < S; ++s) r.held.push_back(model.held(s));
 
   std::vector<double> x0 = model.initial_state();
-  if (warm != nullptr && warm->converged && warm->species == r.species) {
+  // A steady state does not depend on its start, so the previous level's solution is a
+  // better start; a transient's end state does, so it always starts from the scenario's.
+  const bool steady = sc.solver.method != SolverMethod::kTransient;
+  if (steady && warm != nullptr && warm->converged && warm->species == r.species) {
     const std::size_t M = warm->background.grid.cells();
     const auto& na_old = warm->background.air_density_cm3;
     for (std::size_t s = 0; s < S; ++s) {

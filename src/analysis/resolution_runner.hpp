@@ -45,7 +45,7 @@ struct SolveRequest {
 };
 
 /// Solves the scenario on `edges_cm`, warm-started from `warm` (interpolated log-linearly in
-/// altitude) when it converged.
+/// altitude) when it converged and the solver seeks a steady state.
 LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edges_cm,
                            const UnitSystem& units, const LevelResult* warm);
 

@@ -81,10 +81,12 @@ TEST_CASE("profiles compared over a grid family give the order of their error", 
     const double exact = c * hf * hf * g(zc[0][k]) / std::log(10.0);
     CHECK(r.error_log10[k] == Approx(exact).margin(1e-9 * std::abs(c * hf * hf)));  // analytic
   }
-  SECTION("a failed level marks the species failed") {
-    f[1].clear();
-    CHECK(compare_species("X", zc, f, 3.0, ResolutionOptions{}).status ==
-          ResolutionStatus::kFailed);
+  SECTION("a failed level marks the species failed and keeps the other pair") {
+    f[2].clear();
+    const auto failed = compare_species("X", zc, f, 3.0, ResolutionOptions{});
+    CHECK(failed.status == ResolutionStatus::kFailed);
+    CHECK(failed.differences[0].max == Approx(r.differences[0].max).epsilon(1e-12));  // same data
+    CHECK(failed.differences[1].points == 0);
   }
 }
 
