@@ -33,6 +33,7 @@ int main(int argc, char** argv) {
   app::add_compare_command(cli, commands);
   app::add_budget_command(cli, commands);
   app::add_sweep_command(cli, commands);
+  app::add_resolve_command(cli, commands);
   app::add_photo_command(cli, commands);
   app::add_box_command(cli, commands);
 

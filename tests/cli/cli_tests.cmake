@@ -115,3 +115,13 @@ set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400
 # own 70-cell grid (about 1 s; the grid series is the validation script).
 colchem_cli_test(run_frigid_thin 0 "frigid_thin: steady converged"
   $<TARGET_FILE:colchem> run ${CFG}/frigid_thin.yaml -o frigid_thin_70.nc)
+# colchem resolve: Richardson over grid families and equidistributed grids on the
+# closed-form thin boundary layer (a few seconds).
+colchem_cli_test(help_resolve 0 "--equidistribute" $<TARGET_FILE:colchem> resolve --help)
+colchem_cli_test(resolve_no_chemistry 3 "'chemistry': expected a chemistry section"
+  $<TARGET_FILE:colchem> resolve ${CFG}/pyrene.yaml -o resolve_no_chemistry.nc)
+colchem_cli_test(resolve_two_levels 2 "--levels"
+  $<TARGET_FILE:colchem> resolve ${CFG}/tellin.yaml --levels 2)
+add_test(NAME cli.resolve
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/resolve_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/resolve_work)

@@ -66,6 +66,23 @@ inline Background varying_column(std::size_t cells, bool uniform_grid = true) {
   return build_background(spec);
 }
 
+/// f(z) for K f'' - (K/H) f' - k f = 0 on [0, L], f(0) = f0, f'(L) = 0.
+/// Derivation (analytic): steady state of dn/dt = -dPhi/dz - k n with Phi = -K n_a df/dz and
+/// n_a = n0 exp(-z/H): d/dz(K n_a f') = k n_a f, and n_a' = -n_a/H gives
+/// K f'' - (K/H) f' - k f = 0. Roots r = [1/H +- sqrt(1/H^2 + 4k/K)]/2;
+/// f = a e^{r+ z} + b e^{r- z}, a + b = f0, a r+ e^{r+ L} + b r- e^{r- L} = 0.
+struct LossColumn {
+  double K, H, k, L, f0;
+  [[nodiscard]] double operator()(double z) const {
+    const double q = std::sqrt(1.0 / (H * H) + 4.0 * k / K);
+    const double rp = 0.5 * (1.0 / H + q), rm = 0.5 * (1.0 / H - q);
+    const double den = rp * std::exp(rp * L) - rm * std::exp(rm * L);
+    const double a = -f0 * rm * std::exp(rm * L) / den;
+    const double b = f0 * rp * std::exp(rp * L) / den;
+    return a * std::exp(rp * z) + b * std::exp(rm * z);
+  }
+};
+
 inline double column_total(const Grid& g, std::span<const double> n, std::size_t S, std::size_t s) {
   double sum = 0.0;
   for (std::size_t j = 0; j < g.cells(); ++j) sum += n[j * S + s] * g.width_cm(j);

@@ -1,0 +1,199 @@
+#include "analysis/resolution_runner.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "core/interp.hpp"
+#include "io/scenario.hpp"
+#include "solve/column_run.hpp"
+
+namespace colchem {
+
+std::string grid_override(std::span<const double> edges_cm) {
+  std::string s = "grid={edges: {unit: km, values: [";
+  for (std::size_t k = 0; k < edges_cm.size(); ++k) {
+    s += fmt::format("{}{:.17g}", k ? ", " : "", edges_cm[k] / constants::kCmPerKm);
+  }
+  return s + "]}}";
+}
+
+LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edges_cm,
+                           const UnitSystem& units, const LevelResult* warm) {
+  std::vector<std::string> overrides = req.overrides;
+  overrides.push_back(grid_override(edges_cm));
+  const Scenario sc = load_scenario(req.config, overrides, units);
+  ColumnModel model(sc);
+  if (!model.has_chemistry()) {
+    throw InputError(ExitCode::kConfig, SourceLocation{req.config.string()}, "chemistry",
+                     "a chemistry section (a resolution study solves the column)", "none");
+  }
+  const std::size_t S = model.species_count(), N = model.cells();
+  LevelResult r;
+  r.background = model.background();
+  r.species = model.species();
+  for (std::size_t s = 0; s < S; ++s) r.held.push_back(model.held(s));
+
+  std::vector<double> x0 = model.initial_state();
+  // A steady state does not depend on its start, so the previous level's solution is a
+  // better start; a transient's end state does, so it always starts from the scenario's.
+  const bool steady = sc.solver.method != SolverMethod::kTransient;
+  if (steady && warm != nullptr && warm->converged && warm->species == r.species) {
+    const std::size_t M = warm->background.grid.cells();
+    const auto& na_old = warm->background.air_density_cm3;
+    for (std::size_t s = 0; s < S; ++s) {
+      std::vector<double> n_old(M);
+      for (std::size_t j = 0; j < M; ++j) {
+        n_old[j] = std::max(warm->mole_fraction[s * M + j] * na_old[j], 1e-30);
+      }
+      const auto v =
+          *interpolate(warm->background.grid.center_cm, n_old, r.background.grid.center_cm,
+                       InterpScale::kLog, Extrapolation::kHoldEnds);
+      for (std::size_t j = 0; j < N; ++j) x0[j * S + s] = v[j];
+    }
+    model.impose_held(x0);
+  }
+  RunControls controls;
+  controls.log = req.log;
+  controls.stop_requested = req.stop_requested;
+  const RunOutcome out = run_column(model, sc.solver, std::move(x0), controls);
+  if (out.status == SolveStatus::kInterrupted) {
+    throw RunError(ExitCode::kInterrupted,
+                   "interrupted during the solve on " + std::to_string(N) + " cells");
+  }
+  r.converged = out.ok();
+  r.reason = out.reason;
+  r.iterations = out.iterations;
+  r.residual = out.residual_norm;
+  if (req.log) {
+    req.log->info("{} cells: {} after {} iterations, residual {:.3g}", N,
+                  r.converged ? "converged" : "not converged", r.iterations, r.residual);
+  }
+  if (!r.converged) return r;
+  r.mole_fraction.resize(S * N);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) {
+      r.mole_fraction[s * N + j] = out.x[j * S + s] / r.background.air_density_cm3[j];
+    }
+  }
+  if (req.observations != nullptr && !req.observations->points.empty()) {
+    r.scores =
+        score_column(r.background.grid.center_cm, r.species, r.mole_fraction, *req.observations, 0);
+  }
+  return r;
+}
+
+bool ResolutionStudy::all_converged() const {
+  return std::all_of(levels.begin(), levels.end(),
+                     [](const LevelResult& l) { return l.converged; });
+}
+
+namespace {
+
+std::vector<double> species_profile(const LevelResult& l, std::size_t s) {
+  if (!l.converged) return {};
+  const std::size_t N = l.background.grid.cells();
+  return {l.mole_fraction.begin() + static_cast<std::ptrdiff_t>(s * N),
+          l.mole_fraction.begin() + static_cast<std::ptrdiff_t>((s + 1) * N)};
+}
+
+ScoreResolution compare_scores(const std::vector<LevelResult>& levels, std::size_t q, double ratio,
+                               const AsymptoticRange& range) {
+  const std::size_t L = levels.size();
+  constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+  ScoreResolution r;
+  const LevelResult* ref = nullptr;
+  for (const auto& l : levels) {
+    if (l.converged && q < l.scores.size()) ref = &l;
+  }
+  if (ref == nullptr) return r;
+  r.species = ref->scores[q].species;
+  std::vector<std::size_t> inside;
+  for (std::size_t p = 0; p < ref->scores[q].points.size(); ++p) {
+    if (ref->scores[q].points[p].inside) {
+      inside.push_back(p);
+      r.altitude_cm.push_back(ref->scores[q].points[p].obs.altitude_cm);
+    }
+  }
+  r.log10_model.assign(L, std::vector<double>(inside.size(), kNaN));
+  r.chi2_log.assign(L, kNaN);
+  for (std::size_t l = 0; l < L; ++l) {
+    if (!levels[l].converged || q >= levels[l].scores.size()) continue;
+    const auto& sc = levels[l].scores[q];
+    r.chi2_log[l] = sc.chi2_log;
+    for (std::size_t i = 0; i < inside.size(); ++i) {
+      r.log10_model[l][i] = std::log10(sc.points[inside[i]].model);
+    }
+  }
+  r.chi2 = richardson_scalar(r.chi2_log[L - 3], r.chi2_log[L - 2], r.chi2_log[L - 1], ratio, range);
+  for (std::size_t i = 0; i < inside.size(); ++i) {
+    r.point.push_back(richardson_scalar(r.log10_model[L - 3][i], r.log10_model[L - 2][i],
+                                        r.log10_model[L - 1][i], ratio, range));
+  }
+  return r;
+}
+
+}  // namespace
+
+ResolutionStudy compare_levels(std::vector<LevelResult> levels, std::size_t ratio,
+                               const ResolutionOptions& options) {
+  ResolutionStudy st;
+  st.ratio = ratio;
+  st.levels = std::move(levels);
+  const auto& first = st.levels.front();
+  std::vector<std::vector<double>> z;
+  for (const auto& l : st.levels) z.push_back(l.background.grid.center_cm);
+  for (std::size_t s = 0; s < first.species.size(); ++s) {
+    std::vector<std::vector<double>> f;
+    for (const auto& l : st.levels) f.push_back(species_profile(l, s));
+    st.profiles.push_back(
+        compare_species(first.species[s], z, f, static_cast<double>(ratio), options));
+  }
+  std::size_t Q = 0;
+  for (const auto& l : st.levels) Q = std::max(Q, l.scores.size());
+  for (std::size_t q = 0; q < Q; ++q) {
+    st.scores.push_back(compare_scores(st.levels, q, static_cast<double>(ratio), options.range));
+  }
+  return st;
+}
+
+ResolutionStudy run_resolution_study(const SolveRequest& req, std::span<const double> base_edges,
+                                     std::size_t level_count, std::size_t ratio,
+                                     const ResolutionOptions& options, const UnitSystem& units) {
+  std::vector<LevelResult> levels;
+  std::size_t factor = 1;
+  for (std::size_t l = 0; l < level_count; ++l) {
+    const auto edges = refine_edges(base_edges, factor);
+    levels.push_back(solve_on_edges(req, edges, units, l > 0 ? &levels.back() : nullptr));
+    factor *= ratio;
+  }
+  return compare_levels(std::move(levels), ratio, options);
+}
+
+std::vector<double> adapt_grid(const SolveRequest& req, std::span<const double> start_edges,
+                               std::size_t cells, int passes,
+                               const EquidistributionOptions& options, const UnitSystem& units,
+                               std::vector<LevelResult>* solves) {
+  std::vector<double> edges(start_edges.begin(), start_edges.end());
+  LevelResult last;
+  for (int pass = 0; pass < passes; ++pass) {
+    LevelResult r = solve_on_edges(req, edges, units, pass > 0 ? &last : nullptr);
+    if (!r.converged) {
+      throw RunError(ExitCode::kNotConverged,
+                     fmt::format("the solve on {} cells for the adapted grid did not converge: {}",
+                                 r.background.grid.cells(), r.reason));
+    }
+    std::vector<bool> use(r.held.size());
+    for (std::size_t s = 0; s < use.size(); ++s) use[s] = !r.held[s];
+    edges = equidistributed_edges(r.background.grid, r.mole_fraction, r.species.size(), use, cells,
+                                  options);
+    if (solves != nullptr) solves->push_back(r);
+    last = std::move(r);
+  }
+  return edges;
+}
+
+}  // namespace colchem

@@ -1,0 +1,87 @@
+// Solving one scenario on a family of grids (for Richardson extrapolation) and on
+// equidistributed grids, through the same path as `colchem run`: load_scenario() with the
+// grid replaced by an override, ColumnModel, run_column(). The math is in
+// analysis/resolution.hpp. A PetscSession must exist while these run.
+#pragma once
+
+#include <spdlog/logger.h>
+
+#include <filesystem>
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "analysis/observations.hpp"
+#include "analysis/resolution.hpp"
+#include "analysis/score.hpp"
+#include "core/background.hpp"
+#include "core/units.hpp"
+
+namespace colchem {
+
+/// One solve on one grid.
+struct LevelResult {
+  Background background;
+  std::vector<std::string> species;
+  bool converged = false;
+  std::string reason;
+  long iterations = 0;
+  double residual = 0.0;
+  /// Mole fractions [s*N + j]; empty when the solve failed.
+  std::vector<double> mole_fraction;
+  std::vector<bool> held;  ///< [s]
+  std::vector<SpeciesScore> scores;
+};
+
+/// The override that replaces a scenario's grid by listed edges (in km, 17 digits).
+std::string grid_override(std::span<const double> edges_cm);
+
+struct SolveRequest {
+  std::filesystem::path config;
+  std::vector<std::string> overrides;            ///< the user's, applied before the grid override
+  const ObservationSet* observations = nullptr;  ///< scores each level when not null
+  spdlog::logger* log = nullptr;
+  std::function<bool()> stop_requested;
+};
+
+/// Solves the scenario on `edges_cm`, warm-started from `warm` (interpolated log-linearly in
+/// altitude) when it converged and the solver seeks a steady state.
+LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edges_cm,
+                           const UnitSystem& units, const LevelResult* warm);
+
+/// Scores' resolution: chi-square (log) per level and each observed point's log10 model value.
+struct ScoreResolution {
+  std::string species;
+  std::vector<double> chi2_log;  ///< [level]
+  RichardsonEstimate chi2;
+  std::vector<double> altitude_cm;               ///< observed points inside the column
+  std::vector<std::vector<double>> log10_model;  ///< [level][point]
+  std::vector<RichardsonEstimate> point;         ///< [point], finest triple
+};
+
+struct ResolutionStudy {
+  std::size_t ratio = 2;
+  std::vector<LevelResult> levels;  ///< coarsest first
+  std::vector<SpeciesResolution> profiles;
+  std::vector<ScoreResolution> scores;
+  [[nodiscard]] bool all_converged() const;
+};
+
+/// Solves on base_edges refined by ratio^l, l = 0..level_count-1, and compares.
+ResolutionStudy run_resolution_study(const SolveRequest& req, std::span<const double> base_edges,
+                                     std::size_t level_count, std::size_t ratio,
+                                     const ResolutionOptions& options, const UnitSystem& units);
+
+/// Compares solved levels (the comparison without the solves).
+ResolutionStudy compare_levels(std::vector<LevelResult> levels, std::size_t ratio,
+                               const ResolutionOptions& options);
+
+/// Adapted edges with `cells` cells: solves on `start_edges`, equidistributes, and repeats on
+/// the new grid `passes` times in all. Every solve is appended to `solves` when not null.
+/// Throws RunError (kNotConverged) when a solve fails.
+std::vector<double> adapt_grid(const SolveRequest& req, std::span<const double> start_edges,
+                               std::size_t cells, int passes,
+                               const EquidistributionOptions& options, const UnitSystem& units,
+                               std::vector<LevelResult>* solves = nullptr);
+
+}  // namespace colchem
