@@ -172,22 +172,58 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     }
     a.lo = 0;
     a.hi = B;
+    a.scatters = true;
     attenuators_.push_back(std::move(a));
   }
 
-  // Aerosol: extinction at cell centres (linear in z, end values held) times dz.
+  // Aerosol: extinction at cell centres (linear in z, end values held) times dz. The
+  // two-stream scheme scatters the fraction omega of it and delta-scales the forward peak.
+  two_stream_ = spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream;
+  closure_ = spec.radiative_transfer.closure;
   aerosol_dtau_.assign(N * B, 0.0);
+  aerosol_sca_.assign(two_stream_ ? N * B : 0, 0.0);
+  aerosol_gsca_.assign(two_stream_ ? N * B : 0, 0.0);
   if (spec.aerosol.present) {
+    const AerosolSpec& ae = spec.aerosol;
+    auto property = [&](const OpticalPropertySpec& p) {  // [j * B + b]
+      std::vector<double> v(N * B, p.value);
+      const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
+                                             ? bin_average_held(p.by_wavelength, edges_)
+                                             : std::vector<double>{};
+      for (std::size_t j = 0; j < N; ++j) {
+        const double at_z = p.form == OpticalPropertyForm::kAltitude
+                                ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
+                                : p.value;
+        for (std::size_t b = 0; b < B; ++b) v[j * B + b] = by_bin.empty() ? at_z : by_bin[b];
+      }
+      return v;
+    };
+    std::vector<double> omega, asym;
+    if (two_stream_) {
+      omega = property(ae.single_scattering_albedo);
+      asym = property(ae.asymmetry);
+    }
     for (std::size_t j = 0; j < N; ++j) {
-      const double beta = interp_linear_hold(spec.aerosol.altitude_cm, spec.aerosol.extinction_cm1,
-                                             bg.grid.center_cm[j]);
+      const double beta = interp_linear_hold(ae.altitude_cm, ae.extinction_cm1, bg.grid.center_cm[j]);
       for (std::size_t b = 0; b < B; ++b) {
-        aerosol_dtau_[j * B + b] =
-            beta * dz_[j] *
-            power_law_average(spec.aerosol.reference_nm, spec.aerosol.wavelength_exponent,
-                              edges_[b], edges_[b + 1]);
+        const std::size_t i = j * B + b;
+        aerosol_dtau_[i] = beta * dz_[j] *
+                           power_law_average(ae.reference_nm, ae.wavelength_exponent, edges_[b],
+                                             edges_[b + 1]);
+        if (!two_stream_) continue;
+        DeltaScaled d{aerosol_dtau_[i], omega[i], asym[i]};
+        if (spec.radiative_transfer.delta_scaling) d = delta_scale(d.dtau, d.omega, d.g);
+        aerosol_dtau_[i] = d.dtau;
+        aerosol_sca_[i] = d.omega * d.dtau;
+        aerosol_gsca_[i] = d.g * d.omega * d.dtau;
       }
     }
+  }
+  if (two_stream_) {
+    const auto& rt = spec.radiative_transfer;
+    albedo_ = rt.surface_albedo_table.value.empty()
+                  ? std::vector<double>(B, rt.surface_albedo)
+                  : bin_average_held(rt.surface_albedo_table, edges_);
   }
 
   // Geometry.
@@ -215,6 +251,24 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       }
       path_factor_.push_back(std::move(pf));
       top_factor_.push_back(std::move(tf));
+      if (!two_stream_) continue;
+      // The same from every edge, for the pseudo-spherical source of the diffuse field.
+      std::vector<double> epf(N * N + N, 0.0);
+      std::vector<double> etf(N + 1, 0.0);
+      for (std::size_t e = 0; e <= N; ++e) {
+        const double re = R + bg.grid.edge_cm[e];
+        const double p2 = std::pow(re * sin_chi, 2);
+        auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
+        double below = re * node.mu0;
+        for (std::size_t k = e; k < N; ++k) {
+          const double above = chord(R + bg.grid.edge_cm[k + 1]);
+          epf[e * N + k] = (above - below) / dz_[k];
+          below = above;
+        }
+        etf[e] = chapman_function(r_top / H_top, std::asin(std::min(1.0, re * sin_chi / r_top)));
+      }
+      edge_path_factor_.push_back(std::move(epf));
+      edge_top_factor_.push_back(std::move(etf));
     }
   }
 
@@ -222,6 +276,22 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   vtau_.assign(N * B, 0.0);
   tau_top_.assign(B, 0.0);
   beam_.assign(B, 0.0);
+  if (two_stream_) {
+    const std::size_t L = N + 1;  // the column above the top, then the cells from the top down
+    ray_dtau_.assign(N * B, 0.0);
+    ray_top_.assign(B, 0.0);
+    diffuse_.assign(N * B, 0.0);
+    slant_edge_.assign(spherical_ ? (N + 1) * B : 0, 0.0);
+    for (auto* v : {&col_dtau_, &col_w_, &col_g_, &col_upm_, &col_downm_}) v->assign(L, 0.0);
+    for (auto* v : {&col_slant_, &col_up_, &col_down_}) v->assign(L + 1, 0.0);
+    diag_up_.assign(N * B, 0.0);
+    diag_down_.assign(N * B, 0.0);
+    for (auto* v : {&ts_ws_.R, &ts_ws_.T, &ts_ws_.U, &ts_ws_.D, &ts_ws_.Rh, &ts_ws_.Th, &ts_ws_.Uh,
+                    &ts_ws_.Dh, &ts_ws_.inv}) {
+      v->assign(L, 0.0);
+    }
+    for (auto* v : {&ts_ws_.beam, &ts_ws_.rho, &ts_ws_.src}) v->assign(2 * L + 1, 0.0);
+  }
 }
 
 int PhotolysisModel::channel_index(const std::string& name) const {
@@ -250,17 +320,27 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
   // 1. Optical thickness of every cell and of the column above the top, per bin.
   std::copy(aerosol_dtau_.begin(), aerosol_dtau_.end(), dtau_.begin());
   std::fill(tau_top_.begin(), tau_top_.end(), 0.0);
+  std::fill(ray_dtau_.begin(), ray_dtau_.end(), 0.0);
+  std::fill(ray_top_.begin(), ray_top_.end(), 0.0);
   for (const auto& a : attenuators_) {
+    const bool scattered = two_stream_ && a.scatters;  // also into the scattering depth
     for (std::size_t j = 0; j < N; ++j) {
       const double col = density(a, n, j) * dz_[j];
       if (col == 0.0) continue;
       const double* s = a.sigma.data() + (a.per_level ? j * B : 0);
       double* d = dtau_.data() + j * B;
       for (std::size_t b = a.lo; b < a.hi; ++b) d[b] += s[b] * col;
+      if (scattered) {
+        double* r = ray_dtau_.data() + j * B;
+        for (std::size_t b = a.lo; b < a.hi; ++b) r[b] += s[b] * col;
+      }
     }
     const double col_top = density(a, n, N - 1) * top_height_;
     const double* s = a.sigma.data() + (a.per_level ? (N - 1) * B : 0);
     for (std::size_t b = a.lo; b < a.hi; ++b) tau_top_[b] += s[b] * col_top;
+    if (scattered) {
+      for (std::size_t b = a.lo; b < a.hi; ++b) ray_top_[b] += s[b] * col_top;
+    }
   }
   if (!spherical_) {
     // Vertical optical depth at cell centres: half the own cell plus everything above.
@@ -277,9 +357,15 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
   // 2. Attenuated beam and J for every sun position, weighted into the average.
   std::fill(J.begin(), J.end(), 0.0);
   std::fill(actinic_flux.begin(), actinic_flux.end(), 0.0);
+  const bool diagnose = two_stream_ && !actinic_flux.empty();
+  if (diagnose) {
+    std::fill(diag_up_.begin(), diag_up_.end(), 0.0);
+    std::fill(diag_down_.begin(), diag_down_.end(), 0.0);
+  }
   for (std::size_t k = 0; k < nodes_.size(); ++k) {
     const double w = nodes_[k].weight;
     const double inv_mu = 1.0 / nodes_[k].mu0;
+    if (two_stream_) diffuse_field(k, diagnose ? w : 0.0);
     for (std::size_t j = 0; j < N; ++j) {
       if (spherical_) {
         const double tf = top_factor_[k][j];
@@ -295,6 +381,10 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
         const double* v = vtau_.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-v[b] * inv_mu);
       }
+      if (two_stream_) {  // the actinic flux: direct beam plus 2 (F+ + F-)
+        const double* dif = diffuse_.data() + j * B;
+        for (std::size_t b = 0; b < B; ++b) beam_[b] += dif[b];
+      }
       for (std::size_t c = 0; c < chans_.size(); ++c) {
         const Channel& ch = chans_[c];
         const double* sp = ch.sigma_phi.data() + (ch.per_level ? j * B : 0);
@@ -305,6 +395,57 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
       if (!actinic_flux.empty()) {
         double* F = actinic_flux.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) F[b] += w * beam_[b] / widths_[b];
+      }
+    }
+  }
+}
+
+void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  const double mu0 = nodes_[node].mu0;
+  if (spherical_) {  // slant optical depth of the beam at every edge e = 0..N, [e * B + b]
+    for (std::size_t e = 0; e <= N; ++e) {
+      double* out = slant_edge_.data() + e * B;
+      const double tf = edge_top_factor_[node][e];
+      for (std::size_t b = 0; b < B; ++b) out[b] = tau_top_[b] * tf;
+      const double* pf = edge_path_factor_[node].data() + e * N;
+      for (std::size_t kk = e; kk < N; ++kk) {
+        const double f = pf[kk];
+        const double* d = dtau_.data() + kk * B;
+        for (std::size_t b = 0; b < B; ++b) out[b] += f * d[b];
+      }
+    }
+  }
+  auto set_layer = [&](std::size_t i, double dtau, double sca, double gsca) {
+    col_dtau_[i] = dtau;
+    col_w_[i] = dtau > 0.0 ? sca / dtau : 0.0;
+    col_g_[i] = sca > 0.0 ? gsca / sca : 0.0;
+  };
+  for (std::size_t b = 0; b < B; ++b) {
+    // Layer 0: the column above the top (gases and Rayleigh, no aerosol); then cell N-1-i.
+    set_layer(0, tau_top_[b], ray_top_[b], 0.0);
+    for (std::size_t i = 1; i <= N; ++i) {
+      const std::size_t jb = (N - i) * B + b;
+      const double sca = ray_dtau_[jb] + (aerosol_sca_.empty() ? 0.0 : aerosol_sca_[jb]);
+      set_layer(i, dtau_[jb], sca, aerosol_gsca_.empty() ? 0.0 : aerosol_gsca_[jb]);
+    }
+    std::span<const double> slant;
+    if (spherical_) {
+      col_slant_[0] = 0.0;
+      for (std::size_t i = 1; i <= N + 1; ++i) col_slant_[i] = slant_edge_[(N + 1 - i) * B + b];
+      slant = col_slant_;
+    }
+    const TwoStreamColumn column{col_dtau_, col_w_, col_g_, slant, mu0, top_flux_[b], albedo_[b],
+                                 closure_};
+    solve_two_stream(column, ts_ws_,
+                     TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_, {}});
+    for (std::size_t i = 1; i <= N; ++i) {
+      const std::size_t jb = (N - i) * B + b;
+      diffuse_[jb] = 2.0 * (col_upm_[i] + col_downm_[i]);
+      if (diag_weight > 0.0) {
+        diag_up_[jb] += diag_weight * col_upm_[i] / widths_[b];
+        diag_down_[jb] += diag_weight * col_downm_[i] / widths_[b];
       }
     }
   }
