@@ -85,8 +85,8 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     }
     if (required) {
       throw InputError(ExitCode::kConfig, where, "absorbers",
-                       "absorber '" + name + "' to be a model species or a bulk gas",
-                       "neither", "remove it from the photolysis data or add the species");
+                       "absorber '" + name + "' to be a model species or a bulk gas", "neither",
+                       "remove it from the photolysis data or add the species");
     }
     return false;
   };
@@ -135,8 +135,8 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       if (spec.absorbers[i].species == ch.absorber) ai = i;
     }
     if (ai == spec.absorbers.size()) {
-      throw InputError(ExitCode::kConfig, where, "channels." + ch.name,
-                       "a declared absorber", "'" + ch.absorber + "'");
+      throw InputError(ExitCode::kConfig, where, "channels." + ch.name, "a declared absorber",
+                       "'" + ch.absorber + "'");
     }
     const Attenuator& a = attenuators_[absorber_attenuator[ai]];
     std::vector<double> phi(B, ch.quantum_yield.value);
@@ -191,9 +191,10 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
                                              ? bin_average_held(p.by_wavelength, edges_)
                                              : std::vector<double>{};
       for (std::size_t j = 0; j < N; ++j) {
-        const double at_z = p.form == OpticalPropertyForm::kAltitude
-                                ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
-                                : p.value;
+        const double at_z =
+            p.form == OpticalPropertyForm::kAltitude
+                ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
+                : p.value;
         for (std::size_t b = 0; b < B; ++b) v[j * B + b] = by_bin.empty() ? at_z : by_bin[b];
       }
       return v;
@@ -204,12 +205,13 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       asym = property(ae.asymmetry);
     }
     for (std::size_t j = 0; j < N; ++j) {
-      const double beta = interp_linear_hold(ae.altitude_cm, ae.extinction_cm1, bg.grid.center_cm[j]);
+      const double beta =
+          interp_linear_hold(ae.altitude_cm, ae.extinction_cm1, bg.grid.center_cm[j]);
       for (std::size_t b = 0; b < B; ++b) {
         const std::size_t i = j * B + b;
-        aerosol_dtau_[i] = beta * dz_[j] *
-                           power_law_average(ae.reference_nm, ae.wavelength_exponent, edges_[b],
-                                             edges_[b + 1]);
+        aerosol_dtau_[i] =
+            beta * dz_[j] *
+            power_law_average(ae.reference_nm, ae.wavelength_exponent, edges_[b], edges_[b + 1]);
         if (!two_stream_) continue;
         DeltaScaled d{aerosol_dtau_[i], omega[i], asym[i]};
         if (spec.radiative_transfer.delta_scaling) d = delta_scale(d.dtau, d.omega, d.g);
@@ -436,10 +438,9 @@ void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
       for (std::size_t i = 1; i <= N + 1; ++i) col_slant_[i] = slant_edge_[(N + 1 - i) * B + b];
       slant = col_slant_;
     }
-    const TwoStreamColumn column{col_dtau_, col_w_, col_g_, slant, mu0, top_flux_[b], albedo_[b],
-                                 closure_};
-    solve_two_stream(column, ts_ws_,
-                     TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_, {}});
+    const TwoStreamColumn column{col_dtau_, col_w_,       col_g_,     slant,
+                                 mu0,       top_flux_[b], albedo_[b], closure_};
+    solve_two_stream(column, ts_ws_, TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_, {}});
     for (std::size_t i = 1; i <= N; ++i) {
       const std::size_t jb = (N - i) * B + b;
       diffuse_[jb] = 2.0 * (col_upm_[i] + col_downm_[i]);

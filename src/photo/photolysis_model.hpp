@@ -58,8 +58,7 @@ class PhotolysisModel {
   /// construction). When `actinic_flux` is not empty it receives the illumination-averaged
   /// direct-beam flux F[j * B + b] in photons cm^-2 s^-1 nm^-1. Allocates nothing; not
   /// safe to call concurrently on one object (it reuses its workspace).
-  void compute(std::span<const double> n, std::span<double> J,
-               std::span<double> actinic_flux = {});
+  void compute(std::span<const double> n, std::span<double> J, std::span<double> actinic_flux = {});
 
   /// Whether the diffuse field is computed (radiative_transfer.scheme: two_stream).
   [[nodiscard]] bool two_stream() const { return two_stream_; }
@@ -70,7 +69,7 @@ class PhotolysisModel {
   [[nodiscard]] const std::vector<double>& diffuse_down() const { return diag_down_; }
 
  private:
-  struct Attenuator {  // an absorber's or a Rayleigh gas's extinction
+  struct Attenuator {            // an absorber's or a Rayleigh gas's extinction
     int species = -1;            ///< index into n, or -1 for a bulk gas
     double bulk_fraction = 0.0;  ///< used when species < 0
     bool per_level = false;      ///< sigma stored per level (temperature-dependent)
@@ -84,8 +83,7 @@ class PhotolysisModel {
     std::size_t lo = 0, hi = 0;
   };
 
-  [[nodiscard]] double density(const Attenuator& a, std::span<const double> n,
-                               std::size_t j) const;
+  [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
   /// Two-stream: the diffuse actinic flux 2 (F+ + F-) at the cell centres into diffuse_ for
   /// one sun position (from dtau_, tau_top_, ray_dtau_, ray_top_); adds diag_weight times
   /// the fluxes to the diagnostics when diag_weight > 0.
@@ -98,7 +96,7 @@ class PhotolysisModel {
   std::vector<Channel> chans_;
   std::vector<std::string> channel_names_, products_;
   std::vector<double> air_density_, dz_, top_column_factor_;
-  double top_height_ = 0.0;  ///< n_top,edge H_top / n_N (cm)
+  double top_height_ = 0.0;           ///< n_top,edge H_top / n_N (cm)
   std::vector<double> aerosol_dtau_;  ///< [j * B + b]
   std::vector<IlluminationNode> nodes_;
   bool spherical_ = false;

@@ -108,9 +108,9 @@ enum class OpticalPropertyForm { kConstant, kAltitude, kWavelength };
 
 struct OpticalPropertySpec {
   OpticalPropertyForm form = OpticalPropertyForm::kConstant;
-  double value = 0.0;                 ///< kConstant
-  std::vector<double> by_altitude;    ///< kAltitude: at AerosolSpec::altitude_cm
-  TabulatedSpectrum by_wavelength;    ///< kWavelength
+  double value = 0.0;               ///< kConstant
+  std::vector<double> by_altitude;  ///< kAltitude: at AerosolSpec::altitude_cm
+  TabulatedSpectrum by_wavelength;  ///< kWavelength
 };
 
 /// Prescribed aerosol or cloud extinction: beta(z, lambda) = beta(z) (lambda_ref/lambda)^a.
