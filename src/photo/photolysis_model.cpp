@@ -284,7 +284,9 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     ray_top_.assign(B, 0.0);
     diffuse_.assign(N * B, 0.0);
     slant_edge_.assign(spherical_ ? (N + 1) * B : 0, 0.0);
-    for (auto* v : {&col_dtau_, &col_w_, &col_g_, &col_upm_, &col_downm_}) v->assign(L, 0.0);
+    for (auto* v : {&col_dtau_, &col_w_, &col_g_, &col_upm_, &col_downm_, &col_act_}) {
+      v->assign(L, 0.0);
+    }
     for (auto* v : {&col_slant_, &col_up_, &col_down_}) v->assign(L + 1, 0.0);
     diag_up_.assign(N * B, 0.0);
     diag_down_.assign(N * B, 0.0);
@@ -379,11 +381,13 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
           for (std::size_t b = 0; b < B; ++b) beam_[b] += f * d[b];
         }
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-beam_[b]);
+      } else if (two_stream_) {  // the two-stream solve's actinic flux (direct + diffuse)
+        std::copy_n(diffuse_.data() + j * B, B, beam_.data());
       } else {
         const double* v = vtau_.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-v[b] * inv_mu);
       }
-      if (two_stream_) {  // the actinic flux: direct beam plus 2 (F+ + F-)
+      if (two_stream_ && spherical_) {  // the actinic flux: direct beam plus 2 (F+ + F-)
         const double* dif = diffuse_.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) beam_[b] += dif[b];
       }
@@ -422,7 +426,7 @@ void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
   auto set_layer = [&](std::size_t i, double dtau, double sca, double gsca) {
     col_dtau_[i] = dtau;
     col_w_[i] = dtau > 0.0 ? sca / dtau : 0.0;
-    col_g_[i] = sca > 0.0 ? gsca / sca : 0.0;
+    col_g_[i] = gsca > 0.0 ? gsca / sca : 0.0;
   };
   for (std::size_t b = 0; b < B; ++b) {
     // Layer 0: the column above the top (gases and Rayleigh, no aerosol); then cell N-1-i.
@@ -440,10 +444,15 @@ void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
     }
     const TwoStreamColumn column{col_dtau_, col_w_,       col_g_,     slant,
                                  mu0,       top_flux_[b], albedo_[b], closure_};
-    solve_two_stream(column, ts_ws_, TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_, {}});
+    // Plane-parallel: the solver's actinic flux (its direct beam is the model's to round-off);
+    // spherical: the diffuse part, added to the direct beam of the centre's own ray.
+    solve_two_stream(
+        column, ts_ws_,
+        TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_,
+                        spherical_ ? std::span<double>{} : std::span<double>{col_act_}});
     for (std::size_t i = 1; i <= N; ++i) {
       const std::size_t jb = (N - i) * B + b;
-      diffuse_[jb] = 2.0 * (col_upm_[i] + col_downm_[i]);
+      diffuse_[jb] = spherical_ ? 2.0 * (col_upm_[i] + col_downm_[i]) : col_act_[i];
       if (diag_weight > 0.0) {
         diag_up_[jb] += diag_weight * col_upm_[i] / widths_[b];
         diag_down_[jb] += diag_weight * col_downm_[i] / widths_[b];

@@ -84,9 +84,9 @@ class PhotolysisModel {
   };
 
   [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
-  /// Two-stream: the diffuse actinic flux 2 (F+ + F-) at the cell centres into diffuse_ for
-  /// one sun position (from dtau_, tau_top_, ray_dtau_, ray_top_); adds diag_weight times
-  /// the fluxes to the diagnostics when diag_weight > 0.
+  /// Two-stream: into diffuse_ for one sun position, the actinic flux at the cell centres
+  /// (plane-parallel) or its diffuse part 2 (F+ + F-) (spherical) (from dtau_, tau_top_, ray_dtau_,
+  /// ray_top_); adds diag_weight times the fluxes to the diagnostics when diag_weight > 0.
   void diffuse_field(std::size_t node, double diag_weight);
 
   std::size_t levels_ = 0, bins_ = 0, species_ = 0;
@@ -114,7 +114,7 @@ class PhotolysisModel {
   std::vector<double> dtau_, vtau_, tau_top_, beam_;
   std::vector<double> ray_dtau_, ray_top_, diffuse_, slant_edge_;
   std::vector<double> col_dtau_, col_w_, col_g_, col_slant_, col_up_, col_down_, col_upm_,
-      col_downm_;
+      col_downm_, col_act_;
   std::vector<double> diag_up_, diag_down_;
   TwoStreamWorkspace ts_ws_;
 };

@@ -83,16 +83,11 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
   const bool plane = col.slant_tau.empty();
   const double inv_mu0 = 1.0 / col.mu0;
 
-  // The beam (flux normal to it) at every edge.
-  double tau = 0.0;
-  for (std::size_t e = 0; e <= L; ++e) {
-    const double ts = plane ? tau * inv_mu0 : col.slant_tau[e];
-    ws.beam[e] = col.incident * std::exp(-ts);
-    if (e < L) tau += col.dtau[e];
-  }
+  // 1. Every layer as two identical halves: R, T and beam sources, doubled. The beam (flux
+  // normal to it) at the top of each layer is carried down by the layers' own decay, so
+  // that a layer's sources and the beam below it agree exactly.
   double* beam_mid = ws.beam.data() + L + 1;  // [n]: beam at the centre of layer n
-
-  // 1. Every layer as two identical halves: R, T and beam sources, doubled.
+  ws.beam[0] = col.incident * std::exp(plane ? 0.0 : -col.slant_tau[0]);
   for (std::size_t n = 0; n < L; ++n) {
     const double t = std::max(0.0, col.dtau[n]);
     const double h = 0.5 * t;
@@ -101,34 +96,41 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
     const double lam2 = gm.gamma1_minus_gamma2 * gm.gamma1_plus_gamma2;
     const double lam = std::sqrt(std::max(0.0, lam2));
     const double x = lam * h;
-    double th = h;  // tanh(lambda h) / lambda
+    // th = tanh(lambda h)/lambda and sech(lambda h); the series below x = 1e-3 (error x^6)
+    // avoids the cancellation in 1 - exp(-2x).
+    double th = h;
     double sech = 1.0;
     if (x > 0.0) {
-      const double em = std::expm1(-2.0 * x);  // exp(-2x) - 1, accurate for small x
-      th = h * (-em / (x * (2.0 + em)));
-      sech = 2.0 * std::sqrt(1.0 + em) / (2.0 + em);
+      const double ex = std::exp(-x);
+      const double e2 = ex * ex;
+      const double x2 = x * x;
+      const double r = 1.0 / (lam * (1.0 + e2));
+      th = x < 1e-3 ? h * (1.0 - x2 / 3.0 + 2.0 * x2 * x2 / 15.0) : (1.0 - e2) * r;
+      sech = 2.0 * ex * lam * r;
     }
-    const double den = 1.0 + gm.gamma1 * th;
-    const double Rh = gm.gamma2 * th / den;
-    const double Th = sech / den;
+    const double inv_den = 1.0 / (1.0 + gm.gamma1 * th);
+    const double Rh = gm.gamma2 * th * inv_den;
+    const double Th = sech * inv_den;
 
     double k = inv_mu0;
     if (!plane && t > 0.0) k = std::max(0.0, (col.slant_tau[n + 1] - col.slant_tau[n]) / t);
     double d = lam2 - k * k;
-    if (std::abs(d) < kResonanceGap * k * k) {
+    if (w > 0.0 && std::abs(d) < kResonanceGap * k * k) {
       d = (d < 0.0 ? -kResonanceGap : kResonanceGap) * k * k;
       k = std::sqrt(std::max(0.0, lam2 - d));
     }
     const double eh = std::exp(-k * h);
     double su = 0.0, sd = 0.0;  // half-layer sources per unit beam at its top
     if (w > 0.0) {
-      const double P = (gm.gamma3 * (gm.gamma1 - k) + gm.gamma2 * gm.gamma4) / d;
-      const double M = ((gm.gamma1 + k) * gm.gamma4 + gm.gamma2 * gm.gamma3) / d;
+      const double inv_d = 1.0 / d;
+      const double P = (gm.gamma3 * (gm.gamma1 - k) + gm.gamma2 * gm.gamma4) * inv_d;
+      const double M = ((gm.gamma1 + k) * gm.gamma4 + gm.gamma2 * gm.gamma3) * inv_d;
       su = w * (P - Rh * M - Th * P * eh);
       sd = w * (M * eh - Th * M - Rh * P * eh);
     }
     const double b_top = ws.beam[n];
     beam_mid[n] = b_top * eh;
+    ws.beam[n + 1] = beam_mid[n] * eh;
     const double su1 = b_top * su, sd1 = b_top * sd;  // upper half
     const double su2 = su1 * eh, sd2 = sd1 * eh;      // lower half, lit by beam_mid
     const double q = 1.0 / (1.0 - Rh * Rh);
@@ -140,14 +142,16 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
     ws.Th[n] = Th;
     ws.Uh[n] = su2;
     ws.Dh[n] = sd1;
+    ws.inv[n] = q;  // reused by the centre fluxes
   }
 
   // 2. Upward sweep: F+_e = rho_e F-_e + src_e (reflectance and emission of all below e).
   ws.rho[L] = col.surface_albedo;
   ws.src[L] = col.surface_albedo * col.mu0 * ws.beam[L];
+  double* inv_rho = ws.rho.data() + L + 1;  // [n]: 1 / (1 - R_n rho_n+1)
   for (std::size_t n = L; n-- > 0;) {
     const double inv = 1.0 / (1.0 - ws.R[n] * ws.rho[n + 1]);
-    ws.inv[n] = inv;
+    inv_rho[n] = inv;
     ws.rho[n] = ws.R[n] + ws.T[n] * ws.T[n] * ws.rho[n + 1] * inv;
     ws.src[n] = ws.U[n] + ws.T[n] * (ws.src[n + 1] + ws.rho[n + 1] * ws.D[n]) * inv;
   }
@@ -160,7 +164,7 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
     out.up[n + 1] = ws.rho[n + 1] * out.down[n + 1] + ws.src[n + 1];
     const double Rh = ws.Rh[n], Th = ws.Th[n];
     const double from_below = Th * out.up[n + 1] + ws.Uh[n];
-    const double dm = (Th * out.down[n] + Rh * from_below + ws.Dh[n]) / (1.0 - Rh * Rh);
+    const double dm = (Th * out.down[n] + Rh * from_below + ws.Dh[n]) * ws.inv[n];
     out.down_mid[n] = dm;
     out.up_mid[n] = Rh * dm + from_below;
     if (!out.actinic_mid.empty()) out.actinic_mid[n] = beam_mid[n] + 2.0 * (dm + out.up_mid[n]);
