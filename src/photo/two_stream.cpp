@@ -160,7 +160,7 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
   out.down[0] = 0.0;
   out.up[0] = ws.src[0];
   for (std::size_t n = 0; n < L; ++n) {
-    out.down[n + 1] = (ws.T[n] * out.down[n] + ws.R[n] * ws.src[n + 1] + ws.D[n]) * ws.inv[n];
+    out.down[n + 1] = (ws.T[n] * out.down[n] + ws.R[n] * ws.src[n + 1] + ws.D[n]) * inv_rho[n];
     out.up[n + 1] = ws.rho[n + 1] * out.down[n + 1] + ws.src[n + 1];
     const double Rh = ws.Rh[n], Th = ws.Th[n];
     const double from_below = Th * out.up[n + 1] + ws.Uh[n];

@@ -99,6 +99,12 @@ add_test(NAME cli.run_tellin
           ${CMAKE_CURRENT_BINARY_DIR}/run_work)
 colchem_cli_test(help_photo 0 "--spectrum" $<TARGET_FILE:colchem> photo --help)
 colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml)
+colchem_cli_test(photo_two_stream 0 "enhancement of J over the direct beam"
+  $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
+  --set "photolysis.radiative_transfer={scheme: two_stream, surface_albedo: 0.3}")
+colchem_cli_test(photo_two_stream_bad 3 "no two-stream settings with 'scheme: direct_beam'"
+  $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
+  --set "photolysis.radiative_transfer={scheme: direct_beam, closure: eddington}")
 colchem_cli_test(run_unknown_species 3 "'species.SO3x': expected a species of the mechanism"
   $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --set species.SO3x.initial=1e-9)
 add_test(NAME cli.labcell
