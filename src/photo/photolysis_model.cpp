@@ -279,22 +279,20 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   tau_top_.assign(B, 0.0);
   beam_.assign(B, 0.0);
   if (two_stream_) {
-    const std::size_t L = N + 1;  // the column above the top, then the cells from the top down
     ray_dtau_.assign(N * B, 0.0);
     ray_top_.assign(B, 0.0);
-    diffuse_.assign(N * B, 0.0);
-    slant_edge_.assign(spherical_ ? (N + 1) * B : 0, 0.0);
-    for (auto* v : {&col_dtau_, &col_w_, &col_g_, &col_upm_, &col_downm_, &col_act_}) {
-      v->assign(L, 0.0);
-    }
-    for (auto* v : {&col_slant_, &col_up_, &col_down_}) v->assign(L + 1, 0.0);
+    const std::size_t LB = (N + 1) * B;  // layers: the column above the top, then the cells
+    for (auto* v : {&lay_dtau_, &lay_w_, &lay_g_, &upm_, &downm_, &act_}) v->assign(LB, 0.0);
+    for (auto* v : {&up_, &down_}) v->assign(LB + B, 0.0);
+    slant_.assign(spherical_ ? LB + B : 0, 0.0);
     diag_up_.assign(N * B, 0.0);
     diag_down_.assign(N * B, 0.0);
-    for (auto* v : {&ts_ws_.R, &ts_ws_.T, &ts_ws_.U, &ts_ws_.D, &ts_ws_.Rh, &ts_ws_.Th, &ts_ws_.Uh,
-                    &ts_ws_.Dh, &ts_ws_.inv}) {
-      v->assign(L, 0.0);
-    }
-    for (auto* v : {&ts_ws_.beam, &ts_ws_.rho, &ts_ws_.src}) v->assign(2 * L + 1, 0.0);
+    // Size every scratch vector once, so that compute() allocates nothing.
+    const std::vector<double> zeros(LB, 0.0), ones(B, 1.0);
+    const TwoStreamLayers ly{B, zeros, zeros, zeros, albedo_, closure_};
+    two_stream_optics(ly, optics_);
+    two_stream_fluxes(ly, optics_, TwoStreamSun{1.0, ones, {}}, ts_ws_,
+                      TwoStreamFluxes{up_, down_, upm_, downm_, act_});
   }
 }
 
@@ -366,6 +364,7 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
     std::fill(diag_up_.begin(), diag_up_.end(), 0.0);
     std::fill(diag_down_.begin(), diag_down_.end(), 0.0);
   }
+  if (two_stream_) layer_optics();
   for (std::size_t k = 0; k < nodes_.size(); ++k) {
     const double w = nodes_[k].weight;
     const double inv_mu = 1.0 / nodes_[k].mu0;
@@ -382,14 +381,15 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
         }
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-beam_[b]);
       } else if (two_stream_) {  // the two-stream solve's actinic flux (direct + diffuse)
-        std::copy_n(diffuse_.data() + j * B, B, beam_.data());
+        std::copy_n(act_.data() + (N - j) * B, B, beam_.data());
       } else {
         const double* v = vtau_.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-v[b] * inv_mu);
       }
       if (two_stream_ && spherical_) {  // the actinic flux: direct beam plus 2 (F+ + F-)
-        const double* dif = diffuse_.data() + j * B;
-        for (std::size_t b = 0; b < B; ++b) beam_[b] += dif[b];
+        const double* up = upm_.data() + (N - j) * B;
+        const double* down = downm_.data() + (N - j) * B;
+        for (std::size_t b = 0; b < B; ++b) beam_[b] += 2.0 * (up[b] + down[b]);
       }
       for (std::size_t c = 0; c < chans_.size(); ++c) {
         const Channel& ch = chans_[c];
@@ -406,13 +406,35 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
   }
 }
 
+void PhotolysisModel::layer_optics() {
+  // Layer 0: the column above the top (gases and Rayleigh, no aerosol); layer i: cell N - i.
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  auto set = [&](std::size_t i, double dtau, double sca, double gsca) {
+    lay_dtau_[i] = dtau;
+    lay_w_[i] = dtau > 0.0 ? sca / dtau : 0.0;
+    lay_g_[i] = gsca > 0.0 ? gsca / sca : 0.0;
+  };
+  for (std::size_t b = 0; b < B; ++b) set(b, tau_top_[b], ray_top_[b], 0.0);
+  const bool aerosol = !aerosol_sca_.empty();
+  for (std::size_t j = 0; j < N; ++j) {
+    const std::size_t layer = (N - j) * B;
+    for (std::size_t b = 0; b < B; ++b) {
+      const std::size_t jb = j * B + b;
+      set(layer + b, dtau_[jb], ray_dtau_[jb] + (aerosol ? aerosol_sca_[jb] : 0.0),
+          aerosol ? aerosol_gsca_[jb] : 0.0);
+    }
+  }
+  two_stream_optics(TwoStreamLayers{B, lay_dtau_, lay_w_, lay_g_, albedo_, closure_}, optics_);
+}
+
 void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
   const std::size_t N = levels_;
   const std::size_t B = bins_;
-  const double mu0 = nodes_[node].mu0;
-  if (spherical_) {  // slant optical depth of the beam at every edge e = 0..N, [e * B + b]
+  if (spherical_) {  // slant optical depth of the beam at every layer edge (model edge N + 1 - i)
+    std::fill_n(slant_.begin(), B, 0.0);
     for (std::size_t e = 0; e <= N; ++e) {
-      double* out = slant_edge_.data() + e * B;
+      double* out = slant_.data() + (N + 1 - e) * B;
       const double tf = edge_top_factor_[node][e];
       for (std::size_t b = 0; b < B; ++b) out[b] = tau_top_[b] * tf;
       const double* pf = edge_path_factor_[node].data() + e * N;
@@ -423,39 +445,21 @@ void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
       }
     }
   }
-  auto set_layer = [&](std::size_t i, double dtau, double sca, double gsca) {
-    col_dtau_[i] = dtau;
-    col_w_[i] = dtau > 0.0 ? sca / dtau : 0.0;
-    col_g_[i] = gsca > 0.0 ? gsca / sca : 0.0;
-  };
-  for (std::size_t b = 0; b < B; ++b) {
-    // Layer 0: the column above the top (gases and Rayleigh, no aerosol); then cell N-1-i.
-    set_layer(0, tau_top_[b], ray_top_[b], 0.0);
-    for (std::size_t i = 1; i <= N; ++i) {
-      const std::size_t jb = (N - i) * B + b;
-      const double sca = ray_dtau_[jb] + (aerosol_sca_.empty() ? 0.0 : aerosol_sca_[jb]);
-      set_layer(i, dtau_[jb], sca, aerosol_gsca_.empty() ? 0.0 : aerosol_gsca_[jb]);
-    }
-    std::span<const double> slant;
-    if (spherical_) {
-      col_slant_[0] = 0.0;
-      for (std::size_t i = 1; i <= N + 1; ++i) col_slant_[i] = slant_edge_[(N + 1 - i) * B + b];
-      slant = col_slant_;
-    }
-    const TwoStreamColumn column{col_dtau_, col_w_,       col_g_,     slant,
-                                 mu0,       top_flux_[b], albedo_[b], closure_};
-    // Plane-parallel: the solver's actinic flux (its direct beam is the model's to round-off);
-    // spherical: the diffuse part, added to the direct beam of the centre's own ray.
-    solve_two_stream(
-        column, ts_ws_,
-        TwoStreamFluxes{col_up_, col_down_, col_upm_, col_downm_,
-                        spherical_ ? std::span<double>{} : std::span<double>{col_act_}});
-    for (std::size_t i = 1; i <= N; ++i) {
-      const std::size_t jb = (N - i) * B + b;
-      diffuse_[jb] = spherical_ ? 2.0 * (col_upm_[i] + col_downm_[i]) : col_act_[i];
-      if (diag_weight > 0.0) {
-        diag_up_[jb] += diag_weight * col_upm_[i] / widths_[b];
-        diag_down_[jb] += diag_weight * col_downm_[i] / widths_[b];
+  // Plane-parallel: the solve's actinic flux is used (its direct beam is the model's to
+  // round-off); spherical: its diffuse part is added to the direct beam of each centre's ray.
+  two_stream_fluxes(
+      TwoStreamLayers{B, lay_dtau_, lay_w_, lay_g_, albedo_, closure_}, optics_,
+      TwoStreamSun{nodes_[node].mu0, top_flux_,
+                   spherical_ ? std::span<const double>{slant_} : std::span<const double>{}},
+      ts_ws_,
+      TwoStreamFluxes{up_, down_, upm_, downm_,
+                      spherical_ ? std::span<double>{} : std::span<double>{act_}});
+  if (diag_weight > 0.0) {
+    for (std::size_t j = 0; j < N; ++j) {
+      for (std::size_t b = 0; b < B; ++b) {
+        const std::size_t i = (N - j) * B + b;
+        diag_up_[j * B + b] += diag_weight * upm_[i] / widths_[b];
+        diag_down_[j * B + b] += diag_weight * downm_[i] / widths_[b];
       }
     }
   }

@@ -84,9 +84,12 @@ class PhotolysisModel {
   };
 
   [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
-  /// Two-stream: into diffuse_ for one sun position, the actinic flux at the cell centres
-  /// (plane-parallel) or its diffuse part 2 (F+ + F-) (spherical) (from dtau_, tau_top_, ray_dtau_,
-  /// ray_top_); adds diag_weight times the fluxes to the diagnostics when diag_weight > 0.
+  /// Two-stream: the layers (the column above the top, then the cells from the top down) of
+  /// the current optical depths, and their sun-independent optics.
+  void layer_optics();
+  /// Two-stream: the fluxes for one sun position into act_ (actinic flux, plane-parallel) or
+  /// upm_/downm_ (the diffuse part, spherical); adds diag_weight times the diffuse fluxes
+  /// to the diagnostics when diag_weight > 0.
   void diffuse_field(std::size_t node, double diag_weight);
 
   std::size_t levels_ = 0, bins_ = 0, species_ = 0;
@@ -112,9 +115,10 @@ class PhotolysisModel {
   std::vector<std::vector<double>> edge_path_factor_, edge_top_factor_;
   // Workspace (sized at construction).
   std::vector<double> dtau_, vtau_, tau_top_, beam_;
-  std::vector<double> ray_dtau_, ray_top_, diffuse_, slant_edge_;
-  std::vector<double> col_dtau_, col_w_, col_g_, col_slant_, col_up_, col_down_, col_upm_,
-      col_downm_, col_act_;
+  std::vector<double> ray_dtau_, ray_top_;
+  /// Layer-major [layer * B + b] (layer 0 above the top, layer N - j = cell j).
+  std::vector<double> lay_dtau_, lay_w_, lay_g_, slant_, up_, down_, upm_, downm_, act_;
+  TwoStreamOptics optics_;
   std::vector<double> diag_up_, diag_down_;
   TwoStreamWorkspace ts_ws_;
 };

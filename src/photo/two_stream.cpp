@@ -69,30 +69,24 @@ DeltaScaled delta_scale(double dtau, double omega, double g) {
   return d;
 }
 
-void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
-                      const TwoStreamFluxes& out) {
-  const std::size_t L = col.dtau.size();
-  if (col.omega.size() != L || col.g.size() != L ||
-      (!col.slant_tau.empty() && col.slant_tau.size() != L + 1) || out.up.size() != L + 1 ||
-      out.down.size() != L + 1 || out.up_mid.size() != L || out.down_mid.size() != L ||
-      (!out.actinic_mid.empty() && out.actinic_mid.size() != L) || !(col.mu0 > 0.0)) {
-    throw std::invalid_argument("solve_two_stream: span sizes or mu0 do not match");
+void two_stream_optics(const TwoStreamLayers& ly, TwoStreamOptics& o) {
+  const std::size_t B = ly.columns;
+  const std::size_t LB = ly.dtau.size();
+  const std::size_t L = B > 0 ? LB / B : 0;
+  if (B == 0 || L * B != LB || ly.omega.size() != LB || ly.g.size() != LB ||
+      ly.surface_albedo.size() != B) {
+    throw std::invalid_argument("two_stream_optics: array sizes do not match");
   }
-  for (auto* v : {&ws.R, &ws.T, &ws.U, &ws.D, &ws.Rh, &ws.Th, &ws.Uh, &ws.Dh, &ws.inv}) grow(*v, L);
-  for (auto* v : {&ws.beam, &ws.rho, &ws.src}) grow(*v, 2 * L + 1);
-  const bool plane = col.slant_tau.empty();
-  const double inv_mu0 = 1.0 / col.mu0;
-
-  // 1. Every layer as two identical halves: R, T and beam sources, doubled. The beam (flux
-  // normal to it) at the top of each layer is carried down by the layers' own decay, so
-  // that a layer's sources and the beam below it agree exactly.
-  double* beam_mid = ws.beam.data() + L + 1;  // [n]: beam at the centre of layer n
-  ws.beam[0] = col.incident * std::exp(plane ? 0.0 : -col.slant_tau[0]);
-  for (std::size_t n = 0; n < L; ++n) {
-    const double t = std::max(0.0, col.dtau[n]);
+  for (auto* v : {&o.w, &o.gamma1, &o.gamma2, &o.lambda2, &o.half, &o.Rh, &o.Th, &o.q, &o.R, &o.T,
+                  &o.inv_rho}) {
+    grow(*v, LB);
+  }
+  grow(o.rho, LB + B);
+  for (std::size_t i = 0; i < LB; ++i) {
+    const double t = std::max(0.0, ly.dtau[i]);
     const double h = 0.5 * t;
-    const double w = t > 0.0 ? std::clamp(col.omega[n], 0.0, 1.0) : 0.0;
-    const TwoStreamGammas gm = two_stream_gammas(col.closure, w, col.g[n], col.mu0);
+    const double w = t > 0.0 ? std::clamp(ly.omega[i], 0.0, 1.0) : 0.0;
+    const TwoStreamGammas gm = two_stream_gammas(ly.closure, w, ly.g[i], 1.0);
     const double lam2 = gm.gamma1_minus_gamma2 * gm.gamma1_plus_gamma2;
     const double lam = std::sqrt(std::max(0.0, lam2));
     const double x = lam * h;
@@ -111,64 +105,127 @@ void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
     const double inv_den = 1.0 / (1.0 + gm.gamma1 * th);
     const double Rh = gm.gamma2 * th * inv_den;
     const double Th = sech * inv_den;
+    const double q = 1.0 / (1.0 - Rh * Rh);
+    o.w[i] = w;
+    o.gamma1[i] = gm.gamma1;
+    o.gamma2[i] = gm.gamma2;
+    o.lambda2[i] = lam2;
+    o.half[i] = h;
+    o.Rh[i] = Rh;
+    o.Th[i] = Th;
+    o.q[i] = q;
+    o.R[i] = Rh + Th * Th * Rh * q;  // two halves added
+    o.T[i] = Th * Th * q;
+  }
+  // Reflectance of everything below each edge, from the surface up.
+  for (std::size_t b = 0; b < B; ++b) o.rho[L * B + b] = ly.surface_albedo[b];
+  for (std::size_t n = L; n-- > 0;) {
+    for (std::size_t b = 0; b < B; ++b) {
+      const std::size_t i = n * B + b;
+      const double below = o.rho[i + B];
+      const double inv = 1.0 / (1.0 - o.R[i] * below);
+      o.inv_rho[i] = inv;
+      o.rho[i] = o.R[i] + o.T[i] * o.T[i] * below * inv;
+    }
+  }
+}
 
+void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, const TwoStreamSun& sun,
+                       TwoStreamWorkspace& ws, const TwoStreamFluxes& out) {
+  const std::size_t B = ly.columns;
+  const std::size_t LB = ly.dtau.size();
+  const std::size_t L = B > 0 ? LB / B : 0;
+  const bool plane = sun.slant_tau.empty();
+  if (B == 0 || L * B != LB || o.R.size() < LB || sun.incident.size() != B ||
+      (!plane && sun.slant_tau.size() != LB + B) || out.up.size() != LB + B ||
+      out.down.size() != LB + B || out.up_mid.size() != LB || out.down_mid.size() != LB ||
+      (!out.actinic_mid.empty() && out.actinic_mid.size() != LB) || !(sun.mu0 > 0.0)) {
+    throw std::invalid_argument("two_stream_fluxes: array sizes or mu0 do not match");
+  }
+  for (auto* v : {&ws.beam_mid, &ws.U, &ws.D, &ws.Uh, &ws.Dh}) grow(*v, LB);
+  for (auto* v : {&ws.beam, &ws.src}) grow(*v, LB + B);
+  const double inv_mu0 = 1.0 / sun.mu0;
+
+  // 1. The beam's sources in every layer, as two halves added. The beam (flux normal to it)
+  // at the top of each layer is carried down by the layers' own decay, so that a layer's
+  // sources and the beam below it agree exactly.
+  for (std::size_t b = 0; b < B; ++b) {
+    ws.beam[b] = sun.incident[b] * (plane ? 1.0 : std::exp(-sun.slant_tau[b]));
+  }
+  for (std::size_t i = 0; i < LB; ++i) {
+    const double w = o.w[i];
+    const double h = o.half[i];
     double k = inv_mu0;
-    if (!plane && t > 0.0) k = std::max(0.0, (col.slant_tau[n + 1] - col.slant_tau[n]) / t);
+    if (!plane && h > 0.0) k = std::max(0.0, (sun.slant_tau[i + B] - sun.slant_tau[i]) / (2.0 * h));
+    const double lam2 = o.lambda2[i];
     double d = lam2 - k * k;
     if (w > 0.0 && std::abs(d) < kResonanceGap * k * k) {
       d = (d < 0.0 ? -kResonanceGap : kResonanceGap) * k * k;
       k = std::sqrt(std::max(0.0, lam2 - d));
     }
     const double eh = std::exp(-k * h);
+    const double b_top = ws.beam[i];
+    const double mid = b_top * eh;
+    ws.beam_mid[i] = mid;
+    ws.beam[i + B] = mid * eh;
     double su = 0.0, sd = 0.0;  // half-layer sources per unit beam at its top
     if (w > 0.0) {
+      const double g1 = o.gamma1[i], g2 = o.gamma2[i];
+      const double g3 = two_stream_gammas(ly.closure, w, ly.g[i], sun.mu0).gamma3;
+      const double g4 = 1.0 - g3;
       const double inv_d = 1.0 / d;
-      const double P = (gm.gamma3 * (gm.gamma1 - k) + gm.gamma2 * gm.gamma4) * inv_d;
-      const double M = ((gm.gamma1 + k) * gm.gamma4 + gm.gamma2 * gm.gamma3) * inv_d;
+      const double P = (g3 * (g1 - k) + g2 * g4) * inv_d;
+      const double M = ((g1 + k) * g4 + g2 * g3) * inv_d;
+      const double Rh = o.Rh[i], Th = o.Th[i];
       su = w * (P - Rh * M - Th * P * eh);
       sd = w * (M * eh - Th * M - Rh * P * eh);
     }
-    const double b_top = ws.beam[n];
-    beam_mid[n] = b_top * eh;
-    ws.beam[n + 1] = beam_mid[n] * eh;
     const double su1 = b_top * su, sd1 = b_top * sd;  // upper half
-    const double su2 = su1 * eh, sd2 = sd1 * eh;      // lower half, lit by beam_mid
-    const double q = 1.0 / (1.0 - Rh * Rh);
-    ws.R[n] = Rh + Th * Th * Rh * q;
-    ws.T[n] = Th * Th * q;
-    ws.U[n] = su1 + Th * (su2 + Rh * sd1) * q;
-    ws.D[n] = sd2 + Th * (sd1 + Rh * su2) * q;
-    ws.Rh[n] = Rh;
-    ws.Th[n] = Th;
-    ws.Uh[n] = su2;
-    ws.Dh[n] = sd1;
-    ws.inv[n] = q;  // reused by the centre fluxes
+    const double su2 = su1 * eh, sd2 = sd1 * eh;      // lower half, lit by the mid beam
+    const double Rh = o.Rh[i], Th = o.Th[i], q = o.q[i];
+    ws.U[i] = su1 + Th * (su2 + Rh * sd1) * q;
+    ws.D[i] = sd2 + Th * (sd1 + Rh * su2) * q;
+    ws.Uh[i] = su2;
+    ws.Dh[i] = sd1;
   }
 
-  // 2. Upward sweep: F+_e = rho_e F-_e + src_e (reflectance and emission of all below e).
-  ws.rho[L] = col.surface_albedo;
-  ws.src[L] = col.surface_albedo * col.mu0 * ws.beam[L];
-  double* inv_rho = ws.rho.data() + L + 1;  // [n]: 1 / (1 - R_n rho_n+1)
+  // 2. Upward sweep: F+_e = rho_e F-_e + src_e (emission of everything below e).
+  for (std::size_t b = 0; b < B; ++b) {
+    ws.src[LB + b] = ly.surface_albedo[b] * sun.mu0 * ws.beam[LB + b];
+  }
   for (std::size_t n = L; n-- > 0;) {
-    const double inv = 1.0 / (1.0 - ws.R[n] * ws.rho[n + 1]);
-    inv_rho[n] = inv;
-    ws.rho[n] = ws.R[n] + ws.T[n] * ws.T[n] * ws.rho[n + 1] * inv;
-    ws.src[n] = ws.U[n] + ws.T[n] * (ws.src[n + 1] + ws.rho[n + 1] * ws.D[n]) * inv;
+    for (std::size_t b = 0; b < B; ++b) {
+      const std::size_t i = n * B + b;
+      ws.src[i] = ws.U[i] + o.T[i] * (ws.src[i + B] + o.rho[i + B] * ws.D[i]) * o.inv_rho[i];
+    }
   }
 
   // 3. Downward sweep from F-_0 = 0, and the layer centres from their two halves.
-  out.down[0] = 0.0;
-  out.up[0] = ws.src[0];
-  for (std::size_t n = 0; n < L; ++n) {
-    out.down[n + 1] = (ws.T[n] * out.down[n] + ws.R[n] * ws.src[n + 1] + ws.D[n]) * inv_rho[n];
-    out.up[n + 1] = ws.rho[n + 1] * out.down[n + 1] + ws.src[n + 1];
-    const double Rh = ws.Rh[n], Th = ws.Th[n];
-    const double from_below = Th * out.up[n + 1] + ws.Uh[n];
-    const double dm = (Th * out.down[n] + Rh * from_below + ws.Dh[n]) * ws.inv[n];
-    out.down_mid[n] = dm;
-    out.up_mid[n] = Rh * dm + from_below;
-    if (!out.actinic_mid.empty()) out.actinic_mid[n] = beam_mid[n] + 2.0 * (dm + out.up_mid[n]);
+  for (std::size_t b = 0; b < B; ++b) {
+    out.down[b] = 0.0;
+    out.up[b] = ws.src[b];
   }
+  for (std::size_t i = 0; i < LB; ++i) {
+    const std::size_t e = i + B;  // the edge below
+    out.down[e] = (o.T[i] * out.down[i] + o.R[i] * ws.src[e] + ws.D[i]) * o.inv_rho[i];
+    out.up[e] = o.rho[e] * out.down[e] + ws.src[e];
+    const double Rh = o.Rh[i], Th = o.Th[i];
+    const double from_below = Th * out.up[e] + ws.Uh[i];
+    const double dm = (Th * out.down[i] + Rh * from_below + ws.Dh[i]) * o.q[i];
+    out.down_mid[i] = dm;
+    out.up_mid[i] = Rh * dm + from_below;
+    if (!out.actinic_mid.empty()) out.actinic_mid[i] = ws.beam_mid[i] + 2.0 * (dm + out.up_mid[i]);
+  }
+}
+
+void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,
+                      const TwoStreamFluxes& out) {
+  const double albedo[1] = {col.surface_albedo};
+  const double incident[1] = {col.incident};
+  const TwoStreamLayers layers{1, col.dtau, col.omega, col.g, albedo, col.closure};
+  TwoStreamOptics optics;
+  two_stream_optics(layers, optics);
+  two_stream_fluxes(layers, optics, TwoStreamSun{col.mu0, incident, col.slant_tau}, ws, out);
 }
 
 }  // namespace colchem

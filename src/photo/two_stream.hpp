@@ -68,21 +68,39 @@ struct DeltaScaled {
 /// Joseph, Wiscombe and Weinman (1976): the forward fraction f = g^2 counted as unscattered.
 DeltaScaled delta_scale(double dtau, double omega, double g);
 
-/// One bin's column, layers ordered from the top down (already delta-scaled if wanted).
-struct TwoStreamColumn {
-  std::span<const double> dtau;   ///< L layer optical thicknesses (>= 0)
-  std::span<const double> omega;  ///< L single-scattering albedos in [0, 1]
-  std::span<const double> g;      ///< L asymmetry parameters in (-1, 1)
-  /// L + 1 slant optical depths of the direct beam at the layer edges, top edge first; empty:
-  /// plane-parallel, tau_s = (vertical optical depth from the top) / mu0.
-  std::span<const double> slant_tau;
-  double mu0 = 1.0;             ///< cosine of the solar zenith angle (> 0)
-  double incident = 1.0;        ///< S: beam flux normal to the beam above layer 0
-  double surface_albedo = 0.0;  ///< Lambertian, in [0, 1]
+/// Many columns side by side (one per wavelength bin), layers from the top down. Per-layer
+/// arrays are layer-major: layer n of column b at [n * columns + b] (L layers); per-edge
+/// arrays likewise with L + 1 edges. Optical properties already delta-scaled if wanted.
+struct TwoStreamLayers {
+  std::size_t columns = 1;
+  std::span<const double> dtau;            ///< L * columns optical thicknesses (>= 0)
+  std::span<const double> omega;           ///< single-scattering albedos in [0, 1]
+  std::span<const double> g;               ///< asymmetry parameters in (-1, 1)
+  std::span<const double> surface_albedo;  ///< columns Lambertian albedos in [0, 1]
   TwoStreamClosure closure = TwoStreamClosure::kQuadrature;
 };
 
-/// Results, sized by the caller: edges L + 1, centres L. Fluxes on a horizontal surface.
+/// What does not depend on the sun: half-layer and layer reflectance and transmittance, and
+/// the reflectance rho of everything below each edge (computed once for all sun positions).
+struct TwoStreamOptics {
+  std::vector<double> w, gamma1, gamma2, lambda2, half, Rh, Th, q, R, T;  ///< [n * B + b]
+  std::vector<double> rho;      ///< [e * B + b], L + 1 edges
+  std::vector<double> inv_rho;  ///< [n * B + b]: 1 / (1 - R_n rho_n+1)
+};
+
+void two_stream_optics(const TwoStreamLayers& layers, TwoStreamOptics& out);
+
+/// The sun: mu0 (> 0), the beam's flux normal to itself above layer 0 per column, and the
+/// slant optical depths of the beam at the edges ((L + 1) * columns, layer-major); empty:
+/// plane-parallel, tau_s = (vertical optical depth from the top) / mu0.
+struct TwoStreamSun {
+  double mu0 = 1.0;
+  std::span<const double> incident;
+  std::span<const double> slant_tau;
+};
+
+/// Results, sized by the caller, layer-major: edges (L + 1) * columns, centres L * columns.
+/// Fluxes on a horizontal surface.
 struct TwoStreamFluxes {
   std::span<double> up, down;          ///< diffuse F+ and F- at the edges (top edge first)
   std::span<double> up_mid, down_mid;  ///< the same at the layer centres
@@ -90,12 +108,29 @@ struct TwoStreamFluxes {
   std::span<double> actinic_mid;
 };
 
-/// Scratch space of the solver (grows to the largest column solved; reuse it).
+/// Scratch space (grows to the largest problem; reuse it).
 struct TwoStreamWorkspace {
-  std::vector<double> R, T, U, D, Rh, Th, Uh, Dh, beam, rho, src, inv;
+  std::vector<double> beam, beam_mid, U, D, Uh, Dh, src;
 };
 
-/// Solves one column; throws std::invalid_argument when the spans do not match.
+/// The fluxes for one sun position; throws std::invalid_argument when sizes do not match.
+void two_stream_fluxes(const TwoStreamLayers& layers, const TwoStreamOptics& optics,
+                       const TwoStreamSun& sun, TwoStreamWorkspace& ws, const TwoStreamFluxes& out);
+
+/// One column, layers from the top down: the convenience form of the two calls above.
+struct TwoStreamColumn {
+  std::span<const double> dtau;   ///< L layer optical thicknesses (>= 0)
+  std::span<const double> omega;  ///< L single-scattering albedos in [0, 1]
+  std::span<const double> g;      ///< L asymmetry parameters in (-1, 1)
+  /// L + 1 slant optical depths of the direct beam at the layer edges; empty: plane-parallel.
+  std::span<const double> slant_tau;
+  double mu0 = 1.0;             ///< cosine of the solar zenith angle (> 0)
+  double incident = 1.0;        ///< S: beam flux normal to the beam above layer 0
+  double surface_albedo = 0.0;  ///< Lambertian, in [0, 1]
+  TwoStreamClosure closure = TwoStreamClosure::kQuadrature;
+};
+
+/// Solves one column (allocates its optics; for tests and single columns).
 void solve_two_stream(const TwoStreamColumn& column, TwoStreamWorkspace& ws,
                       const TwoStreamFluxes& out);
 
