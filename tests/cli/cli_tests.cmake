@@ -116,3 +116,9 @@ add_test(NAME validation.worlds.tellin_injection
   COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/run.sh $<TARGET_FILE:colchem>)
 set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400
   ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_tellin_injection.nc")
+
+# Pyrene cloud-top J-values with the two-stream scheme over an invented reflecting deck
+# against the direct beam (a Pyrene steady solve first; a few seconds).
+add_test(NAME validation.photo.pyrene_cloud_deck
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/photo/pyrene_cloud_deck/run ${CMAKE_BINARY_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/pyrene_deck_work)
