@@ -30,33 +30,44 @@ std::string two_stream_closure_name(TwoStreamClosure c) {
   return "quadrature";
 }
 
-TwoStreamGammas two_stream_gammas(TwoStreamClosure c, double omega, double g, double mu0) {
-  TwoStreamGammas r;
+namespace {
+
+/// Table 1 of Toon et al. (1989) written out per closure, in the form
+///   gamma1 = a0 - w (a1 + a2 g),  gamma2 = b0 + w (b1 - b2 g),  gamma3 = 1/2 - s g mu0,
+///   gamma1 - gamma2 = cd (1 - w),  gamma1 + gamma2 = cs (1 - w g).
+struct Closure {
+  double a0, a1, a2, b0, b1, b2, s, cd, cs;
+};
+
+Closure closure_coefficients(TwoStreamClosure c) {
+  const double h3 = 0.5 * kSqrt3;
   switch (c) {
-    case TwoStreamClosure::kEddington:
-      r.gamma1 = (7.0 - omega * (4.0 + 3.0 * g)) / 4.0;
-      r.gamma2 = -(1.0 - omega * (4.0 - 3.0 * g)) / 4.0;
-      r.gamma3 = (2.0 - 3.0 * g * mu0) / 4.0;
-      r.gamma1_minus_gamma2 = 2.0 * (1.0 - omega);
-      r.gamma1_plus_gamma2 = 1.5 * (1.0 - omega * g);
-      break;
-    case TwoStreamClosure::kQuadrature:
-      r.gamma1 = kSqrt3 * (2.0 - omega * (1.0 + g)) / 2.0;
-      r.gamma2 = kSqrt3 * omega * (1.0 - g) / 2.0;
-      r.gamma3 = (1.0 - kSqrt3 * g * mu0) / 2.0;
-      r.gamma1_minus_gamma2 = kSqrt3 * (1.0 - omega);
-      r.gamma1_plus_gamma2 = kSqrt3 * (1.0 - omega * g);
-      break;
-    case TwoStreamClosure::kHemisphericMean:
-      r.gamma1 = 2.0 - omega * (1.0 + g);
-      r.gamma2 = omega * (1.0 - g);
-      r.gamma3 = (2.0 - 3.0 * g * mu0) / 4.0;
-      r.gamma1_minus_gamma2 = 2.0 * (1.0 - omega);
-      r.gamma1_plus_gamma2 = 2.0 * (1.0 - omega * g);
-      break;
+    case TwoStreamClosure::kEddington:  // (7 - w(4 + 3g))/4, -(1 - w(4 - 3g))/4, (2 - 3 g mu0)/4
+      return {1.75, 1.0, 0.75, -0.25, 1.0, 0.75, 0.75, 2.0, 1.5};
+    case TwoStreamClosure::kQuadrature:  // sqrt3 (2 - w(1 + g))/2, sqrt3 w (1 - g)/2, (1 - sqrt3 g
+                                         // mu0)/2
+      return {kSqrt3, h3, h3, 0.0, h3, h3, h3, kSqrt3, kSqrt3};
+    case TwoStreamClosure::kHemisphericMean:  // 2 - w(1 + g), w (1 - g); gamma3 as Eddington
+      return {2.0, 1.0, 1.0, 0.0, 1.0, 1.0, 0.75, 2.0, 2.0};
   }
+  return {kSqrt3, h3, h3, 0.0, h3, h3, h3, kSqrt3, kSqrt3};
+}
+
+TwoStreamGammas gammas(const Closure& k, double w, double g, double mu0) {
+  TwoStreamGammas r;
+  r.gamma1 = k.a0 - w * (k.a1 + k.a2 * g);
+  r.gamma2 = k.b0 + w * (k.b1 - k.b2 * g);
+  r.gamma3 = 0.5 - k.s * g * mu0;
   r.gamma4 = 1.0 - r.gamma3;
+  r.gamma1_minus_gamma2 = k.cd * (1.0 - w);
+  r.gamma1_plus_gamma2 = k.cs * (1.0 - w * g);
   return r;
+}
+
+}  // namespace
+
+TwoStreamGammas two_stream_gammas(TwoStreamClosure c, double omega, double g, double mu0) {
+  return gammas(closure_coefficients(c), omega, g, mu0);
 }
 
 DeltaScaled delta_scale(double dtau, double omega, double g) {
@@ -82,35 +93,37 @@ void two_stream_optics(const TwoStreamLayers& ly, TwoStreamOptics& o) {
     grow(*v, LB);
   }
   grow(o.rho, LB + B);
+  // Three passes, so that the two without exp() vectorise: x = lambda h, exp(-x), the rest.
+  const Closure cl = closure_coefficients(ly.closure);
   for (std::size_t i = 0; i < LB; ++i) {
     const double t = std::max(0.0, ly.dtau[i]);
-    const double h = 0.5 * t;
     const double w = t > 0.0 ? std::clamp(ly.omega[i], 0.0, 1.0) : 0.0;
-    const TwoStreamGammas gm = two_stream_gammas(ly.closure, w, ly.g[i], 1.0);
+    const TwoStreamGammas gm = gammas(cl, w, ly.g[i], 1.0);
     const double lam2 = gm.gamma1_minus_gamma2 * gm.gamma1_plus_gamma2;
-    const double lam = std::sqrt(std::max(0.0, lam2));
-    const double x = lam * h;
-    // th = tanh(lambda h)/lambda and sech(lambda h); the series below x = 1e-3 (error x^6)
-    // avoids the cancellation in 1 - exp(-2x).
-    double th = h;
-    double sech = 1.0;
-    if (x > 0.0) {
-      const double ex = std::exp(-x);
-      const double e2 = ex * ex;
-      const double x2 = x * x;
-      const double r = 1.0 / (lam * (1.0 + e2));
-      th = x < 1e-3 ? h * (1.0 - x2 / 3.0 + 2.0 * x2 * x2 / 15.0) : (1.0 - e2) * r;
-      sech = 2.0 * ex * lam * r;
-    }
-    const double inv_den = 1.0 / (1.0 + gm.gamma1 * th);
-    const double Rh = gm.gamma2 * th * inv_den;
-    const double Th = sech * inv_den;
-    const double q = 1.0 / (1.0 - Rh * Rh);
     o.w[i] = w;
     o.gamma1[i] = gm.gamma1;
     o.gamma2[i] = gm.gamma2;
     o.lambda2[i] = lam2;
-    o.half[i] = h;
+    o.half[i] = 0.5 * t;
+    o.Rh[i] = std::sqrt(std::max(0.0, lam2)) * 0.5 * t;  // x, for the next pass
+  }
+  for (std::size_t i = 0; i < LB; ++i) o.Th[i] = std::exp(-o.Rh[i]);
+  for (std::size_t i = 0; i < LB; ++i) {
+    // th = tanh(lambda h)/lambda and sech(lambda h); the series below x = 1e-3 (error x^6)
+    // avoids the cancellation in 1 - exp(-2x); lambda = 0 gives th = h, sech = 1.
+    const double h = o.half[i];
+    const double x = o.Rh[i];
+    const double ex = o.Th[i];
+    const double e2 = ex * ex;
+    const double x2 = x * x;
+    const double lam = std::max(std::sqrt(std::max(0.0, o.lambda2[i])), 1e-300);
+    const double r = 1.0 / (lam * (1.0 + e2));
+    const double th = x < 1e-3 ? h * (1.0 - x2 / 3.0 + 2.0 * x2 * x2 / 15.0) : (1.0 - e2) * r;
+    const double sech = 2.0 * ex * lam * r;
+    const double inv_den = 1.0 / (1.0 + o.gamma1[i] * th);
+    const double Rh = o.gamma2[i] * th * inv_den;
+    const double Th = sech * inv_den;
+    const double q = 1.0 / (1.0 - Rh * Rh);
     o.Rh[i] = Rh;
     o.Th[i] = Th;
     o.q[i] = q;
@@ -152,37 +165,43 @@ void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, cons
   for (std::size_t b = 0; b < B; ++b) {
     ws.beam[b] = sun.incident[b] * (plane ? 1.0 : std::exp(-sun.slant_tau[b]));
   }
+  const Closure cl = closure_coefficients(ly.closure);
+  // The beam's decay rate k per layer (moved off the resonance), then exp(-k h) (in ws.Uh),
+  // then the sources.
   for (std::size_t i = 0; i < LB; ++i) {
-    const double w = o.w[i];
     const double h = o.half[i];
     double k = inv_mu0;
     if (!plane && h > 0.0) k = std::max(0.0, (sun.slant_tau[i + B] - sun.slant_tau[i]) / (2.0 * h));
     const double lam2 = o.lambda2[i];
-    double d = lam2 - k * k;
-    if (w > 0.0 && std::abs(d) < kResonanceGap * k * k) {
-      d = (d < 0.0 ? -kResonanceGap : kResonanceGap) * k * k;
-      k = std::sqrt(std::max(0.0, lam2 - d));
+    const double d = lam2 - k * k;
+    if (o.w[i] > 0.0 && std::abs(d) < kResonanceGap * k * k) {
+      k = std::sqrt(std::max(0.0, lam2 - (d < 0.0 ? -kResonanceGap : kResonanceGap) * k * k));
     }
-    const double eh = std::exp(-k * h);
+    ws.D[i] = k;
+    ws.Uh[i] = -k * h;
+  }
+  for (std::size_t i = 0; i < LB; ++i) ws.Uh[i] = std::exp(ws.Uh[i]);
+  for (std::size_t i = 0; i < LB; ++i) {
+    const double w = o.w[i];
+    const double k = ws.D[i];
+    const double eh = ws.Uh[i];
     const double b_top = ws.beam[i];
     const double mid = b_top * eh;
     ws.beam_mid[i] = mid;
     ws.beam[i + B] = mid * eh;
-    double su = 0.0, sd = 0.0;  // half-layer sources per unit beam at its top
-    if (w > 0.0) {
-      const double g1 = o.gamma1[i], g2 = o.gamma2[i];
-      const double g3 = two_stream_gammas(ly.closure, w, ly.g[i], sun.mu0).gamma3;
-      const double g4 = 1.0 - g3;
-      const double inv_d = 1.0 / d;
-      const double P = (g3 * (g1 - k) + g2 * g4) * inv_d;
-      const double M = ((g1 + k) * g4 + g2 * g3) * inv_d;
-      const double Rh = o.Rh[i], Th = o.Th[i];
-      su = w * (P - Rh * M - Th * P * eh);
-      sd = w * (M * eh - Th * M - Rh * P * eh);
-    }
+    // Half-layer sources per unit beam at its top (zero without scattering).
+    const double g1 = o.gamma1[i], g2 = o.gamma2[i];
+    const double g3 = gammas(cl, w, ly.g[i], sun.mu0).gamma3;
+    const double g4 = 1.0 - g3;
+    const double d = o.lambda2[i] - k * k;
+    const double inv_d = w > 0.0 ? 1.0 / d : 0.0;
+    const double P = (g3 * (g1 - k) + g2 * g4) * inv_d;
+    const double M = ((g1 + k) * g4 + g2 * g3) * inv_d;
+    const double Rh = o.Rh[i], Th = o.Th[i], q = o.q[i];
+    const double su = w * (P - Rh * M - Th * P * eh);
+    const double sd = w * (M * eh - Th * M - Rh * P * eh);
     const double su1 = b_top * su, sd1 = b_top * sd;  // upper half
     const double su2 = su1 * eh, sd2 = sd1 * eh;      // lower half, lit by the mid beam
-    const double Rh = o.Rh[i], Th = o.Th[i], q = o.q[i];
     ws.U[i] = su1 + Th * (su2 + Rh * sd1) * q;
     ws.D[i] = sd2 + Th * (sd1 + Rh * su2) * q;
     ws.Uh[i] = su2;
