@@ -344,7 +344,7 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
       for (std::size_t b = a.lo; b < a.hi; ++b) ray_top_[b] += s[b] * col_top;
     }
   }
-  if (!spherical_) {
+  if (!spherical_ && !two_stream_) {  // (the two-stream solve carries its own beam)
     // Vertical optical depth at cell centres: half the own cell plus everything above.
     std::copy(tau_top_.begin(), tau_top_.end(), beam_.begin());
     for (std::size_t jj = N; jj-- > 0;) {
@@ -412,8 +412,10 @@ void PhotolysisModel::layer_optics() {
   const std::size_t B = bins_;
   auto set = [&](std::size_t i, double dtau, double sca, double gsca) {
     lay_dtau_[i] = dtau;
-    lay_w_[i] = dtau > 0.0 ? sca / dtau : 0.0;
-    lay_g_[i] = gsca > 0.0 ? gsca / sca : 0.0;
+    // |gsca| <= sca <= dtau, so the floors only turn 0/0 into 0 (and keep the loop free of
+    // branches).
+    lay_w_[i] = sca / std::max(dtau, 1e-300);
+    lay_g_[i] = gsca / std::max(sca, 1e-300);
   };
   for (std::size_t b = 0; b < B; ++b) set(b, tau_top_[b], ray_top_[b], 0.0);
   const bool aerosol = !aerosol_sca_.empty();

@@ -232,3 +232,24 @@ TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][tw
              }),
              Catch::Contains("single-scattering albedo from 0 to 1"));
 }
+
+TEST_CASE("two-stream spherical paths reduce to plane-parallel on a flat planet",
+          "[photo][two_stream]") {
+  // On a planet of radius 1e15 cm the rays through the shells are straight lines, so the
+  // pseudo-spherical beam (rays from every edge and centre) equals tau/mu0 (analytic
+  // geometry, to the curvature of 1e-8 over the 60 km column), with Rayleigh scattering and
+  // a reflecting surface.
+  const Background bg = test::flat_isothermal(12, 60.0);
+  PhotolysisSpec s = absorbing_spec();
+  s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
+  s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+  s.radiative_transfer.surface_albedo = 0.5;
+  PhotolysisModel plane(s, bg, {"A", "B"});
+  s.slant_path = SlantPath::kSpherical;
+  PhotolysisModel sphere(s, bg, {"A", "B"});
+  const auto n = state(bg);
+  std::vector<double> Jp(24), Js(24);
+  plane.compute(n, Jp);
+  sphere.compute(n, Js);
+  for (std::size_t i = 0; i < Jp.size(); ++i) CHECK(Js[i] == Approx(Jp[i]).epsilon(1e-6));
+}
