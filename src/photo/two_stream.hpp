@@ -33,6 +33,9 @@
 //   F-_0 = 0 (no diffuse light from above),  F+_L = A (F-_L + mu0 S exp(-tau_s,L))
 // is solved by block elimination from the surface up (the reflectance of everything below
 // an edge) and back down: one O(L) pass each way, every quantity positive, no pivoting.
+// The layer R and T and the reflectances below the edges do not depend on the sun
+// (two_stream_optics, once per state); the beam's sources and the two sweeps do
+// (two_stream_fluxes, once per sun position). All bins are solved side by side.
 // The actinic flux (photons per unit area from all directions) is the direct beam
 // S exp(-tau_s) plus 4 pi times the diffuse mean intensity, taken as 2 (F+ + F-): exact for
 // radiance that is isotropic in each hemisphere (a Lambertian surface's) and for the
