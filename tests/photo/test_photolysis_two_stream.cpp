@@ -203,6 +203,14 @@ TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][tw
   CHECK(s.aerosol.single_scattering_albedo.form == OpticalPropertyForm::kAltitude);
   CHECK(s.aerosol.single_scattering_albedo.by_altitude[1] == 0.9);  // the table's value
   CHECK(s.aerosol.asymmetry.value == 0.7);
+  const auto gtable =
+      test::write_file("rt_g.csv", "# invented\nwavelength [um], value [1]\n0.2, 0.6\n0.8, 0.8\n");
+  const auto w =
+      load_rt("rt_wl", "  radiative_transfer: {scheme: two_stream}\n",
+              "single_scattering_albedo: 1, asymmetry: {table: " + gtable.string() + "}");
+  CHECK(w.aerosol.asymmetry.form == OpticalPropertyForm::kWavelength);
+  CHECK(w.aerosol.asymmetry.by_wavelength.wavelength_nm[1] == Approx(800.0));  // um -> nm
+  CHECK(w.radiative_transfer.closure == TwoStreamClosure::kQuadrature);        // the default
   const auto d = load_rt("rt_default", "");
   CHECK(d.radiative_transfer.scheme == RadiativeTransferScheme::kDirectBeam);
 
