@@ -1,6 +1,6 @@
 // colchem photo CONFIG [--from RUN.nc] [-o OUT.nc] [--spectrum]: the J-values of a scenario's
 // photolysis channels at every level, for its initial state or a run's final state, without
-// solving anything.
+// solving anything; with the two-stream scheme also their enhancement over the direct beam.
 #include <iostream>
 
 #include "app/commands.hpp"
@@ -21,7 +21,9 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     bool spectrum = false;
   };
   auto o = std::make_shared<Options>();
-  cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")
+      ->required()
+      ->check(CLI::ExistingFile);
   cmd->add_option("--from", o->from, "Take the absorbers' densities from a run output")
       ->check(CLI::ExistingFile);
   cmd->add_option("-o,--output", o->output, "Write J-values (and the spectrum) to NetCDF");
@@ -44,14 +46,27 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     PhotolysisModel local(sc.photolysis, model.background(), model.species());
     local.compute(n, J, F);
     std::cout << format_jvalue_table(local, J, model.background().grid);
+    // With the two-stream scheme: the same state under the direct beam alone, and the
+    // enhancement factor of every channel's J over it.
+    std::vector<double> J_direct;
+    if (local.two_stream()) {
+      PhotolysisSpec direct_spec = sc.photolysis;
+      direct_spec.radiative_transfer = RadiativeTransferSpec{};
+      PhotolysisModel direct(direct_spec, model.background(), model.species());
+      J_direct.resize(J.size());
+      direct.compute(n, J_direct);
+      std::cout << "\nenhancement of J over the direct beam (two-stream / direct-beam)\n"
+                << format_jvalue_table(local, enhancement_factors(J, J_direct),
+                                       model.background().grid, "[1]");
+    }
     if (!o->output.empty()) {
       NcWriter nc(o->output);
       write_provenance(nc, sc, ctx.command_line);
       define_background(nc, model.background());
-      define_photolysis_output(nc, local, o->spectrum);
+      define_photolysis_output(nc, local, o->spectrum, !J_direct.empty());
       nc.end_definitions();
       write_background_data(nc, model.background());
-      write_photolysis_output(nc, local, J, F);
+      write_photolysis_output(nc, local, J, F, J_direct);
       nc.commit();
       ctx.log->info("wrote {}", o->output);
     }

@@ -1,6 +1,8 @@
 // Photolysis loader: YAML and tables -> PhotolysisSpec (keys in README.md, section Configuration reference).
 #include "io/photolysis_loader.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <set>
 #include <sstream>
@@ -220,6 +222,43 @@ void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
 }
 
+/// An aerosol optical property: a number, {column: NAME} of the aerosol table, or a function
+/// of wavelength {table: FILE, column: NAME, wavelength_column: wavelength}. Values must lie
+/// in [lo, hi].
+OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const Table& aerosol,
+                                          const std::string& what, double lo, double hi) {
+  OpticalPropertySpec p;
+  const std::string range = fmt::format("{} from {} to {}", what, lo, hi);
+  auto check = [&](double v) { return v >= lo && v <= hi; };
+  if (n.is_scalar()) {
+    p.form = OpticalPropertyForm::kConstant;
+    p.value = n.number();
+    if (!check(p.value)) n.fail("a " + range);
+    return p;
+  }
+  if (n.find("table")) {
+    p.form = OpticalPropertyForm::kWavelength;
+    Table t;
+    p.by_wavelength = read_spectrum_table(n, ctx, "aerosol " + what, "value", "1", &t);
+    for (std::size_t r = 0; r < p.by_wavelength.value.size(); ++r) {
+      if (!check(p.by_wavelength.value[r])) {
+        t.fail_row(r, "value", "a " + range, std::to_string(p.by_wavelength.value[r]));
+      }
+    }
+    return p;
+  }
+  const auto c = n.child("column");
+  n.done();
+  p.form = OpticalPropertyForm::kAltitude;
+  p.by_altitude = aerosol.column(c.text(), ctx.units, "1");
+  for (std::size_t r = 0; r < p.by_altitude.size(); ++r) {
+    if (!check(p.by_altitude[r])) {
+      aerosol.fail_row(r, c.text(), "a " + range, std::to_string(p.by_altitude[r]));
+    }
+  }
+  return p;
+}
+
 void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   AerosolSpec& a = spec.aerosol;
   const std::filesystem::path file = n.child("table").path();
@@ -232,6 +271,8 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
     a.reference_nm = r->quantity(ctx.units, "nm", "550 nm");
     if (!(a.reference_nm > 0.0)) r->fail("a positive wavelength");
   }
+  const auto ssa = n.find("single_scattering_albedo");
+  const auto asym = n.find("asymmetry");
   n.done();
   const Table t = Table::read(file);
   t.require_increasing(alt);
@@ -240,9 +281,56 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   for (std::size_t r = 0; r < a.extinction_cm1.size(); ++r) {
     if (!(a.extinction_cm1[r] >= 0.0)) t.fail_row(r, column, "an extinction >= 0", std::to_string(t.raw(column)[r]));
   }
+  if ((ssa ? 1 : 0) + (asym ? 1 : 0) == 1) {
+    n.fail("both 'single_scattering_albedo' and 'asymmetry' (or neither)", "only one of them");
+  }
+  if (ssa) {
+    a.single_scattering_albedo = load_optical_property(*ssa, ctx, t, "single-scattering albedo", 0.0, 1.0);
+    a.asymmetry = load_optical_property(*asym, ctx, t, "asymmetry parameter", -0.99, 0.99);
+    a.has_optical_properties = true;
+  }
   a.source = table_label(t);
   a.present = true;
   if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol extinction table", file, t.text()});
+}
+
+void load_radiative_transfer(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
+  RadiativeTransferSpec& rt = spec.radiative_transfer;
+  const auto scheme = n.child("scheme");
+  const auto closure = n.find("closure");
+  const auto delta = n.find("delta_scaling");
+  const auto albedo = n.find("surface_albedo");
+  n.done();
+  rt.scheme = scheme.choice({"direct_beam", "two_stream"}) == "two_stream"
+                  ? RadiativeTransferScheme::kTwoStream
+                  : RadiativeTransferScheme::kDirectBeam;
+  if (rt.scheme == RadiativeTransferScheme::kDirectBeam) {
+    for (const auto& k : {closure, delta, albedo}) {
+      if (k) k->fail("no two-stream settings with 'scheme: direct_beam'", k->describe(), "use scheme: two_stream");
+    }
+    return;
+  }
+  if (closure) {
+    const std::string c = closure->choice({"eddington", "quadrature", "hemispheric_mean"});
+    rt.closure = c == "eddington"    ? TwoStreamClosure::kEddington
+                 : c == "quadrature" ? TwoStreamClosure::kQuadrature
+                                     : TwoStreamClosure::kHemisphericMean;
+  }
+  if (delta) rt.delta_scaling = delta->boolean();
+  if (albedo) {
+    if (albedo->is_scalar()) {
+      rt.surface_albedo = albedo->number();
+      if (!(rt.surface_albedo >= 0.0 && rt.surface_albedo <= 1.0)) albedo->fail("an albedo from 0 to 1");
+    } else {
+      Table t;
+      rt.surface_albedo_table = read_spectrum_table(*albedo, ctx, "surface albedo", "albedo", "1", &t);
+      for (std::size_t r = 0; r < rt.surface_albedo_table.value.size(); ++r) {
+        if (rt.surface_albedo_table.value[r] > 1.0) {
+          t.fail_row(r, "albedo", "an albedo from 0 to 1", std::to_string(rt.surface_albedo_table.value[r]));
+        }
+      }
+    }
+  }
 }
 
 // --- Data file ----------------------------------------------------------------------
@@ -446,6 +534,7 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
   const auto illum = n.find("illumination");
   const auto slant = n.find("slant_path");
   const auto aerosol = n.find("aerosol");
+  const auto rt = n.find("radiative_transfer");
   n.done();
   load_photolysis_data(data.path(), units, spec, inputs);
   load_spectrum(spectrum, ctx, spec);
@@ -469,6 +558,12 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
               illum->child("zenith_angle").describe(), "use slant_path: spherical at 90 deg");
   }
   if (aerosol) load_aerosol(*aerosol, ctx, spec);
+  if (rt) load_radiative_transfer(*rt, ctx, spec);
+  if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream && aerosol &&
+      !spec.aerosol.has_optical_properties) {
+    aerosol->fail("'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: two_stream'",
+                  "neither");
+  }
   return spec;
 }
 

@@ -85,8 +85,8 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     }
     if (required) {
       throw InputError(ExitCode::kConfig, where, "absorbers",
-                       "absorber '" + name + "' to be a model species or a bulk gas",
-                       "neither", "remove it from the photolysis data or add the species");
+                       "absorber '" + name + "' to be a model species or a bulk gas", "neither",
+                       "remove it from the photolysis data or add the species");
     }
     return false;
   };
@@ -135,8 +135,8 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       if (spec.absorbers[i].species == ch.absorber) ai = i;
     }
     if (ai == spec.absorbers.size()) {
-      throw InputError(ExitCode::kConfig, where, "channels." + ch.name,
-                       "a declared absorber", "'" + ch.absorber + "'");
+      throw InputError(ExitCode::kConfig, where, "channels." + ch.name, "a declared absorber",
+                       "'" + ch.absorber + "'");
     }
     const Attenuator& a = attenuators_[absorber_attenuator[ai]];
     std::vector<double> phi(B, ch.quantum_yield.value);
@@ -172,22 +172,60 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     }
     a.lo = 0;
     a.hi = B;
+    a.scatters = true;
     attenuators_.push_back(std::move(a));
   }
 
-  // Aerosol: extinction at cell centres (linear in z, end values held) times dz.
+  // Aerosol: extinction at cell centres (linear in z, end values held) times dz. The
+  // two-stream scheme scatters the fraction omega of it and delta-scales the forward peak.
+  two_stream_ = spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream;
+  closure_ = spec.radiative_transfer.closure;
   aerosol_dtau_.assign(N * B, 0.0);
+  aerosol_sca_.assign(two_stream_ ? N * B : 0, 0.0);
+  aerosol_gsca_.assign(two_stream_ ? N * B : 0, 0.0);
   if (spec.aerosol.present) {
+    const AerosolSpec& ae = spec.aerosol;
+    auto property = [&](const OpticalPropertySpec& p) {  // [j * B + b]
+      std::vector<double> v(N * B, p.value);
+      const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
+                                             ? bin_average_held(p.by_wavelength, edges_)
+                                             : std::vector<double>{};
+      for (std::size_t j = 0; j < N; ++j) {
+        const double at_z =
+            p.form == OpticalPropertyForm::kAltitude
+                ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
+                : p.value;
+        for (std::size_t b = 0; b < B; ++b) v[j * B + b] = by_bin.empty() ? at_z : by_bin[b];
+      }
+      return v;
+    };
+    std::vector<double> omega, asym;
+    if (two_stream_) {
+      omega = property(ae.single_scattering_albedo);
+      asym = property(ae.asymmetry);
+    }
     for (std::size_t j = 0; j < N; ++j) {
-      const double beta = interp_linear_hold(spec.aerosol.altitude_cm, spec.aerosol.extinction_cm1,
-                                             bg.grid.center_cm[j]);
+      const double beta =
+          interp_linear_hold(ae.altitude_cm, ae.extinction_cm1, bg.grid.center_cm[j]);
       for (std::size_t b = 0; b < B; ++b) {
-        aerosol_dtau_[j * B + b] =
+        const std::size_t i = j * B + b;
+        aerosol_dtau_[i] =
             beta * dz_[j] *
-            power_law_average(spec.aerosol.reference_nm, spec.aerosol.wavelength_exponent,
-                              edges_[b], edges_[b + 1]);
+            power_law_average(ae.reference_nm, ae.wavelength_exponent, edges_[b], edges_[b + 1]);
+        if (!two_stream_) continue;
+        DeltaScaled d{aerosol_dtau_[i], omega[i], asym[i]};
+        if (spec.radiative_transfer.delta_scaling) d = delta_scale(d.dtau, d.omega, d.g);
+        aerosol_dtau_[i] = d.dtau;
+        aerosol_sca_[i] = d.omega * d.dtau;
+        aerosol_gsca_[i] = d.g * d.omega * d.dtau;
       }
     }
+  }
+  if (two_stream_) {
+    const auto& rt = spec.radiative_transfer;
+    albedo_ = rt.surface_albedo_table.value.empty()
+                  ? std::vector<double>(B, rt.surface_albedo)
+                  : bin_average_held(rt.surface_albedo_table, edges_);
   }
 
   // Geometry.
@@ -215,6 +253,24 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       }
       path_factor_.push_back(std::move(pf));
       top_factor_.push_back(std::move(tf));
+      if (!two_stream_) continue;
+      // The same from every edge, for the pseudo-spherical source of the diffuse field.
+      std::vector<double> epf(N * N + N, 0.0);
+      std::vector<double> etf(N + 1, 0.0);
+      for (std::size_t e = 0; e <= N; ++e) {
+        const double re = R + bg.grid.edge_cm[e];
+        const double p2 = std::pow(re * sin_chi, 2);
+        auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
+        double below = re * node.mu0;
+        for (std::size_t k = e; k < N; ++k) {
+          const double above = chord(R + bg.grid.edge_cm[k + 1]);
+          epf[e * N + k] = (above - below) / dz_[k];
+          below = above;
+        }
+        etf[e] = chapman_function(r_top / H_top, std::asin(std::min(1.0, re * sin_chi / r_top)));
+      }
+      edge_path_factor_.push_back(std::move(epf));
+      edge_top_factor_.push_back(std::move(etf));
     }
   }
 
@@ -222,6 +278,22 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   vtau_.assign(N * B, 0.0);
   tau_top_.assign(B, 0.0);
   beam_.assign(B, 0.0);
+  if (two_stream_) {
+    ray_dtau_.assign(N * B, 0.0);
+    ray_top_.assign(B, 0.0);
+    const std::size_t LB = (N + 1) * B;  // layers: the column above the top, then the cells
+    for (auto* v : {&lay_dtau_, &lay_w_, &lay_g_, &upm_, &downm_, &act_}) v->assign(LB, 0.0);
+    for (auto* v : {&up_, &down_}) v->assign(LB + B, 0.0);
+    slant_.assign(spherical_ ? LB + B : 0, 0.0);
+    diag_up_.assign(N * B, 0.0);
+    diag_down_.assign(N * B, 0.0);
+    // Size every scratch vector once, so that compute() allocates nothing.
+    const std::vector<double> zeros(LB, 0.0), ones(B, 1.0);
+    const TwoStreamLayers ly{B, zeros, zeros, zeros, albedo_, closure_};
+    two_stream_optics(ly, optics_);
+    two_stream_fluxes(ly, optics_, TwoStreamSun{1.0, ones, {}}, ts_ws_,
+                      TwoStreamFluxes{up_, down_, upm_, downm_, act_});
+  }
 }
 
 int PhotolysisModel::channel_index(const std::string& name) const {
@@ -250,19 +322,29 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
   // 1. Optical thickness of every cell and of the column above the top, per bin.
   std::copy(aerosol_dtau_.begin(), aerosol_dtau_.end(), dtau_.begin());
   std::fill(tau_top_.begin(), tau_top_.end(), 0.0);
+  std::fill(ray_dtau_.begin(), ray_dtau_.end(), 0.0);
+  std::fill(ray_top_.begin(), ray_top_.end(), 0.0);
   for (const auto& a : attenuators_) {
+    const bool scattered = two_stream_ && a.scatters;  // also into the scattering depth
     for (std::size_t j = 0; j < N; ++j) {
       const double col = density(a, n, j) * dz_[j];
       if (col == 0.0) continue;
       const double* s = a.sigma.data() + (a.per_level ? j * B : 0);
       double* d = dtau_.data() + j * B;
       for (std::size_t b = a.lo; b < a.hi; ++b) d[b] += s[b] * col;
+      if (scattered) {
+        double* r = ray_dtau_.data() + j * B;
+        for (std::size_t b = a.lo; b < a.hi; ++b) r[b] += s[b] * col;
+      }
     }
     const double col_top = density(a, n, N - 1) * top_height_;
     const double* s = a.sigma.data() + (a.per_level ? (N - 1) * B : 0);
     for (std::size_t b = a.lo; b < a.hi; ++b) tau_top_[b] += s[b] * col_top;
+    if (scattered) {
+      for (std::size_t b = a.lo; b < a.hi; ++b) ray_top_[b] += s[b] * col_top;
+    }
   }
-  if (!spherical_) {
+  if (!spherical_ && !two_stream_) {  // (the two-stream solve carries its own beam)
     // Vertical optical depth at cell centres: half the own cell plus everything above.
     std::copy(tau_top_.begin(), tau_top_.end(), beam_.begin());
     for (std::size_t jj = N; jj-- > 0;) {
@@ -277,9 +359,16 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
   // 2. Attenuated beam and J for every sun position, weighted into the average.
   std::fill(J.begin(), J.end(), 0.0);
   std::fill(actinic_flux.begin(), actinic_flux.end(), 0.0);
+  const bool diagnose = two_stream_ && !actinic_flux.empty();
+  if (diagnose) {
+    std::fill(diag_up_.begin(), diag_up_.end(), 0.0);
+    std::fill(diag_down_.begin(), diag_down_.end(), 0.0);
+  }
+  if (two_stream_) layer_optics();
   for (std::size_t k = 0; k < nodes_.size(); ++k) {
     const double w = nodes_[k].weight;
     const double inv_mu = 1.0 / nodes_[k].mu0;
+    if (two_stream_) diffuse_field(k, diagnose ? w : 0.0);
     for (std::size_t j = 0; j < N; ++j) {
       if (spherical_) {
         const double tf = top_factor_[k][j];
@@ -291,9 +380,16 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
           for (std::size_t b = 0; b < B; ++b) beam_[b] += f * d[b];
         }
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-beam_[b]);
+      } else if (two_stream_) {  // the two-stream solve's actinic flux (direct + diffuse)
+        std::copy_n(act_.data() + (N - j) * B, B, beam_.data());
       } else {
         const double* v = vtau_.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) beam_[b] = top_flux_[b] * std::exp(-v[b] * inv_mu);
+      }
+      if (two_stream_ && spherical_) {  // the actinic flux: direct beam plus 2 (F+ + F-)
+        const double* up = upm_.data() + (N - j) * B;
+        const double* down = downm_.data() + (N - j) * B;
+        for (std::size_t b = 0; b < B; ++b) beam_[b] += 2.0 * (up[b] + down[b]);
       }
       for (std::size_t c = 0; c < chans_.size(); ++c) {
         const Channel& ch = chans_[c];
@@ -305,6 +401,67 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
       if (!actinic_flux.empty()) {
         double* F = actinic_flux.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) F[b] += w * beam_[b] / widths_[b];
+      }
+    }
+  }
+}
+
+void PhotolysisModel::layer_optics() {
+  // Layer 0: the column above the top (gases and Rayleigh, no aerosol); layer i: cell N - i.
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  auto set = [&](std::size_t i, double dtau, double sca, double gsca) {
+    lay_dtau_[i] = dtau;
+    // |gsca| <= sca <= dtau, so the floors only turn 0/0 into 0 (and keep the loop free of
+    // branches).
+    lay_w_[i] = sca / std::max(dtau, 1e-300);
+    lay_g_[i] = gsca / std::max(sca, 1e-300);
+  };
+  for (std::size_t b = 0; b < B; ++b) set(b, tau_top_[b], ray_top_[b], 0.0);
+  const bool aerosol = !aerosol_sca_.empty();
+  for (std::size_t j = 0; j < N; ++j) {
+    const std::size_t layer = (N - j) * B;
+    for (std::size_t b = 0; b < B; ++b) {
+      const std::size_t jb = j * B + b;
+      set(layer + b, dtau_[jb], ray_dtau_[jb] + (aerosol ? aerosol_sca_[jb] : 0.0),
+          aerosol ? aerosol_gsca_[jb] : 0.0);
+    }
+  }
+  two_stream_optics(TwoStreamLayers{B, lay_dtau_, lay_w_, lay_g_, albedo_, closure_}, optics_);
+}
+
+void PhotolysisModel::diffuse_field(std::size_t node, double diag_weight) {
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  if (spherical_) {  // slant optical depth of the beam at every layer edge (model edge N + 1 - i)
+    std::fill_n(slant_.begin(), B, 0.0);
+    for (std::size_t e = 0; e <= N; ++e) {
+      double* out = slant_.data() + (N + 1 - e) * B;
+      const double tf = edge_top_factor_[node][e];
+      for (std::size_t b = 0; b < B; ++b) out[b] = tau_top_[b] * tf;
+      const double* pf = edge_path_factor_[node].data() + e * N;
+      for (std::size_t kk = e; kk < N; ++kk) {
+        const double f = pf[kk];
+        const double* d = dtau_.data() + kk * B;
+        for (std::size_t b = 0; b < B; ++b) out[b] += f * d[b];
+      }
+    }
+  }
+  // Plane-parallel: the solve's actinic flux is used (its direct beam is the model's to
+  // round-off); spherical: its diffuse part is added to the direct beam of each centre's ray.
+  two_stream_fluxes(
+      TwoStreamLayers{B, lay_dtau_, lay_w_, lay_g_, albedo_, closure_}, optics_,
+      TwoStreamSun{nodes_[node].mu0, top_flux_,
+                   spherical_ ? std::span<const double>{slant_} : std::span<const double>{}},
+      ts_ws_,
+      TwoStreamFluxes{up_, down_, upm_, downm_,
+                      spherical_ ? std::span<double>{} : std::span<double>{act_}});
+  if (diag_weight > 0.0) {
+    for (std::size_t j = 0; j < N; ++j) {
+      for (std::size_t b = 0; b < B; ++b) {
+        const std::size_t i = (N - j) * B + b;
+        diag_up_[j * B + b] += diag_weight * upm_[i] / widths_[b];
+        diag_down_[j * B + b] += diag_weight * downm_[i] / widths_[b];
       }
     }
   }

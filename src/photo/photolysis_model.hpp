@@ -12,6 +12,14 @@
 // Plane-parallel slant: tau_s = tau / mu0. Spherical: the exact ray through the grid's
 // spherical shells and the Chapman function Ch(X_top, chi_top) for the column above the top.
 // f_c,b is the fraction of bin b short of the channel's threshold wavelength.
+// Two-stream scheme (radiative_transfer.scheme: two_stream; photo/two_stream.hpp): F in J is
+// the actinic flux, the direct beam above plus 2 (F+ + F-) of the diffuse field at the cell
+// centre, solved per bin and sun position over the column above the top (layer 0: its gas
+// and Rayleigh optical depth) and the model's cells, with single-scattering albedo
+// w = (dtau_Rayleigh + w_aer dtau_aer) / dtau and asymmetry g = w_aer g_aer dtau_aer /
+// (w dtau) (Rayleigh g = 0), the aerosol delta-scaled (Joseph, Wiscombe and Weinman 1976) by
+// f = g_aer^2 (also in the direct beam), and a Lambertian lower boundary at the bottom edge.
+// With spherical paths the direct beam at every edge follows its own ray (pseudo-spherical).
 // Units: cm^-3, cm^2, s^-1, nm.
 #pragma once
 
@@ -22,6 +30,7 @@
 #include "core/background.hpp"
 #include "photo/photolysis_spec.hpp"
 #include "photo/slant_path.hpp"
+#include "photo/two_stream.hpp"
 
 namespace colchem {
 
@@ -49,16 +58,24 @@ class PhotolysisModel {
   /// construction). When `actinic_flux` is not empty it receives the illumination-averaged
   /// direct-beam flux F[j * B + b] in photons cm^-2 s^-1 nm^-1. Allocates nothing; not
   /// safe to call concurrently on one object (it reuses its workspace).
-  void compute(std::span<const double> n, std::span<double> J,
-               std::span<double> actinic_flux = {});
+  void compute(std::span<const double> n, std::span<double> J, std::span<double> actinic_flux = {});
+
+  /// Whether the diffuse field is computed (radiative_transfer.scheme: two_stream).
+  [[nodiscard]] bool two_stream() const { return two_stream_; }
+  /// Diagnostics of the last compute() call that asked for the actinic flux (two-stream
+  /// only): illumination-averaged diffuse upward and downward fluxes at the cell centres,
+  /// [j * B + b] in photons cm^-2 s^-1 nm^-1. They play no part in J.
+  [[nodiscard]] const std::vector<double>& diffuse_up() const { return diag_up_; }
+  [[nodiscard]] const std::vector<double>& diffuse_down() const { return diag_down_; }
 
  private:
-  struct Attenuator {  // an absorber's or a Rayleigh gas's extinction
+  struct Attenuator {            // an absorber's or a Rayleigh gas's extinction
     int species = -1;            ///< index into n, or -1 for a bulk gas
     double bulk_fraction = 0.0;  ///< used when species < 0
     bool per_level = false;      ///< sigma stored per level (temperature-dependent)
     std::vector<double> sigma;   ///< [j * B + b] or [b], cm^2
     std::size_t lo = 0, hi = 0;  ///< bins where sigma may be non-zero
+    bool scatters = false;       ///< Rayleigh: conservative scattering (two-stream)
   };
   struct Channel {
     bool per_level = false;
@@ -66,8 +83,14 @@ class PhotolysisModel {
     std::size_t lo = 0, hi = 0;
   };
 
-  [[nodiscard]] double density(const Attenuator& a, std::span<const double> n,
-                               std::size_t j) const;
+  [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
+  /// Two-stream: the layers (the column above the top, then the cells from the top down) of
+  /// the current optical depths, and their sun-independent optics.
+  void layer_optics();
+  /// Two-stream: the fluxes for one sun position into act_ (actinic flux, plane-parallel) or
+  /// upm_/downm_ (the diffuse part, spherical); adds diag_weight times the diffuse fluxes
+  /// to the diagnostics when diag_weight > 0.
+  void diffuse_field(std::size_t node, double diag_weight);
 
   std::size_t levels_ = 0, bins_ = 0, species_ = 0;
   std::vector<double> edges_, widths_, centers_;
@@ -76,15 +99,28 @@ class PhotolysisModel {
   std::vector<Channel> chans_;
   std::vector<std::string> channel_names_, products_;
   std::vector<double> air_density_, dz_, top_column_factor_;
-  double top_height_ = 0.0;  ///< n_top,edge H_top / n_N (cm)
+  double top_height_ = 0.0;           ///< n_top,edge H_top / n_N (cm)
   std::vector<double> aerosol_dtau_;  ///< [j * B + b]
   std::vector<IlluminationNode> nodes_;
   bool spherical_ = false;
   /// Spherical: air-mass factors path_k / dz_k for the ray from centre j, [node][j * N + k],
   /// and Ch(X_top, chi_top) for the column above the top, [node][j].
   std::vector<std::vector<double>> path_factor_, top_factor_;
+  // Two-stream: settings, aerosol scattering (delta-scaled) and the albedo per bin.
+  bool two_stream_ = false;
+  TwoStreamClosure closure_ = TwoStreamClosure::kQuadrature;
+  std::vector<double> aerosol_sca_, aerosol_gsca_;  ///< [j * B + b]: w' dtau', g' w' dtau'
+  std::vector<double> albedo_;                      ///< [b]
+  /// Spherical: factors of the rays from every edge e = 0..N, [node][e * N + k], [node][e].
+  std::vector<std::vector<double>> edge_path_factor_, edge_top_factor_;
   // Workspace (sized at construction).
   std::vector<double> dtau_, vtau_, tau_top_, beam_;
+  std::vector<double> ray_dtau_, ray_top_;
+  /// Layer-major [layer * B + b] (layer 0 above the top, layer N - j = cell j).
+  std::vector<double> lay_dtau_, lay_w_, lay_g_, slant_, up_, down_, upm_, downm_, act_;
+  TwoStreamOptics optics_;
+  std::vector<double> diag_up_, diag_down_;
+  TwoStreamWorkspace ts_ws_;
 };
 
 }  // namespace colchem

@@ -9,30 +9,63 @@
 
 namespace colchem {
 
-void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool with_spectrum) {
+void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool with_spectrum,
+                              bool with_enhancement) {
   nc.dimension("wavelength", model.bins());
   nc.variable("wavelength", {"wavelength"},
-              {"nm", "centre of the wavelength bin", "radiation_wavelength",
+              {"nm",
+               "centre of the wavelength bin",
+               "radiation_wavelength",
                {{"bounds", "wavelength_bounds"}}});
   nc.variable("wavelength_bounds", {"wavelength", "nv"}, {"nm", "wavelength bin edges", "", {}});
-  nc.variable("stellar_photon_flux", {"wavelength"},
-              {"cm-2 s-1 nm-1", "stellar photon flux at the top of the atmosphere (bin average)",
-               "", {}});
+  nc.variable(
+      "stellar_photon_flux", {"wavelength"},
+      {"cm-2 s-1 nm-1", "stellar photon flux at the top of the atmosphere (bin average)", "", {}});
   for (std::size_t c = 0; c < model.channels().size(); ++c) {
     const std::string& name = model.channels()[c];
     std::string long_name = "photolysis rate coefficient of channel " + name;
-    if (!model.channel_products()[c].empty()) long_name += " (-> " + model.channel_products()[c] + ")";
+    if (!model.channel_products()[c].empty())
+      long_name += " (-> " + model.channel_products()[c] + ")";
     nc.variable("J_" + name, {"altitude"}, {"s-1", long_name, "", {}});
+    if (with_enhancement) {
+      nc.variable("J_enhancement_" + name, {"altitude"},
+                  {"1", "J of channel " + name + " over its direct-beam value", "", {}});
+    }
   }
   if (with_spectrum) {
     nc.variable("actinic_flux", {"altitude", "wavelength"},
                 {"cm-2 s-1 nm-1",
-                 "direct-beam stellar photon flux (illumination-averaged, bin average)", "", {}});
+                 model.two_stream()
+                     ? "actinic flux: direct beam plus 2 (F_up + F_down) of the diffuse field "
+                       "(illumination-averaged, bin average)"
+                     : "direct-beam stellar photon flux (illumination-averaged, bin average)",
+                 "",
+                 {}});
+    if (model.two_stream()) {
+      nc.variable(
+          "diffuse_up", {"altitude", "wavelength"},
+          {"cm-2 s-1 nm-1", "upward diffuse photon flux at the cell centre (two-stream)", "", {}});
+      nc.variable("diffuse_down", {"altitude", "wavelength"},
+                  {"cm-2 s-1 nm-1",
+                   "downward diffuse photon flux at the cell centre (two-stream)",
+                   "",
+                   {}});
+    }
   }
 }
 
-void write_photolysis_output(NcWriter& nc, const PhotolysisModel& model,
-                             std::span<const double> J, std::span<const double> actinic_flux) {
+std::vector<double> enhancement_factors(std::span<const double> J,
+                                        std::span<const double> J_direct) {
+  std::vector<double> r(J.size(), 1.0);  // 1 where the direct beam gives no J at all
+  for (std::size_t i = 0; i < J.size() && i < J_direct.size(); ++i) {
+    if (J_direct[i] > 0.0) r[i] = J[i] / J_direct[i];
+  }
+  return r;
+}
+
+void write_photolysis_output(NcWriter& nc, const PhotolysisModel& model, std::span<const double> J,
+                             std::span<const double> actinic_flux,
+                             std::span<const double> J_direct) {
   const std::size_t N = model.levels();
   const std::size_t B = model.bins();
   if (J.size() != model.channels().size() * N) {
@@ -52,11 +85,24 @@ void write_photolysis_output(NcWriter& nc, const PhotolysisModel& model,
   for (std::size_t c = 0; c < model.channels().size(); ++c) {
     nc.put("J_" + model.channels()[c], J.subspan(c * N, N));
   }
-  if (!actinic_flux.empty()) nc.put("actinic_flux", actinic_flux);
+  if (!J_direct.empty()) {
+    const auto ratio = enhancement_factors(J, J_direct);
+    for (std::size_t c = 0; c < model.channels().size(); ++c) {
+      nc.put("J_enhancement_" + model.channels()[c],
+             std::span<const double>(ratio).subspan(c * N, N));
+    }
+  }
+  if (!actinic_flux.empty()) {
+    nc.put("actinic_flux", actinic_flux);
+    if (model.two_stream()) {
+      nc.put("diffuse_up", model.diffuse_up());
+      nc.put("diffuse_down", model.diffuse_down());
+    }
+  }
 }
 
 std::string format_jvalue_table(const PhotolysisModel& model, std::span<const double> J,
-                                const Grid& grid) {
+                                const Grid& grid, const std::string& unit) {
   const std::size_t N = model.levels();
   std::size_t width = 11;
   for (const auto& name : model.channels()) width = std::max(width, name.size() + 2);
@@ -64,7 +110,8 @@ std::string format_jvalue_table(const PhotolysisModel& model, std::span<const do
   for (const auto& name : model.channels()) out += fmt::format("{:>{}}", name, width);
   out += "\n";
   out += fmt::format("{:>10}", "");
-  for (std::size_t c = 0; c < model.channels().size(); ++c) out += fmt::format("{:>{}}", "[s-1]", width);
+  for (std::size_t c = 0; c < model.channels().size(); ++c)
+    out += fmt::format("{:>{}}", unit, width);
   out += "\n";
   for (std::size_t jj = N; jj-- > 0;) {  // top first, as the beam goes
     out += fmt::format("{:10.2f}", grid.center_cm[jj] / constants::kCmPerKm);

@@ -7,6 +7,8 @@
 #include <string>
 #include <vector>
 
+#include "photo/two_stream.hpp"
+
 namespace colchem {
 
 /// A function of wavelength tabulated at strictly increasing points; read as piecewise
@@ -99,7 +101,21 @@ struct IlluminationSpec {
 
 enum class SlantPath { kPlaneParallel, kSpherical };
 
+/// An optical property of the aerosol (single-scattering albedo or asymmetry parameter): a
+/// constant, a column of the aerosol's altitude table (linear in altitude, end values held,
+/// like the extinction), or a function of wavelength (bin-averaged, end values held).
+enum class OpticalPropertyForm { kConstant, kAltitude, kWavelength };
+
+struct OpticalPropertySpec {
+  OpticalPropertyForm form = OpticalPropertyForm::kConstant;
+  double value = 0.0;               ///< kConstant
+  std::vector<double> by_altitude;  ///< kAltitude: at AerosolSpec::altitude_cm
+  TabulatedSpectrum by_wavelength;  ///< kWavelength
+};
+
 /// Prescribed aerosol or cloud extinction: beta(z, lambda) = beta(z) (lambda_ref/lambda)^a.
+/// The direct-beam scheme counts all of it as lost from the beam; the two-stream scheme
+/// scatters the fraction omega (single-scattering albedo) with asymmetry parameter g.
 struct AerosolSpec {
   bool present = false;
   std::vector<double> altitude_cm;
@@ -107,6 +123,24 @@ struct AerosolSpec {
   double wavelength_exponent = 0.0;
   double reference_nm = 550.0;
   std::string source;
+  bool has_optical_properties = false;  ///< omega and g were given
+  OpticalPropertySpec single_scattering_albedo{OpticalPropertyForm::kConstant, 0.0, {}, {}};
+  OpticalPropertySpec asymmetry{OpticalPropertyForm::kConstant, 0.0, {}, {}};
+};
+
+enum class RadiativeTransferScheme { kDirectBeam, kTwoStream };
+
+/// How the light field is computed: the attenuated direct beam only (the default), or the
+/// direct beam plus a two-stream diffuse field over a Lambertian lower boundary
+/// (photo/two_stream.hpp).
+struct RadiativeTransferSpec {
+  RadiativeTransferScheme scheme = RadiativeTransferScheme::kDirectBeam;
+  TwoStreamClosure closure = TwoStreamClosure::kQuadrature;
+  bool delta_scaling = true;
+  /// Lambertian albedo of the lower boundary: `surface_albedo` unless the table has values
+  /// (bin-averaged, end values held).
+  double surface_albedo = 0.0;
+  TabulatedSpectrum surface_albedo_table;
 };
 
 struct PhotolysisSpec {
@@ -118,6 +152,7 @@ struct PhotolysisSpec {
   IlluminationSpec illumination;
   SlantPath slant_path = SlantPath::kPlaneParallel;
   AerosolSpec aerosol;
+  RadiativeTransferSpec radiative_transfer;
   std::string data_source;  ///< the data file, for provenance
 };
 

@@ -1,6 +1,8 @@
 // Benchmark (not a test): J-values for L levels x B bins x 30 absorbers (one channel each),
 // plane-parallel and spherical, fixed sun and an 8-point diurnal quadrature. Reports the
-// time per compute() call and the scaling when bins or levels double.
+// time per compute() call and the scaling when bins or levels double, then the two-stream
+// scheme (CO2 Rayleigh scattering, surface albedo 0.5) against the direct beam, both timed
+// in the same run.
 //   build/tests/bench/bench_photo
 #include <chrono>
 #include <cmath>
@@ -35,7 +37,7 @@ Background column(std::size_t levels) {
   return build_background(s);
 }
 
-PhotolysisSpec spec(std::size_t bins, SlantPath path, bool diurnal) {
+PhotolysisSpec spec(std::size_t bins, SlantPath path, bool diurnal, bool two_stream = false) {
   PhotolysisSpec p;
   for (std::size_t b = 0; b <= bins; ++b) p.bin_edges_nm.push_back(100.0 + 900.0 * static_cast<double>(b) / static_cast<double>(bins));
   p.spectrum.table = TabulatedSpectrum{{100.0, 400.0, 1000.0}, {1e10, 1e15, 5e14}, "invented"};
@@ -64,6 +66,10 @@ PhotolysisSpec spec(std::size_t bins, SlantPath path, bool diurnal) {
   }
   p.rayleigh.push_back(RayleighSpec{"CO2", 1.1e-26, 550.0, 4.0});
   p.slant_path = path;
+  if (two_stream) {
+    p.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+    p.radiative_transfer.surface_albedo = 0.5;
+  }
   if (diurnal) {
     p.illumination.form = IlluminationForm::kDiurnal;
     p.illumination.latitude_rad = 0.3;
@@ -75,11 +81,12 @@ PhotolysisSpec spec(std::size_t bins, SlantPath path, bool diurnal) {
   return p;
 }
 
-double time_call(std::size_t levels, std::size_t bins, SlantPath path, bool diurnal) {
+double time_call(std::size_t levels, std::size_t bins, SlantPath path, bool diurnal,
+                 bool two_stream = false) {
   const Background bg = column(levels);
   std::vector<std::string> names;
   for (int a = 0; a < 30; ++a) names.push_back(species_name(a));
-  PhotolysisModel m(spec(bins, path, diurnal), bg, names);
+  PhotolysisModel m(spec(bins, path, diurnal, two_stream), bg, names);
   std::vector<double> n(levels * 30), J(30 * levels);
   for (std::size_t j = 0; j < levels; ++j) {
     for (std::size_t s = 0; s < 30; ++s) n[j * 30 + s] = 1e9 * bg.air_density_cm3[j] / bg.air_density_cm3[0] * (1.0 + static_cast<double>(s));
@@ -112,6 +119,13 @@ int main() {
     std::printf("%-22s %7d %6d %12.3f\n", c.name, 120, 500, 1e3 * base);
     std::printf("%-22s %7d %6d %12.3f  (x%.2f for 2x bins)\n", c.name, 120, 1000, 1e3 * bins2, bins2 / base);
     std::printf("%-22s %7d %6d %12.3f  (x%.2f for 2x levels)\n", c.name, 240, 500, 1e3 * levels2, levels2 / base);
+  }
+  std::printf("\ntwo-stream against direct beam, 120 levels x 500 bins x 30 absorbers\n");
+  std::printf("%-22s %12s %12s %8s\n", "case", "direct ms", "2-stream ms", "ratio");
+  for (const auto& c : cases) {
+    const double direct = time_call(120, 500, c.path, c.diurnal);
+    const double two = time_call(120, 500, c.path, c.diurnal, true);
+    std::printf("%-22s %12.3f %12.3f %8.2f\n", c.name, 1e3 * direct, 1e3 * two, two / direct);
   }
   return 0;
 }

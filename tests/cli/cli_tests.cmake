@@ -99,6 +99,12 @@ add_test(NAME cli.run_tellin
           ${CMAKE_CURRENT_BINARY_DIR}/run_work)
 colchem_cli_test(help_photo 0 "--spectrum" $<TARGET_FILE:colchem> photo --help)
 colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml)
+colchem_cli_test(photo_two_stream 0 "enhancement of J over the direct beam"
+  $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
+  --set "photolysis.radiative_transfer={scheme: two_stream, surface_albedo: 0.3}")
+colchem_cli_test(photo_two_stream_bad 3 "no two-stream settings with 'scheme: direct_beam'"
+  $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
+  --set "photolysis.radiative_transfer={scheme: direct_beam, closure: eddington}")
 colchem_cli_test(run_unknown_species 3 "'species.SO3x': expected a species of the mechanism"
   $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --set species.SO3x.initial=1e-9)
 add_test(NAME cli.labcell
@@ -125,3 +131,8 @@ colchem_cli_test(resolve_two_levels 2 "--levels"
 add_test(NAME cli.resolve
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/resolve_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/resolve_work)
+# Pyrene cloud-top J-values with the two-stream scheme over an invented reflecting deck
+# against the direct beam (a Pyrene steady solve first; a few seconds).
+add_test(NAME validation.photo.pyrene_cloud_deck
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/photo/pyrene_cloud_deck/run ${CMAKE_BINARY_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/pyrene_deck_work)
