@@ -66,7 +66,10 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       return 0;
     }
 
-    const PetscSession petsc;
+    // PETSc (and MPI under it) only where a solver uses it: the coupled steady state. The
+    // split integrators need neither, so a transient starts without initialising MPI.
+    std::optional<PetscSession> petsc;
+    if (sc.solver.method == SolverMethod::kSteady) petsc.emplace();
     const InterruptGuard interrupt;
     // A checkpoint of this column and method continues exactly where it stopped; any other
     // file only gives the initial state (interpolated onto this grid), from the start time.
