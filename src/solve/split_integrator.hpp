@@ -82,7 +82,7 @@ struct SplitResult {
   std::string reason;
   std::vector<double> x;          ///< state at time_s
   double time_s = 0.0;
-  long steps = 0;  ///< accepted (steps_before included)
+  long steps = 0;                 ///< accepted (steps_before included)
   long rejected_steps = 0;
   double next_step_s = 0.0;       ///< the step the integrator would try next (a restart's)
   double residual_norm = 0.0;     ///< coupled ||F||_s of x, always evaluated
