@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <iostream>
+#include <optional>
 
 #include "analysis/observations.hpp"
 #include "analysis/score.hpp"
@@ -41,7 +42,9 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
   cmd->add_option("--set", o->sets, "Override a config value by its dotted key path, e.g. "
                                     "--set grid.cells=120 (repeatable)");
   cmd->add_option("--restart", o->restart,
-                  "Start from an earlier output or checkpoint (interpolated onto this grid)")
+                  "Continue from a checkpoint of this scenario (its model time, step and "
+                  "snapshots), or start from the state of any other run file (interpolated "
+                  "onto this grid)")
       ->check(CLI::ExistingFile);
   out.emplace_back(cmd, [o](Context& ctx) {
     const UnitSystem units;
@@ -63,24 +66,51 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       return 0;
     }
 
-    const PetscSession petsc;
+    // PETSc (and MPI under it) only where a solver uses it: the coupled steady state. The
+    // split integrators need neither, so a transient starts without initialising MPI.
+    std::optional<PetscSession> petsc;
+    if (sc.solver.method == SolverMethod::kSteady) petsc.emplace();
     const InterruptGuard interrupt;
-    std::vector<double> x0 = model.initial_state();
+    // A checkpoint of this column and method continues exactly where it stopped; any other
+    // file only gives the initial state (interpolated onto this grid), from the start time.
+    std::optional<RunCheckpoint> resume;
+    std::vector<double> x0;
     if (!o->restart.empty()) {
-      const std::size_t n = model.take_restart(o->restart, x0);
-      ctx.log->info("restart from {}: {} of {} species", o->restart, n, model.species_count());
+      RestartFile rf = read_checkpoint(o->restart, model, sc.solver.method);
+      resume = std::move(rf.checkpoint);
+      if (resume) {
+        if (resume->method == "steady") {
+          ctx.log->info(
+              "continuing the steady solve of {} after {} iterations, pseudo-time "
+              "step {:.4g} s",
+              o->restart, resume->iteration, resume->step_s);
+        } else {
+          ctx.log->info(
+              "continuing the {} run of {} at t = {:.6g} s after {} steps, next "
+              "step {:.4g} s",
+              resume->method, o->restart, resume->time_s, resume->iteration, resume->step_s);
+        }
+      } else {
+        x0 = model.initial_state();
+        const std::size_t n = model.take_restart(o->restart, x0);
+        ctx.log->info("initial state from {} ({}): {} of {} species; the run starts afresh",
+                      o->restart, rf.why_not, n, model.species_count());
+      }
+    } else {
+      x0 = model.initial_state();
     }
     const auto ckpt = checkpoint_path(sc.output.file);
     RunControls controls;
     controls.log = ctx.log.get();
     controls.stop_requested = interrupt.query();
-    controls.checkpoint = [&](long it, double t, const std::vector<double>& x) {
-      write_checkpoint(ckpt, sc, model, x, t, it, ctx.command_line);
+    controls.checkpoint = [&](const RunCheckpoint& cp) {
+      write_checkpoint(ckpt, sc, model, cp, ctx.command_line);
     };
-    RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
+    RunOutcome r = resume ? continue_column(model, sc.solver, *resume, controls)
+                          : run_column(model, sc.solver, std::move(x0), controls);
 
     if (r.status == SolveStatus::kInterrupted) {
-      write_checkpoint(ckpt, sc, model, r.x, r.time_s, r.iterations, ctx.command_line);
+      write_checkpoint(ckpt, sc, model, checkpoint_of(r), ctx.command_line);
       ctx.log->warn("interrupted (signal {}); checkpoint written to {}; continue with "
                     "--restart {}",
                     interrupt.signal_number(), ckpt.string(), ckpt.string());

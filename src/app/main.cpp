@@ -4,6 +4,8 @@
 //   colchem run configs/pyrene.yaml -o out.nc      run it and write CF NetCDF
 //   colchem <command> --help                       options of a command
 //
+// Built twice: as colchem-full (every command) and, with COLCHEM_LAUNCHER, as the launcher
+// colchem, which runs the commands that solve nothing and execs colchem-full for the others.
 // main() 1. builds the command line, 2. parses it, 3. runs the chosen command, 4. turns
 // every error into its documented exit code (README "Exit codes").
 #include <spdlog/sinks/stdout_color_sinks.h>
@@ -12,11 +14,17 @@
 #include <iostream>
 
 #include "app/commands.hpp"
+#include "app/launcher.hpp"
 #include "colchem/version.hpp"
 #include "core/error.hpp"
 
 int main(int argc, char** argv) {
   using namespace colchem;
+#ifdef COLCHEM_LAUNCHER
+  // 0. The launcher runs the light commands itself and hands the others to colchem-full
+  //    (app/launcher.hpp).
+  if (!app::launcher_runs(argc, argv)) return app::exec_full_program(argv);
+#endif
   // 1. Build the command line.
   CLI::App cli{"colchem: one-dimensional photochemistry and transport model for planetary "
                "atmospheres (research tool)."};
@@ -29,11 +37,15 @@ int main(int argc, char** argv) {
   cli.require_subcommand(1);
   std::vector<std::pair<CLI::App*, app::CommandAction>> commands;
   app::add_check_command(cli, commands);
+#ifndef COLCHEM_LAUNCHER
   app::add_run_command(cli, commands);
+#endif
   app::add_compare_command(cli, commands);
   app::add_budget_command(cli, commands);
+#ifndef COLCHEM_LAUNCHER
   app::add_sweep_command(cli, commands);
   app::add_resolve_command(cli, commands);
+#endif
   app::add_photo_command(cli, commands);
   app::add_box_command(cli, commands);
 

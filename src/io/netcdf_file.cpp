@@ -246,6 +246,16 @@ std::optional<std::string> NcReader::global_text(const std::string& name) const 
   return s;
 }
 
+std::optional<double> NcReader::global_number(const std::string& name) const {
+  std::size_t len = 0;
+  nc_type type = NC_NAT;
+  if (nc_inq_att(ncid_, NC_GLOBAL, name.c_str(), &type, &len) != NC_NOERR) return std::nullopt;
+  if (type == NC_CHAR || type == NC_STRING || len == 0) return std::nullopt;
+  std::vector<double> v(len);
+  check(nc_get_att_double(ncid_, NC_GLOBAL, name.c_str(), v.data()), name);
+  return v.front();
+}
+
 std::optional<std::string> NcReader::var_text(const std::string& var,
                                               const std::string& att) const {
   const int id = varid(var);

@@ -78,6 +78,8 @@ class NcReader {
   [[nodiscard]] std::vector<std::size_t> shape(const std::string& var) const;
   [[nodiscard]] std::vector<std::string> read_strings(const std::string& var) const;
   [[nodiscard]] std::optional<std::string> global_text(const std::string& name) const;
+  /// A numeric global attribute (its first value), or nullopt if there is none.
+  [[nodiscard]] std::optional<double> global_number(const std::string& name) const;
   [[nodiscard]] std::optional<std::string> var_text(const std::string& var,
                                                     const std::string& att) const;
   [[nodiscard]] std::size_t dimension(const std::string& name) const;

@@ -1,6 +1,9 @@
 #include "io/run_output.hpp"
 
+#include <cmath>
+
 #include "core/constants.hpp"
+#include "core/error.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
 #include "io/score_output.hpp"
@@ -19,6 +22,37 @@ BudgetInputs budget_inputs(const ColumnModel& model, const ColumnDiagnostics& d)
   in.transport_tendency = d.transport_tendency;
   in.net_tendency = d.net_tendency;
   return in;
+}
+
+void define_snapshots(NcWriter& nc, std::size_t count) {
+  if (count == 0) return;
+  nc.dimension("snapshot", count);
+  nc.variable("snapshot_time", {"snapshot"}, {"s", "model time of the snapshot", "time", {}});
+  nc.variable("snapshot_number_density", {"snapshot", "species", "altitude"},
+              {"cm-3", "number density at the snapshot time", "", {}});
+  nc.variable("snapshot_column_density", {"snapshot", "species"},
+              {"cm-2", "column density at the snapshot time", "", {}});
+}
+
+void write_snapshots(NcWriter& nc, const Background& bg, std::size_t S,
+                     const std::vector<double>& times,
+                     const std::vector<std::vector<double>>& snapshots) {
+  if (snapshots.empty()) return;
+  const std::size_t N = bg.grid.cells();
+  nc.put("snapshot_time", times);
+  std::vector<double> snd, scol;
+  for (const auto& x : snapshots) {
+    for (std::size_t s = 0; s < S; ++s) {
+      double col = 0.0;
+      for (std::size_t j = 0; j < N; ++j) {
+        snd.push_back(x[j * S + s]);
+        col += x[j * S + s] * bg.grid.width_cm(j);
+      }
+      scol.push_back(col);
+    }
+  }
+  nc.put("snapshot_number_density", snd);
+  nc.put("snapshot_column_density", scol);
 }
 
 void write_status(NcWriter& nc, const RunOutcome& o) {
@@ -49,7 +83,7 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
                     const RunOutcome& o, const std::string& command_line,
                     const std::vector<SpeciesScore>& scores) {
   const Background& bg = model.background();
-  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t S = model.species_count();
   NcWriter nc(file);
   write_provenance(nc, sc, command_line);
   write_status(nc, o);
@@ -86,14 +120,7 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.variable("element_relative_imbalance", {"element"},
                 {"1", "|imbalance| / gross (sum of magnitudes of every column term)", "", {}});
     if (model.photolysis()) define_photolysis_output(nc, *model.photolysis(), false);
-    if (!o.snapshots.empty()) {
-      nc.dimension("snapshot", o.snapshots.size());
-      nc.variable("snapshot_time", {"snapshot"}, {"s", "model time of the snapshot", "time", {}});
-      nc.variable("snapshot_number_density", {"snapshot", "species", "altitude"},
-                  {"cm-3", "number density at the snapshot time", "", {}});
-      nc.variable("snapshot_column_density", {"snapshot", "species"},
-                  {"cm-2", "column density at the snapshot time", "", {}});
-    }
+    define_snapshots(nc, o.snapshots.size());
   }
   nc.dimension("iteration", o.history.size());
   nc.variable("history_residual_norm", {"iteration"}, {"1", "scaled coupled residual", "", {}});
@@ -136,22 +163,7 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.put("element_imbalance", im);
     nc.put("element_relative_imbalance", rel);
     if (model.photolysis()) write_photolysis_output(nc, *model.photolysis(), model.jvalues(), {});
-    if (!o.snapshots.empty()) {
-      nc.put("snapshot_time", o.snapshot_times_s);
-      std::vector<double> snd, scol;
-      for (const auto& x : o.snapshots) {
-        for (std::size_t s = 0; s < S; ++s) {
-          double col = 0.0;
-          for (std::size_t j = 0; j < N; ++j) {
-            snd.push_back(x[j * S + s]);
-            col += x[j * S + s] * bg.grid.width_cm(j);
-          }
-          scol.push_back(col);
-        }
-      }
-      nc.put("snapshot_number_density", snd);
-      nc.put("snapshot_column_density", scol);
-    }
+    write_snapshots(nc, bg, S, o.snapshot_times_s, o.snapshots);
   }
   std::vector<double> hr, hs, hc, ht, hw;
   for (const auto& h : o.history) {
@@ -171,19 +183,88 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
 }
 
 void write_checkpoint(const std::filesystem::path& file, const Scenario& sc,
-                      const ColumnModel& model, const std::vector<double>& x, double time_s,
-                      long iteration, const std::string& command_line) {
+                      const ColumnModel& model, const RunCheckpoint& cp,
+                      const std::string& command_line) {
+  const Background& bg = model.background();
   NcWriter nc(file);
   write_provenance(nc, sc, command_line);
   nc.global_text("colchem_solver_status", "checkpoint");
-  nc.global_number("colchem_model_time_s", time_s);
-  nc.global_number("colchem_iterations", static_cast<double>(iteration));
-  define_background(nc, model.background());
+  nc.global_text("colchem_solver_method", cp.method);
+  nc.global_number("colchem_model_time_s", cp.time_s);
+  nc.global_number("colchem_iterations", static_cast<double>(cp.iteration));
+  nc.global_number("colchem_step_s", cp.step_s);
+  define_background(nc, bg);
   define_species(nc, model.species());
+  define_snapshots(nc, cp.snapshots.size());
   nc.end_definitions();
-  write_background_data(nc, model.background());
-  write_species_data(nc, model.background(), model.species(), x);
+  write_background_data(nc, bg);
+  write_species_data(nc, bg, model.species(), cp.x);
+  write_snapshots(nc, bg, model.species_count(), cp.snapshot_times_s, cp.snapshots);
   nc.commit();
+}
+
+RestartFile read_checkpoint(const std::filesystem::path& file, const ColumnModel& model,
+                            SolverMethod method) {
+  const NcReader nc(file);
+  RestartFile out;
+  if (nc.global_text("colchem_solver_status") != std::optional<std::string>("checkpoint")) {
+    out.why_not = "not a checkpoint";
+    return out;
+  }
+  const auto written_by = nc.global_text("colchem_solver_method");
+  const auto time_s = nc.global_number("colchem_model_time_s");
+  const auto iterations = nc.global_number("colchem_iterations");
+  const auto step_s = nc.global_number("colchem_step_s");
+  if (!written_by || !time_s || !iterations || !step_s) {
+    out.why_not = "a checkpoint without the solver's position (older colchem)";
+    return out;
+  }
+  if (*written_by != method_name(method)) {
+    out.why_not = "a checkpoint of method " + *written_by + ", this run is " + method_name(method);
+    return out;
+  }
+  const ModelColumn old = read_model_column(nc);
+  const std::vector<double>& edges = model.background().grid.edge_cm;
+  bool same_grid = old.edge_cm.size() == edges.size();
+  for (std::size_t e = 0; same_grid && e < edges.size(); ++e) {
+    same_grid = std::abs(old.edge_cm[e] - edges[e]) <= 1e-12 * std::abs(edges[e]) + 1e-9;
+  }
+  if (!same_grid) {
+    out.why_not = "a checkpoint on another grid";
+    return out;
+  }
+  if (old.species != model.species()) {
+    out.why_not = "a checkpoint with other species";
+    return out;
+  }
+  const std::size_t S = model.species_count(), N = model.cells();
+  RunCheckpoint cp;
+  cp.method = *written_by;
+  cp.iteration = static_cast<long>(*iterations);
+  cp.time_s = *time_s;
+  cp.step_s = *step_s;
+  cp.x.resize(S * N);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) cp.x[j * S + s] = old.number_density[s * N + j];
+  }
+  if (nc.has_variable("snapshot_time")) {
+    cp.snapshot_times_s = nc.read("snapshot_time");
+    const std::vector<double> snd = nc.read("snapshot_number_density");
+    if (snd.size() != cp.snapshot_times_s.size() * S * N) {
+      throw InputError(ExitCode::kInputData, SourceLocation{file.string()},
+                       "snapshot_number_density", "a (snapshot, species, altitude) variable",
+                       "a different shape");
+    }
+    for (std::size_t k = 0; k < cp.snapshot_times_s.size(); ++k) {
+      std::vector<double> x(S * N);
+      for (std::size_t s = 0; s < S; ++s) {
+        for (std::size_t j = 0; j < N; ++j) x[j * S + s] = snd[(k * S + s) * N + j];
+      }
+      cp.snapshots.push_back(std::move(x));
+    }
+  }
+  out.checkpoint = std::move(cp);
+  return out;
 }
 
 }  // namespace colchem

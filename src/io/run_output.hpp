@@ -4,6 +4,7 @@
 #pragma once
 
 #include <filesystem>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -24,9 +25,23 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
                     const RunOutcome& outcome, const std::string& command_line,
                     const std::vector<SpeciesScore>& scores);
 
-/// A checkpoint: the same layout, status "checkpoint", without diagnostics.
+/// A checkpoint: the layout of a run file without diagnostics (background, species,
+/// number densities, snapshots so far), status "checkpoint", and where the solver stood:
+/// `colchem_solver_method`, `colchem_model_time_s`, `colchem_iterations` and
+/// `colchem_step_s` (RunCheckpoint::step_s).
 void write_checkpoint(const std::filesystem::path& file, const Scenario& sc,
-                      const ColumnModel& model, const std::vector<double>& x, double time_s,
-                      long iteration, const std::string& command_line);
+                      const ColumnModel& model, const RunCheckpoint& cp,
+                      const std::string& command_line);
+
+/// Reading a file given to `run --restart`: `checkpoint` is set when the file is a
+/// checkpoint of this column (the same cell edges to 1e-12 relative and the same species in
+/// the same order) written by a run of `method`, and `why_not` says otherwise why the file
+/// can only give an initial state (a run file, another grid, another method, ...).
+struct RestartFile {
+  std::optional<RunCheckpoint> checkpoint;
+  std::string why_not;
+};
+RestartFile read_checkpoint(const std::filesystem::path& file, const ColumnModel& model,
+                            SolverMethod method);
 
 }  // namespace colchem

@@ -14,11 +14,26 @@
 
 namespace colchem {
 
+/// What an exact restart needs: the state and where the solver stood when it was taken.
+/// Injections are not recorded: those at times before time_s (or at the start time) are in
+/// x, the solver applies the others when it crosses them.
+struct RunCheckpoint {
+  std::string method;   ///< "steady", "transient", "split_steady"
+  long iteration = 0;   ///< linear solves (steady) or accepted steps (split) so far
+  double time_s = 0.0;  ///< model time of x (split; 0 for steady)
+  /// Split: the next time step the integrator would try. Steady: the pseudo-time step of the
+  /// last step taken (the restart's first pseudo-time step). 0: unknown (no step taken).
+  double step_s = 0.0;
+  std::vector<double> x;                 ///< state n[j*S + s]
+  std::vector<double> snapshot_times_s;  ///< snapshots already taken (split)
+  std::vector<std::vector<double>> snapshots;
+};
+
 struct RunControls {
   spdlog::logger* log = nullptr;        ///< progress lines (none when null)
   std::function<bool()> stop_requested;  ///< interrupts
-  /// Periodic checkpoints: (iteration or step, time, state).
-  std::function<void(long, double, const std::vector<double>&)> checkpoint;
+  /// Periodic checkpoints (every solver.checkpoint_every iterations or steps).
+  std::function<void(const RunCheckpoint&)> checkpoint;
 };
 
 /// One row of the convergence history, for either solver.
@@ -37,6 +52,7 @@ struct RunOutcome {
   std::string reason;
   std::vector<double> x;         ///< final state n[j*S + s]
   double time_s = 0.0;           ///< model time of x (transient)
+  double step_s = 0.0;           ///< as RunCheckpoint::step_s, for a checkpoint of x
   long iterations = 0;
   double residual_norm = 0.0;    ///< coupled scaled residual of x, always evaluated
   ColumnBalance balance;         ///< column balance of x, always evaluated
@@ -53,6 +69,20 @@ struct RunOutcome {
 /// Solves the column from x0 with the scenario's solver settings.
 RunOutcome run_column(ColumnModel& model, const SolverSpec& solver, std::vector<double> x0,
                       const RunControls& controls);
+
+/// Continues a run from its checkpoint (same column and method): the split integrator at the
+/// checkpoint's model time with its step, the snapshots already taken kept; the steady
+/// solver with the checkpoint's pseudo-time step as its first. Iterations and steps count
+/// on from the checkpoint's, against the same limits. Throws RunError(kInternal) if the
+/// checkpoint's method or state size does not fit.
+RunOutcome continue_column(ColumnModel& model, const SolverSpec& solver, const RunCheckpoint& from,
+                           const RunControls& controls);
+
+/// The checkpoint of an outcome (for example an interrupted one).
+RunCheckpoint checkpoint_of(const RunOutcome& outcome);
+
+/// "steady", "transient" or "split_steady".
+const char* method_name(SolverMethod method);
 
 /// The coupled scaled residual of any state (photolysis refreshed from it first).
 double coupled_residual(ColumnModel& model, const SolverSpec& solver, std::span<const double> x,

@@ -1,11 +1,42 @@
 // PetscSession and check(): see petsc_session.hpp.
 #include "solve/petsc_session.hpp"
 
+#include <cstdlib>
 #include <string>
 
 #include "core/error.hpp"
 
 namespace colchem {
+
+namespace {
+
+/// True when a launcher (mpirun, srun with PMIx or PMI) started this process.
+bool launched_by_mpirun() {
+  for (const char* v : {"OMPI_COMM_WORLD_SIZE", "PMIX_RANK", "PMI_RANK", "PMI_SIZE"}) {
+    if (std::getenv(v) != nullptr) return true;
+  }
+  return false;
+}
+
+/// A process started without mpirun is an MPI singleton. Open MPI would start a helper
+/// daemon for it (in case it spawns processes) and open and probe every transport, which
+/// takes most of a short run's start-up. colchem never spawns and a singleton talks only to
+/// itself, so it asks for an isolated singleton with the self transport (shared-memory
+/// one-sided windows for the sweep counter). Only where the user has not set these.
+void prefer_light_singleton() {
+  if (launched_by_mpirun()) return;
+  int initialized = 0;
+  MPI_Initialized(&initialized);
+  if (initialized) return;
+  const char* const settings[][2] = {{"OMPI_MCA_ess_singleton_isolated", "1"},
+                                     {"OMPI_MCA_pml", "ob1"},
+                                     {"OMPI_MCA_btl", "self"},
+                                     {"OMPI_MCA_osc", "sm"},
+                                     {"OMPI_MCA_coll", "self,basic,libnbc"}};
+  for (const auto& s : settings) setenv(s[0], s[1], 0);
+}
+
+}  // namespace
 
 PetscSession::PetscSession() { start(nullptr, nullptr); }
 
@@ -15,6 +46,7 @@ void PetscSession::start(int* argc, char*** argv) {
   PetscBool already = PETSC_FALSE;
   check(PetscInitialized(&already), "PetscInitialized");
   if (already) return;
+  prefer_light_singleton();
   // No help text of our own: "-help" lists PETSc's options, ours are in the scenario.
   check(PetscInitialize(argc, argv, nullptr, nullptr), "PetscInitialize");
   owns_ = true;

@@ -6,6 +6,10 @@
 // colchem goes through check(), which turns an error code into a RunError carrying PETSc's
 // message instead of aborting the process: the session installs PetscReturnErrorHandler so
 // that PETSc returns error codes rather than printing a trace and calling MPI_Abort.
+// A process not started by mpirun gets Open MPI's light singleton settings (an isolated
+// singleton, self transport) unless the user set OMPI_MCA_* values of their own; a command
+// creates its session only when it solves with PETSc, so `check` and split runs never
+// initialise MPI.
 #pragma once
 
 #include <petscsys.h>

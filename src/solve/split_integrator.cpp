@@ -58,6 +58,8 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
   res.x = std::move(x0);
   std::vector<double>& x = res.x;
   res.time_s = o.start_s;
+  res.steps = o.steps_before;
+  res.snapshots = o.snapshots_before;
 
   // Times to land on exactly, in order, within (start, end].
   std::vector<double> stops;
@@ -71,15 +73,16 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
            o.output_times_s.end();
   };
 
+  double dt_want = std::min(o.step_s, o.max_step_s);
   auto finish = [&](SolveStatus st, std::string why) {
     res.status = st;
+    res.next_step_s = dt_want;
     res.residual_norm = scaled_residual_norm(system_, x, o.scale, res.time_s).value;
     res.reason = std::move(why) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
     res.wall_s = since(t_start);
     return res;
   };
 
-  double dt_want = std::min(o.step_s, o.max_step_s);
   std::size_t next_stop = 0;
   std::vector<double> x1, x2;
   while (true) {
@@ -154,7 +157,7 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
     if (cb.on_step) cb.on_step(rec);
     if (hits_stop && is_output(stop)) res.snapshots.push_back(SplitSnapshot{stop, x});
     if (o.checkpoint_every > 0 && cb.checkpoint && res.steps % o.checkpoint_every == 0) {
-      cb.checkpoint(res.steps, t_new, x);
+      cb.checkpoint(res, dt_want);
     }
     if (check_steady && rec.residual_norm < o.steady_tolerance) {
       return finish(SolveStatus::kConverged, "coupled scaled residual " +

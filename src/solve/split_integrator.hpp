@@ -26,6 +26,11 @@
 
 namespace colchem {
 
+struct SplitSnapshot {
+  double time_s = 0.0;
+  std::vector<double> x;
+};
+
 struct SplitOptions {
   double start_s = 0.0;
   double end_s = 0.0;
@@ -39,8 +44,10 @@ struct SplitOptions {
   bool to_steady_state = false;        ///< stop when ||F||_s < steady_tolerance
   double steady_tolerance = 1e-8;
   int steady_check_every = 1;          ///< accepted steps between residual checks
-  long max_steps = 10000000;
+  long max_steps = 10000000;           ///< on the step count, steps_before included
   int checkpoint_every = 0;            ///< accepted steps between checkpoints (0: never)
+  long steps_before = 0;               ///< accepted steps of the run this one continues
+  std::vector<SplitSnapshot> snapshots_before;  ///< its snapshots (kept in the result)
   ResidualScale scale;
 };
 
@@ -53,10 +60,7 @@ struct SplitStepRecord {
   double wall_s = 0.0;
 };
 
-struct SplitSnapshot {
-  double time_s = 0.0;
-  std::vector<double> x;
-};
+struct SplitResult;
 
 struct SplitCallbacks {
   /// Called with (state, time) before each chemistry sub-step (photolysis rates).
@@ -68,8 +72,9 @@ struct SplitCallbacks {
   std::function<void(double, double, std::vector<double>&)> on_time_crossed;
   /// Called after each accepted step (progress display).
   std::function<void(const SplitStepRecord&)> on_step;
-  /// Called every checkpoint_every accepted steps with (step, time, state).
-  std::function<void(long, double, const std::vector<double>&)> checkpoint;
+  /// Called every checkpoint_every accepted steps with the run so far (steps, time_s, x,
+  /// snapshots; status and residual not yet set) and the next step the integrator will try.
+  std::function<void(const SplitResult&, double)> checkpoint;
 };
 
 struct SplitResult {
@@ -77,8 +82,9 @@ struct SplitResult {
   std::string reason;
   std::vector<double> x;          ///< state at time_s
   double time_s = 0.0;
-  long steps = 0;                 ///< accepted
+  long steps = 0;                 ///< accepted (steps_before included)
   long rejected_steps = 0;
+  double next_step_s = 0.0;       ///< the step the integrator would try next (a restart's)
   double residual_norm = 0.0;     ///< coupled ||F||_s of x, always evaluated
   std::vector<SplitSnapshot> snapshots;
   std::vector<SplitStepRecord> history;

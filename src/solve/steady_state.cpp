@@ -282,7 +282,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     record(dtau, lambda);
 
     if (o.checkpoint_every > 0 && cb.checkpoint && res.iterations % o.checkpoint_every == 0) {
-      cb.checkpoint(res.iterations, x);
+      cb.checkpoint(res.iterations, dtau, x);
     }
   }
 }

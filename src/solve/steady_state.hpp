@@ -87,8 +87,9 @@ struct SteadyStateCallbacks {
   std::function<bool()> stop_requested;
   /// Called after each residual evaluation (progress display).
   std::function<void(const SteadyIteration&)> on_iteration;
-  /// Called every checkpoint_every iterations with (iteration, state).
-  std::function<void(int, const std::vector<double>&)> checkpoint;
+  /// Called every checkpoint_every iterations with (iteration, pseudo-time step of the step
+  /// just taken, state); a restart passes that step as initial_pseudo_step_s.
+  std::function<void(int, double, const std::vector<double>&)> checkpoint;
 };
 
 struct SteadyStateResult {

@@ -97,6 +97,10 @@ colchem_cli_test(help_sweep 0 "mpirun" $<TARGET_FILE:colchem> sweep --help)
 add_test(NAME cli.run_tellin
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/run_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/run_work)
+# Exact restarts from checkpoints (an invented six-cell column; a few seconds).
+add_test(NAME cli.restart
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/restart_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/restart_work)
 colchem_cli_test(help_photo 0 "--spectrum" $<TARGET_FILE:colchem> photo --help)
 colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml)
 colchem_cli_test(photo_two_stream 0 "enhancement of J over the direct beam"

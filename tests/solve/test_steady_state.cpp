@@ -182,7 +182,7 @@ TEST_CASE("PTC: a stiff oxygen-like cycle converges from a cold start, positive 
     o.checkpoint_every = 5;
     std::vector<int> at;
     SteadyStateCallbacks c2;
-    c2.checkpoint = [&](int it, const std::vector<double>&) { at.push_back(it); };
+    c2.checkpoint = [&](int it, double, const std::vector<double>&) { at.push_back(it); };
     const SteadyStateResult f = SteadyStateSolver(sys, o).solve(x0, c2);
     REQUIRE(f.converged());
     REQUIRE(at.size() == static_cast<std::size_t>(f.iterations / 5));

@@ -1,0 +1,36 @@
+// summarize_run (summary.hpp): kept apart from the scenario summary because it reads the
+// solver's status, so that the launcher (`check` and the other light commands) does not
+// link the solvers.
+#include <fmt/format.h>
+
+#include "app/summary.hpp"
+#include "io/run_output.hpp"
+
+namespace colchem::app {
+
+std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutcome& r) {
+  std::string s = fmt::format(
+      "{}: {} {} after {} {} ({:.2f} s); coupled residual {:.2e}; column balance {:.2e} ({})\n",
+      sc.name, r.method, to_string(r.status), r.iterations,
+      r.method == "steady" ? "iterations" : "steps", r.wall_s, r.residual_norm, r.balance.worst,
+      model.species()[r.balance.worst_species]);
+  if (!r.ok()) s += "  reason: " + r.reason + "\n";
+  model.refresh_photolysis(r.x);
+  const ColumnDiagnostics d = model.diagnostics(r.x, r.time_s);
+  s += "element budgets (cm-2 s-1): element, boundary in, sinks, held supply, imbalance (relative)\n";
+  for (const auto& b : column_element_budgets(model, d)) {
+    s += fmt::format("  {:<3} {:+11.3e} {:+11.3e} {:+11.3e} {:+11.3e} ({:.1e})\n", b.element,
+                     b.boundary_in, b.sinks, b.held_supply, b.imbalance, b.relative_imbalance);
+  }
+  const std::size_t S = model.species_count(), N = model.cells();
+  const auto& bg = model.background();
+  s += "mole fractions: species, bottom cell, middle cell, top cell\n";
+  for (std::size_t k = 0; k < S; ++k) {
+    if (model.held(k)) continue;
+    const auto f = [&](std::size_t j) { return r.x[j * S + k] / bg.air_density_cm3[j]; };
+    s += fmt::format("  {:<10} {:10.3e} {:10.3e} {:10.3e}\n", model.species()[k], f(0), f(N / 2), f(N - 1));
+  }
+  return s;
+}
+
+}  // namespace colchem::app
