@@ -2,12 +2,14 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/interp.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
+#include "solve/residual_norm.hpp"
 
 namespace colchem {
 
@@ -166,7 +168,8 @@ ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
                                           double reference_time_s) {
   const std::size_t S = species_count(), N = cells();
   ColumnBalance out;
-  std::vector<double> f(N * S, 0.0), cond(N * S, 0.0), gross(S, 0.0), imbalance(S, 0.0);
+  std::vector<double> f(N * S, 0.0), cond(N * S, 0.0), gross(S, 0.0), imbalance(S, 0.0),
+      exchange(S, 0.0);
   transport_->add_tendency(x, t, f);
   if (chemistry_) {
     chemistry_->add_tendency(x, t, f);
@@ -180,8 +183,18 @@ ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
       }
     }
   }
+  BlockTridiagonal jac(N, S);
+  evaluate_jacobian(system(), x, t, jac);
+  std::vector<double> w(N * S);
+  ResidualScale scale;
+  scale.absolute_density_cm3 = absolute_density_cm3;
+  scale.reference_time_s = reference_time_s;
+  residual_weights(jac, x, scale, w);
   for (std::size_t j = 0; j < N; ++j) {
-    for (std::size_t s = 0; s < S; ++s) imbalance[s] += std::abs(f[j * S + s]) * bg_.grid.width_cm(j);
+    for (std::size_t s = 0; s < S; ++s) {
+      imbalance[s] += std::abs(f[j * S + s]) * bg_.grid.width_cm(j);
+      exchange[s] += w[j * S + s] * bg_.grid.width_cm(j);
+    }
   }
   const auto ends = transport_->boundary_fluxes(x, t);
   const double height = bg_.grid.edge_cm.back() - bg_.grid.edge_cm.front();
@@ -189,7 +202,8 @@ ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
     if (held_[s]) continue;
     const double ref = gross[s] + std::abs(ends[s].bottom) + std::abs(ends[s].top) +
                        absolute_density_cm3 * height / reference_time_s;
-    const double b = imbalance[s] / ref;
+    const double roundoff = 1e3 * std::numeric_limits<double>::epsilon() * exchange[s];
+    const double b = std::max(0.0, imbalance[s] - roundoff) / ref;
     if (!(b <= out.worst)) {  // NaN wins
       out.worst = b;
       out.worst_species = s;
