@@ -118,7 +118,7 @@ add_test(NAME cli.labcell
 # The Tellin SO2 injection (a 130-day transient; several minutes).
 add_test(NAME validation.worlds.tellin_injection
   COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/run.sh $<TARGET_FILE:colchem>)
-set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400
+set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400 LABELS slow
   ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_tellin_injection.nc")
 
 # The cold thin world of validation/solve/thin_world_convergence loads and converges on its
@@ -140,3 +140,8 @@ add_test(NAME cli.resolve
 add_test(NAME validation.photo.pyrene_cloud_deck
   COMMAND ${CMAKE_SOURCE_DIR}/validation/photo/pyrene_cloud_deck/run ${CMAKE_BINARY_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/pyrene_deck_work)
+# Pyrene converges at 54 and 108 cells from the cold start, with a quadratic end phase
+# (Newton-Krylov with the photolysis coupling; about 10 s).
+add_test(NAME cli.pyrene_newton
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/pyrene_newton_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/pyrene_newton_work)
