@@ -10,10 +10,11 @@ namespace colchem::app {
 
 std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutcome& r) {
   std::string s = fmt::format(
-      "{}: {} {} after {} {} ({:.2f} s); coupled residual {:.2e}; column balance {:.2e} ({})\n",
+      "{}: {} {} after {} {} ({:.2f} s); coupled residual {:.2e}; column balance {:.2e}{}\n",
       sc.name, r.method, to_string(r.status), r.iterations,
       r.method == "steady" ? "iterations" : "steps", r.wall_s, r.residual_norm, r.balance.worst,
-      model.species()[r.balance.worst_species]);
+      r.balance.worst > 0.0 ? " (" + model.species()[r.balance.worst_species] + ")"
+                            : " (every species within round-off)");
   if (!r.ok()) s += "  reason: " + r.reason + "\n";
   model.refresh_photolysis(r.x);
   const ColumnDiagnostics d = model.diagnostics(r.x, r.time_s);
