@@ -2,7 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
+#include <fmt/format.h>
 #include <memory>
 
 #include "core/error.hpp"
@@ -36,12 +36,6 @@ RunCheckpoint checkpoint_of(const RunOutcome& o) {
 
 namespace {
 
-std::string sci(double v) {
-  char buf[32];
-  std::snprintf(buf, sizeof buf, "%.3g", v);
-  return buf;
-}
-
 /// Why x is no acceptable steady state, or "" (the solver's reject_reason).
 std::string balance_defect(ColumnModel& model, const SolverSpec& solver,
                            std::span<const double> x) {
@@ -49,13 +43,13 @@ std::string balance_defect(ColumnModel& model, const SolverSpec& solver,
       model.column_balance(x, 0.0, solver.absolute_density_cm3, solver.reference_time_s);
   const auto& names = model.species();
   if (!(b.max_mole_fraction <= 1.0)) {
-    return "mole fraction of " + names[b.max_species] + " is " + sci(b.max_mole_fraction) +
-           " at " + sci(model.background().grid.center_cm[b.max_cell] * 1e-5) +
-           " km: no physical steady state";
+    return fmt::format("mole fraction of {} is {:.3g} at {:.4g} km: no physical steady state",
+                       names[b.max_species], b.max_mole_fraction,
+                       model.background().grid.center_cm[b.max_cell] * 1e-5);
   }
   if (!(b.worst <= solver.balance_tolerance)) {
-    return "column balance of " + names[b.worst_species] + " is " + sci(b.worst) + " > " +
-           sci(solver.balance_tolerance);
+    return fmt::format("column balance of {} is {:.3g} > {:.3g}", names[b.worst_species],
+                       b.worst, solver.balance_tolerance);
   }
   return "";
 }

@@ -2,15 +2,14 @@
 #include "solve/column_system.hpp"
 
 #include <algorithm>
-#include <cstdio>
+#include <fmt/format.h>
 
 namespace colchem {
 
 std::string describe_entry(const ColumnSystem& sys, std::size_t cell, std::size_t species) {
   if (species < sys.species_names.size() && cell < sys.altitude_km.size()) {
-    char buf[48];
-    std::snprintf(buf, sizeof buf, "%.4g km", sys.altitude_km[cell]);
-    return sys.species_names[species] + " at " + buf + " (cell " + std::to_string(cell) + ")";
+    return fmt::format("{} at {:.4g} km (cell {})", sys.species_names[species],
+                       sys.altitude_km[cell], cell);
   }
   return "cell " + std::to_string(cell) + ", species " + std::to_string(species);
 }
