@@ -14,6 +14,8 @@
 
 #include <petscsys.h>
 
+#include <string>
+
 namespace colchem {
 
 class PetscSession {
@@ -33,6 +35,7 @@ class PetscSession {
  private:
   void start(int* argc, char*** argv);
   bool owns_ = false;
+  std::string session_dir_;  ///< private Open MPI session-directory base, removed at the end
 };
 
 /// Throws RunError(ExitCode::kInternal) naming `what` and PETSc's message if ierr != 0.
