@@ -1,6 +1,7 @@
 // Shared helpers for the Catch2 tests.
 #pragma once
 
+#include <catch2/catch.hpp>
 #include <mpi.h>
 
 #include <functional>
@@ -26,6 +27,19 @@ inline std::string error_of(const std::function<void()>& f) {
     return e.what();
   }
   return "no error";
+}
+
+/// The message of the InputError that f throws, checking that it names a line; fails the
+/// test when f throws none.
+inline std::string located_error_of(const std::function<void()>& f) {
+  try {
+    f();
+  } catch (const colchem::InputError& e) {
+    CHECK(e.where().line > 0);
+    return e.what();
+  }
+  FAIL("no InputError");
+  return {};
 }
 
 }  // namespace colchem_test

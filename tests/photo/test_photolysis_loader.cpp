@@ -9,6 +9,7 @@
 #include "io/config_node.hpp"
 #include "io/photolysis_loader.hpp"
 #include "photo_test_support.hpp"
+#include "../test_support.hpp"
 
 using namespace colchem;
 
@@ -25,19 +26,6 @@ PhotolysisSpec load_section(const std::string& name, const std::string& yaml) {
 
 std::string table_xs() {
   return "# invented test table\nwavelength [nm], cross_section [cm2]\n200, 1e-18\n210, 2e-18\n";
-}
-
-/// Runs `f`, expects an InputError, returns its message and checks it names a line.
-template <class F>
-std::string error_of(F f) {
-  try {
-    f();
-  } catch (const InputError& e) {
-    CHECK(e.where().line > 0);
-    return e.what();
-  }
-  FAIL("no InputError");
-  return {};
 }
 
 }  // namespace
@@ -109,47 +97,47 @@ TEST_CASE("bad photolysis inputs are InputErrors naming file, line and key", "[p
   SECTION("misspelt key with a suggestion") {
     test::write_file("d1.yaml", "absorbers:\n  - {species: A, cross_section: xs.csv}\n"
                                 "channels:\n  - {name: A_1, absorber: A, quantum_yeild: 1}\n");
-    const auto msg = error_of([&] { load_section("s1.yaml", section("d1.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s1.yaml", section("d1.yaml")); });
     CHECK(msg.find("d1.yaml") != std::string::npos);
     CHECK(msg.find("did you mean 'quantum_yield'") != std::string::npos);
   }
   SECTION("a channel naming an undeclared absorber") {
     test::write_file("d2.yaml", "absorbers:\n  - {species: SO2, cross_section: xs.csv}\n"
                                 "channels:\n  - {name: X, absorber: SO3, quantum_yield: 1}\n");
-    const auto msg = error_of([&] { load_section("s2.yaml", section("d2.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s2.yaml", section("d2.yaml")); });
     CHECK(msg.find("SO3") != std::string::npos);
     CHECK(msg.find("did you mean 'SO2'") != std::string::npos);
   }
   SECTION("duplicate channel names") {
     test::write_file("d3.yaml", "absorbers:\n  - {species: A, cross_section: xs.csv}\n"
                                 "channels:\n  - {name: A_1, absorber: A}\n  - {name: A_1, absorber: A}\n");
-    const auto msg = error_of([&] { load_section("s3.yaml", section("d3.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s3.yaml", section("d3.yaml")); });
     CHECK(msg.find("again") != std::string::npos);
     CHECK(msg.find("d3.yaml:5") != std::string::npos);
   }
   SECTION("a negative cross section in a table") {
     test::write_file("neg.csv", "wavelength [nm], cross_section [cm2]\n200, 1e-18\n210, -2e-18\n");
     test::write_file("d4.yaml", "absorbers:\n  - {species: A, cross_section: neg.csv}\n");
-    const auto msg = error_of([&] { load_section("s4.yaml", section("d4.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s4.yaml", section("d4.yaml")); });
     CHECK(msg.find("neg.csv:3") != std::string::npos);
   }
   SECTION("a cross section in the wrong unit") {
     test::write_file("unit.csv", "wavelength [nm], cross_section [cm]\n200, 1e-18\n210, 2e-18\n");
     test::write_file("d5.yaml", "absorbers:\n  - {species: A, cross_section: unit.csv}\n");
-    const auto msg = error_of([&] { load_section("s5.yaml", section("d5.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s5.yaml", section("d5.yaml")); });
     CHECK(msg.find("cm2") != std::string::npos);
   }
   SECTION("a spectrum in neither photon nor energy units") {
     test::write_file("spec.csv", "wavelength [nm], flux [K]\n200, 1\n210, 2\n");
     test::write_file("d6.yaml", "absorbers:\n  - {species: A, cross_section: xs.csv}\n");
-    const auto msg = error_of([&] {
+    const auto msg = colchem_test::located_error_of([&] {
       load_section("s6.yaml", "photolysis:\n  data: d6.yaml\n  spectrum: {table: spec.csv}\n");
     });
     CHECK(msg.find("W m-2 nm-1") != std::string::npos);
   }
   SECTION("unknown key in the section") {
     test::write_file("d7.yaml", "absorbers:\n  - {species: A, cross_section: xs.csv}\n");
-    const auto msg = error_of([&] {
+    const auto msg = colchem_test::located_error_of([&] {
       load_section("s7.yaml", section("d7.yaml") + "  slant_paht: spherical\n");
     });
     CHECK(msg.find("did you mean 'slant_path'") != std::string::npos);
@@ -158,7 +146,7 @@ TEST_CASE("bad photolysis inputs are InputErrors naming file, line and key", "[p
     test::write_file("d8.yaml", "absorbers:\n  - species: A\n    cross_section:\n      tables:\n"
                                 "        - {temperature: 300 K, table: xs.csv}\n"
                                 "        - {temperature: 200 K, table: xs.csv}\n");
-    const auto msg = error_of([&] { load_section("s8.yaml", section("d8.yaml")); });
+    const auto msg = colchem_test::located_error_of([&] { load_section("s8.yaml", section("d8.yaml")); });
     CHECK(msg.find("increasing") != std::string::npos);
   }
 }

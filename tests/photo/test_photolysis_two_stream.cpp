@@ -13,6 +13,7 @@
 #include "io/photolysis_loader.hpp"
 #include "photo/photolysis_model.hpp"
 #include "photo_test_support.hpp"
+#include "../test_support.hpp"
 
 using namespace colchem;
 
@@ -176,17 +177,6 @@ PhotolysisSpec load_rt(const std::string& name, const std::string& rt,
   return load_photolysis(doc.root().child("photolysis"), units);
 }
 
-std::string error_text(const std::function<void()>& f) {
-  try {
-    f();
-  } catch (const InputError& e) {
-    CHECK(e.where().line > 0);
-    return e.what();
-  }
-  FAIL("no InputError");
-  return {};
-}
-
 }  // namespace
 
 TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][two_stream]") {
@@ -214,27 +204,27 @@ TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][tw
   const auto d = load_rt("rt_default", "");
   CHECK(d.radiative_transfer.scheme == RadiativeTransferScheme::kDirectBeam);
 
-  CHECK_THAT(error_text([] {
+  CHECK_THAT(colchem_test::located_error_of([] {
                (void)load_rt("rt_e1",
                              "  radiative_transfer: {scheme: direct_beam, surface_albedo: 0.5}\n");
              }),
              Catch::Contains("no two-stream settings"));
-  CHECK_THAT(error_text([] {
+  CHECK_THAT(colchem_test::located_error_of([] {
                (void)load_rt("rt_e2",
                              "  radiative_transfer: {scheme: two_stream, surface_albedo: 1.5}\n");
              }),
              Catch::Contains("albedo from 0 to 1"));
-  CHECK_THAT(error_text([] {
+  CHECK_THAT(colchem_test::located_error_of([] {
                (void)load_rt("rt_e3",
                              "  radiative_transfer: {scheme: two_stream, closure: delta}\n");
              }),
              Catch::Contains("quadrature"));
-  CHECK_THAT(error_text([] {
+  CHECK_THAT(colchem_test::located_error_of([] {
                (void)load_rt("rt_e4", "  radiative_transfer: {scheme: two_stream}\n",
                              "wavelength_exponent: 1");
              }),
              Catch::Contains("single_scattering_albedo"));
-  CHECK_THAT(error_text([] {
+  CHECK_THAT(colchem_test::located_error_of([] {
                (void)load_rt("rt_e5", "  radiative_transfer: {scheme: two_stream}\n",
                              "single_scattering_albedo: 1.2, asymmetry: 0.5");
              }),
