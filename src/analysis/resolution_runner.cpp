@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <optional>
 
 #include "core/constants.hpp"
 #include "core/error.hpp"
@@ -19,6 +20,58 @@ std::string grid_override(std::span<const double> edges_cm) {
     s += fmt::format("{}{:.17g}", k ? ", " : "", edges_cm[k] / constants::kCmPerKm);
   }
   return s + "]}}";
+}
+
+bool start_from_level(const LevelResult& warm, const ColumnModel& model, std::vector<double>& x0) {
+  if (!warm.converged || warm.species != model.species()) return false;
+  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t M = warm.background.grid.cells();
+  const auto& na_old = warm.background.air_density_cm3;
+  for (std::size_t s = 0; s < S; ++s) {
+    std::vector<double> n_old(M);
+    for (std::size_t j = 0; j < M; ++j) {
+      n_old[j] = std::max(warm.mole_fraction[s * M + j] * na_old[j], 1e-30);
+    }
+    const auto v =
+        *interpolate(warm.background.grid.center_cm, n_old, model.background().grid.center_cm,
+                     InterpScale::kLog, Extrapolation::kHoldEnds);
+    for (std::size_t j = 0; j < N; ++j) x0[j * S + s] = v[j];
+  }
+  model.impose_held(x0);
+  return true;
+}
+
+std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
+                                               std::size_t coarsest_cells) {
+  std::vector<std::vector<double>> levels;
+  std::vector<double> e(edges_cm.begin(), edges_cm.end());
+  for (;;) {
+    const std::size_t cells = e.size() - 1;
+    if ((cells + 1) / 2 < std::max<std::size_t>(coarsest_cells, 1)) break;
+    std::vector<double> c;
+    for (std::size_t k = 0; k < e.size(); k += 2) c.push_back(e[k]);
+    if (cells % 2 == 1) c.push_back(e.back());
+    levels.insert(levels.begin(), c);
+    e = std::move(c);
+  }
+  return levels;
+}
+
+SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& target,
+                               std::size_t coarsest_cells, const UnitSystem& units) {
+  SequencedStart out;
+  std::optional<LevelResult> last;
+  for (const auto& edges : coarser_grids(target.background().grid.edge_cm, coarsest_cells)) {
+    LevelResult r = solve_on_edges(req, edges, units, last ? &*last : nullptr);
+    out.levels.push_back({edges.size() - 1, r.iterations, r.wall_s, r.converged});
+    if (!r.converged) break;  // the finer levels start from the last converged one
+    last = std::move(r);
+  }
+  if (last) {
+    out.x0 = target.initial_state();
+    start_from_level(*last, target, out.x0);
+  }
+  return out;
 }
 
 LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edges_cm,
@@ -41,21 +94,7 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
   // A steady state does not depend on its start, so the previous level's solution is a
   // better start; a transient's end state does, so it always starts from the scenario's.
   const bool steady = sc.solver.method != SolverMethod::kTransient;
-  if (steady && warm != nullptr && warm->converged && warm->species == r.species) {
-    const std::size_t M = warm->background.grid.cells();
-    const auto& na_old = warm->background.air_density_cm3;
-    for (std::size_t s = 0; s < S; ++s) {
-      std::vector<double> n_old(M);
-      for (std::size_t j = 0; j < M; ++j) {
-        n_old[j] = std::max(warm->mole_fraction[s * M + j] * na_old[j], 1e-30);
-      }
-      const auto v =
-          *interpolate(warm->background.grid.center_cm, n_old, r.background.grid.center_cm,
-                       InterpScale::kLog, Extrapolation::kHoldEnds);
-      for (std::size_t j = 0; j < N; ++j) x0[j * S + s] = v[j];
-    }
-    model.impose_held(x0);
-  }
+  if (steady && warm != nullptr) start_from_level(*warm, model, x0);
   RunControls controls;
   controls.log = req.log;
   controls.stop_requested = req.stop_requested;
@@ -67,6 +106,7 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
   r.converged = out.ok();
   r.reason = out.reason;
   r.iterations = out.iterations;
+  r.wall_s = out.wall_s;
   r.residual = out.residual_norm;
   if (req.log) {
     req.log->info("{} cells: {} after {} iterations, residual {:.3g}", N,

@@ -16,6 +16,8 @@
 #include "analysis/score.hpp"
 #include "core/background.hpp"
 #include "core/units.hpp"
+#include "solve/column_model.hpp"
+#include "solve/column_run.hpp"
 
 namespace colchem {
 
@@ -26,6 +28,7 @@ struct LevelResult {
   bool converged = false;
   std::string reason;
   long iterations = 0;
+  double wall_s = 0.0;
   double residual = 0.0;
   /// Mole fractions [s*N + j]; empty when the solve failed.
   std::vector<double> mole_fraction;
@@ -48,6 +51,27 @@ struct SolveRequest {
 /// altitude) when it converged and the solver seeks a steady state.
 LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edges_cm,
                            const UnitSystem& units, const LevelResult* warm);
+
+/// Sets x0 (the state of `model`, n[j*S + s]) to the converged `warm` level interpolated
+/// log-linearly in altitude (ends held), held species imposed; false (x0 untouched) when
+/// `warm` did not converge or has other species.
+bool start_from_level(const LevelResult& warm, const ColumnModel& model, std::vector<double>& x0);
+
+/// The coarser grids of a grid sequence below `edges_cm`, coarsest first: each drops every
+/// other edge of the next finer one (keeping the top edge), down to the last with at least
+/// `coarsest_cells` cells. Empty when halving once would go below that.
+std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
+                                               std::size_t coarsest_cells);
+
+/// A steady cold start by grid sequencing: solves the scenario on coarser_grids(...) in turn,
+/// each from the one below, and returns the last converged level interpolated onto the
+/// target grid (x0 empty when none converged; `levels` says what each level did).
+struct SequencedStart {
+  std::vector<double> x0;
+  std::vector<SequenceLevel> levels;
+};
+SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& target,
+                               std::size_t coarsest_cells, const UnitSystem& units);
 
 /// Scores' resolution: chi-square (log) per level and each observed point's log10 model value.
 struct ScoreResolution {

@@ -6,6 +6,7 @@
 #include <optional>
 
 #include "analysis/observations.hpp"
+#include "analysis/resolution_runner.hpp"
 #include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "app/summary.hpp"
@@ -99,6 +100,26 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     } else {
       x0 = model.initial_state();
     }
+    // A steady cold start on a fine grid starts from the same scenario solved on coarser
+    // grids (io/solver_section.hpp, grid_sequencing).
+    std::vector<SequenceLevel> sequence;
+    if (o->restart.empty() && sc.solver.method == SolverMethod::kSteady &&
+        sc.solver.grid_sequencing) {
+      SolveRequest req;
+      req.config = o->config;
+      req.overrides = o->sets;
+      req.log = ctx.log.get();
+      req.stop_requested = interrupt.query();
+      SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
+      sequence = std::move(seq.levels);
+      if (!seq.x0.empty()) x0 = std::move(seq.x0);
+      if (!sequence.empty() && !sequence.back().converged) {
+        ctx.log->warn("grid sequencing: the solve on {} cells did not converge; {}",
+                      sequence.back().cells,
+                      seq.x0.empty() ? "starting from the scenario's initial state"
+                                     : "starting from the last converged level");
+      }
+    }
     const auto ckpt = checkpoint_path(sc.output.file);
     RunControls controls;
     controls.log = ctx.log.get();
@@ -108,6 +129,7 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     };
     RunOutcome r = resume ? continue_column(model, sc.solver, *resume, controls)
                           : run_column(model, sc.solver, std::move(x0), controls);
+    r.sequence = std::move(sequence);
 
     if (r.status == SolveStatus::kInterrupted) {
       write_checkpoint(ckpt, sc, model, checkpoint_of(r), ctx.command_line);

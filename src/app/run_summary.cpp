@@ -16,6 +16,17 @@ std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutco
       r.balance.worst > 0.0 ? " (" + model.species()[r.balance.worst_species] + ")"
                             : " (every species within round-off)");
   if (!r.ok()) s += "  reason: " + r.reason + "\n";
+  if (!r.sequence.empty()) {
+    std::string levels;
+    long total = r.iterations;
+    for (const auto& l : r.sequence) {
+      levels += fmt::format("{}{} cells {} iterations{} ({:.2f} s)", levels.empty() ? "" : ", ",
+                            l.cells, l.iterations, l.converged ? "" : " (not converged)",
+                            l.wall_s);
+      total += l.iterations;
+    }
+    s += fmt::format("  started by grid sequencing: {}; {} iterations in all\n", levels, total);
+  }
   model.refresh_photolysis(r.x);
   const ColumnDiagnostics d = model.diagnostics(r.x, r.time_s);
   s += "element budgets (cm-2 s-1): element, boundary in, sinks, held supply, imbalance (relative)\n";

@@ -100,6 +100,10 @@ SolverSpec load_solver_section(const ConfigNode& n, const UnitSystem& u) {
     }
   }
   if (auto v = n.find("checkpoint_every")) s.checkpoint_every = count(*v, 0, 100000000);
+  if (auto v = n.find("grid_sequencing")) s.grid_sequencing = v->boolean();
+  if (auto v = n.find("coarsest_cells")) {
+    s.coarsest_cells = static_cast<std::size_t>(count(*v, 2, 100000000));
+  }
   const auto tr = n.find("transient");
   n.done();
   if (tr) s.transient = load_transient(*tr, u);

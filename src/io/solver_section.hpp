@@ -22,6 +22,8 @@
 //       steady_check_every: 1
 #pragma once
 
+#include <cstddef>
+
 #include <limits>
 #include <vector>
 
@@ -57,6 +59,12 @@ struct SolverSpec {
   double positivity_fraction = 0.1;
   double balance_tolerance = 1e-8;  ///< on the column balance B (solve/column_model.hpp)
   int checkpoint_every = 0;
+  /// Grid sequencing of a steady cold start: solve first on grids of about half, a quarter,
+  /// ... the cells (every other edge dropped), down to at least coarsest_cells, each level
+  /// started from the one below, the finest from the last (Knoll and Keyes 2004, J. Comput.
+  /// Phys. 193, 357, section 4.4, "mesh sequencing"). Not for restarts or transients.
+  bool grid_sequencing = true;
+  std::size_t coarsest_cells = 24;
   TransientSpec transient;
 };
 

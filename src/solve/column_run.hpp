@@ -46,6 +46,14 @@ struct HistoryRow {
   double wall_s = 0.0;
 };
 
+/// One coarser level of a grid-sequenced cold start (io/solver_section.hpp).
+struct SequenceLevel {
+  std::size_t cells = 0;
+  long iterations = 0;
+  double wall_s = 0.0;
+  bool converged = false;
+};
+
 struct RunOutcome {
   SolveStatus status = SolveStatus::kFailed;
   std::string method;            ///< "steady", "transient", "split_steady"
@@ -58,6 +66,7 @@ struct RunOutcome {
   ColumnBalance balance;         ///< column balance of x, always evaluated
   double wall_s = 0.0;
   std::vector<HistoryRow> history;
+  std::vector<SequenceLevel> sequence;  ///< coarser levels solved before this grid (if any)
   std::vector<double> snapshot_times_s;
   std::vector<std::vector<double>> snapshots;
 

@@ -107,6 +107,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
   double last_change = std::numeric_limits<double>::infinity();
   double last_dtau = 0.0;
   bool last_clipped = false;  // the last step clipped a density at its positivity floor
+  double rejected_dtau = std::numeric_limits<double>::infinity();  // last dtau undone
   bool have_prev = false;
 
   auto finish = [&](SolveStatus st, std::string why, double norm) {
@@ -123,6 +124,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     ++res.rejected_steps;
     last_dtau = 0.0;  // the undone step neither counts as Newton step nor as change
     last_change = std::numeric_limits<double>::infinity();
+    rejected_dtau = dtau;
     dtau *= 0.1;
     dtau_before_newton = 0.0;
     return dtau >= o.min_pseudo_step_s;
@@ -208,10 +210,18 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       if (dtau_before_newton > 0.0 && ratio < 1.0) {
         dtau = dtau_before_newton * o.min_growth;  // the Newton jump did not pay off
       } else {
-        dtau *= std::clamp(o.growth_increment * ratio, o.min_growth, o.max_growth);
+        double growth = std::clamp(o.growth_increment * ratio, o.min_growth, o.max_growth);
+        // A step that barely moved the state and clipped nothing was far shorter than the
+        // state can follow; the scaled residual, set by the slowest cells, does not show it.
+        // The fast growth stops short of the last step that had to be undone.
+        if (!last_clipped && ratio >= o.min_growth && last_change < o.change_target) {
+          growth = std::max(growth, std::min({o.max_change_growth, o.change_target / last_change,
+                                              rejected_dtau * o.min_growth / dtau}));
+        }
+        dtau *= growth;
       }
-      // A heavily damped or clipped step means dtau outran what the state can follow.
-      if (last_clipped) dtau = std::min(dtau, last_dtau * o.min_growth);
+      // A clipped step means dtau reached what the state can follow: no further growth.
+      if (last_clipped) dtau = std::min(dtau, last_dtau * o.clipped_growth);
     }
     dtau_before_newton = 0.0;
     // Never below the tolerance: convergence is declared only after a Newton step.

@@ -297,3 +297,27 @@ TEST_CASE("Richardson on the scores of the thin boundary layer", "[resolution][v
     CHECK(q.point[i].error / truth < 1.5);
   }
 }
+
+TEST_CASE("Grid sequencing: each coarser grid keeps every other edge of the next finer one",
+          "[resolution][sequencing]") {
+  // Definition of the mesh hierarchy (Knoll and Keyes 2004, J. Comput. Phys. 193, 357,
+  // section 4.4): edges of a coarse grid are edges of the fine grid, ends kept.
+  std::vector<double> fine(109);
+  for (std::size_t k = 0; k < fine.size(); ++k) fine[k] = 1e5 * static_cast<double>(k * k);
+  const auto levels = coarser_grids(fine, 24);
+  REQUIRE(levels.size() == 2);  // 108 -> 54 -> 27; 14 would be below 24
+  CHECK(levels[0].size() == 28);
+  CHECK(levels[1].size() == 55);
+  for (std::size_t k = 0; k < levels[1].size(); ++k) CHECK(levels[1][k] == fine[2 * k]);
+  for (std::size_t k = 0; k < levels[0].size(); ++k) CHECK(levels[0][k] == fine[4 * k]);
+  // An odd count keeps the top edge: 35 cells -> 18 cells ending at the top.
+  std::vector<double> odd(36);
+  for (std::size_t k = 0; k < odd.size(); ++k) odd[k] = static_cast<double>(k);
+  const auto o = coarser_grids(odd, 10);
+  REQUIRE(o.size() == 1);
+  CHECK(o[0].size() == 19);
+  CHECK(o[0].front() == 0.0);
+  CHECK(o[0].back() == 35.0);
+  CHECK(o[0][17] == 34.0);
+  CHECK(coarser_grids(odd, 24).empty());  // halving once would go below 24 cells
+}
