@@ -11,7 +11,13 @@
 // midpoint rule on each cell: second order in dz (tests/photo/test_chapman.cpp).
 // Plane-parallel slant: tau_s = tau / mu0. Spherical: the exact ray through the grid's
 // spherical shells and the Chapman function Ch(X_top, chi_top) for the column above the top.
-// f_c,b is the fraction of bin b short of the channel's threshold wavelength.
+// f_c,b is the bin average of the near-threshold onset rho (for tables: the fraction of bin b
+// short of the channel's threshold wavelength when the onset width is 0); overtone bands
+// enter sigma_c,b integrated with rho above the threshold only (spectral_binning.hpp).
+// Named parameters (photolysis_spec.hpp, ParameterUse) are written into the data before
+// binning; dJ/dp (parameter_derivative) for the direct beam:
+//   dJ_c/dp = sum_k w_k sum_b (d(sigma phi f)_c,b/dp - (sigma phi f)_c,b dtau_s,b/dp) F_b,
+// dtau_s/dp the slant path integral of sum_i (dsigma_i/dp) n_i.
 // Two-stream scheme (radiative_transfer.scheme: two_stream; photo/two_stream.hpp): F in J is
 // the actinic flux, the direct beam above plus 2 (F+ + F-) of the diffuse field at the cell
 // centre, solved per bin and sun position over the column above the top (layer 0: its gas
