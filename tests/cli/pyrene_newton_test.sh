@@ -14,7 +14,9 @@
 # here; analytic property of the fixed point F(x) = 0): the default run, started by grid
 # sequencing from 27 and 54 cells (Knoll and Keyes 2004, J. Comput. Phys. 193, 357), and the
 # direct cold start at 108 cells agree to 1e-6 relative wherever a mole fraction is above
-# 1e-20 (both converged to a scaled residual of 1e-8).
+# 1e-18 (both converged to a scaled residual of 1e-8). Below that sit only the species of
+# the modules switched off: with no chemistry and zero boundary fluxes they keep their
+# initial 1e-20 column (a conserved mode, no unique steady state), spread by the start.
 set -eu
 colchem=$1; root=$2; work=$3
 mkdir -p "$work"; cd "$work"
@@ -32,7 +34,7 @@ assert "27 cells" in seq.getncattr("colchem_grid_sequence") and "54 cells" in se
 direct = netCDF4.Dataset("d108.nc")
 assert not hasattr(direct, "colchem_grid_sequence")
 a = np.asarray(seq["mole_fraction"][:]); b = np.asarray(direct["mole_fraction"][:])
-m = np.maximum(a, b) > 1e-20
+m = np.maximum(a, b) > 1e-18
 rel = np.max(np.abs(a[m] - b[m]) / np.maximum(a[m], b[m]))
 assert rel < 1e-6, rel
 print(f"ok: sequenced and direct starts agree at 108 cells to {rel:.1e} relative")
