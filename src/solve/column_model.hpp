@@ -31,7 +31,7 @@ namespace colchem {
 
 /// Reaction-level diagnostics of one state (arrays as in io/output.hpp ReactionData).
 struct ColumnDiagnostics {
-  std::vector<std::string> equations;       ///< active reactions, then condensation sinks
+  std::vector<std::string> equations;       ///< active reactions, then exchange terms
   std::vector<double> net_stoichiometry;    ///< [r][s]
   std::vector<double> reaction_rate;        ///< [r][j]
   std::vector<double> chemical_tendency;    ///< [s][j]
@@ -121,7 +121,6 @@ class ColumnModel : public NonlocalCoupling {
   std::vector<double> J_;
   std::vector<double> x_shifted_, J_shifted_, dJ_;  ///< workspace of add_jacobian_product
   std::vector<Injection> injections_;
-  std::vector<std::size_t> sink_species_;  ///< species with a condensation sink
 };
 
 }  // namespace colchem
