@@ -51,7 +51,7 @@ AltitudeValue read_altitude_value(const ConfigNode& n, const UnitSystem& units,
                                   const std::string& role, std::vector<InputFile>& inputs) {
   AltitudeValue v;
   if (!n.is_map()) {
-    v.constant = n.quantity(units, unit, example);
+    v.constant = unit == "1" ? n.number() : n.quantity(units, unit, example);
     return v;
   }
   const auto file = n.child("table").path();

@@ -238,6 +238,34 @@ ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
   return out;
 }
 
+std::vector<ExchangeReport> ColumnModel::exchange_report(std::span<const double> n) const {
+  std::vector<ExchangeReport> out;
+  if (!chemistry_) return out;
+  const std::size_t S = species_count(), N = cells();
+  for (const auto& x : chemistry_->exchanges()) {
+    ExchangeReport r;
+    r.species = x.species;
+    r.equation = exchange_equation(names_[x.species], x);
+    r.held_profile = x.saturation == CondensationExchange::Saturation::kHeldProfile;
+    r.n_eq.assign(N, 0.0);
+    r.k.assign(N, 0.0);
+    r.reservoir.assign(N, 0);
+    out.push_back(std::move(r));
+  }
+  for (const auto& c : chemistry_->exchange_cells()) {
+    ExchangeReport& r = out[c.term];
+    r.n_eq[c.cell] = c.n_eq;
+    r.k[c.cell] = c.k;
+    r.reservoir[c.cell] = c.reservoir ? 1 : 0;
+    if (!c.reservoir) continue;
+    const double ratio = n[c.cell * S + c.species] / c.n_eq;
+    ++r.reservoir_cells;
+    if (ratio <= 10.0) ++r.within_10x;
+    r.worst_ratio = std::max(r.worst_ratio, ratio);
+  }
+  return out;
+}
+
 ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) {
   ColumnDiagnostics d;
   const std::size_t S = species_count(), N = cells();

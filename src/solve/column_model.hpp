@@ -41,6 +41,20 @@ struct ColumnDiagnostics {
   std::vector<double> bottom_flux, top_flux;                 ///< [s]
 };
 
+/// One exchange term at a state (chem/condensation.hpp): per cell the equilibrium density
+/// n_eq (saturation, or the held profile; 0 where the term does not apply), the rate
+/// constant k (s^-1) and whether a condensed reservoir is present.
+struct ExchangeReport {
+  std::string equation;
+  std::size_t species = 0;
+  bool held_profile = false;
+  std::vector<double> n_eq, k;
+  std::vector<int> reservoir;
+  /// Cells with a reservoir, those among them with n <= 10 n_eq, and the largest n/n_eq there.
+  std::size_t reservoir_cells = 0, within_10x = 0;
+  double worst_ratio = 0.0;
+};
+
 /// A measure of a steady state whose meaning does not change with the grid (README, "What
 /// a converged state guarantees"): per species s, the column-integrated imbalance
 ///   B_s = max(0, sum_j |F_js| dz_j - 1e3 eps sum_j w_js dz_j)
@@ -106,6 +120,8 @@ class ColumnModel : public NonlocalCoupling {
                                              double reference_time_s);
 
   [[nodiscard]] ColumnDiagnostics diagnostics(std::span<const double> n, double t);
+  /// The exchange terms at state n (empty without chemistry).
+  [[nodiscard]] std::vector<ExchangeReport> exchange_report(std::span<const double> n) const;
 
  private:
   Background bg_;
