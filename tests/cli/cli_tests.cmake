@@ -151,6 +151,10 @@ add_test(NAME cli.pyrene_newton
 # droplets takes seconds (1/k = 4 / (vbar A) ~ 20 s), hold the vapour within 10x of
 # saturation (analytic: n/n_sat - 1 = net production / (k n_sat), small there); the
 # summary counts them among the 42 cells below 100 km that have droplets (input profile).
+add_test(NAME validation.chem.condensed_exchange
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/chem/condensed_exchange/run.sh $<TARGET_FILE:colchem>)
+set_tests_properties(validation.chem.condensed_exchange PROPERTIES
+  ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_condensed_exchange.nc")
 colchem_cli_test(pyrene_condensation 0
   "H2SO4 -> \\(condensed phase\\): vapour at most 10x saturation in [1-9][0-9]* of 42 cells with condensed phase"
   $<TARGET_FILE:colchem> run ${CFG}/pyrene_full.yaml -o pyrene_condensation.nc)
