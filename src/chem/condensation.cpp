@@ -28,7 +28,9 @@ constexpr std::array<double, 11> kActivityLog10{-10.5, -9.0, -7.4, -5.7, -4.8, -
 constexpr double kActivityT = 298.15;  // K
 }  // namespace
 
-double h2so4_pure_pressure_ayers_atm(double T) { return std::exp(-kAyersB / T + kAyersA); }
+double h2so4_pure_pressure_ayers_atm(double T) {
+  return std::exp(-kAyersB / T + kAyersA);
+}
 
 double h2so4_pure_pressure_atm(double T) {
   const double ln_p0 = -kAyersB / kT0 + kAyersA;
@@ -73,8 +75,7 @@ std::string exchange_equation(const std::string& species, const CondensationExch
 }
 
 std::vector<ExchangeCell> exchange_cells(const CondensationExchange& x, std::size_t term,
-                                         std::span<const double> T,
-                                         std::span<const double> air,
+                                         std::span<const double> T, std::span<const double> air,
                                          std::span<const double> z, double mass_g) {
   std::vector<ExchangeCell> out;
   for (std::size_t j = 0; j < T.size() && j < z.size(); ++j) {
@@ -94,10 +95,10 @@ std::vector<ExchangeCell> exchange_cells(const CondensationExchange& x, std::siz
       c.k = 0.25 * x.accommodation * mean_molecular_speed(T[j], mass_g) * area;
       c.reservoir = c.reservoir || area > 0.0;
     } else {
-      const double tau = x.timescale_table.altitude_cm.empty()
-                             ? x.timescale_s
-                             : interp_linear_hold(x.timescale_table.altitude_cm,
-                                                  x.timescale_table.value, z[j]);
+      const double tau =
+          x.timescale_table.altitude_cm.empty()
+              ? x.timescale_s
+              : interp_linear_hold(x.timescale_table.altitude_cm, x.timescale_table.value, z[j]);
       c.k = 1.0 / tau;
     }
     if (x.has_condensed) c.reservoir = c.reservoir || x.condensed.at(z[j]) > 0.0;

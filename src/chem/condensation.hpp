@@ -63,17 +63,17 @@ struct CondensationExchange {
   enum class Rate { kTimescale, kKinetic };
   std::size_t species = 0;
   Saturation saturation = Saturation::kH2SO4Ayers1980;
-  double cc_A = 0.0;             ///< ln Pa
-  double cc_B = 0.0;             ///< K
-  AltitudeValue weight_fraction;  ///< h2so4_aqueous: acid weight fraction
+  double cc_A = 0.0;                ///< ln Pa
+  double cc_B = 0.0;                ///< K
+  AltitudeValue weight_fraction;    ///< h2so4_aqueous: acid weight fraction
   AltitudeValue held_mixing_ratio;  ///< held profile: the mixing ratio held
   Rate rate = Rate::kTimescale;
-  double timescale_s = 0.0;       ///< constant timescale (when no timescale_table)
-  ProfileSpec timescale_table;    ///< s, by altitude (optional)
-  double accommodation = 1.0;     ///< kinetic law
+  double timescale_s = 0.0;            ///< constant timescale (when no timescale_table)
+  ProfileSpec timescale_table;         ///< s, by altitude (optional)
+  double accommodation = 1.0;          ///< kinetic law
   AltitudeValue surface_area_cm2_cm3;  ///< kinetic law; also a reservoir where > 0
-  bool has_condensed = false;     ///< a condensed-phase profile is given
-  AltitudeValue condensed;        ///< present where > 0 (any unit: a mass or mixing ratio)
+  bool has_condensed = false;          ///< a condensed-phase profile is given
+  AltitudeValue condensed;             ///< present where > 0 (any unit: a mass or mixing ratio)
   double below_cm = std::numeric_limits<double>::infinity();   ///< cells with centre below
   double above_cm = -std::numeric_limits<double>::infinity();  ///< and at or above this
 
@@ -89,9 +89,9 @@ struct CondensationExchange {
 /// One cell's exchange with everything the kernel needs.
 struct ExchangeCell {
   std::size_t cell = 0, species = 0, term = 0;  ///< term: index of the exchange in the spec
-  double n_eq = 0.0;      ///< cm^-3
-  double k = 0.0;         ///< s^-1
-  bool reservoir = false;  ///< evaporation allowed (n < n_eq)
+  double n_eq = 0.0;                            ///< cm^-3
+  double k = 0.0;                               ///< s^-1
+  bool reservoir = false;                       ///< evaporation allowed (n < n_eq)
 };
 
 /// The kernel: f and df/dn of one cell's exchange at density n (the only place the formula
@@ -114,8 +114,7 @@ std::string exchange_equation(const std::string& species, const CondensationExch
 /// The cells of one exchange on a column (T, n_air, altitude per cell; molecule mass in g).
 /// Cells where the term does not apply are omitted.
 std::vector<ExchangeCell> exchange_cells(const CondensationExchange& x, std::size_t term,
-                                         std::span<const double> T,
-                                         std::span<const double> air,
+                                         std::span<const double> T, std::span<const double> air,
                                          std::span<const double> altitude_cm, double mass_g);
 
 }  // namespace colchem
