@@ -85,6 +85,7 @@ CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
   const auto sp = n.child("species");
   const auto idx = m.species_index(sp.text());
   if (!idx) sp.fail("a species of the mechanism", "'" + sp.text() + "'");
+  if (m.species[*idx].fixed) sp.fail("a species that is not held fixed", "'" + sp.text() + "'");
   s.species = *idx;
   const std::string name = sp.text();
   const auto sat = n.child("saturation");

@@ -168,3 +168,5 @@ colchem_cli_test(held_profile_bad_range 3 "'species.H2O.hold.to': expected a top
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set "species.H2O.hold={mixing_ratio: 3 ppm, from: 80 km, to: 70 km}")
 colchem_cli_test(condensation_bad_weight 3 "weight_fraction': expected an acid weight fraction from 0.4 to 1"
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.saturation.h2so4_aqueous.weight_fraction=0.3)
+colchem_cli_test(condensation_fixed_species 3 "condensation.0.species': expected a species that is not held fixed, found 'CO2'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.species=CO2)
