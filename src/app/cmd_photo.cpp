@@ -43,7 +43,8 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     std::vector<double> J(photo.channels().size() * model.cells());
     std::vector<double> F(o->spectrum ? model.cells() * photo.bins() : 0);
     // A model of our own (not the column model's) so that the spectrum can be asked for.
-    PhotolysisModel local(sc.photolysis, model.background(), model.species());
+    PhotolysisModel local(sc.photolysis, model.background(), model.species(),
+                          sc.chemistry.parameters);
     local.compute(n, J, F);
     std::cout << format_jvalue_table(local, J, model.background().grid);
     // With the two-stream scheme: the same state under the direct beam alone, and the
@@ -52,7 +53,8 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     if (local.two_stream()) {
       PhotolysisSpec direct_spec = sc.photolysis;
       direct_spec.radiative_transfer = RadiativeTransferSpec{};
-      PhotolysisModel direct(direct_spec, model.background(), model.species());
+      PhotolysisModel direct(direct_spec, model.background(), model.species(),
+                             sc.chemistry.parameters);
       J_direct.resize(J.size());
       direct.compute(n, J_direct);
       std::cout << "\nenhancement of J over the direct beam (two-stream / direct-beam)\n"

@@ -1,14 +1,20 @@
-// Photolysis loader: YAML and tables -> PhotolysisSpec (keys in README.md, section Configuration reference).
+// Photolysis loader: YAML and tables -> PhotolysisSpec (keys in README.md, section Configuration
+// reference).
 #include "io/photolysis_loader.hpp"
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
+#include <functional>
+#include <optional>
 #include <set>
 #include <sstream>
 
+#include "chem/mechanism.hpp"
 #include "core/constants.hpp"
 #include "io/table.hpp"
+#include "photo/spectral_binning.hpp"
 
 namespace colchem {
 
@@ -46,6 +52,114 @@ std::string table_label(const Table& t) {
   return label;
 }
 
+/// How a written quantity becomes an internal value: times `factor`, then 1e7 / x when
+/// `reciprocal` (an energy in cm^-1 turned into a threshold wavelength in nm).
+struct Conversion {
+  double factor = 1.0;
+  bool reciprocal = false;
+};
+
+/// cm^-1 per kcal/mol with the thermochemical calorie (4.184 J), the chemists' unit:
+/// 4184e7 erg / (N_A h c) = 349.76 cm^-1.
+double wavenumber_per_kcal_mol() {
+  return 4184.0e7 / (constants::kAvogadro * constants::kPlanck * constants::kSpeedOfLight);
+}
+
+/// An energy unit (kcal/mol, kJ/mol, J/mol, eV, cm-1) as cm^-1 per unit, or nullopt.
+std::optional<double> energy_to_wavenumber(const UnitSystem& units, const std::string& unit) {
+  const double hc = constants::kPlanck * constants::kSpeedOfLight;  // erg cm
+  if (unit == "kcal/mol" || unit == "kcal mol-1") return wavenumber_per_kcal_mol();
+  if (same_dimension(units, unit, "J mol-1")) {
+    return *units.convert(1.0, unit, "J mol-1") * 1e7 / (constants::kAvogadro * hc);
+  }
+  if (same_dimension(units, unit, "erg")) return *units.convert(1.0, unit, "erg") / hc;
+  if (same_dimension(units, unit, "cm-1")) return *units.convert(1.0, unit, "cm-1");
+  return std::nullopt;
+}
+
+/// A channel threshold: a wavelength ("816.9 nm") or a photon energy ("35 kcal/mol").
+Conversion threshold_conversion(const ConfigNode& n, const UnitSystem& units,
+                                const std::string& unit) {
+  if (!unit.empty() && same_dimension(units, unit, "nm"))
+    return {*units.convert(1.0, unit, "nm"), false};
+  if (auto f = energy_to_wavenumber(units, unit)) return {*f, true};
+  n.fail("a wavelength ('816.9 nm') or an energy ('35 kcal/mol', 'kJ/mol', 'eV', 'cm-1')",
+         unit.empty() ? std::string("a number without a unit") : "unit '" + unit + "'");
+}
+
+/// An energy width (the near-threshold onset), as cm^-1.
+Conversion energy_conversion(const ConfigNode& n, const UnitSystem& units,
+                             const std::string& unit) {
+  if (auto f = energy_to_wavenumber(units, unit)) return {*f, false};
+  n.fail("an energy ('2 kcal/mol', 'kJ/mol', 'eV', 'cm-1')",
+         unit.empty() ? std::string("a number without a unit") : "unit '" + unit + "'");
+}
+
+using ConversionOf = std::function<Conversion(const ConfigNode&, const std::string& unit)>;
+
+/// A value that may refer to a named parameter of the mechanism:
+///   Q                              the value as written
+///   {parameter: NAME, unit: U}     set: the parameter's value, in U (no unit: a number)
+///   {value: Q, scale: NAME}        scale: Q times the parameter
+/// A reference is recorded in spec.parameter_uses (`use` gives its target); the value
+/// returned is then the written value (scale) or 0 (set): the parameter's value is written
+/// in when the model is built (with_parameters).
+double read_parametric(const ConfigNode& n, const ConversionOf& conversion, ParameterUse use,
+                       PhotolysisSpec& spec) {
+  auto parse = [&](const ConfigNode& q) {
+    const auto t = split_quantity(q.text());
+    if (!t) q.fail("a number (with its unit where it has one)");
+    return *t;
+  };
+  if (n.is_scalar()) {
+    const auto t = parse(n);
+    use.base = t.value;
+    use.scale = true;  // the written value times 1
+    const Conversion c = conversion(n, t.unit);
+    use.factor = c.factor;
+    use.reciprocal = c.reciprocal;
+    return use.value(1.0);
+  }
+  const auto par = n.find("parameter");
+  const auto val = n.find("value");
+  const auto scale = n.find("scale");
+  const auto unit = n.find("unit");
+  n.done();
+  if (par && !val && !scale) {
+    use.name = par->text();
+    use.scale = false;
+    const Conversion c = conversion(unit ? *unit : n, unit ? unit->text() : std::string{});
+    use.factor = c.factor;
+    use.reciprocal = c.reciprocal;
+  } else if (val && scale && !par && !unit) {
+    use.name = scale->text();
+    use.scale = true;
+    const auto t = parse(*val);
+    use.base = t.value;
+    const Conversion c = conversion(*val, t.unit);
+    use.factor = c.factor;
+    use.reciprocal = c.reciprocal;
+  } else {
+    n.fail("a value, {parameter: NAME, unit: UNIT} or {value: VALUE, scale: NAME}");
+  }
+  use.where = n.location();
+  use.key_path = n.key_path();
+  spec.parameter_uses.push_back(use);
+  return use.scale ? use.value(1.0) : 0.0;
+}
+
+/// `scale: NAME` of a map (a cross-section or yield table): the parameter multiplies it.
+void read_scale_key(const ConfigNode& n, ParameterUse use, PhotolysisSpec& spec) {
+  const auto s = n.find("scale");
+  if (!s) return;
+  use.name = s->text();
+  use.scale = true;
+  use.base = 1.0;
+  use.where = s->location();
+  use.key_path = s->key_path();
+  spec.parameter_uses.push_back(use);
+}
+
 /// A wavelength table: {table: FILE, column: NAME, wavelength_column: NAME} or FILE.
 /// `target_unit` is the unit of the value column; nonnegative values are required.
 TabulatedSpectrum read_spectrum_table(const ConfigNode& n, Ctx& ctx, const std::string& role,
@@ -68,7 +182,8 @@ TabulatedSpectrum read_spectrum_table(const ConfigNode& n, Ctx& ctx, const std::
   s.wavelength_nm = t.column(wl_column, ctx.units, "nm");
   s.value = t.column(column, ctx.units, target_unit);
   for (std::size_t r = 0; r < s.value.size(); ++r) {
-    if (!(s.value[r] >= 0.0)) t.fail_row(r, column, "a value >= 0", std::to_string(t.raw(column)[r]));
+    if (!(s.value[r] >= 0.0))
+      t.fail_row(r, column, "a value >= 0", std::to_string(t.raw(column)[r]));
   }
   if (s.wavelength_nm.front() <= 0.0) t.fail_row(0, wl_column, "a positive wavelength", "<= 0");
   s.source = table_label(t);
@@ -85,15 +200,18 @@ void load_bins(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   n.done();
   std::vector<double> e;
   if (edges) {
-    if (from || to || width) edges->fail("either 'edges' or 'from', 'to' and 'width'", "both forms");
+    if (from || to || width)
+      edges->fail("either 'edges' or 'from', 'to' and 'width'", "both forms");
     e = edges->quantity_list(ctx.units, "nm", "100 nm");
     if (e.size() < 2) edges->fail("at least two bin edges");
     for (std::size_t i = 1; i < e.size(); ++i) {
-      if (!(e[i] > e[i - 1])) edges->fail("edges increasing strictly", "a decrease at entry " + std::to_string(i));
+      if (!(e[i] > e[i - 1]))
+        edges->fail("edges increasing strictly", "a decrease at entry " + std::to_string(i));
     }
     if (e.front() <= 0.0) edges->fail("positive wavelengths");
   } else {
-    if (!from || !to || !width) n.fail("'from', 'to' and 'width' (or a list of 'edges')", "an incomplete set");
+    if (!from || !to || !width)
+      n.fail("'from', 'to' and 'width' (or a list of 'edges')", "an incomplete set");
     const double a = from->quantity(ctx.units, "nm", "100 nm");
     const double b = to->quantity(ctx.units, "nm", "1000 nm");
     const double w = width->quantity(ctx.units, "nm", "1 nm");
@@ -106,7 +224,8 @@ void load_bins(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
       width->fail("a width that divides 'to' - 'from' into whole bins", width->describe());
     }
     const auto nb = static_cast<std::size_t>(count);
-    for (std::size_t i = 0; i <= nb; ++i) e.push_back(a + (b - a) * static_cast<double>(i) / static_cast<double>(nb));
+    for (std::size_t i = 0; i <= nb; ++i)
+      e.push_back(a + (b - a) * static_cast<double>(i) / static_cast<double>(nb));
   }
   spec.bin_edges_nm = std::move(e);
 }
@@ -160,16 +279,18 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
     target = "erg cm-2 s-1 nm-1";
     s.energy = true;
   } else {
-    table->fail("a spectrum column in a photon flux unit (e.g. 'cm-2 s-1 nm-1') or an energy "
-                "flux unit (e.g. 'W m-2 nm-1')",
-                "column '" + column + "' in " + t.file() + " with " +
-                    (unit.empty() ? std::string("no unit") : "unit '" + unit + "'"));
+    table->fail(
+        "a spectrum column in a photon flux unit (e.g. 'cm-2 s-1 nm-1') or an energy "
+        "flux unit (e.g. 'W m-2 nm-1')",
+        "column '" + column + "' in " + t.file() + " with " +
+            (unit.empty() ? std::string("no unit") : "unit '" + unit + "'"));
   }
   t.require_increasing(wl_column);
   s.table.wavelength_nm = t.column(wl_column, ctx.units, "nm");
   s.table.value = t.column(column, ctx.units, target);
   for (std::size_t r = 0; r < s.table.value.size(); ++r) {
-    if (!(s.table.value[r] >= 0.0)) t.fail_row(r, column, "a flux >= 0", std::to_string(t.raw(column)[r]));
+    if (!(s.table.value[r] >= 0.0))
+      t.fail_row(r, column, "a flux >= 0", std::to_string(t.raw(column)[r]));
   }
   s.table.source = table_label(t);
   if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", file, t.text()});
@@ -196,7 +317,8 @@ void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
   const double deg90 = 0.5 * constants::kPi * (1.0 + 1e-12);
   if (zen) {
-    if (dec || pts) n.fail("'zenith_angle' without 'declination' or 'hour_angle_points'", "both forms");
+    if (dec || pts)
+      n.fail("'zenith_angle' without 'declination' or 'hour_angle_points'", "both forms");
     il.form = IlluminationForm::kFixed;
     il.zenith_angle_rad = angle(*zen, ctx.units, "60 deg");
     if (!(il.zenith_angle_rad >= 0.0 && il.zenith_angle_rad <= deg90)) {
@@ -207,7 +329,9 @@ void load_illumination(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
       if (!(il.day_fraction >= 0.0 && il.day_fraction <= 1.0)) frac->fail("a fraction from 0 to 1");
     }
   } else {
-    if (frac) frac->fail("no 'day_fraction' with 'latitude' (the quadrature gives the day length)", frac->describe());
+    if (frac)
+      frac->fail("no 'day_fraction' with 'latitude' (the quadrature gives the day length)",
+                 frac->describe());
     il.form = IlluminationForm::kDiurnal;
     il.latitude_rad = angle(*lat, ctx.units, "30 deg");
     if (std::abs(il.latitude_rad) > deg90) lat->fail("a latitude from -90 to 90 deg");
@@ -279,13 +403,15 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   a.altitude_cm = t.column(alt, ctx.units, "cm");
   a.extinction_cm1 = t.column(column, ctx.units, "cm-1");
   for (std::size_t r = 0; r < a.extinction_cm1.size(); ++r) {
-    if (!(a.extinction_cm1[r] >= 0.0)) t.fail_row(r, column, "an extinction >= 0", std::to_string(t.raw(column)[r]));
+    if (!(a.extinction_cm1[r] >= 0.0))
+      t.fail_row(r, column, "an extinction >= 0", std::to_string(t.raw(column)[r]));
   }
   if ((ssa ? 1 : 0) + (asym ? 1 : 0) == 1) {
     n.fail("both 'single_scattering_albedo' and 'asymmetry' (or neither)", "only one of them");
   }
   if (ssa) {
-    a.single_scattering_albedo = load_optical_property(*ssa, ctx, t, "single-scattering albedo", 0.0, 1.0);
+    a.single_scattering_albedo =
+        load_optical_property(*ssa, ctx, t, "single-scattering albedo", 0.0, 1.0);
     a.asymmetry = load_optical_property(*asym, ctx, t, "asymmetry parameter", -0.99, 0.99);
     a.has_optical_properties = true;
   }
@@ -306,7 +432,9 @@ void load_radiative_transfer(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec
                   : RadiativeTransferScheme::kDirectBeam;
   if (rt.scheme == RadiativeTransferScheme::kDirectBeam) {
     for (const auto& k : {closure, delta, albedo}) {
-      if (k) k->fail("no two-stream settings with 'scheme: direct_beam'", k->describe(), "use scheme: two_stream");
+      if (k)
+        k->fail("no two-stream settings with 'scheme: direct_beam'", k->describe(),
+                "use scheme: two_stream");
     }
     return;
   }
@@ -320,13 +448,16 @@ void load_radiative_transfer(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec
   if (albedo) {
     if (albedo->is_scalar()) {
       rt.surface_albedo = albedo->number();
-      if (!(rt.surface_albedo >= 0.0 && rt.surface_albedo <= 1.0)) albedo->fail("an albedo from 0 to 1");
+      if (!(rt.surface_albedo >= 0.0 && rt.surface_albedo <= 1.0))
+        albedo->fail("an albedo from 0 to 1");
     } else {
       Table t;
-      rt.surface_albedo_table = read_spectrum_table(*albedo, ctx, "surface albedo", "albedo", "1", &t);
+      rt.surface_albedo_table =
+          read_spectrum_table(*albedo, ctx, "surface albedo", "albedo", "1", &t);
       for (std::size_t r = 0; r < rt.surface_albedo_table.value.size(); ++r) {
         if (rt.surface_albedo_table.value[r] > 1.0) {
-          t.fail_row(r, "albedo", "an albedo from 0 to 1", std::to_string(rt.surface_albedo_table.value[r]));
+          t.fail_row(r, "albedo", "an albedo from 0 to 1",
+                     std::to_string(rt.surface_albedo_table.value[r]));
         }
       }
     }
@@ -335,8 +466,14 @@ void load_radiative_transfer(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec
 
 // --- Data file ----------------------------------------------------------------------
 
-void load_cross_section(const ConfigNode& n, Ctx& ctx, AbsorberSpec& ab) {
+void load_cross_section(const ConfigNode& n, Ctx& ctx, AbsorberSpec& ab, PhotolysisSpec& spec) {
   const std::string role = "cross section of " + ab.species;
+  if (!n.is_scalar()) {
+    ParameterUse use;
+    use.target = ParameterTarget::kCrossSectionScale;
+    use.absorber = spec.absorbers.size();
+    read_scale_key(n, use, spec);
+  }
   if (n.is_scalar()) {
     ab.cross_section.tables.push_back(read_spectrum_table(n, ctx, role, "cross_section", "cm2"));
     return;
@@ -365,7 +502,7 @@ void load_cross_section(const ConfigNode& n, Ctx& ctx, AbsorberSpec& ab) {
   if (ab.cross_section.tables.empty()) many->fail("at least one {temperature, table}");
 }
 
-OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx) {
+OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec, std::size_t band) {
   OvertoneBandSpec b;
   if (auto l = n.find("label")) b.label = l->text();
   const auto c = n.child("center");
@@ -390,15 +527,31 @@ OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx) {
   if ((S ? 1 : 0) + (f ? 1 : 0) != 1) {
     n.fail("exactly one of 'strength' (cm, integrated over wavenumber) or 'oscillator_strength'");
   }
+  ParameterUse use;
+  use.target = ParameterTarget::kBandStrength;
+  use.absorber = spec.absorbers.size();
+  use.band = band;
   if (S) {
-    b.strength_cm = S->quantity(ctx.units, "cm", "1e-20 cm");
+    b.strength_cm = read_parametric(
+        *S,
+        [&](const ConfigNode& q, const std::string& unit) {
+          if (!same_dimension(ctx.units, unit, "cm"))
+            q.fail("a band strength in a length unit ('1e-20 cm')", "unit '" + unit + "'");
+          return Conversion{*ctx.units.convert(1.0, unit, "cm"), false};
+        },
+        use, spec);
     if (!(b.strength_cm >= 0.0)) S->fail("a strength >= 0");
   } else {
-    const double fv = f->number();
-    if (!(fv >= 0.0)) f->fail("an oscillator strength >= 0");
-    const double e2 = constants::kElementaryCharge * constants::kElementaryCharge;
-    b.strength_cm = constants::kPi * e2 /
-                    (constants::kElectronMass * constants::kSpeedOfLight * constants::kSpeedOfLight) * fv;
+    // S = (pi e^2 / (m_e c^2)) f.
+    b.strength_cm = read_parametric(
+        *f,
+        [&](const ConfigNode& q, const std::string& unit) {
+          if (!unit.empty())
+            q.fail("an oscillator strength (a number without a unit)", "unit '" + unit + "'");
+          return Conversion{band_strength_from_oscillator(1.0), false};
+        },
+        use, spec);
+    if (!(b.strength_cm >= 0.0)) f->fail("an oscillator strength >= 0");
   }
   n.done();
   return b;
@@ -410,24 +563,45 @@ double unit_fraction(const ConfigNode& n) {
   return v;
 }
 
-QuantumYieldSpec load_yield(const ConfigNode& n, Ctx& ctx, const std::string& channel) {
+QuantumYieldSpec load_yield(const ConfigNode& n, Ctx& ctx, const std::string& channel,
+                            PhotolysisSpec& spec) {
   QuantumYieldSpec q;
-  if (n.is_scalar()) {
+  ParameterUse use;
+  use.channel = spec.channels.size();
+  if (n.is_scalar() || n.has("parameter") || n.has("value")) {
     q.form = YieldForm::kConstant;
-    q.value = unit_fraction(n);
+    use.target = ParameterTarget::kYieldValue;
+    const auto before = spec.parameter_uses.size();
+    q.value = read_parametric(
+        n,
+        [](const ConfigNode& v, const std::string& unit) {
+          if (!unit.empty())
+            v.fail("a quantum yield (a number without a unit)", "unit '" + unit + "'");
+          return Conversion{};
+        },
+        use, spec);
+    if (spec.parameter_uses.size() == before && !(q.value >= 0.0 && q.value <= 1.0)) {
+      n.fail("a quantum yield from 0 to 1");
+    }
     return q;
   }
+  use.target = ParameterTarget::kYieldScale;
+  read_scale_key(n, use, spec);
   const auto table = n.find("table");
   const auto step = n.find("step");
   if ((table ? 1 : 0) + (step ? 1 : 0) != 1) {
-    n.fail("a number, {table: FILE} or {step: {below: WAVELENGTH, value: PHI}}");
+    n.fail(
+        "a number, {table: FILE}, {step: {below: WAVELENGTH, value: PHI}}, {parameter: NAME} "
+        "or {value: PHI, scale: NAME}");
   }
   if (table) {
     q.form = YieldForm::kTable;
     Table t;
     q.table = read_spectrum_table(n, ctx, "quantum yield of " + channel, "quantum_yield", "1", &t);
     for (std::size_t r = 0; r < q.table.value.size(); ++r) {
-      if (q.table.value[r] > 1.0) t.fail_row(r, "quantum_yield", "a quantum yield from 0 to 1", std::to_string(q.table.value[r]));
+      if (q.table.value[r] > 1.0)
+        t.fail_row(r, "quantum_yield", "a quantum yield from 0 to 1",
+                   std::to_string(q.table.value[r]));
     }
     return q;
   }
@@ -462,11 +636,13 @@ void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& u
     AbsorberSpec ab;
     const auto sp = item.child("species");
     ab.species = sp.text();
-    if (!absorbers.insert(ab.species).second) sp.fail("each absorber declared once", "'" + ab.species + "' again");
+    if (!absorbers.insert(ab.species).second)
+      sp.fail("each absorber declared once", "'" + ab.species + "' again");
     const auto cs = item.find("cross_section");
-    if (cs) load_cross_section(*cs, ctx, ab);
+    if (cs) load_cross_section(*cs, ctx, ab, spec);
     if (auto bands = item.find("bands")) {
-      for (const auto& b : bands->items()) ab.bands.push_back(load_band(b, ctx));
+      for (const auto& b : bands->items())
+        ab.bands.push_back(load_band(b, ctx, spec, ab.bands.size()));
     }
     if (!cs && ab.bands.empty()) item.fail("a 'cross_section' or 'bands' (or both)", "neither");
     item.done();
@@ -483,7 +659,8 @@ void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& u
       if (ch.name.empty() || ch.name.find_first_of(" \t/") != std::string::npos) {
         nm.fail("a channel name without spaces or '/' (it names the output variable J_<name>)");
       }
-      if (!names.insert(ch.name).second) nm.fail("distinct channel names", "'" + ch.name + "' again");
+      if (!names.insert(ch.name).second)
+        nm.fail("distinct channel names", "'" + ch.name + "' again");
       const auto ab = item.child("absorber");
       ch.absorber = ab.text();
       if (absorbers.count(ch.absorber) == 0) {
@@ -492,14 +669,43 @@ void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& u
         ab.fail("an absorber declared under 'absorbers'", "'" + ch.absorber + "'", hint);
       }
       if (auto p = item.find("products")) ch.products = p->text();
-      if (auto q = item.find("quantum_yield")) ch.quantum_yield = load_yield(*q, ctx, ch.name);
+      if (auto q = item.find("quantum_yield"))
+        ch.quantum_yield = load_yield(*q, ctx, ch.name, spec);
       if (auto b = item.find("branching")) {
         ch.branching = b->number();
-        if (!(ch.branching >= 0.0 && ch.branching <= 1.0)) b->fail("a branching fraction from 0 to 1");
+        if (!(ch.branching >= 0.0 && ch.branching <= 1.0))
+          b->fail("a branching fraction from 0 to 1");
       }
-      if (auto t = item.find("threshold")) {
-        ch.threshold_nm = t->quantity(units, "nm", "219 nm");
-        if (!(ch.threshold_nm > 0.0)) t->fail("a positive wavelength");
+      ParameterUse use;
+      use.channel = spec.channels.size();
+      const auto t = item.find("threshold");
+      if (t) {
+        use.target = ParameterTarget::kThreshold;
+        const auto before = spec.parameter_uses.size();
+        ch.threshold_nm = read_parametric(
+            *t,
+            [&](const ConfigNode& q, const std::string& unit) {
+              return threshold_conversion(q, units, unit);
+            },
+            use, spec);
+        if (spec.parameter_uses.size() == before &&
+            !(ch.threshold_nm > 0.0 && std::isfinite(ch.threshold_nm))) {
+          t->fail("a positive wavelength or energy");
+        }
+      }
+      if (auto w = item.find("onset_width")) {
+        if (!t) w->fail("an 'onset_width' only with a 'threshold'", w->describe());
+        use.target = ParameterTarget::kOnsetWidth;
+        const auto before = spec.parameter_uses.size();
+        ch.onset_width_cm1 = read_parametric(
+            *w,
+            [&](const ConfigNode& q, const std::string& unit) {
+              return energy_conversion(q, units, unit);
+            },
+            use, spec);
+        if (spec.parameter_uses.size() == before && !(ch.onset_width_cm1 >= 0.0)) {
+          w->fail("an energy width >= 0");
+        }
       }
       item.done();
       spec.channels.push_back(std::move(ch));
@@ -561,10 +767,86 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
   if (rt) load_radiative_transfer(*rt, ctx, spec);
   if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream && aerosol &&
       !spec.aerosol.has_optical_properties) {
-    aerosol->fail("'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: two_stream'",
-                  "neither");
+    aerosol->fail(
+        "'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: two_stream'",
+        "neither");
   }
   return spec;
+}
+
+void resolve_photolysis_parameters(PhotolysisSpec& spec, const Mechanism* mech) {
+  std::vector<std::string> names;
+  if (mech) {
+    for (const auto& p : mech->parameters) names.push_back(p.name);
+  }
+  for (auto& u : spec.parameter_uses) {
+    const auto idx = mech ? mech->parameter_index(u.name) : std::nullopt;
+    if (!idx) {
+      std::string hint = mech ? std::string{} : "the scenario has no 'chemistry' section";
+      if (auto near = nearest_word(u.name, names)) hint = "did you mean '" + *near + "'?";
+      throw InputError(ExitCode::kInputData, u.where, u.key_path,
+                       "a parameter declared under 'parameters' in the mechanism" +
+                           (mech ? " '" + mech->file.string() + "'" : std::string{}),
+                       "undeclared parameter '" + u.name + "'", hint);
+    }
+    u.parameter = *idx;
+    u.resolved = true;
+    // The value must make sense over the whole declared range of the parameter.
+    const Parameter& p = mech->parameters[*idx];
+    const ChannelSpec* ch = u.channel < spec.channels.size() ? &spec.channels[u.channel] : nullptr;
+    for (const double x : {p.min, p.max}) {
+      const double v = u.value(x);
+      std::string bad;
+      switch (u.target) {
+        case ParameterTarget::kThreshold:
+          if (!(v > 0.0 && std::isfinite(v))) bad = "a positive threshold";
+          break;
+        case ParameterTarget::kOnsetWidth:
+        case ParameterTarget::kBandStrength:
+        case ParameterTarget::kCrossSectionScale:
+          if (!(v >= 0.0 && std::isfinite(v))) bad = "a value >= 0";
+          break;
+        case ParameterTarget::kYieldValue:
+          if (!(v >= 0.0 && v <= 1.0)) bad = "a quantum yield from 0 to 1";
+          break;
+        case ParameterTarget::kYieldScale: {
+          double top = 0.0;  // the largest yield the form gives before the scale
+          const auto& q = ch->quantum_yield;
+          if (q.form == YieldForm::kTable) {
+            for (double y : q.table.value) top = std::max(top, y);
+          } else {
+            top = std::max(q.below_value, q.above_value);
+          }
+          if (!(v >= 0.0 && v * top <= 1.0)) bad = "a scaled quantum yield from 0 to 1";
+          break;
+        }
+      }
+      if (!bad.empty()) {
+        throw InputError(
+            ExitCode::kInputData, u.where, u.key_path,
+            fmt::format("{} for every value of '{}' in [{}, {}]", bad, u.name, p.min, p.max),
+            fmt::format("{:g} at {} = {}", v, u.name, x));
+      }
+    }
+  }
+  if (!mech) return;
+  // A declared parameter that neither a reaction nor the photolysis data use does nothing.
+  for (std::size_t i = 0; i < mech->parameters.size(); ++i) {
+    bool used = std::any_of(spec.parameter_uses.begin(), spec.parameter_uses.end(),
+                            [&](const ParameterUse& u) { return u.parameter == i; });
+    for (const auto& rx : mech->reactions) {
+      for (const auto& f : rx.scale) used = used || f.parameter == i;
+    }
+    if (!used) {
+      const Parameter& p = mech->parameters[i];
+      throw InputError(ExitCode::kInputData, p.where, "parameters." + p.name,
+                       "a parameter that a reaction's 'scale' or the photolysis data ('" +
+                           spec.data_source + "') refer to",
+                       "'" + p.name + "', used by nothing",
+                       "refer to it ({parameter: " + p.name + "} or {value: ..., scale: " + p.name +
+                           "} in the photolysis data) or remove it");
+    }
+  }
 }
 
 void load_photolysis_section(const ConfigNode& section, const UnitSystem& units, Scenario& sc) {

@@ -248,7 +248,10 @@ Scenario load_scenario(const std::filesystem::path& file,
   load_grid(root.child("grid"), ctx);
   load_atmosphere(root.child("atmosphere"), ctx);
   if (auto c = root.find("chemistry")) load_chemistry_section(*c, units, sc);
-  if (auto p = root.find("photolysis")) load_photolysis_section(*p, units, sc);
+  if (auto p = root.find("photolysis")) {
+    load_photolysis_section(*p, units, sc);
+    resolve_photolysis_parameters(sc.photolysis, sc.chemistry.mechanism.get());
+  }
   if (auto o = root.find("output")) load_output(*o, ctx);
   if (auto o = root.find("observations")) sc.observations = o->path();
   if (auto s = root.find("species")) load_species_section(*s, units, sc.species_setup, &sc.inputs);

@@ -11,7 +11,13 @@
 // midpoint rule on each cell: second order in dz (tests/photo/test_chapman.cpp).
 // Plane-parallel slant: tau_s = tau / mu0. Spherical: the exact ray through the grid's
 // spherical shells and the Chapman function Ch(X_top, chi_top) for the column above the top.
-// f_c,b is the fraction of bin b short of the channel's threshold wavelength.
+// f_c,b is the bin average of the near-threshold onset rho (for tables: the fraction of bin b
+// short of the channel's threshold wavelength when the onset width is 0); overtone bands
+// enter sigma_c,b integrated with rho above the threshold only (spectral_binning.hpp).
+// Named parameters (photolysis_spec.hpp, ParameterUse) are written into the data before
+// binning; dJ/dp (parameter_derivative) for the direct beam:
+//   dJ_c/dp = sum_k w_k sum_b (d(sigma phi f)_c,b/dp - (sigma phi f)_c,b dtau_s,b/dp) F_b,
+// dtau_s/dp the slant path integral of sum_i (dsigma_i/dp) n_i.
 // Two-stream scheme (radiative_transfer.scheme: two_stream; photo/two_stream.hpp): F in J is
 // the actinic flux, the direct beam above plus 2 (F+ + F-) of the diffuse field at the cell
 // centre, solved per bin and sun position over the column above the top (layer 0: its gas
@@ -40,8 +46,11 @@ class PhotolysisModel {
   /// Absorbers are looked up in `species_names`; one that is not a model species but a
   /// bulk gas of the background uses its bulk mole fraction times the air density; any
   /// other is an InputError. Rayleigh gases absent from both contribute nothing.
+  /// `parameters` are the mechanism's parameter values (index as Mechanism::parameters);
+  /// they are required when the spec refers to named parameters (spec.parameter_uses).
   PhotolysisModel(const PhotolysisSpec& spec, const Background& bg,
-                  const std::vector<std::string>& species_names);
+                  const std::vector<std::string>& species_names,
+                  std::span<const double> parameters = {});
 
   /// Channel names in order (J is laid out channel-major in this order).
   [[nodiscard]] const std::vector<std::string>& channels() const { return channel_names_; }
@@ -59,6 +68,17 @@ class PhotolysisModel {
   /// direct-beam flux F[j * B + b] in photons cm^-2 s^-1 nm^-1. Allocates nothing; not
   /// safe to call concurrently on one object (it reuses its workspace).
   void compute(std::span<const double> n, std::span<double> J, std::span<double> actinic_flux = {});
+
+  /// Whether a named parameter (index as Mechanism::parameters) acts on the photolysis data.
+  [[nodiscard]] bool acts_on(std::size_t parameter) const;
+  /// dJ[c * N + j] / dp (s^-1 per unit of p) for the named parameter `parameter` at the
+  /// densities n (zero when it does not act on the data). The binned data are
+  /// differentiated by a central difference of the closed-form bin integrals (step
+  /// 1e-5 max(|p|, 1e-3)); direct beam (plane-parallel or spherical): the change of the
+  /// light field through the absorbers' optical depths is exact. Two-stream: a central
+  /// difference of compute() along the same direction (diffuse field included).
+  /// Allocates; not safe to call concurrently with compute() on one object.
+  void parameter_derivative(std::size_t parameter, std::span<const double> n, std::span<double> dJ);
 
   /// Whether the diffuse field is computed (radiative_transfer.scheme: two_stream).
   [[nodiscard]] bool two_stream() const { return two_stream_; }
@@ -83,7 +103,31 @@ class PhotolysisModel {
     std::size_t lo = 0, hi = 0;
   };
 
+  /// d(sigma_phi) and d(sigma) of the binned data with respect to one named parameter.
+  struct ParameterDerivative {
+    std::size_t parameter = 0;
+    double value = 0.0;
+    double step = 0.0;
+    std::vector<std::vector<double>> dsigma;      ///< per absorber (attenuator index); empty: 0
+    std::vector<std::vector<double>> dsigma_phi;  ///< per channel; empty: 0
+  };
+  static constexpr double kParameterStep = 1e-5;
+
   [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
+  /// Step 1 of compute(): dtau_, tau_top_ (and the Rayleigh parts), and vtau_ (direct beam,
+  /// plane-parallel).
+  void compute_depths(std::span<const double> n);
+  /// Adds sigma n dz of attenuator a to dtau [j * B + b] and sigma n H_top to tau_top [b].
+  void add_thickness(const Attenuator& a, const std::vector<double>& sigma,
+                     std::span<const double> n, std::vector<double>& dtau,
+                     std::vector<double>& tau_top) const;
+  /// Vertical optical depth at the cell centres from the cell thicknesses and the top.
+  void vertical_depth(const std::vector<double>& dtau, const std::vector<double>& tau_top,
+                      std::vector<double>& vtau);
+  /// Slant optical depth of the beam to the centre of cell j for sun position `node`.
+  void slant_depth(std::size_t node, std::size_t j, const std::vector<double>& dtau,
+                   const std::vector<double>& tau_top, const std::vector<double>& vtau,
+                   std::vector<double>& out) const;
   /// Two-stream: the layers (the column above the top, then the cells from the top down) of
   /// the current optical depths, and their sun-independent optics.
   void layer_optics();
@@ -97,6 +141,7 @@ class PhotolysisModel {
   std::vector<double> top_flux_;  ///< photons cm^-2 s^-1 per bin at the planet
   std::vector<Attenuator> attenuators_;
   std::vector<Channel> chans_;
+  std::vector<ParameterDerivative> derivs_;
   std::vector<std::string> channel_names_, products_;
   std::vector<double> air_density_, dz_, top_column_factor_;
   double top_height_ = 0.0;           ///< n_top,edge H_top / n_N (cm)
@@ -114,7 +159,7 @@ class PhotolysisModel {
   /// Spherical: factors of the rays from every edge e = 0..N, [node][e * N + k], [node][e].
   std::vector<std::vector<double>> edge_path_factor_, edge_top_factor_;
   // Workspace (sized at construction).
-  std::vector<double> dtau_, vtau_, tau_top_, beam_;
+  std::vector<double> dtau_, vtau_, tau_top_, beam_, column_;
   std::vector<double> ray_dtau_, ray_top_;
   /// Layer-major [layer * B + b] (layer 0 above the top, layer N - j = cell j).
   std::vector<double> lay_dtau_, lay_w_, lay_g_, slant_, up_, down_, upm_, downm_, act_;

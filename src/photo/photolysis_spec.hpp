@@ -4,9 +4,11 @@
 // lengths cm, band strengths cm (per molecule, integrated over wavenumber in cm^-1).
 #pragma once
 
+#include <span>
 #include <string>
 #include <vector>
 
+#include "core/error.hpp"
 #include "photo/two_stream.hpp"
 
 namespace colchem {
@@ -25,6 +27,7 @@ struct TabulatedSpectrum {
 struct CrossSectionSpec {
   std::vector<double> temperature_K;      ///< empty or one entry: temperature-independent
   std::vector<TabulatedSpectrum> tables;  ///< one per temperature (or a single table)
+  double scale = 1.0;                     ///< multiplies every table (a named parameter)
 };
 
 enum class BandShape { kGaussian, kLorentzian };
@@ -56,6 +59,7 @@ struct QuantumYieldSpec {
   double step_nm = 0.0;
   double below_value = 1.0;
   double above_value = 0.0;
+  double scale = 1.0;  ///< multiplies the yield of any form (a named parameter)
 };
 
 struct ChannelSpec {
@@ -65,6 +69,43 @@ struct ChannelSpec {
   QuantumYieldSpec quantum_yield;
   double branching = 1.0;     ///< extra constant factor (e.g. beta of a split channel)
   double threshold_nm = 0.0;  ///< photons longward of this do not photolyse; 0 = no limit
+  /// Near-threshold onset: the yield is multiplied by rho = min(1, (nu~ - nu~_t) / w) for
+  /// photon wavenumbers nu~ >= nu~_t (0 below); w = 0 is a sharp step at the threshold.
+  double onset_width_cm1 = 0.0;
+};
+
+/// What a named parameter (declared in the mechanism, index Mechanism::parameters) acts on.
+enum class ParameterTarget {
+  kThreshold,          ///< ChannelSpec::threshold_nm
+  kOnsetWidth,         ///< ChannelSpec::onset_width_cm1
+  kYieldValue,         ///< QuantumYieldSpec::value (constant form)
+  kYieldScale,         ///< QuantumYieldSpec::scale
+  kBandStrength,       ///< OvertoneBandSpec::strength_cm
+  kCrossSectionScale,  ///< CrossSectionSpec::scale
+};
+
+/// One reference to a named parameter in the photolysis data. The written quantity is
+/// q = p (`{parameter: NAME, unit: U}`, set) or q = base p (`{value: Q, scale: NAME}`);
+/// the internal value is q * factor, or 1e7 / (q * factor) when `reciprocal` (an energy
+/// turned into a threshold wavelength in nm: factor converts it to cm^-1).
+struct ParameterUse {
+  std::string name;
+  std::size_t parameter = 0;  ///< index into the mechanism's parameters (resolved at load)
+  bool resolved = false;
+  SourceLocation where;  ///< of the reference in the data file
+  std::string key_path;
+  ParameterTarget target = ParameterTarget::kThreshold;
+  std::size_t absorber = 0, band = 0, channel = 0;
+  bool scale = false;
+  double base = 1.0;
+  double factor = 1.0;
+  bool reciprocal = false;
+
+  /// The internal value for parameter value p.
+  [[nodiscard]] double value(double p) const {
+    const double q = (scale ? base * p : p) * factor;
+    return reciprocal ? 1.0e7 / q : q;
+  }
 };
 
 /// Rayleigh scattering of one bulk gas: sigma_R = sigma_0 (lambda_0 / lambda)^exponent.
@@ -154,7 +195,13 @@ struct PhotolysisSpec {
   AerosolSpec aerosol;
   RadiativeTransferSpec radiative_transfer;
   std::string data_source;  ///< the data file, for provenance
+  /// Named parameters the data refer to (resolved against the mechanism at scenario load).
+  std::vector<ParameterUse> parameter_uses;
 };
+
+/// Writes the values of the parameters the spec refers to into its fields (parameters:
+/// indexed as the mechanism's; every use must be resolved). Returns the changed spec.
+PhotolysisSpec with_parameters(const PhotolysisSpec& spec, std::span<const double> parameters);
 
 /// The default spectral grid: 1 nm bins from 100 to 350 nm (resolves the SO2 and O3
 /// band envelopes at the resolution of tabulated data), 5 nm bins from 350 to 1000 nm.

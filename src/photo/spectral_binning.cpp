@@ -14,8 +14,7 @@ constexpr double kCmPerNm = 1.0e-7;
 
 /// Integral over [a, b] of the linear function through (x0, y0), (x1, y1), times
 /// (lambda)^power for power 0 or 1 (Simpson's rule is exact for these degrees).
-double piece_integral(double x0, double y0, double x1, double y1, double a, double b,
-                      int power) {
+double piece_integral(double x0, double y0, double x1, double y1, double a, double b, int power) {
   auto f = [&](double x) {
     const double y = y0 + (y1 - y0) * (x - x0) / (x1 - x0);
     return power == 0 ? y : y * x;
@@ -64,6 +63,17 @@ double shape_cdf(BandShape shape, double fwhm_cm1, double d) {
   return 0.5 + std::atan(d / gamma) / constants::kPi;
 }
 
+/// Antiderivative of x g(x) at offset d (cm^-1): -s^2 g(d) (Gaussian),
+/// (gamma / 2 pi) ln(d^2 + gamma^2) (Lorentzian).
+double shape_moment(BandShape shape, double fwhm_cm1, double d) {
+  if (shape == BandShape::kGaussian) {
+    const double s = fwhm_cm1 / (2.0 * std::sqrt(2.0 * std::log(2.0)));
+    return -s / std::sqrt(2.0 * constants::kPi) * std::exp(-0.5 * d * d / (s * s));
+  }
+  const double gamma = 0.5 * fwhm_cm1;
+  return gamma / (2.0 * constants::kPi) * std::log(d * d + gamma * gamma);
+}
+
 }  // namespace
 
 std::vector<double> default_bin_edges() {
@@ -81,8 +91,7 @@ std::vector<double> bin_average(const TabulatedSpectrum& t, std::span<const doub
   return out;
 }
 
-std::vector<double> bin_average_held(const TabulatedSpectrum& t,
-                                     std::span<const double> edges) {
+std::vector<double> bin_average_held(const TabulatedSpectrum& t, std::span<const double> edges) {
   std::vector<double> out(edges.size() - 1);
   for (std::size_t b = 0; b + 1 < edges.size(); ++b) {
     out[b] = table_integral(t, edges[b], edges[b + 1], 0, true) / (edges[b + 1] - edges[b]);
@@ -122,23 +131,63 @@ double fraction_below(double a, double b, double threshold) {
   return (threshold - a) / (b - a);
 }
 
+double onset_average(double a, double b, double threshold, double onset_cm1) {
+  if (threshold <= 0.0 || onset_cm1 <= 0.0) return fraction_below(a, b, threshold);
+  const double nu_t = 1.0e7 / threshold;
+  const double full = 1.0e7 / (nu_t + onset_cm1);  // wavelength where rho reaches 1
+  // rho = 1 on [a, min(b, full)]; (1e7 / lambda - nu_t) / w on [max(a, full), min(b, threshold)].
+  double sum = std::max(0.0, std::min(b, full) - a);
+  const double lo = std::max(a, full);
+  const double hi = std::min(b, threshold);
+  if (hi > lo) sum += (1.0e7 * std::log(hi / lo) - nu_t * (hi - lo)) / onset_cm1;
+  return sum / (b - a);
+}
+
+std::vector<double> band_onto_bins_above(const OvertoneBandSpec& band,
+                                         std::span<const double> edges, double threshold_nm,
+                                         double onset_cm1) {
+  if (threshold_nm <= 0.0) return band_onto_bins(band, edges);
+  const double nu0 = 1.0 / (band.center_nm * kCmPerNm);
+  const double nu_t = 1.0e7 / threshold_nm;
+  const double w = std::max(onset_cm1, 0.0);
+  auto cdf = [&](double nu) { return shape_cdf(band.shape, band.fwhm_cm1, nu - nu0); };
+  auto moment = [&](double nu) { return shape_moment(band.shape, band.fwhm_cm1, nu - nu0); };
+  std::vector<double> out(edges.size() - 1);
+  for (std::size_t b = 0; b + 1 < edges.size(); ++b) {
+    const double nu_hi = 1.0 / (edges[b] * kCmPerNm);
+    const double nu_lo = 1.0 / (edges[b + 1] * kCmPerNm);
+    double frac = 0.0;
+    // rho = 1 above nu_t + w.
+    const double full = std::max(nu_lo, nu_t + w);
+    if (nu_hi > full) frac += cdf(nu_hi) - cdf(full);
+    // The ramp (nu - nu_t) / w on [nu_t, nu_t + w]: int (x + nu0 - nu_t) g(x) dx / w.
+    if (w > 0.0) {
+      const double lo = std::max(nu_lo, nu_t);
+      const double hi = std::min(nu_hi, nu_t + w);
+      if (hi > lo) {
+        frac += (moment(hi) - moment(lo) + (nu0 - nu_t) * (cdf(hi) - cdf(lo))) / w;
+      }
+    }
+    out[b] = band.strength_cm * frac / (nu_hi - nu_lo);
+  }
+  return out;
+}
+
 std::vector<double> planck_photon_flux_1au(double T, double radius_cm,
                                            std::span<const double> edges) {
   // 8-point Gauss-Legendre on [-1, 1] (Abramowitz and Stegun 1964, table 25.4).
-  static constexpr std::array<double, 8> x{-0.9602898564975363, -0.7966664774136267,
-                                           -0.5255324099163290, -0.1834346424956498,
-                                           0.1834346424956498,  0.5255324099163290,
-                                           0.7966664774136267,  0.9602898564975363};
-  static constexpr std::array<double, 8> w{0.1012285362903763, 0.2223810344533745,
-                                           0.3137066458778873, 0.3626837833783620,
-                                           0.3626837833783620, 0.3137066458778873,
-                                           0.2223810344533745, 0.1012285362903763};
+  static constexpr std::array<double, 8> x{
+      -0.9602898564975363, -0.7966664774136267, -0.5255324099163290, -0.1834346424956498,
+      0.1834346424956498,  0.5255324099163290,  0.7966664774136267,  0.9602898564975363};
+  static constexpr std::array<double, 8> w{
+      0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.3626837833783620,
+      0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763};
   const double dilution = constants::kPi * std::pow(radius_cm / constants::kAstronomicalUnit, 2);
   const double c2 = constants::kPlanck * constants::kSpeedOfLight / constants::kBoltzmann;
   auto photon_flux = [&](double l_nm) {  // per nm
     const double l = l_nm * kCmPerNm;
-    return dilution * 2.0 * constants::kSpeedOfLight / std::pow(l, 4) /
-           std::expm1(c2 / (l * T)) * kCmPerNm;
+    return dilution * 2.0 * constants::kSpeedOfLight / std::pow(l, 4) / std::expm1(c2 / (l * T)) *
+           kCmPerNm;
   };
   std::vector<double> out(edges.size() - 1);
   for (std::size_t b = 0; b + 1 < edges.size(); ++b) {
@@ -151,7 +200,8 @@ std::vector<double> planck_photon_flux_1au(double T, double radius_cm,
     double sum = 0.0;
     for (int p = 0; p < pieces; ++p) {
       const double mid = a + (p + 0.5) * h;
-      for (std::size_t q = 0; q < x.size(); ++q) sum += 0.5 * h * w[q] * photon_flux(mid + 0.5 * h * x[q]);
+      for (std::size_t q = 0; q < x.size(); ++q)
+        sum += 0.5 * h * w[q] * photon_flux(mid + 0.5 * h * x[q]);
     }
     out[b] = sum / (e - a);
   }

@@ -88,7 +88,7 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
                            channels.front() + "')",
                        "none");
     }
-    photo_ = std::make_unique<PhotolysisModel>(sc.photolysis, bg_, names_);
+    photo_ = std::make_unique<PhotolysisModel>(sc.photolysis, bg_, names_, sc.chemistry.parameters);
     for (const auto& c : channels) {
       const int pc = photo_->channel_index(c);
       if (pc < 0) {

@@ -106,6 +106,14 @@ colchem_cli_test(photo_tellin 0 "O3_O2_O1D" $<TARGET_FILE:colchem> photo ${CFG}/
 colchem_cli_test(photo_two_stream 0 "enhancement of J over the direct beam"
   $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
   --set "photolysis.radiative_transfer={scheme: two_stream, surface_albedo: 0.3}")
+# Named parameters on photolysis data: --set equals editing the data; an unused one refused.
+add_test(NAME cli.photo_parameter
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/photo_parameter_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/photo_parameter_work)
+colchem_cli_test(photo_parameter_unused 4
+  "pyrene.yaml:[0-9]+:[0-9]+: 'parameters.overtone_threshold_kcal'.*used by nothing"
+  $<TARGET_FILE:colchem> photo ${CFG}/pyrene_full.yaml
+  --set photolysis.data=${CFG}/photolysis/tellin_photo.yaml)
 colchem_cli_test(photo_two_stream_bad 3 "no two-stream settings with 'scheme: direct_beam'"
   $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
   --set "photolysis.radiative_transfer={scheme: direct_beam, closure: eddington}")
