@@ -7,6 +7,7 @@
 #include <map>
 #include <stdexcept>
 
+#include "chem/condensation.hpp"
 #include "core/constants.hpp"
 
 namespace colchem {
@@ -108,6 +109,11 @@ std::vector<ElementBudget> element_budgets(
   const std::size_t N = in.edge_cm.size() - 1;
   const std::size_t R = in.equations.size();
   std::map<std::string, ElementBudget> by_element;
+  std::vector<int> kind(R, 0);  // 1 condensed phase, 2 held profile
+  for (std::size_t r = 0; r < R; ++r) {
+    if (in.equations[r].find(kCondensedPhaseMarker) != std::string::npos) kind[r] = 1;
+    if (in.equations[r].find(kHeldProfileMarker) != std::string::npos) kind[r] = 2;
+  }
   for (std::size_t s = 0; s < S; ++s) {
     for (const auto& [el, count] : atoms[s]) {
       ElementBudget& e = by_element[el];
@@ -122,6 +128,8 @@ std::vector<ElementBudget> element_budgets(
         }
         chem += col;
         chem_gross += std::abs(col);
+        if (kind[r] == 1) e.condensed += count * col;
+        if (kind[r] == 2) e.profile_supply += count * col;
       }
       const double a = count;
       e.gross += a * chem_gross;

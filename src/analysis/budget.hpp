@@ -11,6 +11,10 @@
 // The chemical part vanishes for balanced reactions of unknown species; what remains comes
 // from sinks (reactions without products, condensation) and from species held fixed (their
 // chemical change is supplied from outside the model), both reported as their own terms.
+// The exchange with a condensed phase ("X -> (condensed phase)", chem/condensation.hpp) and
+// the supply that holds a profile ("X -> (held-profile supply)") are pseudo-reactions with
+// their own terms (condensed, profile_supply: what the gas gains from each, so condensation
+// is negative), also contained in `chemistry`.
 // At steady state the sum is zero: the imbalance relative to the gross terms is the check.
 #pragma once
 
@@ -66,6 +70,8 @@ struct ElementBudget {
   double chemistry = 0.0;     ///< sum over unknown species of a <chemical tendency>
   double held_supply = 0.0;   ///< sum over held species of a <chemical tendency> (supplied)
   double sinks = 0.0;         ///< chemistry + held_supply: what sinks remove (<= 0)
+  double condensed = 0.0;     ///< gained from the condensed phase (evaporation - condensation)
+  double profile_supply = 0.0;  ///< supplied to hold profiles (negative: removed)
   double imbalance = 0.0;     ///< boundary_in + chemistry: the column's change (0 at steady state)
   double gross = 0.0;         ///< sum of |column terms| of every species and reaction
   double relative_imbalance = 0.0;  ///< |imbalance| / gross

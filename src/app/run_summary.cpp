@@ -3,6 +3,9 @@
 // link the solvers.
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <cmath>
+
 #include "app/summary.hpp"
 #include "io/run_output.hpp"
 
@@ -33,6 +36,19 @@ std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutco
   for (const auto& b : column_element_budgets(model, d)) {
     s += fmt::format("  {:<3} {:+11.3e} {:+11.3e} {:+11.3e} {:+11.3e} ({:.1e})\n", b.element,
                      b.boundary_in, b.sinks, b.held_supply, b.imbalance, b.relative_imbalance);
+  }
+  for (const auto& x : model.exchange_report(r.x)) {
+    if (x.held_profile) {
+      double worst = 0.0;
+      for (std::size_t j = 0; j < x.n_eq.size(); ++j) {
+        if (x.n_eq[j] > 0.0) worst = std::max(worst, std::abs(r.x[j * model.species_count() + x.species] / x.n_eq[j] - 1.0));
+      }
+      s += fmt::format("{}: largest relative departure from the held profile {:.2e}\n", x.equation, worst);
+    } else {
+      s += fmt::format("{}: vapour at most 10x saturation in {} of {} cells with condensed phase "
+                       "(largest vapour/saturation there {:.3g})\n",
+                       x.equation, x.within_10x, x.reservoir_cells, x.worst_ratio);
+    }
   }
   const std::size_t S = model.species_count(), N = model.cells();
   const auto& bg = model.background();

@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <stdexcept>
 
+#include "core/constants.hpp"
+
 namespace colchem {
 
 namespace {
@@ -49,13 +51,18 @@ void ChemistryOperator::init(const ChemistrySpec& spec, std::span<const double> 
     const double x = it == bulk.end() ? 0.0 : it->second;
     for (std::size_t j = 0; j < N; ++j) fixed_n_[j * S + s] = x * air[j];
   }
-  for (const auto& sink : spec.sinks) {
-    for (std::size_t j = 0; j < N; ++j) {
-      if (j >= z.size() || !(z[j] < sink.below_cm)) continue;
-      sinks_.push_back(CellSink{j, sink.species, sink.saturation_density(T[j]),
-                                1.0 / sink.timescale_s});
+  exchanges_ = spec.exchanges;
+  for (std::size_t k = 0; k < exchanges_.size(); ++k) {
+    const double mass_g = m.species[exchanges_[k].species].molar_mass_g_mol / constants::kAvogadro;
+    for (const auto& c : colchem::exchange_cells(exchanges_[k], k, T, air, z, mass_g)) {
+      cells_x_.push_back(c);
     }
   }
+  std::stable_sort(cells_x_.begin(), cells_x_.end(),
+                   [](const ExchangeCell& a, const ExchangeCell& b) { return a.cell < b.cell; });
+  cell_first_.assign(N + 1, 0);
+  for (const auto& c : cells_x_) ++cell_first_[c.cell + 1];
+  for (std::size_t j = 0; j < N; ++j) cell_first_[j + 1] += cell_first_[j];
 }
 
 void ChemistryOperator::impose_fixed(std::span<double> n) const {
@@ -68,8 +75,9 @@ void ChemistryOperator::impose_fixed(std::span<double> n) const {
 void ChemistryOperator::cell_rhs(std::size_t j, const double* n, double* f) const {
   std::fill(f, f + species_count(), 0.0);
   kin_.add_tendency(j, n, f);
-  for (const auto& c : sinks_) {
-    if (c.cell == j && n[c.species] > c.n_sat) f[c.species] -= (n[c.species] - c.n_sat) * c.inv_tau;
+  for (std::size_t i = cell_first_[j]; i < cell_first_[j + 1]; ++i) {
+    const ExchangeCell& c = cells_x_[i];
+    f[c.species] += exchange_tendency(c, n[c.species]).f;
   }
 }
 
@@ -77,8 +85,9 @@ void ChemistryOperator::cell_jacobian(std::size_t j, const double* n, double* bl
   const std::size_t S = species_count();
   std::fill(block, block + S * S, 0.0);
   kin_.add_jacobian_dense(j, n, block);
-  for (const auto& c : sinks_) {
-    if (c.cell == j && n[c.species] > c.n_sat) block[c.species * S + c.species] -= c.inv_tau;
+  for (std::size_t i = cell_first_[j]; i < cell_first_[j + 1]; ++i) {
+    const ExchangeCell& c = cells_x_[i];
+    block[c.species * S + c.species] += exchange_tendency(c, n[c.species]).dfdn;
   }
 }
 
@@ -99,9 +108,8 @@ void ChemistryOperator::add_tendency(std::span<const double> n, double /*t*/,
   for (std::size_t j = 0; j < cells(); ++j) {
     kin_.add_tendency(j, n.data() + j * S, tendency.data() + j * S);
   }
-  for (const auto& c : sinks_) {
-    const double v = n[c.cell * S + c.species];
-    if (v > c.n_sat) tendency[c.cell * S + c.species] -= (v - c.n_sat) * c.inv_tau;
+  for (const auto& c : cells_x_) {
+    tendency[c.cell * S + c.species] += exchange_tendency(c, n[c.cell * S + c.species]).f;
   }
 }
 
@@ -114,8 +122,8 @@ void ChemistryOperator::add_jacobian(std::span<const double> n, double /*t*/,
   for (std::size_t j = 0; j < cells(); ++j) {
     kin_.add_jacobian_dense(j, n.data() + j * S, jac.diag.data() + j * S * S);
   }
-  for (const auto& c : sinks_) {
-    if (n[c.cell * S + c.species] > c.n_sat) jac.d(c.cell, c.species, c.species) -= c.inv_tau;
+  for (const auto& c : cells_x_) {
+    jac.d(c.cell, c.species, c.species) += exchange_tendency(c, n[c.cell * S + c.species]).dfdn;
   }
 }
 
@@ -143,9 +151,17 @@ void ChemistryOperator::reaction_rates(std::span<const double> n, std::span<doub
 void ChemistryOperator::condensation_rates(std::span<const double> n, std::span<double> C) const {
   const std::size_t S = species_count();
   std::fill(C.begin(), C.end(), 0.0);
-  for (const auto& c : sinks_) {
-    const double v = n[c.cell * S + c.species];
-    if (v > c.n_sat) C[c.cell * S + c.species] += (v - c.n_sat) * c.inv_tau;
+  for (const auto& c : cells_x_) {
+    C[c.cell * S + c.species] -= exchange_tendency(c, n[c.cell * S + c.species]).f;
+  }
+}
+
+void ChemistryOperator::exchange_rates(std::span<const double> n, std::span<double> out) const {
+  const std::size_t S = species_count(), N = cells();
+  if (out.size() != exchanges_.size() * N) throw std::invalid_argument("exchange_rates: size terms * cells");
+  std::fill(out.begin(), out.end(), 0.0);
+  for (const auto& c : cells_x_) {
+    out[c.term * N + c.cell] -= exchange_tendency(c, n[c.cell * S + c.species]).f;
   }
 }
 

@@ -2,10 +2,11 @@
 //
 //   f_{j,s}(n) = P_{j,s}(n) - L_{j,s}(n) - C_{j,s}(n)
 //
-// P, L from the active reactions (chem/kinetics.hpp); C the scenario's condensation sinks,
-// C = (n - n_sat(T_j))/tau for n > n_sat in cells below the deck, else 0 (its Jacobian is
-// the piecewise derivative -1/tau or 0). Cells are independent: the Jacobian is block
-// diagonal, and implicit_step integrates each cell with chem/stiff_integrator.hpp.
+// P, L from the active reactions (chem/kinetics.hpp); C the exchanges with a condensed phase
+// and the held profiles, C = k (n - n_eq) on the active branch (chem/condensation.hpp, the
+// one kernel exchange_tendency(), with its exact piecewise derivative). Cells are
+// independent: the Jacobian is block diagonal, and implicit_step integrates each cell with
+// chem/stiff_integrator.hpp.
 // Held-fixed species keep their background density n = x_bulk n_air (fixed_densities()).
 #pragma once
 
@@ -14,6 +15,7 @@
 #include <string>
 #include <vector>
 
+#include "chem/condensation.hpp"
 #include "chem/kinetics.hpp"
 #include "chem/stiff_integrator.hpp"
 #include "core/background.hpp"
@@ -69,8 +71,15 @@ class ChemistryOperator : public ColumnOperator {
   /// Per-reaction rates R[j * R + r] (cm^-3 s^-1) for budgets; r indexes the active
   /// reactions (kinetics().mechanism_reaction(r) gives the mechanism's index).
   void reaction_rates(std::span<const double> n, std::span<double> R) const;
-  /// Condensation loss rate C[j * S + s] (cm^-3 s^-1).
+  /// Exchange loss rate C[j * S + s] (cm^-3 s^-1; negative where the gas is supplied),
+  /// summed over the exchange terms of each species.
   void condensation_rates(std::span<const double> n, std::span<double> C) const;
+  /// The exchange terms (ChemistrySpec::exchanges order): species and saturation law.
+  [[nodiscard]] const std::vector<CondensationExchange>& exchanges() const { return exchanges_; }
+  /// Loss rate of each term per cell, out[k * cells + j] (cm^-3 s^-1, negative = supply).
+  void exchange_rates(std::span<const double> n, std::span<double> out) const;
+  /// The exchange cells (for diagnostics: n_eq, k, reservoir per cell).
+  [[nodiscard]] const std::vector<ExchangeCell>& exchange_cells() const { return cells_x_; }
   /// d f_{j,s} / d p_q at state n: out[(q * cells + j) * S + s], through d k / d p.
   void parameter_sensitivities(std::span<const double> n, std::span<double> out) const;
   [[nodiscard]] const StiffStats& integrator_stats() const { return integrator_.stats(); }
@@ -82,11 +91,9 @@ class ChemistryOperator : public ColumnOperator {
   void cell_jacobian(std::size_t j, const double* n, double* block) const;
 
   Kinetics kin_;
-  struct CellSink {
-    std::size_t cell, species;
-    double n_sat, inv_tau;
-  };
-  std::vector<CellSink> sinks_;
+  std::vector<CondensationExchange> exchanges_;
+  std::vector<ExchangeCell> cells_x_;  ///< ordered by cell
+  std::vector<std::size_t> cell_first_;  ///< cells_x_ of cell j: [cell_first_[j], cell_first_[j+1])
   std::vector<double> fixed_n_;
   std::vector<double> fixed_mask_;
   StiffIntegrator integrator_;

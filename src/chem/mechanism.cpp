@@ -55,15 +55,4 @@ std::string Mechanism::equation_text(std::size_t r) const {
   return side(rx.reactants, rx.photon) + " -> " + side(rx.products, false);
 }
 
-double CondensationSink::saturation_density(double T) const {
-  double p_dyn_cm2 = 0.0;
-  if (saturation == Saturation::kH2SO4Ayers1980) {
-    constexpr double kDynPerAtm = 1.01325e6;
-    p_dyn_cm2 = kDynPerAtm * std::exp(-10156.0 / T + 16.259);
-  } else {
-    p_dyn_cm2 = std::exp(cc_A - cc_B / T) / constants::kPaPerBarye;
-  }
-  return p_dyn_cm2 / (constants::kBoltzmann * T);
-}
-
 }  // namespace colchem

@@ -14,6 +14,7 @@
 #include <string>
 #include <vector>
 
+#include "chem/condensation.hpp"
 #include "chem/rate_law.hpp"
 #include "chem/species.hpp"
 #include "core/error.hpp"
@@ -97,31 +98,14 @@ struct Mechanism {
   [[nodiscard]] std::string equation_text(std::size_t reaction) const;
 };
 
-/// A first-order condensation sink onto a cloud deck (scenario-level):
-///   L = (n - n_sat(T)) / tau  when n > n_sat and z < deck top, else 0,
-///   n_sat = p_sat / (k_B T). H2SO4: ln(p_sat/atm) = -10156/T + 16.259 (Ayers, Gillett and
-///   Gras 1980, Geophys. Res. Lett. 7, 433; from memory). Generic Clausius-Clapeyron:
-///   ln(p_sat/Pa) = A - B/T.
-struct CondensationSink {
-  enum class Saturation { kH2SO4Ayers1980, kClausiusClapeyron };
-  std::size_t species = 0;
-  Saturation saturation = Saturation::kH2SO4Ayers1980;
-  double cc_A = 0.0;  ///< ln Pa
-  double cc_B = 0.0;  ///< K
-  double timescale_s = 0.0;
-  double below_cm = 0.0;  ///< applies in cells whose centre is below this altitude
-
-  /// Saturation number density (cm^-3) at temperature T.
-  [[nodiscard]] double saturation_density(double T) const;
-};
-
 /// What a scenario asks of the chemistry: the mechanism, the active modules, the
-/// parameter values (index as Mechanism::parameters) and the scenario-level sinks.
+/// parameter values (index as Mechanism::parameters) and the scenario-level exchanges with a
+/// condensed phase (chem/condensation.hpp; held profiles are added by the column model).
 struct ChemistrySpec {
   std::shared_ptr<const Mechanism> mechanism;  ///< null when the scenario has no chemistry
   std::vector<std::size_t> modules;            ///< active modules, with their requirements
   std::vector<double> parameters;
-  std::vector<CondensationSink> sinks;
+  std::vector<CondensationExchange> exchanges;
 };
 
 }  // namespace colchem

@@ -6,8 +6,14 @@
 #include <stdexcept>
 
 #include "core/constants.hpp"
+#include "core/interp.hpp"
 
 namespace colchem {
+
+double AltitudeValue::at(double altitude_cm) const {
+  if (!from_table()) return constant;
+  return interp_linear_hold(table.altitude_cm, table.value, altitude_cm);
+}
 
 double gravity_at(const PlanetSpec& p, double z_cm) {
   const double r = p.radius_cm / (p.radius_cm + z_cm);

@@ -32,6 +32,14 @@ struct ProfileSpec {
   std::string source;  ///< file it came from (for error messages and provenance)
 };
 
+/// A value per altitude: a constant, or a table interpolated linearly (ends held).
+struct AltitudeValue {
+  double constant = 0.0;
+  ProfileSpec table;  ///< used when table.altitude_cm is not empty
+  [[nodiscard]] bool from_table() const { return !table.altitude_cm.empty(); }
+  [[nodiscard]] double at(double altitude_cm) const;
+};
+
 enum class PressureMode { kHydrostatic, kTable };
 enum class EddyForm { kConstant, kTable, kDensityPower };
 

@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <set>
 
 #include "core/background.hpp"
@@ -11,6 +12,7 @@
 #include "io/config_node.hpp"
 #include "io/mechanism_loader.hpp"
 #include "io/scenario.hpp"
+#include "io/table.hpp"
 
 namespace colchem {
 
@@ -42,28 +44,117 @@ std::vector<std::size_t> read_modules(const ConfigNode& n, const Mechanism& m) {
   return active;
 }
 
-CondensationSink read_sink(const ConfigNode& n, const Mechanism& m, const UnitSystem& units) {
-  CondensationSink s;
+/// A value per altitude: a quantity in `unit`, or {table: FILE, column: NAME} (altitude
+/// column "altitude"); the table is recorded in `inputs`.
+AltitudeValue read_altitude_value(const ConfigNode& n, const UnitSystem& units,
+                                  const std::string& unit, const std::string& example,
+                                  const std::string& role, std::vector<InputFile>& inputs) {
+  AltitudeValue v;
+  if (!n.is_map()) {
+    v.constant = unit == "1" ? n.number() : n.quantity(units, unit, example);
+    return v;
+  }
+  const auto file = n.child("table").path();
+  const std::string column = n.child("column").text();
+  n.done();
+  const Table t = Table::read(file);
+  t.require_increasing("altitude");
+  v.table.altitude_cm = t.column("altitude", units, "cm");
+  v.table.value = t.column(column, units, unit);
+  v.table.source = file.string();
+  inputs.push_back(InputFile{role, file, t.text()});
+  return v;
+}
+
+void require_range(const ConfigNode& n, const AltitudeValue& v, double lo, double hi,
+                   const std::string& expected) {
+  const auto bad = [&](double x) { return !(x >= lo && x <= hi); };
+  if (!v.from_table()) {
+    if (bad(v.constant)) n.fail(expected, fmt::format("'{}'", n.text()));
+    return;
+  }
+  for (double x : v.table.value) {
+    if (bad(x)) n.fail(expected + " in every row of " + v.table.source, fmt::format("{}", x));
+  }
+}
+
+CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
+                                   const UnitSystem& units, std::vector<InputFile>& inputs) {
+  using X = CondensationExchange;
+  X s;
   const auto sp = n.child("species");
   const auto idx = m.species_index(sp.text());
   if (!idx) sp.fail("a species of the mechanism", "'" + sp.text() + "'");
+  if (m.species[*idx].fixed) sp.fail("a species that is not held fixed", "'" + sp.text() + "'");
   s.species = *idx;
+  const std::string name = sp.text();
   const auto sat = n.child("saturation");
   if (sat.is_scalar()) {
     (void)sat.choice({"h2so4_ayers1980"});
-    s.saturation = CondensationSink::Saturation::kH2SO4Ayers1980;
+    s.saturation = X::Saturation::kH2SO4Ayers1980;
+  } else if (auto aq = sat.find("h2so4_aqueous")) {
+    s.saturation = X::Saturation::kH2SO4Aqueous;
+    const auto w = aq->child("weight_fraction");
+    s.weight_fraction = read_altitude_value(w, units, "1", "0.75",
+                                            "acid weight fraction for " + name, inputs);
+    require_range(w, s.weight_fraction, kH2SO4ActivityMinWeight, 1.0,
+                  "an acid weight fraction from 0.4 to 1 (the activity table's range)");
+    aq->done();
+    sat.done();
   } else {
     const auto cc = sat.child("clausius_clapeyron");
-    s.saturation = CondensationSink::Saturation::kClausiusClapeyron;
+    s.saturation = X::Saturation::kClausiusClapeyron;
     s.cc_A = cc.child("A").number();
     s.cc_B = cc.child("B").number();
     cc.done();
     sat.done();
   }
-  const auto tau = n.child("timescale");
-  s.timescale_s = tau.quantity(units, "s", "1 d");
-  if (!(s.timescale_s > 0.0)) tau.fail("a positive timescale");
-  s.below_cm = n.child("below").quantity(units, "cm", "70 km");
+  const auto tau = n.find("timescale");
+  const auto kinetic = n.find("kinetic");
+  if ((tau ? 1 : 0) + (kinetic ? 1 : 0) != 1) {
+    n.fail("exactly one of 'timescale' and 'kinetic'", tau ? "both" : "neither");
+  }
+  if (tau) {
+    s.rate = X::Rate::kTimescale;
+    const AltitudeValue v =
+        read_altitude_value(*tau, units, "s", "1 d", "exchange timescale for " + name, inputs);
+    require_range(*tau, v, 1e-300, std::numeric_limits<double>::infinity(), "a positive timescale");
+    s.timescale_s = v.constant;
+    s.timescale_table = v.table;
+  } else {
+    s.rate = X::Rate::kKinetic;
+    if (auto a = kinetic->find("accommodation")) {
+      s.accommodation = a->number();
+      if (!(s.accommodation > 0.0 && s.accommodation <= 1.0)) {
+        a->fail("an accommodation coefficient in (0, 1]");
+      }
+    }
+    const auto area = kinetic->child("surface_area");
+    s.surface_area_cm2_cm3 = read_altitude_value(area, units, "cm2 cm-3", "1e-6 cm2 cm-3",
+                                                 "aerosol surface area for " + name, inputs);
+    require_range(area, s.surface_area_cm2_cm3, 0.0, std::numeric_limits<double>::infinity(),
+                  "a non-negative surface area");
+    kinetic->done();
+  }
+  if (auto c = n.find("condensed")) {
+    if (!c->is_map()) c->fail("{table: FILE, column: NAME} (present where the value is > 0)");
+    // Any unit: only where the amount is positive matters.
+    const auto file = c->child("table").path();
+    const std::string column = c->child("column").text();
+    c->done();
+    const Table t = Table::read(file);
+    t.require_increasing("altitude");
+    s.has_condensed = true;
+    s.condensed.table.altitude_cm = t.column("altitude", units, "cm");
+    s.condensed.table.value = t.raw(column);
+    s.condensed.table.source = file.string();
+    inputs.push_back(InputFile{"condensed phase for " + name, file, t.text()});
+  }
+  if (auto b = n.find("below")) s.below_cm = b->quantity(units, "cm", "70 km");
+  if (auto a = n.find("above")) {
+    s.above_cm = a->quantity(units, "cm", "58 km");
+    if (!(s.above_cm < s.below_cm)) a->fail("an altitude below 'below'", "'" + a->text() + "'");
+  }
   n.done();
   return s;
 }
@@ -101,9 +192,15 @@ ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
       spec.parameters[*idx] = x;
     }
   }
-  if (auto sinks = n.find("sinks")) {
-    if (!allow_sinks) sinks->fail("no condensation sinks in box mode (there is no cloud deck)");
-    for (const auto& item : sinks->items()) spec.sinks.push_back(read_sink(item, *mech, units));
+  for (const char* key : {"condensation", "sinks"}) {  // "sinks": the earlier name
+    if (auto list = n.find(key)) {
+      if (!allow_sinks) list->fail("no condensation in box mode (there is no column)");
+      if (!spec.exchanges.empty()) list->fail("one of 'condensation' and 'sinks'", "both");
+      if (!list->is_sequence()) list->fail("a list of exchanges {species: NAME, saturation: ...}");
+      for (const auto& item : list->items()) {
+        spec.exchanges.push_back(read_exchange(item, *mech, units, inputs));
+      }
+    }
   }
   n.done();
   spec.mechanism = std::move(mech);
@@ -276,9 +373,18 @@ std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec
                        spec.parameters.at(p), mech.parameters[p].default_value,
                        mech.parameters[p].min, mech.parameters[p].max);
   }
-  for (const auto& s : spec.sinks) {
-    out += fmt::format("  condensation sink {} below {} km, timescale {:g} s\n",
-                       mech.species[s.species].name, s.below_cm / constants::kCmPerKm, s.timescale_s);
+  for (const auto& s : spec.exchanges) {
+    const bool two_way = s.has_condensed || s.rate == CondensationExchange::Rate::kKinetic;
+    std::string range;
+    if (std::isfinite(s.above_cm)) range += fmt::format(" from {} km", s.above_cm / constants::kCmPerKm);
+    if (std::isfinite(s.below_cm)) range += fmt::format(" below {} km", s.below_cm / constants::kCmPerKm);
+    const std::string rate =
+        s.rate == CondensationExchange::Rate::kKinetic
+            ? fmt::format("kinetic, accommodation {:g}", s.accommodation)
+            : (s.timescale_table.altitude_cm.empty() ? fmt::format("timescale {:g} s", s.timescale_s)
+                                                     : std::string("timescale profile"));
+    out += fmt::format("  condensation of {}{} ({}, {})\n", mech.species[s.species].name, range,
+                       two_way ? "condensation and evaporation" : "condensation only", rate);
   }
   out += fmt::format("  {} of {} active reactions balanced in every element; {} sinks (no "
                      "products) exempt\n",

@@ -4,7 +4,11 @@
 //     mechanism: FILE          # relative to the scenario
 //     modules: [base, ...]     # default: every module
 //     parameters: {name: value}
-//     sinks: [{species: H2SO4, saturation: h2so4_ayers1980, timescale: 1 d, below: 70 km}]
+//     condensation:            # (or "sinks") exchanges with a condensed phase
+//       - {species: H2SO4, saturation: h2so4_ayers1980, timescale: 1 d, below: 70 km}
+//       - {species: H2SO4, saturation: {h2so4_aqueous: {weight_fraction: 0.75}},
+//          kinetic: {accommodation: 1, surface_area: {table: FILE, column: NAME}},
+//          condensed: {table: FILE, column: NAME}, below: ..., above: ...}
 // Unknown modules and parameter names (did-you-mean), values outside a parameter's bounds
 // and inactive requirements are configuration errors (ExitCode::kConfig); a bad mechanism
 // file is ExitCode::kInputData. Keys are documented in README.md, section Configuration reference.

@@ -123,6 +123,8 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
              {"element_chemistry", "chemical change of the transported species"},
              {"element_held_supply", "chemical change of held species (supplied from outside)"},
              {"element_sinks", "removal by sinks (condensation, product-less reactions)"},
+             {"element_condensed", "gained from the condensed phase (evaporation minus condensation; part of chemistry)"},
+             {"element_profile_supply", "supplied to hold species profiles (part of chemistry)"},
              {"element_imbalance", "boundary_in + chemistry: column change of the element"}}) {
       nc.variable(v, {"element"}, {"cm-2 s-1", what, "", {}});
     }
@@ -154,13 +156,15 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.put("bottom_flux", d.bottom_flux);
     nc.put("top_flux", d.top_flux);
     std::vector<std::string> el;
-    std::vector<double> bin, ch, hs, sk, im, rel;
+    std::vector<double> bin, ch, hs, sk, im, rel, cd, ps;
     for (const auto& b : budgets) {
       el.push_back(b.element);
       bin.push_back(b.boundary_in);
       ch.push_back(b.chemistry);
       hs.push_back(b.held_supply);
       sk.push_back(b.sinks);
+      cd.push_back(b.condensed);
+      ps.push_back(b.profile_supply);
       im.push_back(b.imbalance);
       rel.push_back(b.relative_imbalance);
     }
@@ -169,6 +173,8 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.put("element_chemistry", ch);
     nc.put("element_held_supply", hs);
     nc.put("element_sinks", sk);
+    nc.put("element_condensed", cd);
+    nc.put("element_profile_supply", ps);
     nc.put("element_imbalance", im);
     nc.put("element_relative_imbalance", rel);
     if (model.photolysis()) write_photolysis_output(nc, *model.photolysis(), model.jvalues(), {});

@@ -166,6 +166,32 @@ BoundaryCondition load_boundary(const ConfigNode& n, const UnitSystem& units, bo
   return bc;
 }
 
+HoldSpec load_hold(const ConfigNode& n, const UnitSystem& units, const std::string& species,
+                   std::vector<InputFile>* inputs) {
+  if (!n.is_map()) n.fail("{mixing_ratio: VALUE or {table: FILE, column: NAME}, from: Z, to: Z}");
+  HoldSpec h;
+  const auto x = n.child("mixing_ratio");
+  if (x.is_map()) {
+    const InitialProfile p = load_initial(x, units, species, nullptr);
+    h.mixing_ratio.table = p.table;
+    if (inputs) inputs->push_back(InputFile{"held profile of " + species, p.table.source,
+                                            Table::read(p.table.source).text()});
+  } else {
+    h.mixing_ratio.constant = mixing_ratio(x, units);
+  }
+  if (auto f = n.find("from")) h.from_cm = f->quantity(units, "cm", "80 km");
+  if (auto t = n.find("to")) {
+    h.to_cm = t->quantity(units, "cm", "100 km");
+    if (!(h.to_cm > h.from_cm)) t->fail("a top above 'from'", "'" + t->text() + "'");
+  }
+  if (auto tau = n.find("timescale")) {
+    h.timescale_s = tau->quantity(units, "s", "100 s");
+    if (!(h.timescale_s > 0.0)) tau->fail("a positive timescale");
+  }
+  n.done();
+  return h;
+}
+
 void load_species_entry(const std::string& name, const ConfigNode& n, const UnitSystem& units,
                         SpeciesColumnSettings& out, std::vector<InputFile>* inputs) {
   out.name = name;
@@ -176,6 +202,7 @@ void load_species_entry(const std::string& name, const ConfigNode& n, const Unit
   if (auto b = n.find("bottom")) out.boundaries.bottom = load_boundary(*b, units, false);
   if (auto t = n.find("top")) out.boundaries.top = load_boundary(*t, units, true);
   if (auto f = n.find("fixed")) out.fixed = f->boolean();
+  if (auto h = n.find("hold")) out.hold = load_hold(*h, units, name, inputs);
   if (auto a = n.find("thermal_diffusion")) out.thermal_diffusion = a->number();
   if (auto d = n.find("binary_diffusion")) {
     // b = A (T / 1 K)^s: A carries the unit of b.

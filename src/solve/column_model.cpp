@@ -17,9 +17,27 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
   species_setup_ = sc.species_setup;
   const double air_amu = bg_.molecule_mass_g / constants::kAtomicMassUnit;
   if (sc.chemistry.mechanism) {
-    chemistry_ = std::make_unique<ChemistryOperator>(sc.chemistry, bg_);
-    for (const auto& sk : sc.chemistry.sinks) sink_species_.push_back(sk.species);
     const Mechanism& mech = *sc.chemistry.mechanism;
+    // Held profiles are exchanges with an unlimited reservoir at the held mixing ratio.
+    ChemistrySpec chem = sc.chemistry;
+    for (const auto& entry : species_setup_.species) {
+      const auto idx = mech.species_index(entry.name);
+      if (!entry.hold || !idx) continue;  // unknown names are reported below
+      if (mech.species[*idx].fixed || entry.fixed.value_or(false)) {
+        throw InputError(ExitCode::kConfig, entry.where, "species." + entry.name + ".hold",
+                         "a species that is not held fixed", "'" + entry.name + "' is fixed");
+      }
+      CondensationExchange h;
+      h.species = *idx;
+      h.saturation = CondensationExchange::Saturation::kHeldProfile;
+      h.held_mixing_ratio = entry.hold->mixing_ratio;
+      h.rate = CondensationExchange::Rate::kTimescale;
+      h.timescale_s = entry.hold->timescale_s;
+      h.above_cm = entry.hold->from_cm;
+      h.below_cm = entry.hold->to_cm;
+      chem.exchanges.push_back(h);
+    }
+    chemistry_ = std::make_unique<ChemistryOperator>(chem, bg_);
     for (const auto& sp : mech.species) {
       names_.push_back(sp.name);
       held_.push_back(sp.fixed);
@@ -220,24 +238,46 @@ ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
   return out;
 }
 
+std::vector<ExchangeReport> ColumnModel::exchange_report(std::span<const double> n) const {
+  std::vector<ExchangeReport> out;
+  if (!chemistry_) return out;
+  const std::size_t S = species_count(), N = cells();
+  for (const auto& x : chemistry_->exchanges()) {
+    ExchangeReport r;
+    r.species = x.species;
+    r.equation = exchange_equation(names_[x.species], x);
+    r.held_profile = x.saturation == CondensationExchange::Saturation::kHeldProfile;
+    r.n_eq.assign(N, 0.0);
+    r.k.assign(N, 0.0);
+    r.reservoir.assign(N, 0);
+    out.push_back(std::move(r));
+  }
+  for (const auto& c : chemistry_->exchange_cells()) {
+    ExchangeReport& r = out[c.term];
+    r.n_eq[c.cell] = c.n_eq;
+    r.k[c.cell] = c.k;
+    r.reservoir[c.cell] = c.reservoir ? 1 : 0;
+    if (!c.reservoir) continue;
+    const double ratio = n[c.cell * S + c.species] / c.n_eq;
+    ++r.reservoir_cells;
+    if (ratio <= 10.0) ++r.within_10x;
+    r.worst_ratio = std::max(r.worst_ratio, ratio);
+  }
+  return out;
+}
+
 ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) {
   ColumnDiagnostics d;
   const std::size_t S = species_count(), N = cells();
   const Kinetics& kin = chemistry_->kinetics();
   const Mechanism& mech = kin.mechanism();
   const std::size_t R = kin.reaction_count();
-  // Condensation sinks appear as pseudo-reactions so that budgets list every term.
-  std::vector<double> cond(N * S, 0.0);
-  chemistry_->condensation_rates(n, cond);
-  std::vector<std::size_t> cond_species;
-  for (std::size_t s = 0; s < S; ++s) {
-    double any = 0.0;
-    for (std::size_t j = 0; j < N; ++j) any += std::abs(cond[j * S + s]);
-    bool declared = false;
-    for (std::size_t k : sink_species_) declared = declared || k == s;
-    if (declared || any > 0.0) cond_species.push_back(s);
-  }
-  const std::size_t RR = R + cond_species.size();
+  // Exchanges with a condensed phase and held profiles appear as pseudo-reactions (rate =
+  // loss from the gas, negative where it is supplied) so that budgets list every term.
+  const auto& terms = chemistry_->exchanges();
+  std::vector<double> xrate(terms.size() * N, 0.0);
+  chemistry_->exchange_rates(n, xrate);
+  const std::size_t RR = R + terms.size();
   d.net_stoichiometry.assign(RR * S, 0.0);
   for (std::size_t r = 0; r < R; ++r) {
     const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
@@ -245,18 +285,16 @@ ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) 
     for (const auto& e : rx.reactants) d.net_stoichiometry[r * S + e.species] -= e.count;
     for (const auto& e : rx.products) d.net_stoichiometry[r * S + e.species] += e.count;
   }
-  for (std::size_t k = 0; k < cond_species.size(); ++k) {
-    d.equations.push_back(names_[cond_species[k]] + " -> (condensation onto the cloud deck)");
-    d.net_stoichiometry[(R + k) * S + cond_species[k]] = -1.0;
+  for (std::size_t k = 0; k < terms.size(); ++k) {
+    d.equations.push_back(exchange_equation(names_[terms[k].species], terms[k]));
+    d.net_stoichiometry[(R + k) * S + terms[k].species] = -1.0;
   }
   std::vector<double> rates(N * R);
   chemistry_->reaction_rates(n, rates);
   d.reaction_rate.assign(RR * N, 0.0);
   for (std::size_t j = 0; j < N; ++j) {
     for (std::size_t r = 0; r < R; ++r) d.reaction_rate[r * N + j] = rates[j * R + r];
-    for (std::size_t k = 0; k < cond_species.size(); ++k) {
-      d.reaction_rate[(R + k) * N + j] = cond[j * S + cond_species[k]];
-    }
+    for (std::size_t k = 0; k < terms.size(); ++k) d.reaction_rate[(R + k) * N + j] = xrate[k * N + j];
   }
   std::vector<double> fc(N * S, 0.0), ft(N * S, 0.0);
   chemistry_->add_tendency(n, t, fc);

@@ -31,7 +31,7 @@ namespace colchem {
 
 /// Reaction-level diagnostics of one state (arrays as in io/output.hpp ReactionData).
 struct ColumnDiagnostics {
-  std::vector<std::string> equations;       ///< active reactions, then condensation sinks
+  std::vector<std::string> equations;       ///< active reactions, then exchange terms
   std::vector<double> net_stoichiometry;    ///< [r][s]
   std::vector<double> reaction_rate;        ///< [r][j]
   std::vector<double> chemical_tendency;    ///< [s][j]
@@ -39,6 +39,20 @@ struct ColumnDiagnostics {
   std::vector<double> net_tendency;         ///< [s][j]
   std::vector<double> edge_flux, eddy_flux, molecular_flux;  ///< [s][e], e = 0..N
   std::vector<double> bottom_flux, top_flux;                 ///< [s]
+};
+
+/// One exchange term at a state (chem/condensation.hpp): per cell the equilibrium density
+/// n_eq (saturation, or the held profile; 0 where the term does not apply), the rate
+/// constant k (s^-1) and whether a condensed reservoir is present.
+struct ExchangeReport {
+  std::string equation;
+  std::size_t species = 0;
+  bool held_profile = false;
+  std::vector<double> n_eq, k;
+  std::vector<int> reservoir;
+  /// Cells with a reservoir, those among them with n <= 10 n_eq, and the largest n/n_eq there.
+  std::size_t reservoir_cells = 0, within_10x = 0;
+  double worst_ratio = 0.0;
 };
 
 /// A measure of a steady state whose meaning does not change with the grid (README, "What
@@ -106,6 +120,8 @@ class ColumnModel : public NonlocalCoupling {
                                              double reference_time_s);
 
   [[nodiscard]] ColumnDiagnostics diagnostics(std::span<const double> n, double t);
+  /// The exchange terms at state n (empty without chemistry).
+  [[nodiscard]] std::vector<ExchangeReport> exchange_report(std::span<const double> n) const;
 
  private:
   Background bg_;
@@ -121,7 +137,6 @@ class ColumnModel : public NonlocalCoupling {
   std::vector<double> J_;
   std::vector<double> x_shifted_, J_shifted_, dJ_;  ///< workspace of add_jacobian_product
   std::vector<Injection> injections_;
-  std::vector<std::size_t> sink_species_;  ///< species with a condensation sink
 };
 
 }  // namespace colchem

@@ -10,6 +10,7 @@
 // (cm^-2) a one-dimensional global-mean column receives.
 #pragma once
 
+#include <limits>
 #include <optional>
 #include <span>
 #include <string>
@@ -30,6 +31,16 @@ struct InitialProfile {
   Extrapolation extrapolation = Extrapolation::kHoldEnds;
 };
 
+/// A species held to a mixing-ratio profile over [from, to) (cell centres) by relaxation,
+/// dn/dt = -(n - x n_air)/tau there (the exchange kernel of chem/condensation.hpp); the
+/// relaxation term is the supply needed to hold the profile.
+struct HoldSpec {
+  AltitudeValue mixing_ratio;
+  double from_cm = -std::numeric_limits<double>::infinity();
+  double to_cm = std::numeric_limits<double>::infinity();
+  double timescale_s = 100.0;
+};
+
 struct SpeciesColumnSettings {
   std::string name;
   SourceLocation where;
@@ -39,6 +50,7 @@ struct SpeciesColumnSettings {
   std::optional<double> diffusion_A;  ///< b = A T^s, cm^-1 s^-1
   std::optional<double> diffusion_s;
   std::optional<double> thermal_diffusion;
+  std::optional<HoldSpec> hold;
 };
 
 enum class InjectionAmount { kColumn, kGlobalMolecules, kGlobalMass };

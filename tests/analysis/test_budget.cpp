@@ -2,6 +2,7 @@
 #include <catch2/catch.hpp>
 
 #include "analysis/budget.hpp"
+#include "chem/condensation.hpp"
 
 using namespace colchem;
 
@@ -70,4 +71,39 @@ TEST_CASE("element budgets: balanced chemistry conserves, held species supply", 
   CHECK(e[0].sinks == Approx(0.0).margin(1e-6));
   CHECK(e[0].boundary_in == Approx(-16e5));
   CHECK(e[0].relative_imbalance < 1e-15);
+}
+
+TEST_CASE("element budgets count the condensed phase and held-profile supply as their own terms",
+          "[budget][condensation]") {
+  // Two cells of 1 km, species SO3 and H2SO4 (atoms S, O, H); pseudo-reactions as the
+  // column model writes them (rate = loss from the gas, negative = supplied):
+  //   r0: H2SO4 -> (condensed phase)       rates [3, -1]  (condenses in cell 0, evaporates in 1)
+  //   r1: SO3 -> (held-profile supply)     rates [-2, 0]  (supplied in cell 0)
+  BudgetInputs in;
+  in.edge_cm = {0.0, 1e5, 2e5};
+  in.species = {"SO3", "H2SO4"};
+  in.equations = {std::string("H2SO4 -> ") + kCondensedPhaseMarker,
+                  std::string("SO3 -> ") + kHeldProfileMarker};
+  in.net_stoichiometry = {0, -1, /**/ -1, 0};
+  in.reaction_rate = {3, -1, /**/ -2, 0};
+  in.transport_tendency = {2, 0, /**/ -3, 1};
+  in.net_tendency = {0, 0, /**/ 0, 0};
+  const std::vector<std::vector<std::pair<std::string, int>>> atoms{
+      {{"S", 1}, {"O", 3}}, {{"H", 2}, {"S", 1}, {"O", 4}}};
+  const auto e = element_budgets(in, atoms, {false, false}, std::vector<double>{0, 0},
+                                 std::vector<double>{0, 0});
+  // By hand, S (one per molecule): condensed = -(3 - 1) x 1e5 = -2e5 (net condensation);
+  // profile supply = +2e5; both inside the chemical term, which sums to 0.
+  for (const auto& b : e) {
+    if (b.element != "S") continue;
+    CHECK(b.condensed == Approx(-2e5));
+    CHECK(b.profile_supply == Approx(2e5));
+    CHECK(b.chemistry == Approx(0.0).margin(1e-9));
+  }
+  // H (two per H2SO4): condensed -4e5, no profile supply (SO3 has no H).
+  for (const auto& b : e) {
+    if (b.element != "H") continue;
+    CHECK(b.condensed == Approx(-4e5));
+    CHECK(b.profile_supply == 0.0);
+  }
 }

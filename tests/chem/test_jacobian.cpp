@@ -147,11 +147,11 @@ TEST_CASE("condensation sink enters tendency and Jacobian piecewise", "[chem][ja
   const Mechanism& m = *spec.mechanism;
   const std::size_t S = m.species.size();
   const std::size_t h2so4 = *m.species_index("H2SO4");
-  CondensationSink sink;
+  CondensationExchange sink;
   sink.species = h2so4;
   sink.timescale_s = 1e4;
   sink.below_cm = 70e5;
-  spec.sinks.push_back(sink);
+  spec.exchanges.push_back(sink);
   // Ayers et al. (1980), from memory: ln(p/atm) = -10156/T + 16.259. At 250 K:
   // p = exp(-40.624 + 16.259) atm = exp(-24.365) = 2.6207e-11 atm = 2.6554e-5 dyn cm-2,
   // n_sat = p/(k_B T) = 2.6554e-5 / 3.4516e-14 = 7.6932e8 cm-3.

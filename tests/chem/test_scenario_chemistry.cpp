@@ -14,9 +14,9 @@ TEST_CASE("scenario chemistry section builds a column chemistry operator", "[che
   const Mechanism& m = *sc.chemistry.mechanism;
   CHECK(sc.chemistry.modules.size() == 2);
   CHECK(sc.chemistry.parameters[*m.parameter_index("beta_h2so3")] == 0.02);  // from the file
-  REQUIRE(sc.chemistry.sinks.size() == 1);
-  CHECK(sc.chemistry.sinks[0].below_cm == Approx(70e5));
-  CHECK(sc.chemistry.sinks[0].timescale_s == Approx(86400.0));
+  REQUIRE(sc.chemistry.exchanges.size() == 1);
+  CHECK(sc.chemistry.exchanges[0].below_cm == Approx(70e5));
+  CHECK(sc.chemistry.exchanges[0].timescale_s == Approx(86400.0));
   bool recorded = false;
   for (const auto& in : sc.inputs) recorded = recorded || in.role == "mechanism";
   CHECK(recorded);

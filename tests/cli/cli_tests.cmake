@@ -153,3 +153,28 @@ add_test(NAME validation.photo.pyrene_cloud_deck
 add_test(NAME cli.pyrene_newton
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/pyrene_newton_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/pyrene_newton_work)
+
+# Condensation and held profiles (README.md, sections Condensation and species keys). The
+# Pyrene base state with its invented haze: the cloud-deck cells, where uptake on the
+# droplets takes seconds (1/k = 4 / (vbar A) ~ 20 s), hold the vapour within 10x of
+# saturation (analytic: n/n_sat - 1 = net production / (k n_sat), small there); the
+# summary counts them among the 42 cells below 100 km that have droplets (input profile).
+add_test(NAME validation.chem.condensed_exchange
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/chem/condensed_exchange/run.sh $<TARGET_FILE:colchem>)
+set_tests_properties(validation.chem.condensed_exchange PROPERTIES
+  ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_condensed_exchange.nc")
+colchem_cli_test(pyrene_condensation 0
+  "H2SO4 -> \\(condensed phase\\): vapour at most 10x saturation in [1-9][0-9]* of 42 cells with condensed phase"
+  $<TARGET_FILE:colchem> run ${CFG}/pyrene_full.yaml -o pyrene_condensation.nc)
+# A held profile: H2O held at 3 ppm over 80-100 km by relaxation (timescale 100 s) stays
+# within 1 % of it (common practice, no source: tau much shorter than the chemical and
+# transport lifetimes), and the budget lists the supply that holds it.
+colchem_cli_test(held_profile 0
+  "H2O -> \\(held-profile supply\\): largest relative departure from the held profile [0-9.]+e-0[3-9].*H2O: column production.*H2O -> \\(held-profile supply\\)"
+  sh -c "($<TARGET_FILE:colchem> run ${CFG}/pyrene_full.yaml -o held_profile.nc --set 'species.H2O.hold={mixing_ratio: 3 ppm, from: 80 km, to: 100 km}' && $<TARGET_FILE:colchem> budget held_profile.nc -s H2O) 2>&1 | tr '\\n' ' '")
+colchem_cli_test(held_profile_bad_range 3 "'species.H2O.hold.to': expected a top above 'from', found '70 km'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set "species.H2O.hold={mixing_ratio: 3 ppm, from: 80 km, to: 70 km}")
+colchem_cli_test(condensation_bad_weight 3 "weight_fraction': expected an acid weight fraction from 0.4 to 1"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.saturation.h2so4_aqueous.weight_fraction=0.3)
+colchem_cli_test(condensation_fixed_species 3 "condensation.0.species': expected a species that is not held fixed, found 'CO2'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.species=CO2)
