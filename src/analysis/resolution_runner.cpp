@@ -64,8 +64,9 @@ SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& targe
   for (const auto& edges : coarser_grids(target.background().grid.edge_cm, coarsest_cells)) {
     LevelResult r = solve_on_edges(req, edges, units, last ? &*last : nullptr);
     out.levels.push_back({edges.size() - 1, r.iterations, r.wall_s, r.converged});
-    if (!r.converged) break;  // the finer levels start from the last converged one
-    last = std::move(r);
+    // A level that does not converge (a grid too coarse for the scenario's layers) is
+    // skipped: the next finer one starts from the last converged level, or cold.
+    if (r.converged) last = std::move(r);
   }
   if (last) {
     out.x0 = target.initial_state();

@@ -64,8 +64,9 @@ std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
                                                std::size_t coarsest_cells);
 
 /// A steady cold start by grid sequencing: solves the scenario on coarser_grids(...) in turn,
-/// each from the one below, and returns the last converged level interpolated onto the
-/// target grid (x0 empty when none converged; `levels` says what each level did).
+/// each from the last converged level below it (cold when there is none), and returns the
+/// last converged level interpolated onto the target grid (x0 empty when none converged;
+/// `levels` says what each level did).
 struct SequencedStart {
   std::vector<double> x0;
   std::vector<SequenceLevel> levels;

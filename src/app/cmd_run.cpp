@@ -113,11 +113,12 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
       sequence = std::move(seq.levels);
       if (!seq.x0.empty()) x0 = std::move(seq.x0);
-      if (!sequence.empty() && !sequence.back().converged) {
-        ctx.log->warn("grid sequencing: the solve on {} cells did not converge; {}",
-                      sequence.back().cells,
-                      seq.x0.empty() ? "starting from the scenario's initial state"
-                                     : "starting from the last converged level");
+      for (const SequenceLevel& l : sequence) {
+        if (!l.converged) {
+          ctx.log->warn("grid sequencing: the solve on {} cells did not converge in {} "
+                        "iterations; the next grid starts from the last converged one (or cold)",
+                        l.cells, l.iterations);
+        }
       }
     }
     const auto ckpt = checkpoint_path(sc.output.file);
