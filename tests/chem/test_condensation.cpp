@@ -10,19 +10,14 @@
 #include "core/constants.hpp"
 #include "io/mechanism_loader.hpp"
 
+#include "soh_fixture.hpp"
+
 using namespace colchem;
 
 namespace {
 
-ChemistrySpec soh_spec(const UnitSystem& units) {
-  ChemistrySpec spec;
-  spec.mechanism = load_mechanism(COLCHEM_SOURCE_DIR "/configs/mechanisms/test_soh.yaml", units);
-  for (std::size_t i = 0; i < spec.mechanism->modules.size(); ++i) spec.modules.push_back(i);
-  spec.parameters = spec.mechanism->default_parameters();
-  return spec;
-}
-
-const std::map<std::string, double> kBulk{{"CO2", 0.965}, {"N2", 0.035}};
+using test::kBulk;
+using test::soh_spec;
 
 // The test network removes H2SO4 by the first-order sink "H2SO4 ->" with k = 1e-6 s^-1
 // (configs/mechanisms/test_soh.yaml); with every other species at zero and J = 0 nothing
