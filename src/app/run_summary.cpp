@@ -20,15 +20,10 @@ std::string summarize_run(const Scenario& sc, ColumnModel& model, const RunOutco
                             : " (every species within round-off)");
   if (!r.ok()) s += "  reason: " + r.reason + "\n";
   if (!r.sequence.empty()) {
-    std::string levels;
     long total = r.iterations;
-    for (const auto& l : r.sequence) {
-      levels += fmt::format("{}{} cells {} iterations{} ({:.2f} s)", levels.empty() ? "" : ", ",
-                            l.cells, l.iterations, l.converged ? "" : " (not converged)",
-                            l.wall_s);
-      total += l.iterations;
-    }
-    s += fmt::format("  started by grid sequencing: {}; {} iterations in all\n", levels, total);
+    for (const auto& l : r.sequence) total += l.iterations;
+    s += fmt::format("  started by grid sequencing: {}; {} iterations in all\n",
+                     describe_sequence(r.sequence, true), total);
   }
   model.refresh_photolysis(r.x);
   const ColumnDiagnostics d = model.diagnostics(r.x, r.time_s);

@@ -63,13 +63,7 @@ void write_status(NcWriter& nc, const RunOutcome& o) {
   nc.global_number("colchem_column_balance", o.balance.worst);
   nc.global_number("colchem_iterations", static_cast<double>(o.iterations));
   if (!o.sequence.empty()) {
-    std::string levels;
-    for (const auto& l : o.sequence) {
-      levels += (levels.empty() ? "" : ", ") + std::to_string(l.cells) + " cells " +
-                std::to_string(l.iterations) + " iterations" +
-                (l.converged ? "" : " (not converged)");
-    }
-    nc.global_text("colchem_grid_sequence", levels);
+    nc.global_text("colchem_grid_sequence", describe_sequence(o.sequence, false));
   }
   nc.global_number("colchem_model_time_s", o.time_s);
 }

@@ -13,6 +13,17 @@
 
 namespace colchem {
 
+std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool with_times) {
+  std::string out;
+  for (const auto& l : levels) {
+    out += fmt::format("{}{} cells {} iterations{}", out.empty() ? "" : ", ", l.cells,
+                       l.iterations, l.converged ? "" : " (not converged)");
+    if (with_times) out += fmt::format(" ({:.2f} s)", l.wall_s);
+  }
+  return out;
+}
+
+
 double coupled_residual(ColumnModel& model, const SolverSpec& solver, std::span<const double> x,
                         double t) {
   return scaled_residual_norm(model.system(), x, steady_options(solver).scale, t).value;

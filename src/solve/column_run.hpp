@@ -54,6 +54,10 @@ struct SequenceLevel {
   bool converged = false;
 };
 
+/// "27 cells 95 iterations (0.41 s), 54 cells 42 iterations (not converged) (0.52 s)":
+/// the levels of a sequence for the run summary and the run file (wall times optional).
+std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool with_times);
+
 struct RunOutcome {
   SolveStatus status = SolveStatus::kFailed;
   std::string method;            ///< "steady", "transient", "split_steady"
