@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <optional>
 
 #include "core/constants.hpp"
@@ -114,6 +115,9 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
                   r.converged ? "converged" : "not converged", r.iterations, r.residual);
   }
   if (!r.converged) return r;
+  const ColumnDiagnostics diag = model.diagnostics(out.x, out.time_s);
+  r.bottom_flux = diag.bottom_flux;
+  r.top_flux = diag.top_flux;
   r.mole_fraction.resize(S * N);
   for (std::size_t s = 0; s < S; ++s) {
     for (std::size_t j = 0; j < N; ++j) {
@@ -179,6 +183,47 @@ ScoreResolution compare_scores(const std::vector<LevelResult>& levels, std::size
 
 }  // namespace
 
+std::vector<BoundaryFluxResolution> compare_boundary_fluxes(const std::vector<LevelResult>& levels,
+                                                            double ratio,
+                                                            const AsymptoticRange& range,
+                                                            double relative_floor) {
+  std::vector<BoundaryFluxResolution> out;
+  const std::size_t L = levels.size();
+  if (L < 3) return out;
+  const LevelResult* ref = nullptr;  // the finest converged level
+  for (const auto& l : levels) {
+    if (l.converged && !l.bottom_flux.empty()) ref = &l;
+  }
+  if (ref == nullptr) return out;
+  double largest = 0.0;
+  for (std::size_t s = 0; s < ref->species.size(); ++s) {
+    if (ref->held[s]) continue;
+    largest = std::max({largest, std::abs(ref->bottom_flux[s]), std::abs(ref->top_flux[s])});
+  }
+  if (!(largest > 0.0)) return out;
+  constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+  for (std::size_t s = 0; s < ref->species.size(); ++s) {
+    if (ref->held[s]) continue;
+    for (const bool bottom : {true, false}) {
+      const auto pick = [&](const LevelResult& l) {
+        const auto& f = bottom ? l.bottom_flux : l.top_flux;
+        return (l.converged && s < f.size()) ? f[s] : kNaN;
+      };
+      if (!(std::abs(pick(*ref)) > relative_floor * largest)) continue;
+      BoundaryFluxResolution b;
+      b.species = ref->species[s];
+      b.end = bottom ? "bottom" : "top";
+      for (const auto& l : levels) b.flux.push_back(pick(l));
+      const double u1 = b.flux[L - 3], u2 = b.flux[L - 2], u3 = b.flux[L - 1];
+      b.estimate = richardson_scalar(u1, u2, u3, ratio, range);
+      const double d12 = u1 - u2, d23 = u2 - u3;
+      b.grows = d12 * d23 > 0.0 && std::abs(d23) > std::abs(d12);
+      out.push_back(std::move(b));
+    }
+  }
+  return out;
+}
+
 ResolutionStudy compare_levels(std::vector<LevelResult> levels, std::size_t ratio,
                                const ResolutionOptions& options) {
   ResolutionStudy st;
@@ -198,6 +243,8 @@ ResolutionStudy compare_levels(std::vector<LevelResult> levels, std::size_t rati
   for (std::size_t q = 0; q < Q; ++q) {
     st.scores.push_back(compare_scores(st.levels, q, static_cast<double>(ratio), options.range));
   }
+  st.boundary_fluxes =
+      compare_boundary_fluxes(st.levels, static_cast<double>(ratio), options.range);
   return st;
 }
 

@@ -34,6 +34,9 @@ struct LevelResult {
   std::vector<double> mole_fraction;
   std::vector<bool> held;  ///< [s]
   std::vector<SpeciesScore> scores;
+  /// Net upward flux through the bottom and top edges (cm^-2 s^-1, ColumnDiagnostics);
+  /// empty when the solve failed.
+  std::vector<double> bottom_flux, top_flux;  ///< [s]
 };
 
 /// The override that replaces a scenario's grid by listed edges (in km, 17 digits).
@@ -84,11 +87,33 @@ struct ScoreResolution {
   std::vector<RichardsonEstimate> point;         ///< [point], finest triple
 };
 
+/// A boundary flux's resolution. A boundary value that the chemistry next to it cannot
+/// sustain makes a boundary layer of thickness ~sqrt(K/k) (k: the loss frequency there);
+/// while the cells are thicker than the layer, the flux through the boundary grows with each
+/// refinement, and so does everything it supplies. Profiles near a boundary can look
+/// converged while this flux is not, so it is compared on its own.
+struct BoundaryFluxResolution {
+  std::string species;
+  std::string end;              ///< "bottom" or "top"
+  std::vector<double> flux;     ///< [level], cm^-2 s^-1 upward; NaN where a level failed
+  RichardsonEstimate estimate;  ///< finest triple (relative threshold as for scalars)
+  /// |d23| > |d12| with the same sign: the flux grows with refinement.
+  bool grows = false;
+};
+
+/// The boundary fluxes worth comparing: those of species not held whose flux at the finest
+/// converged level exceeds `relative_floor` times the largest boundary flux there.
+std::vector<BoundaryFluxResolution> compare_boundary_fluxes(const std::vector<LevelResult>& levels,
+                                                            double ratio,
+                                                            const AsymptoticRange& range,
+                                                            double relative_floor = 1e-6);
+
 struct ResolutionStudy {
   std::size_t ratio = 2;
   std::vector<LevelResult> levels;  ///< coarsest first
   std::vector<SpeciesResolution> profiles;
   std::vector<ScoreResolution> scores;
+  std::vector<BoundaryFluxResolution> boundary_fluxes;
   [[nodiscard]] bool all_converged() const;
 };
 

@@ -214,6 +214,50 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
     fields.insert(fields.end(), {c2, c2p, c2e, c2s, oz, om, op, oe, os});
   }
 
+  if (!st.boundary_fluxes.empty()) {
+    nc.dimension("boundary_flux", st.boundary_fluxes.size());
+    texts.push_back(
+        {"boundary_flux_species", "boundary_flux", "species of the compared boundary flux", {}});
+    texts.push_back({"boundary_flux_end", "boundary_flux", "bottom or top edge of the column", {}});
+    Field bv{"boundary_flux_value",
+             {"level", "boundary_flux"},
+             {"cm-2 s-1", "net upward flux through the boundary edge on the level", "", {}},
+             {}};
+    Field bp{"boundary_flux_order",
+             {"boundary_flux"},
+             {"1", "observed order of the boundary flux (finest triple)", "", {}},
+             {}};
+    Field be{
+        "boundary_flux_error",
+        {"boundary_flux"},
+        {"cm-2 s-1", "Richardson error of the finest level's flux (finest minus exact)", "", {}},
+        {}};
+    Field bs{"boundary_flux_status",
+             {"boundary_flux"},
+             {"1", "asymptotic range of the boundary flux", "", status_flags()},
+             {}};
+    Field bg{"boundary_flux_grows",
+             {"boundary_flux"},
+             {"1",
+              "1 where the flux changes more with each refinement (a boundary layer thinner "
+              "than the cells)",
+              "",
+              {}},
+             {}};
+    for (std::size_t l = 0; l < L; ++l) {
+      for (const auto& b : st.boundary_fluxes) bv.data.push_back(b.flux[l]);
+    }
+    for (const auto& b : st.boundary_fluxes) {
+      texts[texts.size() - 2].data.push_back(b.species);
+      texts.back().data.push_back(b.end);
+      bp.data.push_back(b.estimate.order);
+      be.data.push_back(b.estimate.error);
+      bs.data.push_back(status_code(b.estimate.status));
+      bg.data.push_back(b.grows ? 1.0 : 0.0);
+    }
+    fields.insert(fields.end(), {bv, bp, be, bs, bg});
+  }
+
   for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
   for (const auto& f : fields) {
     nc.variable(f.name, f.dims, f.attrs);
@@ -248,6 +292,20 @@ std::string resolution_table_text(const ResolutionStudy& st) {
   out +=
       "(differences and errors in log10 mole fraction at the coarsest cell centres; "
       "err = Richardson error of the finest level)\n";
+  if (!st.boundary_fluxes.empty()) {
+    out += fmt::format("{:<{}}  {:<6}  {:>11}  {:>11}  {:>11}  {:>7}  {:>10}  {}\n", "flux", w,
+                       "edge", "level L-2", "level L-1", "level L", "p", "err", "status");
+    for (const auto& b : st.boundary_fluxes) {
+      out +=
+          fmt::format("{:<{}}  {:<6}  {:>11.4e}  {:>11.4e}  {:>11.4e}  {:>7.3f}  {:>10.3g}  {}{}\n",
+                      b.species, w, b.end, b.flux[L - 3], b.flux[L - 2], b.flux[L - 1],
+                      b.estimate.order, b.estimate.error, resolution_status_name(b.estimate.status),
+                      b.grows ? " (grows with refinement: a boundary layer thinner than the "
+                                "cells)"
+                              : "");
+    }
+    out += "(net upward flux through the boundary edge, cm-2 s-1, on the three finest levels)\n";
+  }
   if (!st.scores.empty()) {
     out += fmt::format("{:<{}}  {:>12}  {:>12}  {:>12}  {:>7}  {:>10}  {}\n", "scored", w,
                        "chi2_log(1)", "chi2_log(2)", "chi2_log(3)", "p", "err", "status");

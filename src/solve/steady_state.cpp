@@ -15,11 +15,16 @@ namespace colchem {
 
 const char* to_string(SolveStatus s) {
   switch (s) {
-    case SolveStatus::kConverged: return "converged";
-    case SolveStatus::kCompleted: return "completed";
-    case SolveStatus::kNotConverged: return "not_converged";
-    case SolveStatus::kFailed: return "failed";
-    case SolveStatus::kInterrupted: return "interrupted";
+    case SolveStatus::kConverged:
+      return "converged";
+    case SolveStatus::kCompleted:
+      return "completed";
+    case SolveStatus::kNotConverged:
+      return "not_converged";
+    case SolveStatus::kFailed:
+      return "failed";
+    case SolveStatus::kInterrupted:
+      return "interrupted";
   }
   return "unknown";
 }
@@ -148,10 +153,10 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
 
     if (!std::isfinite(norm.value)) {
       if (!have_prev) {
-        return finish(SolveStatus::kFailed,
-                      "non-finite residual at the initial state (" +
-                          where(norm.cell, norm.species) + ")",
-                      norm.value);
+        return finish(
+            SolveStatus::kFailed,
+            "non-finite residual at the initial state (" + where(norm.cell, norm.species) + ")",
+            norm.value);
       }
       x = x_prev;  // undo the step and retry it shorter
       if (!shrink_or_fail()) {
@@ -194,8 +199,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     if (res.iterations >= o.max_iterations) {
       record(0.0, 1.0);
       return finish(SolveStatus::kNotConverged,
-                    "no convergence in " + std::to_string(o.max_iterations) +
-                        " iterations (" +
+                    "no convergence in " + std::to_string(o.max_iterations) + " iterations (" +
                         (refused.empty() ? "scaled residual " + sci(norm.value) + " at " +
                                                where(norm.cell, norm.species) + ", tolerance " +
                                                sci(o.tolerance)
@@ -256,8 +260,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       have_prev = true;
       if (!shrink_or_fail()) {
         return finish(SolveStatus::kFailed,
-                      "pseudo-time step collapsed below " + sci(o.min_pseudo_step_s) +
-                          " s: " + why,
+                      "pseudo-time step collapsed below " + sci(o.min_pseudo_step_s) + " s: " + why,
                       norm.value);
       }
       continue;
@@ -279,9 +282,17 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       const double floor = o.positivity_fraction * x[i];
       if (want >= floor) {
         x[i] = want;
-      } else {
+      } else if (x[i] > 0.0) {
         if (x[i] > o.scale.absolute(i % S)) last_clipped = true;
         x[i] *= std::min(o.positivity_fraction, std::exp(lambda * dx[i] / x[i]));
+      } else if (f[i] > 0.0 && held[i] == 0) {
+        // A density at exactly zero cannot move by the multiplicative rule, and one whose
+        // own production is positive must not stay there: where the coupled step still
+        // points below zero (an inexact Krylov step, or a neighbour's change that the
+        // linearisation overshoots), take the local (Jacobi) step of its own row instead,
+        // F_i / (1/dtau - dF_i/dx_i), which is positive.
+        const double diag = 1.0 / dtau - jac.d(i / S, i % S, i % S);
+        if (diag > 0.0) x[i] = f[i] / diag;
       }
       dx[i] = x[i] - x_prev[i];
     }

@@ -1,6 +1,7 @@
 // The box configuration loader: quantities for the initial state, defaults, and errors.
 #include <catch2/catch.hpp>
 
+#include <filesystem>
 #include <fstream>
 
 #include "chem/box_model.hpp"
@@ -11,10 +12,12 @@ using Catch::Matchers::Contains;
 
 namespace {
 
+// Each test case writes into its own folder: CTest runs the cases as parallel processes.
 std::string write(const std::string& name, const std::string& text) {
-  const std::string path = std::string(COLCHEM_TEST_OUTPUT_DIR "/") + name;
+  const std::filesystem::path path = std::filesystem::path(COLCHEM_TEST_OUTPUT_DIR) / name;
+  std::filesystem::create_directories(path.parent_path());
   std::ofstream(path) << text;
-  return path;
+  return path.string();
 }
 
 const char* kMech = R"(
@@ -33,8 +36,8 @@ modules:
 
 TEST_CASE("box config: initial amounts as mixing ratios, percent, ppm and densities",
           "[chem][box]") {
-  write("box_small_mech.yaml", kMech);
-  const auto cfg = write("box_small.yaml", R"(
+  write("box_amounts/box_small_mech.yaml", kMech);
+  const auto cfg = write("box_amounts/box_small.yaml", R"(
 scenario: {name: small-box}
 box:
   temperature: 298 K
@@ -63,19 +66,21 @@ chemistry: {mechanism: box_small_mech.yaml, parameters: {beta: 0.2}}
   CHECK_FALSE(box.log_spacing);
   CHECK(box.output_file == "small-box.nc");
   // Overrides by key path reach parameters and the initial state.
-  const BoxSpec over = load_box_config(cfg, {"chemistry.parameters.beta=0.5", "box.initial.SO2=2 ppm"}, units);
+  const BoxSpec over =
+      load_box_config(cfg, {"chemistry.parameters.beta=0.5", "box.initial.SO2=2 ppm"}, units);
   CHECK(over.chemistry.parameters[0] == 0.5);
   CHECK(over.initial_cm3[*m.species_index("SO2")] == Approx(2e-6 * over.air_cm3));
 }
 
 TEST_CASE("box config: errors name the key", "[chem][box]") {
-  write("box_small_mech.yaml", kMech);
+  write("box_errors/box_small_mech.yaml", kMech);
   const UnitSystem units;
   auto error = [&](const std::string& box_lines) {
-    const auto cfg = write("box_bad.yaml", "scenario: {name: b}\nbox:\n  temperature: 298 K\n"
-                                           "  pressure: 1 bar\n  duration: 1 h\n"
-                                           "  bulk_composition: {N2: 1.0}\n" + box_lines +
-                                           "chemistry: {mechanism: box_small_mech.yaml}\n");
+    const auto cfg = write("box_errors/box_bad.yaml",
+                           "scenario: {name: b}\nbox:\n  temperature: 298 K\n"
+                           "  pressure: 1 bar\n  duration: 1 h\n"
+                           "  bulk_composition: {N2: 1.0}\n" +
+                               box_lines + "chemistry: {mechanism: box_small_mech.yaml}\n");
     try {
       (void)load_box_config(cfg, {}, units);
     } catch (const InputError& e) {
@@ -83,17 +88,18 @@ TEST_CASE("box config: errors name the key", "[chem][box]") {
     }
     return std::string("no error");
   };
-  CHECK_THAT(error("  initial: {SO3: 1 ppm}\n"), Contains("'box.initial.SO3': expected a species of mechanism 'small'"));
+  CHECK_THAT(error("  initial: {SO3: 1 ppm}\n"),
+             Contains("'box.initial.SO3': expected a species of mechanism 'small'"));
   CHECK_THAT(error("  initial: {SO2: 1 K}\n"), Contains("expected a mixing ratio"));
-  CHECK_THAT(error("  photolysis: {SO2_exc: 1e-3 s-1}\n"), Contains("a photolysis channel named by a reaction, found 'SO2_exc'"));
+  CHECK_THAT(error("  photolysis: {SO2_exc: 1e-3 s-1}\n"),
+             Contains("a photolysis channel named by a reaction, found 'SO2_exc'"));
   CHECK_THAT(error("  spacing: logarithmic\n"), Contains("expected one of: log, linear"));
   CHECK(error("") == "no error");
 }
 
-TEST_CASE("box: photo-excitation and a named branching ratio reach steady state",
-          "[chem][box]") {
-  write("box_small_mech.yaml", kMech);
-  const auto cfg = write("box_ss.yaml", R"(
+TEST_CASE("box: photo-excitation and a named branching ratio reach steady state", "[chem][box]") {
+  write("box_branching/box_small_mech.yaml", kMech);
+  const auto cfg = write("box_branching/box_ss.yaml", R"(
 scenario: {name: ss}
 box:
   temperature: 298 K
