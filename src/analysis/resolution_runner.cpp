@@ -96,8 +96,9 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
   // A steady state does not depend on its start, so the previous level's solution is a
   // better start; a transient's end state does, so it always starts from the scenario's.
   const bool steady = sc.solver.method != SolverMethod::kTransient;
-  if (steady && warm != nullptr) start_from_level(*warm, model, x0);
+  const bool warm_start = steady && warm != nullptr && start_from_level(*warm, model, x0);
   RunControls controls;
+  controls.warm_start = warm_start;
   controls.log = req.log;
   controls.stop_requested = req.stop_requested;
   const RunOutcome out = run_column(model, sc.solver, std::move(x0), controls);

@@ -76,6 +76,7 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     // file only gives the initial state (interpolated onto this grid), from the start time.
     std::optional<RunCheckpoint> resume;
     std::vector<double> x0;
+    bool warm = false;  // x0 is a converged state (a restart file or a grid sequence)
     if (!o->restart.empty()) {
       RestartFile rf = read_checkpoint(o->restart, model, sc.solver.method);
       resume = std::move(rf.checkpoint);
@@ -94,6 +95,8 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       } else {
         x0 = model.initial_state();
         const std::size_t n = model.take_restart(o->restart, x0);
+        // A converged state of the same scenario (on another grid, say) starts warm.
+        warm = n == model.species_count();
         ctx.log->info("initial state from {} ({}): {} of {} species; the run starts afresh",
                       o->restart, rf.why_not, n, model.species_count());
       }
@@ -112,7 +115,10 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       req.stop_requested = interrupt.query();
       SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
       sequence = std::move(seq.levels);
-      if (!seq.x0.empty()) x0 = std::move(seq.x0);
+      if (!seq.x0.empty()) {
+        x0 = std::move(seq.x0);
+        warm = true;
+      }
       for (const SequenceLevel& l : sequence) {
         if (!l.converged) {
           ctx.log->warn("grid sequencing: the solve on {} cells did not converge in {} "
@@ -125,6 +131,7 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     RunControls controls;
     controls.log = ctx.log.get();
     controls.stop_requested = interrupt.query();
+    controls.warm_start = warm;
     controls.checkpoint = [&](const RunCheckpoint& cp) {
       write_checkpoint(ckpt, sc, model, cp, ctx.command_line);
     };

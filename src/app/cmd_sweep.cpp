@@ -77,10 +77,12 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
         result.reason = "the variant changes the grid or the species of the base scenario";
         return result;
       }
-      std::vector<double> x0 = (warm && warm->size() == S * N) ? *warm : model.initial_state();
+      const bool warm_start = warm && warm->size() == S * N;
+      std::vector<double> x0 = warm_start ? *warm : model.initial_state();
       model.impose_held(x0);
       RunControls controls;
       controls.stop_requested = interrupt.query();
+      controls.warm_start = warm_start;
       RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
       result.converged = r.ok();
       result.reason = r.ok() ? std::string("converged") : r.reason;

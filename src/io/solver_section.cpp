@@ -84,6 +84,9 @@ SolverSpec load_solver_section(const ConfigNode& n, const UnitSystem& u) {
   if (auto v = n.find("initial_pseudo_step")) {
     s.initial_pseudo_step_s = positive_quantity(*v, u, "s", "1e-6 s");
   }
+  if (auto v = n.find("warm_pseudo_step")) {
+    s.warm_pseudo_step_s = positive_quantity(*v, u, "s", "1e8 s");
+  }
   if (auto v = n.find("max_pseudo_step")) {
     s.max_pseudo_step_s = positive_quantity(*v, u, "s", "1e16 s");
   }

@@ -6,6 +6,7 @@
 //     step_tolerance: 1e-6      # max |dx|/(|x| + a) of the last Newton step
 //     max_iterations: 200
 //     initial_pseudo_step: 1e-6 s
+//     warm_pseudo_step: 1e8 s   # first step from a converged state of another grid or variant
 //     max_pseudo_step: 1e16 s
 //     reference_time: 1e10 s    # t_ref of the scaled norm
 //     absolute_density: 1 cm-3  # a of the scaled norm and of relative changes
@@ -53,6 +54,11 @@ struct SolverSpec {
   double step_tolerance = 1e-6;
   int max_iterations = 200;
   double initial_pseudo_step_s = 1e-6;
+  /// The first pseudo-time step of a solve that starts from a converged state (a coarser
+  /// level of a grid sequence, another grid's run given to --restart, a sweep's finished
+  /// variant): such a state is out of balance only where the grid or the parameters
+  /// differ, so the solve need not climb from the cold start's 1e-6 s.
+  double warm_pseudo_step_s = 1e8;
   double max_pseudo_step_s = 1e16;
   double reference_time_s = 1e10;
   double absolute_density_cm3 = 1.0;

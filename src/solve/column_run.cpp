@@ -72,6 +72,9 @@ RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<
   if (c.log) progress = std::make_unique<Progress>(*c.log, "steady");
   SteadyStateOptions opt = steady_options(solver);
   const long before = from ? from->iteration : 0;
+  if (!from && c.warm_start) {
+    opt.initial_pseudo_step_s = std::min(solver.warm_pseudo_step_s, opt.max_pseudo_step_s);
+  }
   if (from) {
     // The iteration limit counts the checkpoint's iterations; the pseudo-time step goes on
     // from the checkpoint's last one (the Newton limit of this scenario still applies).

@@ -34,6 +34,9 @@ struct RunControls {
   std::function<bool()> stop_requested;  ///< interrupts
   /// Periodic checkpoints (every solver.checkpoint_every iterations or steps).
   std::function<void(const RunCheckpoint&)> checkpoint;
+  /// x0 is a converged state of another grid or variant: a steady solve starts with the
+  /// pseudo-time step solver.warm_pseudo_step instead of solver.initial_pseudo_step.
+  bool warm_start = false;
 };
 
 /// One row of the convergence history, for either solver.
