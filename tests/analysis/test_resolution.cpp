@@ -16,6 +16,42 @@
 
 using namespace colchem;
 
+TEST_CASE("boundary fluxes: second order, growth as 1/dz, held and tiny fluxes left out",
+          "[resolution]") {
+  const AsymptoticRange range;
+  // Three levels (h, h/2, h/4) of a column with four species: A converges at second order
+  // (Phi = 10 + 3 h^2, analytic), B grows as 1/dz (an unresolved boundary layer: 2 K n f/dz,
+  // analytic), C is held, D's flux is 1e-9 of the largest.
+  std::vector<LevelResult> levels(3);
+  for (std::size_t l = 0; l < 3; ++l) {
+    const double h = 1.0 / std::pow(2.0, static_cast<double>(l));
+    LevelResult& r = levels[l];
+    r.converged = true;
+    r.species = {"A", "B", "C", "D"};
+    r.held = {false, false, true, false};
+    r.bottom_flux = {10.0 + 3.0 * h * h, 5.0 / h, 1e3, 1e-8};
+    r.top_flux = {0.0, 0.0, 0.0, 0.0};
+  }
+  const auto b = compare_boundary_fluxes(levels, 2.0, range);
+  REQUIRE(b.size() == 2);
+  CHECK(b[0].species == "A");
+  CHECK(b[0].end == "bottom");
+  CHECK(b[0].estimate.order == Approx(2.0).epsilon(1e-12));                      // analytic
+  CHECK(b[0].flux.back() - b[0].estimate.error == Approx(10.0).epsilon(1e-12));  // extrapolated
+  CHECK(b[0].estimate.status == ResolutionStatus::kAsymptotic);
+  CHECK_FALSE(b[0].grows);
+  CHECK(b[1].species == "B");
+  CHECK(b[1].estimate.order == Approx(-1.0).epsilon(1e-12));  // analytic: 1/dz
+  CHECK(b[1].estimate.status == ResolutionStatus::kNotAsymptotic);
+  CHECK(b[1].grows);
+  // A failed level leaves the flux NaN there and the estimate failed.
+  levels[1].converged = false;
+  const auto f = compare_boundary_fluxes(levels, 2.0, range);
+  REQUIRE(f.size() == 2);
+  CHECK(std::isnan(f[0].flux[1]));
+  CHECK(f[0].estimate.status == ResolutionStatus::kFailed);
+}
+
 TEST_CASE("Richardson extrapolation recovers order and error of a known sequence", "[resolution]") {
   const AsymptoticRange range;
   SECTION("u(h) = u0 + C h^2 exactly") {
