@@ -155,6 +155,16 @@ void Kinetics::set_conditions(std::span<const double> temperature_K,
     }
   }
   k_.assign(R * N, 0.0);
+  if (resized || factor_.size() != R * N) factor_.assign(R * N, 1.0);
+  rescale();
+}
+
+void Kinetics::set_rate_factors(std::size_t r, std::span<const double> factor) {
+  if (r >= reactions_.size() || factor.size() != levels_) {
+    throw std::invalid_argument("Kinetics::set_rate_factors: reaction or level count");
+  }
+  std::copy(factor.begin(), factor.end(),
+            factor_.begin() + static_cast<std::ptrdiff_t>(r * levels_));
   rescale();
 }
 
@@ -172,7 +182,9 @@ void Kinetics::rescale() {
       s *= f.complement ? 1.0 - params_[f.parameter] : params_[f.parameter];
     }
     scale_[a] = s;
-    for (std::size_t j = 0; j < N; ++j) k_[a * N + j] = s * k_base_[a * N + j];
+    for (std::size_t j = 0; j < N; ++j) {
+      k_[a * N + j] = s * factor_[a * N + j] * k_base_[a * N + j];
+    }
   }
 }
 
@@ -184,7 +196,7 @@ void Kinetics::set_photolysis_rate(std::size_t channel, std::size_t level, doubl
   for (std::size_t a = 0; a < reactions_.size(); ++a) {
     if (reaction_channel_[a] != channel) continue;
     k_base_[a * N + level] = J;
-    k_[a * N + level] = scale_[a] * J;
+    k_[a * N + level] = scale_[a] * factor_[a * N + level] * J;
   }
 }
 
@@ -214,7 +226,9 @@ void Kinetics::rate_constant_sensitivities(std::span<double> out) const {
                                       : params_[scale[q].parameter];
       }
       double* o = out.data() + (scale[i].parameter * R + a) * N;
-      for (std::size_t j = 0; j < N; ++j) o[j] += others * k_base_[a * N + j];
+      for (std::size_t j = 0; j < N; ++j) {
+        o[j] += others * factor_[a * N + j] * k_base_[a * N + j];
+      }
     }
   }
 }

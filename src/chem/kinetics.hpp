@@ -55,6 +55,11 @@ class Kinetics {
   /// J of `channel` at every level.
   void set_photolysis_rates(std::size_t channel, std::span<const double> J);
 
+  /// Multiplies k (or J) of active reaction r by factor[j] at every level j, on top of its
+  /// scale (an ensemble member's draw of the rate uncertainty); all ones restore it. Set
+  /// after set_conditions (which resets the factors when the level count changes).
+  void set_rate_factors(std::size_t r, std::span<const double> factor);
+
   /// k[r * levels + j] including scale and [M] where it multiplies (units by order).
   [[nodiscard]] std::span<const double> rate_constants() const { return k_; }
   /// d k_r / d p at every level: out[(p * R + r) * levels + j]. Only reactions whose scale
@@ -113,6 +118,7 @@ class Kinetics {
   std::vector<std::size_t> reaction_channel_;  // npos for thermal reactions
   std::vector<double> k_base_;                 // without scale; J for photolysis
   std::vector<double> scale_;                  // per reaction
+  std::vector<double> factor_;                 // per reaction and level (ensembles), else 1
   std::vector<double> k_;
   std::vector<RateLaw> laws_;        // active reactions' laws, for rate_constants()
   std::vector<double> M_;            // [M] per reaction and level

@@ -6,6 +6,41 @@
 
 namespace colchem {
 
+double RateUncertainty::factor(double T_K) const {
+  return f298 * std::exp(std::abs(g_K * (1.0 / T_K - 1.0 / 298.0)));
+}
+
+RateUncertainty default_uncertainty(const Reaction& rx) {
+  RateUncertainty u;
+  std::string src = rx.source;
+  for (char& c : src) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  if (src.find("invented") != std::string::npos || src.find("estimate") != std::string::npos) {
+    u.f298 = 3.0;
+    return u;
+  }
+  switch (rx.rate.form) {
+    case RateForm::kPhotolysis:
+      u.f298 = 1.3;
+      return u;
+    case RateForm::kFirstOrder:
+    case RateForm::kEquilibriumReverse:
+      u.f298 = 2.0;
+      return u;
+    case RateForm::kFalloff:
+    case RateForm::kTroe:
+    case RateForm::kChemicalActivation:
+      u.f298 = 1.5;
+      u.g_K = 100.0;
+      return u;
+    default:
+      break;
+  }
+  const bool termolecular = rx.molecularity() >= 3 || rx.multiplies_third_body();
+  u.f298 = termolecular ? 1.5 : 1.3;
+  u.g_K = 100.0;
+  return u;
+}
+
 int Reaction::molecularity() const {
   int n = 0;
   for (const auto& e : reactants) n += e.count;

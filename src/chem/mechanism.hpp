@@ -1,6 +1,7 @@
 // A chemical mechanism as typed, validated data: species, named parameters, modules and
 // reactions. io/mechanism_loader.hpp builds it from a mechanism file (schema in
-// README.md, section Configuration reference); physics code (kinetics.hpp) compiles the active part into a network.
+// README.md, section Configuration reference); physics code (kinetics.hpp) compiles the active part
+// into a network.
 //
 // Reaction rate R_r = s_r k_r(T, [M]) prod_s n_s^nu_s (cm^-3 s^-1), with the scale
 // s_r = prod over the reaction's scale list of p or (1 - p) (named parameters, e.g.
@@ -46,15 +47,30 @@ struct Efficiency {
   double eps = 1.0;
 };
 
+/// How uncertain a rate constant is: the JPL evaluation's form, an uncertainty factor at
+/// 298 K and a temperature coefficient g (K), f(T) = f298 exp|g (1/T - 1/298)|
+/// (Burkholder et al. 2019, JPL Publication 19-5, section "uncertainty estimates"). For a
+/// photolysis reaction f298 is the factor of its J (cross section times quantum yield) and
+/// g is 0. Reactions without a stated value get a default by kind (default_uncertainty).
+struct RateUncertainty {
+  double f298 = 1.0;
+  double g_K = 0.0;
+  bool stated = false;  ///< given in the mechanism file (else a documented default)
+  std::string source;   ///< where a stated value comes from (may be empty)
+  /// f(T); 1 means exact.
+  [[nodiscard]] double factor(double T_K) const;
+};
+
 struct Reaction {
-  std::string equation;  ///< as written in the file
+  std::string equation;                          ///< as written in the file
   std::vector<StoichEntry> reactants, products;  ///< without M and hv
-  bool third_body = false;  ///< "+ M" on both sides
-  bool photon = false;      ///< "hv" among the reactants
-  RateLaw rate;             ///< parameters already converted to cgs
-  std::vector<Efficiency> efficiencies;  ///< third-body efficiencies (default 1)
+  bool third_body = false;                       ///< "+ M" on both sides
+  bool photon = false;                           ///< "hv" among the reactants
+  RateLaw rate;                                  ///< parameters already converted to cgs
+  std::vector<Efficiency> efficiencies;          ///< third-body efficiencies (default 1)
   std::vector<ScaleFactor> scale;
   std::string source;
+  RateUncertainty uncertainty;  ///< stated, or default_uncertainty() after loading
   bool duplicate = false;
   bool sink = false;  ///< no products; exempt from element balance
   std::size_t module = 0;
@@ -71,6 +87,13 @@ struct Reaction {
     return molecularity() + (multiplies_third_body() ? 1 : 0);
   }
 };
+
+/// The uncertainty of a reaction whose mechanism states none (common practice, no source;
+/// README.md, "Rate-uncertainty ensembles"): a reaction whose source calls it invented or
+/// an estimate, f298 = 3; photolysis, 1.3; a first-order or equilibrium law, 2; a
+/// bimolecular reaction, 1.3 with g = 100 K; a termolecular or fall-off reaction, 1.5 with
+/// g = 100 K.
+RateUncertainty default_uncertainty(const Reaction& rx);
 
 struct Module {
   std::string name;

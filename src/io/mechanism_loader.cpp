@@ -316,6 +316,22 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   if (auto s = item.find("source")) rx.source = s->text();
   if (auto d = item.find("duplicate")) rx.duplicate = d->boolean();
   if (auto s = item.find("sink")) rx.sink = s->boolean();
+  if (auto u = item.find("uncertainty")) {
+    const auto f = u->child("f298");
+    rx.uncertainty.f298 = f.number();
+    if (!(rx.uncertainty.f298 >= 1.0) || !std::isfinite(rx.uncertainty.f298)) {
+      f.fail("an uncertainty factor f298 >= 1 (1: exact)", quoted(rx));
+    }
+    if (auto g = u->find("g")) {
+      rx.uncertainty.g_K = g->number();
+      if (!(rx.uncertainty.g_K >= 0.0) || !std::isfinite(rx.uncertainty.g_K)) {
+        g->fail("a temperature coefficient g >= 0 (K)", quoted(rx));
+      }
+    }
+    if (auto s = u->find("source")) rx.uncertainty.source = s->text();
+    u->done();
+    rx.uncertainty.stated = true;
+  }
 
   // Shape checks against the equation.
   const bool photolysis = rx.rate.form == RateForm::kPhotolysis;
@@ -336,6 +352,7 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   }
   if (auto u = rate.find("units")) read_units(*u, rx, units);
   rate.done();
+  if (!rx.uncertainty.stated) rx.uncertainty = default_uncertainty(rx);
 
   if (auto eff = item.find("efficiencies")) {
     for (const auto& [name, v] : eff->entries()) {

@@ -178,3 +178,11 @@ colchem_cli_test(condensation_bad_weight 3 "weight_fraction': expected an acid w
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.saturation.h2so4_aqueous.weight_fraction=0.3)
 colchem_cli_test(condensation_fixed_species 3 "condensation.0.species': expected a species that is not held fixed, found 'CO2'"
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.species=CO2)
+
+# colchem ensemble on a closed-form linear column: percentiles against the analytic ones,
+# 1 and 2 ranks identical, the 95 % band test.
+add_test(NAME cli.ensemble
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/ensemble_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/ensemble_work)
+set_tests_properties(cli.ensemble PROPERTIES PROCESSORS 2)
+colchem_cli_test(help_ensemble 0 "latin_hypercube" $<TARGET_FILE:colchem> ensemble --help)

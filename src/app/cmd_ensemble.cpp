@@ -1,0 +1,293 @@
+// colchem ensemble CONFIG: how sure is the model of its own steady state? Draws N members of
+// the mechanism's rate uncertainties (analysis/ensemble.hpp), solves each member's steady
+// state from the base state (on MPI ranks with the sweep's dynamic balancing), and writes
+// per altitude the percentiles of every species' mole fraction, the distribution of the
+// chi-square against the observations, each member's draws, and which observed points lie
+// inside the base network's 95 % band.
+#include <mpi.h>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+#include <iostream>
+#include <limits>
+
+#include "analysis/ensemble.hpp"
+#include "analysis/observations.hpp"
+#include "analysis/score.hpp"
+#include "analysis/sweep_runner.hpp"
+#include "app/commands.hpp"
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "io/ensemble_output.hpp"
+#include "io/output.hpp"
+#include "io/scenario.hpp"
+#include "solve/column_run.hpp"
+#include "solve/interrupt.hpp"
+#include "solve/petsc_session.hpp"
+
+namespace colchem::app {
+
+namespace {
+
+double kNaN() {
+  return std::numeric_limits<double>::quiet_NaN();
+}
+
+/// Sets the member's rate factors on every active reaction of the model.
+void apply_member(ColumnModel& model, std::span<const double> z_member, double sigmas) {
+  Kinetics& kin = model.chemistry().kinetics();
+  const Mechanism& mech = kin.mechanism();
+  const auto& T = model.background().temperature_K;
+  std::vector<double> f(model.cells());
+  for (std::size_t a = 0; a < kin.reaction_count(); ++a) {
+    const std::size_t r = kin.mechanism_reaction(a);
+    for (std::size_t j = 0; j < f.size(); ++j) {
+      f[j] = ensemble_rate_factor(z_member[r], mech.reactions[r].uncertainty, T[j], sigmas);
+    }
+    kin.set_rate_factors(a, f);
+  }
+}
+
+std::vector<double> mole_fractions(const ColumnModel& model, std::span<const double> x) {
+  const std::size_t S = model.species_count(), N = model.cells();
+  std::vector<double> f(S * N);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) {
+      f[s * N + j] = x[j * S + s] / model.background().air_density_cm3[j];
+    }
+  }
+  return f;
+}
+
+}  // namespace
+
+void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand(
+      "ensemble",
+      "Draw members of the mechanism's rate uncertainties, solve each steady state, and report "
+      "the percentiles of every profile, the chi-square distribution and whether the "
+      "observations lie inside the model's 95 % band; under mpirun the members are shared "
+      "among the ranks.");
+  struct Options {
+    std::string config;
+    std::vector<std::string> sets;
+    std::string output;
+    std::size_t members = 100;
+    std::uint64_t seed = 1;
+    std::string sampling = "latin_hypercube";
+    double sigmas = 1.0;
+    double above_km = 90.0;
+  };
+  auto o = std::make_shared<Options>();
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML) with a steady solver")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--set", o->sets, "Override a config value by its dotted key path (repeatable)");
+  cmd->add_option("-o,--output", o->output,
+                  "Output NetCDF file (default: SCENARIO_NAME_ensemble.nc)");
+  cmd->add_option("-n,--members", o->members, "Number of members")
+      ->check(CLI::Range(std::size_t{2}, std::size_t{1000000}));
+  cmd->add_option("--seed", o->seed, "Seed of the draws (the same seed gives the same members)");
+  cmd->add_option("--sampling", o->sampling, "latin_hypercube or random")
+      ->check(CLI::IsMember({"latin_hypercube", "random"}));
+  cmd->add_option("--sigmas", o->sigmas,
+                  "How many standard deviations of ln k a stated factor f spans (1: f is a "
+                  "1-sigma factor; 2: a 2-sigma bound)")
+      ->check(CLI::Range(0.1, 10.0));
+  cmd->add_option("--above", o->above_km,
+                  "Altitude (km) above which the chance that a member reaches the observed "
+                  "values is reported");
+  out.emplace_back(cmd, [o](Context& ctx) {
+    const PetscSession petsc;  // initialises MPI as well
+    int rank = 0, size = 1;
+    MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+    MPI_Comm_size(MPI_COMM_WORLD, &size);
+    const UnitSystem units;
+    const Scenario sc = load_scenario(o->config, o->sets, units);
+    if (sc.solver.method != SolverMethod::kSteady) {
+      throw InputError(ExitCode::kConfig, SourceLocation{o->config}, "solver.method",
+                       "steady (an ensemble compares steady states)",
+                       method_name(sc.solver.method));
+    }
+    ColumnModel base_model(sc);
+    if (!base_model.has_chemistry()) {
+      throw InputError(ExitCode::kConfig, SourceLocation{o->config}, "chemistry",
+                       "a scenario with a chemistry section", "none");
+    }
+    const std::filesystem::path output = o->output.empty()
+                                             ? std::filesystem::path(sc.name + "_ensemble.nc")
+                                             : std::filesystem::path(o->output);
+    ObservationSet obs;
+    if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+    const InterruptGuard interrupt;
+
+    // 1. The base state, solved on every rank (the same deterministic solve), from which
+    //    every member starts: members do not depend on which rank ran them.
+    RunControls base_controls;
+    base_controls.stop_requested = interrupt.query();
+    if (rank == 0) base_controls.log = ctx.log.get();
+    const RunOutcome base =
+        run_column(base_model, sc.solver, base_model.initial_state(), base_controls);
+    if (base.status == SolveStatus::kInterrupted) {
+      throw RunError(ExitCode::kInterrupted, "interrupted during the base solve");
+    }
+    if (!base.ok()) {
+      throw RunError(ExitCode::kNotConverged, "the base state did not converge: " + base.reason);
+    }
+
+    // 2. The draws: the same on every rank.
+    const Mechanism& mech = base_model.chemistry().kinetics().mechanism();
+    const std::size_t R = mech.reactions.size(), M = o->members;
+    const EnsembleSampling sampling =
+        o->sampling == "random" ? EnsembleSampling::kRandom : EnsembleSampling::kLatinHypercube;
+    const std::vector<double> z = draw_standard_normals(M, R, o->seed, sampling);
+    std::vector<Variant> members(M);
+    for (std::size_t m = 0; m < M; ++m) {
+      members[m].index = m;
+      members[m].label = fmt::format("member {}", m + 1);
+    }
+    if (rank == 0) {
+      ctx.log->info(
+          "ensemble of {}: {} members ({} sampling, seed {}) of {} reactions on {} "
+          "rank{}",
+          sc.name, M, sampling_name(sampling), o->seed, R, size, size == 1 ? "" : "s");
+    }
+
+    // 3. The members.
+    const VariantRunner runner = [&](const Variant& v, const std::vector<double>*) {
+      VariantOutcome result;
+      try {
+        ColumnModel model(sc);
+        apply_member(model, std::span<const double>(z).subspan(v.index * R, R), o->sigmas);
+        RunControls controls;
+        controls.stop_requested = interrupt.query();
+        controls.warm_start = true;
+        RunOutcome r = run_column(model, sc.solver, base.x, controls);
+        result.converged = r.ok();
+        result.reason = r.ok() ? std::string("converged") : r.reason;
+        result.iterations = static_cast<int>(r.iterations);
+        result.residual = r.residual_norm;
+        if (r.ok()) result.values = mole_fractions(model, r.x);
+      } catch (const std::exception& e) {
+        result.converged = false;
+        result.reason = e.what();
+      }
+      return result;
+    };
+    const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+      ctx.log->debug("{} on rank {}: {} ({} iterations, {:.2f} s)", v.label, rank,
+                     r.converged ? "converged" : "FAILED: " + r.reason, r.iterations,
+                     r.wall_seconds);
+    };
+    std::vector<VariantOutcome> outcomes = run_variants(MPI_COMM_WORLD, members, runner, done);
+    if (interrupt.query()()) {
+      if (rank == 0) ctx.log->warn("interrupted: nothing written");
+      return static_cast<int>(ExitCode::kInterrupted);
+    }
+    if (rank != 0) return 0;
+
+    // 4. Statistics over the converged members.
+    EnsembleResults res;
+    res.species = base_model.species();
+    res.sampling = sampling_name(sampling);
+    res.seed = o->seed;
+    res.sigmas = o->sigmas;
+    res.above_km = o->above_km;
+    res.z = z;
+    for (const auto& rx : mech.reactions) {
+      res.equations.push_back(rx.equation);
+      res.f298.push_back(rx.uncertainty.f298);
+      res.g_K.push_back(rx.uncertainty.g_K);
+      res.stated.push_back(rx.uncertainty.stated ? 1 : 0);
+    }
+    std::vector<std::vector<double>> values;
+    for (const auto& oc : outcomes) {
+      res.converged.push_back(oc.converged ? 1 : 0);
+      res.reasons.push_back(oc.reason);
+      res.iterations.push_back(oc.iterations);
+      values.push_back(oc.converged ? oc.values : std::vector<double>{});
+    }
+    res.base_mole_fraction = mole_fractions(base_model, base.x);
+    res.percentile = ensemble_percentiles(values);
+    const auto& zc = base_model.background().grid.center_cm;
+    if (!obs.points.empty()) {
+      const auto base_scores = score_column(zc, res.species, res.base_mole_fraction, obs, 0);
+      for (const auto& s : base_scores) {
+        res.scored_species.push_back(s.species);
+        res.base_chi2_log.push_back(s.chi2_log);
+      }
+      res.member_chi2_log.assign(M * base_scores.size(), std::numeric_limits<double>::quiet_NaN());
+      // Per observed point: the member values there, for the band and the chance to reach.
+      std::vector<std::vector<double>> at_point;
+      for (const auto& s : base_scores) {
+        for (const auto& p : s.points) {
+          res.points.push_back({p.obs, p.inside, p.model, kNaN(), kNaN(), -1});
+          at_point.emplace_back();
+        }
+      }
+      for (std::size_t m = 0; m < M; ++m) {
+        if (values[m].empty()) continue;
+        const auto scores = score_column(zc, res.species, values[m], obs, 0);
+        std::size_t k = 0;
+        for (std::size_t q = 0; q < scores.size(); ++q) {
+          res.member_chi2_log[m * scores.size() + q] = scores[q].chi2_log;
+          for (const auto& p : scores[q].points) at_point[k++].push_back(p.model);
+        }
+      }
+      for (std::size_t k = 0; k < res.points.size(); ++k) {
+        auto& p = res.points[k];
+        if (!p.inside || at_point[k].empty()) continue;
+        p.low95 = sample_quantile(at_point[k], 0.025);
+        p.high95 = sample_quantile(at_point[k], 0.975);
+        p.inside95 = p.point.upper_limit
+                         ? (p.low95 <= p.point.value ? 1 : 0)
+                         : (p.point.value >= p.low95 && p.point.value <= p.high95 ? 1 : 0);
+      }
+      // The chance that the base network alone reaches the observations above `above`:
+      // the share of converged members whose value at every detected point of the species
+      // above that altitude is at least the observed value minus its 1-sigma uncertainty.
+      for (const auto& sp : res.scored_species) {
+        std::size_t reach = 0, total = 0, npts = 0;
+        for (std::size_t m = 0; m < M; ++m) {
+          if (values[m].empty()) continue;
+          ++total;
+          bool all = true;
+          npts = 0;
+          const auto scores = score_column(zc, res.species, values[m], obs, 0);
+          for (const auto& s : scores) {
+            for (const auto& p : s.points) {
+              if (s.species != sp || !p.inside || p.obs.upper_limit) continue;
+              if (p.obs.altitude_cm < o->above_km * constants::kCmPerKm) continue;
+              ++npts;
+              if (p.model < p.obs.value - p.obs.uncertainty) all = false;
+            }
+          }
+          if (all && npts > 0) ++reach;
+        }
+        res.reach_points.push_back(static_cast<double>(npts));
+        res.reach_probability.push_back(total > 0 && npts > 0 ? static_cast<double>(reach) /
+                                                                    static_cast<double>(total)
+                                                              : kNaN());
+      }
+    }
+
+    NcWriter nc(output);
+    write_provenance(nc, sc, ctx.command_line);
+    nc.global_number("colchem_ensemble_ranks", size);
+    write_ensemble_netcdf(nc, base_model.background(), res);
+    nc.commit();
+    std::cout << ensemble_summary_text(res);
+    ctx.log->info("wrote {}", output.string());
+    std::size_t ok = 0;
+    for (int c : res.converged) ok += c != 0 ? 1 : 0;
+    if (ok == 0) {
+      ctx.log->error("no member converged");
+      return static_cast<int>(ExitCode::kNotConverged);
+    }
+    return 0;
+  });
+}
+
+}  // namespace colchem::app

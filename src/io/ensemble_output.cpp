@@ -1,0 +1,228 @@
+#include "io/ensemble_output.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <iterator>
+#include <limits>
+
+#include "analysis/ensemble.hpp"
+#include "core/constants.hpp"
+#include "io/output.hpp"
+
+namespace colchem {
+
+namespace {
+
+/// A variable spelt once: its definition and its data together.
+struct Field {
+  std::string name;
+  std::vector<std::string> dims;
+  NcVarAttrs attrs;
+  std::vector<double> data;
+};
+struct TextField {
+  std::string name, dim, long_name;
+  std::vector<std::string> data;
+};
+
+}  // namespace
+
+void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleResults& r) {
+  const std::size_t M = r.converged.size(), R = r.equations.size();
+  const std::size_t P = std::size(kEnsemblePercentiles);
+  std::size_t ok = 0;
+  for (int c : r.converged) ok += c != 0 ? 1 : 0;
+  define_background(nc, bg);
+  nc.dimension("species", r.species.size());
+  nc.dimension("reaction", R);
+  nc.dimension("member", M);
+  nc.dimension("percentile", P);
+  nc.global_number("ensemble_members", static_cast<double>(M));
+  nc.global_number("ensemble_converged", static_cast<double>(ok));
+  nc.global_text("ensemble_sampling", r.sampling);
+  nc.global_number("ensemble_seed", static_cast<double>(r.seed));
+  nc.global_number("ensemble_sigmas", r.sigmas);
+  nc.global_number("ensemble_reach_above_km", r.above_km);
+  nc.global_text(
+      "ensemble_method",
+      "member m multiplies k_r (or J_r) by exp(z_mr ln f_r(T) / sigmas), f_r(T) = f298 "
+      "exp|g (1/T - 1/298)| (JPL Publication 19-5), z standard normal: Latin hypercube "
+      "(McKay, Beckman and Conover 1979) or random, seeded; each member's steady state from the "
+      "base state; percentiles over the converged members by linear interpolation between order "
+      "statistics (Hyndman and Fan 1996, definition 7)");
+
+  std::vector<Field> fields;
+  std::vector<TextField> texts;
+  texts.push_back({"species", "species", "species name (colchem notation)", {r.species}});
+  texts.push_back({"reaction_equation", "reaction", "reaction of the mechanism", {r.equations}});
+  texts.push_back({"member_status", "member", "solver outcome of the member", {r.reasons}});
+  Field pct{"percentile", {"percentile"}, {"1", "percentile of the members (percent)", "", {}}, {}};
+  pct.data.assign(std::begin(kEnsemblePercentiles), std::end(kEnsemblePercentiles));
+  Field f298{"reaction_f298", {"reaction"}, {"1", "uncertainty factor f at 298 K", "", {}}, r.f298};
+  Field g{
+      "reaction_g", {"reaction"}, {"K", "temperature coefficient g of the factor", "", {}}, r.g_K};
+  Field st{"reaction_uncertainty_stated",
+           {"reaction"},
+           {"1", "1 where the mechanism states the uncertainty, 0 for the default by kind", "", {}},
+           {}};
+  for (int v : r.stated) st.data.push_back(v);
+  Field base{"base_mole_fraction",
+             {"species", "altitude"},
+             {"1", "mole fraction of the base state (every rate at its stated value)", "", {}},
+             r.base_mole_fraction};
+  Field pmf{"mole_fraction_percentile",
+            {"percentile", "species", "altitude"},
+            {"1", "percentiles of the members' mole fractions", "", {}},
+            {}};
+  for (std::size_t p = 0; p < P; ++p) {
+    if (r.percentile[p].empty()) {
+      pmf.data.insert(pmf.data.end(), r.base_mole_fraction.size(),
+                      std::numeric_limits<double>::quiet_NaN());
+    } else {
+      pmf.data.insert(pmf.data.end(), r.percentile[p].begin(), r.percentile[p].end());
+    }
+  }
+  Field z{"member_z",
+          {"member", "reaction"},
+          {"1", "standard normal draw of each reaction in each member", "", {}},
+          r.z};
+  Field conv{"member_converged", {"member"}, {"1", "1 where the member converged", "", {}}, {}};
+  Field its{"member_iterations", {"member"}, {"1", "solver iterations of the member", "", {}}, {}};
+  for (std::size_t m = 0; m < M; ++m) {
+    conv.data.push_back(r.converged[m]);
+    its.data.push_back(r.iterations[m]);
+  }
+  fields.insert(fields.end(), {pct, f298, g, st, base, pmf, z, conv, its});
+
+  if (!r.scored_species.empty()) {
+    const std::size_t Q = r.scored_species.size(), K = r.points.size();
+    nc.dimension("scored_species", Q);
+    nc.dimension("observation", K);
+    texts.push_back({"score_species", "scored_species", "species scored against observations",
+                     r.scored_species});
+    Field bc{"base_chi2_log",
+             {"scored_species"},
+             {"1", "chi-square (log) of the base state", "", {}},
+             r.base_chi2_log};
+    Field mc{"member_chi2_log",
+             {"member", "scored_species"},
+             {"1", "chi-square (log) of each member (NaN: failed)", "", {}},
+             r.member_chi2_log};
+    Field cp{"chi2_log_percentile",
+             {"percentile", "scored_species"},
+             {"1", "percentiles of the members' chi-square (log)", "", {}},
+             {}};
+    for (double q : kEnsemblePercentiles) {
+      for (std::size_t s = 0; s < Q; ++s) {
+        std::vector<double> v;
+        for (std::size_t m = 0; m < M; ++m) {
+          const double c = r.member_chi2_log[m * Q + s];
+          if (std::isfinite(c)) v.push_back(c);
+        }
+        cp.data.push_back(sample_quantile(v, q / 100.0));
+      }
+    }
+    Field rp{"reach_probability",
+             {"scored_species"},
+             {"1",
+              "share of converged members at or above (observed - 1 sigma) at every detected "
+              "point above ensemble_reach_above_km",
+              "",
+              {}},
+             r.reach_probability};
+    Field rn{"reach_points",
+             {"scored_species"},
+             {"1", "detected points counted there", "", {}},
+             r.reach_points};
+    texts.push_back({"observation_species", "observation", "species of the observed point", {}});
+    Field oz{"observation_altitude", {"observation"}, {"km", "altitude", "altitude", {}}, {}};
+    Field ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
+    Field ou{"observation_upper_limit", {"observation"}, {"1", "1 for an upper limit", "", {}}, {}};
+    Field ob{"observation_base_model",
+             {"observation"},
+             {"1", "base state's mole fraction there", "", {}},
+             {}};
+    Field ol{"observation_low95",
+             {"observation"},
+             {"1", "2.5th percentile of the members there", "", {}},
+             {}};
+    Field oh{"observation_high95",
+             {"observation"},
+             {"1", "97.5th percentile of the members there", "", {}},
+             {}};
+    Field oi{"observation_inside95",
+             {"observation"},
+             {"1", "1 inside the 95 % band, 0 outside, -1 outside the column", "", {}},
+             {}};
+    for (const auto& p : r.points) {
+      texts.back().data.push_back(p.point.species);
+      oz.data.push_back(p.point.altitude_cm / constants::kCmPerKm);
+      ov.data.push_back(p.point.value);
+      ou.data.push_back(p.point.upper_limit ? 1.0 : 0.0);
+      ob.data.push_back(p.inside ? p.base_model : std::numeric_limits<double>::quiet_NaN());
+      ol.data.push_back(p.low95);
+      oh.data.push_back(p.high95);
+      oi.data.push_back(p.inside95);
+    }
+    fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, ob, ol, oh, oi});
+  }
+
+  for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
+  for (const auto& f : fields) {
+    nc.variable(f.name, f.dims, f.attrs);
+    nc.var_number(f.name, "_FillValue", std::numeric_limits<double>::quiet_NaN());
+  }
+  nc.end_definitions();
+  write_background_data(nc, bg);
+  for (const auto& t : texts) nc.put_strings(t.name, t.data);
+  for (const auto& f : fields) nc.put(f.name, f.data);
+}
+
+std::string ensemble_summary_text(const EnsembleResults& r) {
+  std::size_t ok = 0;
+  for (int c : r.converged) ok += c != 0 ? 1 : 0;
+  std::string out = fmt::format(
+      "ensemble: {} members ({} sampling, seed {}, factors as {} sigma), {} converged, {} "
+      "failed and left out of the statistics\n",
+      r.converged.size(), r.sampling, r.seed, r.sigmas, ok, r.converged.size() - ok);
+  std::size_t defaults = 0;
+  for (int s : r.stated) defaults += s == 0 ? 1 : 0;
+  out += fmt::format(
+      "uncertainties: {} of {} reactions stated in the mechanism, {} by the "
+      "default of their kind\n",
+      r.stated.size() - defaults, r.stated.size(), defaults);
+  const std::size_t Q = r.scored_species.size(), M = r.converged.size();
+  for (std::size_t s = 0; s < Q; ++s) {
+    std::vector<double> v;
+    for (std::size_t m = 0; m < M; ++m) {
+      const double c = r.member_chi2_log[m * Q + s];
+      if (std::isfinite(c)) v.push_back(c);
+    }
+    out +=
+        fmt::format("{}: chi2_log base {:.4g}; members median {:.4g}, 95 % range {:.4g} - {:.4g}\n",
+                    r.scored_species[s], r.base_chi2_log[s], sample_quantile(v, 0.5),
+                    sample_quantile(v, 0.025), sample_quantile(v, 0.975));
+  }
+  if (!r.points.empty()) {
+    out += "observed points against the members' 95 % band (2.5-97.5 %):\n";
+    for (const auto& p : r.points) {
+      if (!p.inside) continue;
+      out += fmt::format(
+          "  {:<8} {:7.2f} km  observed {}{:.3g}  base {:.3g}  band {:.3g} - {:.3g}  {}\n",
+          p.point.species, p.point.altitude_cm / constants::kCmPerKm,
+          p.point.upper_limit ? "< " : "", p.point.value, p.base_model, p.low95, p.high95,
+          p.inside95 == 1 ? "inside" : (p.point.upper_limit ? "band above the limit" : "OUTSIDE"));
+    }
+    for (std::size_t s = 0; s < Q; ++s) {
+      if (!(r.reach_points[s] > 0)) continue;
+      out += fmt::format(
+          "{}: chance that the network alone reaches the {} detected points above {} km (each at "
+          "least observed - 1 sigma): {:.3g}\n",
+          r.scored_species[s], r.reach_points[s], r.above_km, r.reach_probability[s]);
+    }
+  }
+  return out;
+}
+
+}  // namespace colchem
