@@ -258,5 +258,9 @@ TEST_CASE("two-stream plane albedo and transmission of finite layers against dou
   }
   INFO("largest errors: quadrature " << worst[0][0] << " / " << worst[0][1] << ", Eddington "
                                      << worst[1][0] << " / " << worst[1][1]);
-  CHECK(worst[0][0] > 0.0);
+  // Two streams are not exact here: a reference that fell back to a two-stream-like answer
+  // (too few directions, a lost phase function) would show errors far below the measured
+  // 0.030 / 0.021.
+  CHECK(worst[0][0] > 0.02);
+  CHECK(worst[1][0] > 0.015);
 }
