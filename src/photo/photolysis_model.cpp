@@ -264,6 +264,21 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     const AerosolSpec& ae = spec.aerosol;
     auto property = [&](const OpticalPropertySpec& p) {  // [j * B + b]
       std::vector<double> v(N * B, p.value);
+      if (p.form == OpticalPropertyForm::kAltitudeWavelength) {
+        const std::size_t K = p.spectra.size();
+        std::vector<double> binned(K * B), column(K);  // [k * B + b]
+        for (std::size_t k = 0; k < K; ++k) {
+          const auto avg = bin_average_held(p.spectra[k], edges_);
+          std::copy(avg.begin(), avg.end(), binned.begin() + static_cast<std::ptrdiff_t>(k * B));
+        }
+        for (std::size_t b = 0; b < B; ++b) {
+          for (std::size_t k = 0; k < K; ++k) column[k] = binned[k * B + b];
+          for (std::size_t j = 0; j < N; ++j) {
+            v[j * B + b] = interp_linear_hold(p.grid_altitude_cm, column, bg.grid.center_cm[j]);
+          }
+        }
+        return v;
+      }
       const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
                                              ? bin_average_held(p.by_wavelength, edges_)
                                              : std::vector<double>{};

@@ -92,7 +92,9 @@ struct Setup {
         n(levels * 30),
         J(30 * levels) {
     for (std::size_t j = 0; j < levels; ++j) {
-      for (std::size_t s = 0; s < 30; ++s) n[j * 30 + s] = 1e9 * bg.air_density_cm3[j] / bg.air_density_cm3[0] * (1.0 + static_cast<double>(s));
+      for (std::size_t s = 0; s < 30; ++s)
+        n[j * 30 + s] =
+            1e9 * bg.air_density_cm3[j] / bg.air_density_cm3[0] * (1.0 + static_cast<double>(s));
     }
     model.compute(n, J);  // warm up
   }
@@ -146,8 +148,9 @@ int main() {
   // Both models built once and timed alternately, 7 rounds of at least 0.2 s each, so that
   // a change of the machine's load falls on both alike; the ratio is that of the rounds'
   // medians (min and max of the per-round ratios beside it).
-  std::printf("\ntwo-stream against direct beam, 120 levels x 500 bins x 30 absorbers, "
-              "7 alternating rounds\n");
+  std::printf(
+      "\ntwo-stream against direct beam, 120 levels x 500 bins x 30 absorbers, "
+      "7 alternating rounds\n");
   std::printf("%-22s %12s %12s %8s %16s\n", "case", "direct ms", "2-stream ms", "ratio",
               "round ratios");
   for (const auto& c : cases) {

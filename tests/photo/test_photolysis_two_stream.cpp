@@ -251,3 +251,94 @@ TEST_CASE("two-stream spherical paths reduce to plane-parallel on a flat planet"
   sphere.compute(n, Js);
   for (std::size_t i = 0; i < Jp.size(); ++i) CHECK(Js[i] == Approx(Jp[i]).epsilon(1e-6));
 }
+
+TEST_CASE("aerosol optical properties as a function of altitude and wavelength",
+          "[photo][two_stream]") {
+  // A table of spectra at several altitudes reduces to the one-dimensional forms when it
+  // does not vary along one of its axes (analytic identity: bin averages of a constant, and
+  // linear interpolation in altitude of identical spectra); varying along both, it differs
+  // from either.
+  const Background bg = test::flat_isothermal(12, 60.0);
+  PhotolysisSpec s = absorbing_spec();
+  s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
+  s.aerosol.present = true;
+  s.aerosol.altitude_cm = {0.0, 30e5, 60e5};
+  s.aerosol.extinction_cm1 = {3e-6, 1e-6, 1e-8};
+  s.aerosol.has_optical_properties = true;
+  s.aerosol.asymmetry.value = 0.7;
+  s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+  s.radiative_transfer.surface_albedo = 0.4;
+  const auto n = state(bg);
+  auto jvalues = [&](const OpticalPropertySpec& ssa) {
+    PhotolysisSpec t = s;
+    t.aerosol.single_scattering_albedo = ssa;
+    PhotolysisModel m(t, bg, {"A", "B"});
+    std::vector<double> J(24);
+    m.compute(n, J);
+    return J;
+  };
+  const TabulatedSpectrum spectrum{{200.0, 300.0, 400.0}, {0.6, 0.95, 0.8}, "invented"};
+  OpticalPropertySpec by_wl;
+  by_wl.form = OpticalPropertyForm::kWavelength;
+  by_wl.by_wavelength = spectrum;
+  OpticalPropertySpec by_z;
+  by_z.form = OpticalPropertyForm::kAltitude;
+  by_z.by_altitude = {0.5, 0.9, 0.99};
+  OpticalPropertySpec flat_z;  // the same spectrum at three altitudes
+  flat_z.form = OpticalPropertyForm::kAltitudeWavelength;
+  flat_z.grid_altitude_cm = {0.0, 30e5, 60e5};
+  flat_z.spectra = {spectrum, spectrum, spectrum};
+  OpticalPropertySpec flat_wl;  // a constant spectrum at each altitude
+  flat_wl.form = OpticalPropertyForm::kAltitudeWavelength;
+  flat_wl.grid_altitude_cm = {0.0, 30e5, 60e5};
+  for (double v : by_z.by_altitude) {
+    flat_wl.spectra.push_back(TabulatedSpectrum{{150.0, 450.0}, {v, v}, "invented"});
+  }
+  OpticalPropertySpec both = flat_z;
+  both.spectra[2].value = {0.3, 0.5, 0.7};
+  const auto J_wl = jvalues(by_wl), J_z = jvalues(by_z);
+  const auto J_flat_z = jvalues(flat_z), J_flat_wl = jvalues(flat_wl), J_both = jvalues(both);
+  double differs = 0.0;
+  for (std::size_t i = 0; i < J_wl.size(); ++i) {
+    CHECK(J_flat_z[i] == Approx(J_wl[i]).epsilon(1e-13));
+    CHECK(J_flat_wl[i] == Approx(J_z[i]).epsilon(1e-13));
+    differs = std::max(differs, std::abs(J_both[i] / J_wl[i] - 1.0));
+  }
+  CHECK(differs > 1e-3);
+}
+
+TEST_CASE("altitude-wavelength optical property tables load and fail as documented",
+          "[photo][io][two_stream]") {
+  const auto good = test::write_file(
+      "ssa_zw.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n0, 400, 0.95\n"
+      "50, 200, 0.8\n50, 300, 0.85\n50, 400, 0.99\n");
+  const auto s = load_rt("rt_zw", "  radiative_transfer: {scheme: two_stream}\n",
+                         "single_scattering_albedo: {table: " + good.string() +
+                             ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+  const auto& p = s.aerosol.single_scattering_albedo;
+  CHECK(p.form == OpticalPropertyForm::kAltitudeWavelength);
+  REQUIRE(p.grid_altitude_cm.size() == 2);
+  CHECK(p.grid_altitude_cm[1] == Approx(50e5));  // km -> cm
+  CHECK(p.spectra[1].value.size() == 3);
+  CHECK(p.spectra[1].value[2] == 0.99);
+  const auto bad_order = test::write_file(
+      "ssa_zw_bad.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n0, 400, 0.95\n"
+      "50, 400, 0.8\n50, 300, 0.85\n");
+  CHECK_THAT(colchem_test::located_error_of([&] {
+               (void)load_rt("rt_zw_e1", "  radiative_transfer: {scheme: two_stream}\n",
+                             "single_scattering_albedo: {table: " + bad_order.string() +
+                                 ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+             }),
+             Catch::Contains("wavelengths increasing within an altitude"));
+  const auto bad_value = test::write_file(
+      "ssa_zw_range.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n10, 200, 1.5\n");
+  CHECK_THAT(colchem_test::located_error_of([&] {
+               (void)load_rt("rt_zw_e2", "  radiative_transfer: {scheme: two_stream}\n",
+                             "single_scattering_albedo: {table: " + bad_value.string() +
+                                 ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+             }),
+             Catch::Contains("single-scattering albedo from 0 to 1"));
+}
