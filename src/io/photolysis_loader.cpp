@@ -423,7 +423,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
 }
 
 void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
-  AerosolSpec& a = spec.aerosol;
+  AerosolSpec& a = spec.aerosols.emplace_back();
   const std::filesystem::path file = n.child("table").path();
   std::string column = "extinction";
   std::string alt = "altitude";
@@ -802,13 +802,19 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
         .fail("a zenith angle below 90 deg for plane_parallel paths",
               illum->child("zenith_angle").describe(), "use slant_path: spherical at 90 deg");
   }
-  if (aerosol) load_aerosol(*aerosol, ctx, spec);
+  // One population (a map) or several (a list of maps, e.g. a haze and a cloud deck).
+  std::vector<ConfigNode> populations;
+  if (aerosol) populations = aerosol->is_sequence() ? aerosol->items() : std::vector{*aerosol};
+  for (const auto& p : populations) load_aerosol(p, ctx, spec);
   if (rt) load_radiative_transfer(*rt, ctx, spec);
-  if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream && aerosol &&
-      !spec.aerosol.has_optical_properties) {
-    aerosol->fail(
-        "'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: two_stream'",
-        "neither");
+  for (std::size_t k = 0; k < populations.size(); ++k) {
+    if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream &&
+        !spec.aerosols[k].has_optical_properties) {
+      populations[k].fail(
+          "'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: "
+          "two_stream'",
+          "neither");
+    }
   }
   return spec;
 }

@@ -197,7 +197,9 @@ struct PhotolysisSpec {
   std::vector<RayleighSpec> rayleigh;
   IlluminationSpec illumination;
   SlantPath slant_path = SlantPath::kPlaneParallel;
-  AerosolSpec aerosol;
+  /// Aerosol and cloud populations (`aerosol:` one map or a list of maps); their extinction,
+  /// scattering and g-weighted scattering optical depths add.
+  std::vector<AerosolSpec> aerosols;
   RadiativeTransferSpec radiative_transfer;
   std::string data_source;  ///< the data file, for provenance
   /// Named parameters the data refer to (resolved against the mechanism at scenario load).

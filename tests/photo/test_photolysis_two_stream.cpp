@@ -56,10 +56,10 @@ TEST_CASE("two-stream J equals direct-beam J without scattering", "[photo][two_s
   const Background bg = test::flat_isothermal(20, 60.0);
   for (int geometry = 0; geometry < 3; ++geometry) {
     PhotolysisSpec s = absorbing_spec();
-    s.aerosol.present = true;
-    s.aerosol.altitude_cm = {0.0, 60e5};
-    s.aerosol.extinction_cm1 = {2e-6, 1e-8};
-    s.aerosol.has_optical_properties = true;
+    s.aerosols.emplace_back().present = true;
+    s.aerosols.back().altitude_cm = {0.0, 60e5};
+    s.aerosols.back().extinction_cm1 = {2e-6, 1e-8};
+    s.aerosols.back().has_optical_properties = true;
     if (geometry == 1) s.slant_path = SlantPath::kSpherical;
     if (geometry == 2) {
       s.illumination.form = IlluminationForm::kDiurnal;
@@ -68,7 +68,7 @@ TEST_CASE("two-stream J equals direct-beam J without scattering", "[photo][two_s
     }
     PhotolysisModel direct(s, bg, {"A", "B"});
     s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
-    s.aerosol.asymmetry.value = 0.7;  // delta scaling leaves a non-scattering aerosol alone
+    s.aerosols.back().asymmetry.value = 0.7;  // delta scaling leaves a non-scattering aerosol alone
     PhotolysisModel two(s, bg, {"A", "B"});
     const auto n = state(bg);
     std::vector<double> Jd(40), Jt(40);
@@ -117,12 +117,12 @@ TEST_CASE("two-stream J is a smooth function of the densities", "[photo][two_str
   const Background bg = test::flat_isothermal(12, 60.0);
   PhotolysisSpec s = absorbing_spec();
   s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
-  s.aerosol.present = true;
-  s.aerosol.altitude_cm = {0.0, 60e5};
-  s.aerosol.extinction_cm1 = {3e-6, 1e-8};
-  s.aerosol.has_optical_properties = true;
-  s.aerosol.single_scattering_albedo.value = 0.99;
-  s.aerosol.asymmetry.value = 0.7;
+  s.aerosols.emplace_back().present = true;
+  s.aerosols.back().altitude_cm = {0.0, 60e5};
+  s.aerosols.back().extinction_cm1 = {3e-6, 1e-8};
+  s.aerosols.back().has_optical_properties = true;
+  s.aerosols.back().single_scattering_albedo.value = 0.99;
+  s.aerosols.back().asymmetry.value = 0.7;
   s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
   s.radiative_transfer.surface_albedo = 0.6;
   PhotolysisModel m(s, bg, {"A", "B"});
@@ -190,16 +190,16 @@ TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][tw
   CHECK(s.radiative_transfer.closure == TwoStreamClosure::kEddington);
   CHECK(s.radiative_transfer.delta_scaling);
   CHECK(s.radiative_transfer.surface_albedo_table.value.size() == 2);
-  CHECK(s.aerosol.single_scattering_albedo.form == OpticalPropertyForm::kAltitude);
-  CHECK(s.aerosol.single_scattering_albedo.by_altitude[1] == 0.9);  // the table's value
-  CHECK(s.aerosol.asymmetry.value == 0.7);
+  CHECK(s.aerosols.back().single_scattering_albedo.form == OpticalPropertyForm::kAltitude);
+  CHECK(s.aerosols.back().single_scattering_albedo.by_altitude[1] == 0.9);  // the table's value
+  CHECK(s.aerosols.back().asymmetry.value == 0.7);
   const auto gtable =
       test::write_file("rt_g.csv", "# invented\nwavelength [um], value [1]\n0.2, 0.6\n0.8, 0.8\n");
   const auto w =
       load_rt("rt_wl", "  radiative_transfer: {scheme: two_stream}\n",
               "single_scattering_albedo: 1, asymmetry: {table: " + gtable.string() + "}");
-  CHECK(w.aerosol.asymmetry.form == OpticalPropertyForm::kWavelength);
-  CHECK(w.aerosol.asymmetry.by_wavelength.wavelength_nm[1] == Approx(800.0));  // um -> nm
+  CHECK(w.aerosols.at(0).asymmetry.form == OpticalPropertyForm::kWavelength);
+  CHECK(w.aerosols.at(0).asymmetry.by_wavelength.wavelength_nm[1] == Approx(800.0));  // um -> nm
   CHECK(w.radiative_transfer.closure == TwoStreamClosure::kQuadrature);        // the default
   const auto d = load_rt("rt_default", "");
   CHECK(d.radiative_transfer.scheme == RadiativeTransferScheme::kDirectBeam);
@@ -261,17 +261,17 @@ TEST_CASE("aerosol optical properties as a function of altitude and wavelength",
   const Background bg = test::flat_isothermal(12, 60.0);
   PhotolysisSpec s = absorbing_spec();
   s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
-  s.aerosol.present = true;
-  s.aerosol.altitude_cm = {0.0, 30e5, 60e5};
-  s.aerosol.extinction_cm1 = {3e-6, 1e-6, 1e-8};
-  s.aerosol.has_optical_properties = true;
-  s.aerosol.asymmetry.value = 0.7;
+  s.aerosols.emplace_back().present = true;
+  s.aerosols.back().altitude_cm = {0.0, 30e5, 60e5};
+  s.aerosols.back().extinction_cm1 = {3e-6, 1e-6, 1e-8};
+  s.aerosols.back().has_optical_properties = true;
+  s.aerosols.back().asymmetry.value = 0.7;
   s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
   s.radiative_transfer.surface_albedo = 0.4;
   const auto n = state(bg);
   auto jvalues = [&](const OpticalPropertySpec& ssa) {
     PhotolysisSpec t = s;
-    t.aerosol.single_scattering_albedo = ssa;
+    t.aerosols.back().single_scattering_albedo = ssa;
     PhotolysisModel m(t, bg, {"A", "B"});
     std::vector<double> J(24);
     m.compute(n, J);
@@ -316,7 +316,7 @@ TEST_CASE("altitude-wavelength optical property tables load and fail as document
   const auto s = load_rt("rt_zw", "  radiative_transfer: {scheme: two_stream}\n",
                          "single_scattering_albedo: {table: " + good.string() +
                              ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
-  const auto& p = s.aerosol.single_scattering_albedo;
+  const auto& p = s.aerosols.back().single_scattering_albedo;
   CHECK(p.form == OpticalPropertyForm::kAltitudeWavelength);
   REQUIRE(p.grid_altitude_cm.size() == 2);
   CHECK(p.grid_altitude_cm[1] == Approx(50e5));  // km -> cm
@@ -341,4 +341,84 @@ TEST_CASE("altitude-wavelength optical property tables load and fail as document
                                  ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
              }),
              Catch::Contains("single-scattering albedo from 0 to 1"));
+}
+
+TEST_CASE("aerosol populations add: a haze and a cloud deck", "[photo][two_stream]") {
+  // One population split into two halves of its extinction with the same omega and g gives
+  // the same J (optical depths and scattering add; analytic identity). Two populations with
+  // different g: the order of the list does not matter (a sum), and each counts (the J
+  // differ from those of either alone at twice its extinction).
+  const Background bg = test::flat_isothermal(12, 60.0);
+  PhotolysisSpec s = absorbing_spec();
+  s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+  s.radiative_transfer.surface_albedo = 0.3;
+  AerosolSpec a;
+  a.present = true;
+  a.altitude_cm = {0.0, 60e5};
+  a.extinction_cm1 = {4e-6, 1e-8};
+  a.has_optical_properties = true;
+  a.single_scattering_albedo.value = 0.95;
+  a.asymmetry.value = 0.6;
+  const auto n = state(bg);
+  auto jvalues = [&](const std::vector<AerosolSpec>& pops) {
+    PhotolysisSpec t = s;
+    t.aerosols = pops;
+    PhotolysisModel m(t, bg, {"A", "B"});
+    std::vector<double> J(24);
+    m.compute(n, J);
+    return J;
+  };
+  AerosolSpec half = a;
+  half.extinction_cm1 = {2e-6, 0.5e-8};
+  const auto J_one = jvalues({a}), J_two = jvalues({half, half});
+  for (std::size_t i = 0; i < J_one.size(); ++i) CHECK(J_two[i] == Approx(J_one[i]).epsilon(1e-12));
+  AerosolSpec forward = half, back = half;
+  forward.asymmetry.value = 0.85;
+  back.asymmetry.value = 0.0;
+  AerosolSpec forward_all = a, back_all = a;
+  forward_all.asymmetry.value = 0.85;
+  back_all.asymmetry.value = 0.0;
+  const auto J_mix = jvalues({forward, back}), J_swap = jvalues({back, forward});
+  const auto J_f = jvalues({forward_all}), J_b = jvalues({back_all});
+  double from_f = 0.0, from_b = 0.0;
+  for (std::size_t i = 0; i < J_mix.size(); ++i) {
+    CHECK(J_swap[i] == Approx(J_mix[i]).epsilon(1e-14));
+    from_f = std::max(from_f, std::abs(J_mix[i] / J_f[i] - 1.0));
+    from_b = std::max(from_b, std::abs(J_mix[i] / J_b[i] - 1.0));
+  }
+  CHECK(from_f > 1e-3);
+  CHECK(from_b > 1e-3);
+}
+
+TEST_CASE("a list of aerosol populations loads, and each needs its optical properties",
+          "[photo][io][two_stream]") {
+  const UnitSystem units;
+  const std::string src = COLCHEM_SOURCE_DIR;
+  const auto table = test::write_file(
+      "pops_aer.csv", "# invented\naltitude [km], extinction [km-1]\n0, 1.0\n100, 0.0\n");
+  auto load = [&](const std::string& name, const std::string& second) {
+    const std::string yaml = "photolysis:\n  data: " + src +
+                             "/configs/photolysis/representative_data.yaml\n"
+                             "  spectrum: {table: " +
+                             src +
+                             "/configs/photolysis/solar_1au.csv}\n"
+                             "  radiative_transfer: {scheme: two_stream}\n"
+                             "  aerosol:\n"
+                             "    - {table: " +
+                             table.string() +
+                             ", single_scattering_albedo: 0.99, asymmetry: 0.7}\n"
+                             "    - {table: " +
+                             table.string() + second + "}\n";
+    const auto file = test::write_file(name + ".yaml", yaml);
+    const ConfigDocument doc = ConfigDocument::load(file);
+    return load_photolysis(doc.root().child("photolysis"), units);
+  };
+  const auto s = load("pops_ok", ", single_scattering_albedo: 1, asymmetry: 0.8");
+  REQUIRE(s.aerosols.size() == 2);
+  CHECK(s.aerosols[0].asymmetry.value == 0.7);
+  CHECK(s.aerosols[1].asymmetry.value == 0.8);
+  const std::string err = colchem_test::located_error_of([&] { (void)load("pops_bad", ""); });
+  CHECK_THAT(err, Catch::Contains("'single_scattering_albedo' and 'asymmetry'"));
+  CHECK_THAT(err, Catch::Contains("pops_bad.yaml:7"));  // the second population's line
+  CHECK_THAT(err, Catch::Contains("'photolysis.aerosol.1'"));
 }
