@@ -64,7 +64,7 @@ SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& targe
   // With the two-stream scheme the coarser levels take the direct beam: they only give the
   // start, and the Pyrene cold start with the diffuse field settles on no grid within the
   // iteration limit, while from a direct-beam steady state the two-stream solve converges
-  // in about 50 Newton steps (continuation in the physics as well as the grid: Allgower and
+  // in 42-65 iterations (continuation in the physics as well as the grid: Allgower and
   // Georg 1990, Numerical Continuation Methods, ch. 1).
   const bool direct_beam_levels =
       target.photolysis() != nullptr && target.photolysis()->two_stream();
