@@ -62,9 +62,21 @@ SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& targe
                                std::size_t coarsest_cells, const UnitSystem& units) {
   SequencedStart out;
   std::optional<LevelResult> last;
+  // With the two-stream scheme the coarser levels take the direct beam: they only give the
+  // start, and the Pyrene cold start with the diffuse field settles on no grid within the
+  // iteration limit, while from a direct-beam steady state the two-stream solve converges
+  // in 42-65 iterations (continuation in the physics as well as the grid: Allgower and
+  // Georg 1990, Numerical Continuation Methods, ch. 1).
+  const bool direct_beam_levels =
+      target.photolysis() != nullptr && target.photolysis()->two_stream();
+  SolveRequest level_req = req;
+  if (direct_beam_levels) {
+    level_req.overrides.emplace_back("photolysis.radiative_transfer={scheme: direct_beam}");
+  }
   for (const auto& edges : coarser_grids(target.background().grid.edge_cm, coarsest_cells)) {
-    LevelResult r = solve_on_edges(req, edges, units, last ? &*last : nullptr);
-    out.levels.push_back({edges.size() - 1, r.iterations, r.wall_s, r.converged});
+    LevelResult r = solve_on_edges(level_req, edges, units, last ? &*last : nullptr);
+    out.levels.push_back(
+        {edges.size() - 1, r.iterations, r.wall_s, r.converged, direct_beam_levels});
     // A level that does not converge (a grid too coarse for the scenario's layers) is
     // skipped: the next finer one starts from the last converged level, or cold.
     if (r.converged) last = std::move(r);

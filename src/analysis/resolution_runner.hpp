@@ -69,7 +69,9 @@ std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
 /// A steady cold start by grid sequencing: solves the scenario on coarser_grids(...) in turn,
 /// each from the last converged level below it (cold when there is none), and returns the
 /// last converged level interpolated onto the target grid (x0 empty when none converged;
-/// `levels` says what each level did).
+/// `levels` says what each level did). When `target` uses the two-stream scheme the coarser
+/// levels are solved with the direct beam (the start only; the target grid gets the
+/// scenario's own radiative transfer).
 struct SequencedStart {
   std::vector<double> x0;
   std::vector<SequenceLevel> levels;

@@ -360,6 +360,45 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
     if (!check(p.value)) n.fail("a " + range);
     return p;
   }
+  if (n.find("table") && n.find("altitude_column")) {
+    // Rows (altitude, wavelength, value), in blocks of one altitude each: altitudes
+    // increasing from block to block, wavelengths increasing within a block.
+    p.form = OpticalPropertyForm::kAltitudeWavelength;
+    const std::filesystem::path file = n.child("table").path();
+    std::string column = "value", wl = "wavelength";
+    const std::string alt = n.child("altitude_column").text();
+    if (auto c = n.find("column")) column = c->text();
+    if (auto c = n.find("wavelength_column")) wl = c->text();
+    n.done();
+    const Table t = Table::read(file);
+    const auto z = t.column(alt, ctx.units, "cm");
+    const auto x = t.column(wl, ctx.units, "nm");
+    const auto v = t.column(column, ctx.units, "1");
+    for (std::size_t r = 0; r < t.rows(); ++r) {
+      if (!check(v[r])) t.fail_row(r, column, "a " + range, std::to_string(t.raw(column)[r]));
+      if (!(x[r] > 0.0)) t.fail_row(r, wl, "a positive wavelength", std::to_string(t.raw(wl)[r]));
+      const bool new_block = r == 0 || z[r] != z[r - 1];
+      if (new_block) {
+        if (r > 0 && !(z[r] > z[r - 1])) {
+          t.fail_row(r, alt, "altitudes increasing from block to block",
+                     std::to_string(t.raw(alt)[r]));
+        }
+        p.grid_altitude_cm.push_back(z[r]);
+        p.spectra.push_back(TabulatedSpectrum{{}, {}, table_label(t)});
+      } else if (!(x[r] > x[r - 1])) {
+        t.fail_row(r, wl, "wavelengths increasing within an altitude",
+                   std::to_string(t.raw(wl)[r]));
+      }
+      p.spectra.back().wavelength_nm.push_back(x[r]);
+      p.spectra.back().value.push_back(v[r]);
+    }
+    if (p.spectra.size() < 2) {
+      t.fail_row(0, alt, "at least two altitudes (one: give the wavelength table alone)",
+                 "one altitude");
+    }
+    if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol " + what, file, t.text()});
+    return p;
+  }
   if (n.find("table")) {
     p.form = OpticalPropertyForm::kWavelength;
     Table t;
@@ -384,7 +423,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
 }
 
 void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
-  AerosolSpec& a = spec.aerosol;
+  AerosolSpec& a = spec.aerosols.emplace_back();
   const std::filesystem::path file = n.child("table").path();
   std::string column = "extinction";
   std::string alt = "altitude";
@@ -763,13 +802,19 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
         .fail("a zenith angle below 90 deg for plane_parallel paths",
               illum->child("zenith_angle").describe(), "use slant_path: spherical at 90 deg");
   }
-  if (aerosol) load_aerosol(*aerosol, ctx, spec);
+  // One population (a map) or several (a list of maps, e.g. a haze and a cloud deck).
+  std::vector<ConfigNode> populations;
+  if (aerosol) populations = aerosol->is_sequence() ? aerosol->items() : std::vector{*aerosol};
+  for (const auto& p : populations) load_aerosol(p, ctx, spec);
   if (rt) load_radiative_transfer(*rt, ctx, spec);
-  if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream && aerosol &&
-      !spec.aerosol.has_optical_properties) {
-    aerosol->fail(
-        "'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: two_stream'",
-        "neither");
+  for (std::size_t k = 0; k < populations.size(); ++k) {
+    if (spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream &&
+        !spec.aerosols[k].has_optical_properties) {
+      populations[k].fail(
+          "'single_scattering_albedo' and 'asymmetry' with 'radiative_transfer.scheme: "
+          "two_stream'",
+          "neither");
+    }
   }
   return spec;
 }

@@ -260,10 +260,25 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   aerosol_dtau_.assign(N * B, 0.0);
   aerosol_sca_.assign(two_stream_ ? N * B : 0, 0.0);
   aerosol_gsca_.assign(two_stream_ ? N * B : 0, 0.0);
-  if (spec.aerosol.present) {
-    const AerosolSpec& ae = spec.aerosol;
+  for (const AerosolSpec& ae : spec.aerosols) {  // populations add
+    if (!ae.present) continue;
     auto property = [&](const OpticalPropertySpec& p) {  // [j * B + b]
       std::vector<double> v(N * B, p.value);
+      if (p.form == OpticalPropertyForm::kAltitudeWavelength) {
+        const std::size_t K = p.spectra.size();
+        std::vector<double> binned(K * B), column(K);  // [k * B + b]
+        for (std::size_t k = 0; k < K; ++k) {
+          const auto avg = bin_average_held(p.spectra[k], edges_);
+          std::copy(avg.begin(), avg.end(), binned.begin() + static_cast<std::ptrdiff_t>(k * B));
+        }
+        for (std::size_t b = 0; b < B; ++b) {
+          for (std::size_t k = 0; k < K; ++k) column[k] = binned[k * B + b];
+          for (std::size_t j = 0; j < N; ++j) {
+            v[j * B + b] = interp_linear_hold(p.grid_altitude_cm, column, bg.grid.center_cm[j]);
+          }
+        }
+        return v;
+      }
       const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
                                              ? bin_average_held(p.by_wavelength, edges_)
                                              : std::vector<double>{};
@@ -286,15 +301,18 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
           interp_linear_hold(ae.altitude_cm, ae.extinction_cm1, bg.grid.center_cm[j]);
       for (std::size_t b = 0; b < B; ++b) {
         const std::size_t i = j * B + b;
-        aerosol_dtau_[i] =
+        const double dtau =
             beta * dz_[j] *
             power_law_average(ae.reference_nm, ae.wavelength_exponent, edges_[b], edges_[b + 1]);
-        if (!two_stream_) continue;
-        DeltaScaled d{aerosol_dtau_[i], omega[i], asym[i]};
+        if (!two_stream_) {
+          aerosol_dtau_[i] += dtau;
+          continue;
+        }
+        DeltaScaled d{dtau, omega[i], asym[i]};
         if (spec.radiative_transfer.delta_scaling) d = delta_scale(d.dtau, d.omega, d.g);
-        aerosol_dtau_[i] = d.dtau;
-        aerosol_sca_[i] = d.omega * d.dtau;
-        aerosol_gsca_[i] = d.g * d.omega * d.dtau;
+        aerosol_dtau_[i] += d.dtau;
+        aerosol_sca_[i] += d.omega * d.dtau;
+        aerosol_gsca_[i] += d.g * d.omega * d.dtau;
       }
     }
   }

@@ -144,14 +144,19 @@ enum class SlantPath { kPlaneParallel, kSpherical };
 
 /// An optical property of the aerosol (single-scattering albedo or asymmetry parameter): a
 /// constant, a column of the aerosol's altitude table (linear in altitude, end values held,
-/// like the extinction), or a function of wavelength (bin-averaged, end values held).
-enum class OpticalPropertyForm { kConstant, kAltitude, kWavelength };
+/// like the extinction), a function of wavelength (bin-averaged, end values held), or a
+/// function of both: a spectrum at each of several altitudes, each bin-averaged, then
+/// linear in altitude between them (end values held).
+enum class OpticalPropertyForm { kConstant, kAltitude, kWavelength, kAltitudeWavelength };
 
 struct OpticalPropertySpec {
   OpticalPropertyForm form = OpticalPropertyForm::kConstant;
   double value = 0.0;               ///< kConstant
   std::vector<double> by_altitude;  ///< kAltitude: at AerosolSpec::altitude_cm
   TabulatedSpectrum by_wavelength;  ///< kWavelength
+  /// kAltitudeWavelength: increasing altitudes (cm) and the spectrum at each.
+  std::vector<double> grid_altitude_cm{};
+  std::vector<TabulatedSpectrum> spectra{};
 };
 
 /// Prescribed aerosol or cloud extinction: beta(z, lambda) = beta(z) (lambda_ref/lambda)^a.
@@ -165,8 +170,8 @@ struct AerosolSpec {
   double reference_nm = 550.0;
   std::string source;
   bool has_optical_properties = false;  ///< omega and g were given
-  OpticalPropertySpec single_scattering_albedo{OpticalPropertyForm::kConstant, 0.0, {}, {}};
-  OpticalPropertySpec asymmetry{OpticalPropertyForm::kConstant, 0.0, {}, {}};
+  OpticalPropertySpec single_scattering_albedo{};  ///< constant 0 unless given
+  OpticalPropertySpec asymmetry{};
 };
 
 enum class RadiativeTransferScheme { kDirectBeam, kTwoStream };
@@ -192,7 +197,9 @@ struct PhotolysisSpec {
   std::vector<RayleighSpec> rayleigh;
   IlluminationSpec illumination;
   SlantPath slant_path = SlantPath::kPlaneParallel;
-  AerosolSpec aerosol;
+  /// Aerosol and cloud populations (`aerosol:` one map or a list of maps); their extinction,
+  /// scattering and g-weighted scattering optical depths add.
+  std::vector<AerosolSpec> aerosols;
   RadiativeTransferSpec radiative_transfer;
   std::string data_source;  ///< the data file, for provenance
   /// Named parameters the data refer to (resolved against the mechanism at scenario load).

@@ -16,8 +16,9 @@ namespace colchem {
 std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool with_times) {
   std::string out;
   for (const auto& l : levels) {
-    out += fmt::format("{}{} cells {} iterations{}", out.empty() ? "" : ", ", l.cells,
-                       l.iterations, l.converged ? "" : " (not converged)");
+    out +=
+        fmt::format("{}{} cells {} iterations{}{}", out.empty() ? "" : ", ", l.cells, l.iterations,
+                    l.direct_beam ? " (direct beam)" : "", l.converged ? "" : " (not converged)");
     if (with_times) out += fmt::format(" ({:.2f} s)", l.wall_s);
   }
   return out;

@@ -55,9 +55,11 @@ struct SequenceLevel {
   long iterations = 0;
   double wall_s = 0.0;
   bool converged = false;
+  bool direct_beam = false;  ///< solved with the direct beam for a two-stream scenario
 };
 
-/// "27 cells 95 iterations (0.41 s), 54 cells 42 iterations (not converged) (0.52 s)":
+/// "27 cells 95 iterations (0.41 s), 54 cells 42 iterations (not converged) (0.52 s)"
+/// (" (direct beam)" after the iterations of a level solved with the direct beam):
 /// the levels of a sequence for the run summary and the run file (wall times optional).
 std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool with_times);
 

@@ -56,10 +56,10 @@ TEST_CASE("two-stream J equals direct-beam J without scattering", "[photo][two_s
   const Background bg = test::flat_isothermal(20, 60.0);
   for (int geometry = 0; geometry < 3; ++geometry) {
     PhotolysisSpec s = absorbing_spec();
-    s.aerosol.present = true;
-    s.aerosol.altitude_cm = {0.0, 60e5};
-    s.aerosol.extinction_cm1 = {2e-6, 1e-8};
-    s.aerosol.has_optical_properties = true;
+    s.aerosols.emplace_back().present = true;
+    s.aerosols.back().altitude_cm = {0.0, 60e5};
+    s.aerosols.back().extinction_cm1 = {2e-6, 1e-8};
+    s.aerosols.back().has_optical_properties = true;
     if (geometry == 1) s.slant_path = SlantPath::kSpherical;
     if (geometry == 2) {
       s.illumination.form = IlluminationForm::kDiurnal;
@@ -68,7 +68,7 @@ TEST_CASE("two-stream J equals direct-beam J without scattering", "[photo][two_s
     }
     PhotolysisModel direct(s, bg, {"A", "B"});
     s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
-    s.aerosol.asymmetry.value = 0.7;  // delta scaling leaves a non-scattering aerosol alone
+    s.aerosols.back().asymmetry.value = 0.7;  // delta scaling leaves a non-scattering aerosol alone
     PhotolysisModel two(s, bg, {"A", "B"});
     const auto n = state(bg);
     std::vector<double> Jd(40), Jt(40);
@@ -117,12 +117,12 @@ TEST_CASE("two-stream J is a smooth function of the densities", "[photo][two_str
   const Background bg = test::flat_isothermal(12, 60.0);
   PhotolysisSpec s = absorbing_spec();
   s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
-  s.aerosol.present = true;
-  s.aerosol.altitude_cm = {0.0, 60e5};
-  s.aerosol.extinction_cm1 = {3e-6, 1e-8};
-  s.aerosol.has_optical_properties = true;
-  s.aerosol.single_scattering_albedo.value = 0.99;
-  s.aerosol.asymmetry.value = 0.7;
+  s.aerosols.emplace_back().present = true;
+  s.aerosols.back().altitude_cm = {0.0, 60e5};
+  s.aerosols.back().extinction_cm1 = {3e-6, 1e-8};
+  s.aerosols.back().has_optical_properties = true;
+  s.aerosols.back().single_scattering_albedo.value = 0.99;
+  s.aerosols.back().asymmetry.value = 0.7;
   s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
   s.radiative_transfer.surface_albedo = 0.6;
   PhotolysisModel m(s, bg, {"A", "B"});
@@ -190,16 +190,16 @@ TEST_CASE("radiative_transfer keys load and fail as documented", "[photo][io][tw
   CHECK(s.radiative_transfer.closure == TwoStreamClosure::kEddington);
   CHECK(s.radiative_transfer.delta_scaling);
   CHECK(s.radiative_transfer.surface_albedo_table.value.size() == 2);
-  CHECK(s.aerosol.single_scattering_albedo.form == OpticalPropertyForm::kAltitude);
-  CHECK(s.aerosol.single_scattering_albedo.by_altitude[1] == 0.9);  // the table's value
-  CHECK(s.aerosol.asymmetry.value == 0.7);
+  CHECK(s.aerosols.back().single_scattering_albedo.form == OpticalPropertyForm::kAltitude);
+  CHECK(s.aerosols.back().single_scattering_albedo.by_altitude[1] == 0.9);  // the table's value
+  CHECK(s.aerosols.back().asymmetry.value == 0.7);
   const auto gtable =
       test::write_file("rt_g.csv", "# invented\nwavelength [um], value [1]\n0.2, 0.6\n0.8, 0.8\n");
   const auto w =
       load_rt("rt_wl", "  radiative_transfer: {scheme: two_stream}\n",
               "single_scattering_albedo: 1, asymmetry: {table: " + gtable.string() + "}");
-  CHECK(w.aerosol.asymmetry.form == OpticalPropertyForm::kWavelength);
-  CHECK(w.aerosol.asymmetry.by_wavelength.wavelength_nm[1] == Approx(800.0));  // um -> nm
+  CHECK(w.aerosols.at(0).asymmetry.form == OpticalPropertyForm::kWavelength);
+  CHECK(w.aerosols.at(0).asymmetry.by_wavelength.wavelength_nm[1] == Approx(800.0));  // um -> nm
   CHECK(w.radiative_transfer.closure == TwoStreamClosure::kQuadrature);        // the default
   const auto d = load_rt("rt_default", "");
   CHECK(d.radiative_transfer.scheme == RadiativeTransferScheme::kDirectBeam);
@@ -250,4 +250,175 @@ TEST_CASE("two-stream spherical paths reduce to plane-parallel on a flat planet"
   plane.compute(n, Jp);
   sphere.compute(n, Js);
   for (std::size_t i = 0; i < Jp.size(); ++i) CHECK(Js[i] == Approx(Jp[i]).epsilon(1e-6));
+}
+
+TEST_CASE("aerosol optical properties as a function of altitude and wavelength",
+          "[photo][two_stream]") {
+  // A table of spectra at several altitudes reduces to the one-dimensional forms when it
+  // does not vary along one of its axes (analytic identity: bin averages of a constant, and
+  // linear interpolation in altitude of identical spectra); varying along both, it differs
+  // from either.
+  const Background bg = test::flat_isothermal(12, 60.0);
+  PhotolysisSpec s = absorbing_spec();
+  s.rayleigh.push_back(RayleighSpec{"N2", 4.6e-27, 550.0, 4.0});  // from memory (N2 at 550 nm)
+  s.aerosols.emplace_back().present = true;
+  s.aerosols.back().altitude_cm = {0.0, 30e5, 60e5};
+  s.aerosols.back().extinction_cm1 = {3e-6, 1e-6, 1e-8};
+  s.aerosols.back().has_optical_properties = true;
+  s.aerosols.back().asymmetry.value = 0.7;
+  s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+  s.radiative_transfer.surface_albedo = 0.4;
+  const auto n = state(bg);
+  auto jvalues = [&](const OpticalPropertySpec& ssa) {
+    PhotolysisSpec t = s;
+    t.aerosols.back().single_scattering_albedo = ssa;
+    PhotolysisModel m(t, bg, {"A", "B"});
+    std::vector<double> J(24);
+    m.compute(n, J);
+    return J;
+  };
+  const TabulatedSpectrum spectrum{{200.0, 300.0, 400.0}, {0.6, 0.95, 0.8}, "invented"};
+  OpticalPropertySpec by_wl;
+  by_wl.form = OpticalPropertyForm::kWavelength;
+  by_wl.by_wavelength = spectrum;
+  OpticalPropertySpec by_z;
+  by_z.form = OpticalPropertyForm::kAltitude;
+  by_z.by_altitude = {0.5, 0.9, 0.99};
+  OpticalPropertySpec flat_z;  // the same spectrum at three altitudes
+  flat_z.form = OpticalPropertyForm::kAltitudeWavelength;
+  flat_z.grid_altitude_cm = {0.0, 30e5, 60e5};
+  flat_z.spectra = {spectrum, spectrum, spectrum};
+  OpticalPropertySpec flat_wl;  // a constant spectrum at each altitude
+  flat_wl.form = OpticalPropertyForm::kAltitudeWavelength;
+  flat_wl.grid_altitude_cm = {0.0, 30e5, 60e5};
+  for (double v : by_z.by_altitude) {
+    flat_wl.spectra.push_back(TabulatedSpectrum{{150.0, 450.0}, {v, v}, "invented"});
+  }
+  OpticalPropertySpec both = flat_z;
+  both.spectra[2].value = {0.3, 0.5, 0.7};
+  const auto J_wl = jvalues(by_wl), J_z = jvalues(by_z);
+  const auto J_flat_z = jvalues(flat_z), J_flat_wl = jvalues(flat_wl), J_both = jvalues(both);
+  double differs = 0.0;
+  for (std::size_t i = 0; i < J_wl.size(); ++i) {
+    CHECK(J_flat_z[i] == Approx(J_wl[i]).epsilon(1e-13));
+    CHECK(J_flat_wl[i] == Approx(J_z[i]).epsilon(1e-13));
+    differs = std::max(differs, std::abs(J_both[i] / J_wl[i] - 1.0));
+  }
+  CHECK(differs > 1e-3);
+}
+
+TEST_CASE("altitude-wavelength optical property tables load and fail as documented",
+          "[photo][io][two_stream]") {
+  const auto good = test::write_file(
+      "ssa_zw.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n0, 400, 0.95\n"
+      "50, 200, 0.8\n50, 300, 0.85\n50, 400, 0.99\n");
+  const auto s = load_rt("rt_zw", "  radiative_transfer: {scheme: two_stream}\n",
+                         "single_scattering_albedo: {table: " + good.string() +
+                             ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+  const auto& p = s.aerosols.back().single_scattering_albedo;
+  CHECK(p.form == OpticalPropertyForm::kAltitudeWavelength);
+  REQUIRE(p.grid_altitude_cm.size() == 2);
+  CHECK(p.grid_altitude_cm[1] == Approx(50e5));  // km -> cm
+  CHECK(p.spectra[1].value.size() == 3);
+  CHECK(p.spectra[1].value[2] == 0.99);
+  const auto bad_order = test::write_file(
+      "ssa_zw_bad.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n0, 400, 0.95\n"
+      "50, 400, 0.8\n50, 300, 0.85\n");
+  CHECK_THAT(colchem_test::located_error_of([&] {
+               (void)load_rt("rt_zw_e1", "  radiative_transfer: {scheme: two_stream}\n",
+                             "single_scattering_albedo: {table: " + bad_order.string() +
+                                 ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+             }),
+             Catch::Contains("wavelengths increasing within an altitude"));
+  const auto bad_value = test::write_file(
+      "ssa_zw_range.csv",
+      "# invented\naltitude [km], wavelength [nm], ssa [1]\n0, 200, 0.9\n10, 200, 1.5\n");
+  CHECK_THAT(colchem_test::located_error_of([&] {
+               (void)load_rt("rt_zw_e2", "  radiative_transfer: {scheme: two_stream}\n",
+                             "single_scattering_albedo: {table: " + bad_value.string() +
+                                 ", column: ssa, altitude_column: altitude}, asymmetry: 0.6");
+             }),
+             Catch::Contains("single-scattering albedo from 0 to 1"));
+}
+
+TEST_CASE("aerosol populations add: a haze and a cloud deck", "[photo][two_stream]") {
+  // One population split into two halves of its extinction with the same omega and g gives
+  // the same J (optical depths and scattering add; analytic identity). Two populations with
+  // different g: the order of the list does not matter (a sum), and each counts (the J
+  // differ from those of either alone at twice its extinction).
+  const Background bg = test::flat_isothermal(12, 60.0);
+  PhotolysisSpec s = absorbing_spec();
+  s.radiative_transfer.scheme = RadiativeTransferScheme::kTwoStream;
+  s.radiative_transfer.surface_albedo = 0.3;
+  AerosolSpec a;
+  a.present = true;
+  a.altitude_cm = {0.0, 60e5};
+  a.extinction_cm1 = {4e-6, 1e-8};
+  a.has_optical_properties = true;
+  a.single_scattering_albedo.value = 0.95;
+  a.asymmetry.value = 0.6;
+  const auto n = state(bg);
+  auto jvalues = [&](const std::vector<AerosolSpec>& pops) {
+    PhotolysisSpec t = s;
+    t.aerosols = pops;
+    PhotolysisModel m(t, bg, {"A", "B"});
+    std::vector<double> J(24);
+    m.compute(n, J);
+    return J;
+  };
+  AerosolSpec half = a;
+  half.extinction_cm1 = {2e-6, 0.5e-8};
+  const auto J_one = jvalues({a}), J_two = jvalues({half, half});
+  for (std::size_t i = 0; i < J_one.size(); ++i) CHECK(J_two[i] == Approx(J_one[i]).epsilon(1e-12));
+  AerosolSpec forward = half, back = half;
+  forward.asymmetry.value = 0.85;
+  back.asymmetry.value = 0.0;
+  AerosolSpec forward_all = a, back_all = a;
+  forward_all.asymmetry.value = 0.85;
+  back_all.asymmetry.value = 0.0;
+  const auto J_mix = jvalues({forward, back}), J_swap = jvalues({back, forward});
+  const auto J_f = jvalues({forward_all}), J_b = jvalues({back_all});
+  double from_f = 0.0, from_b = 0.0;
+  for (std::size_t i = 0; i < J_mix.size(); ++i) {
+    CHECK(J_swap[i] == Approx(J_mix[i]).epsilon(1e-14));
+    from_f = std::max(from_f, std::abs(J_mix[i] / J_f[i] - 1.0));
+    from_b = std::max(from_b, std::abs(J_mix[i] / J_b[i] - 1.0));
+  }
+  CHECK(from_f > 1e-3);
+  CHECK(from_b > 1e-3);
+}
+
+TEST_CASE("a list of aerosol populations loads, and each needs its optical properties",
+          "[photo][io][two_stream]") {
+  const UnitSystem units;
+  const std::string src = COLCHEM_SOURCE_DIR;
+  const auto table = test::write_file(
+      "pops_aer.csv", "# invented\naltitude [km], extinction [km-1]\n0, 1.0\n100, 0.0\n");
+  auto load = [&](const std::string& name, const std::string& second) {
+    const std::string yaml = "photolysis:\n  data: " + src +
+                             "/configs/photolysis/representative_data.yaml\n"
+                             "  spectrum: {table: " +
+                             src +
+                             "/configs/photolysis/solar_1au.csv}\n"
+                             "  radiative_transfer: {scheme: two_stream}\n"
+                             "  aerosol:\n"
+                             "    - {table: " +
+                             table.string() +
+                             ", single_scattering_albedo: 0.99, asymmetry: 0.7}\n"
+                             "    - {table: " +
+                             table.string() + second + "}\n";
+    const auto file = test::write_file(name + ".yaml", yaml);
+    const ConfigDocument doc = ConfigDocument::load(file);
+    return load_photolysis(doc.root().child("photolysis"), units);
+  };
+  const auto s = load("pops_ok", ", single_scattering_albedo: 1, asymmetry: 0.8");
+  REQUIRE(s.aerosols.size() == 2);
+  CHECK(s.aerosols[0].asymmetry.value == 0.7);
+  CHECK(s.aerosols[1].asymmetry.value == 0.8);
+  const std::string err = colchem_test::located_error_of([&] { (void)load("pops_bad", ""); });
+  CHECK_THAT(err, Catch::Contains("'single_scattering_albedo' and 'asymmetry'"));
+  CHECK_THAT(err, Catch::Contains("pops_bad.yaml:7"));  // the second population's line
+  CHECK_THAT(err, Catch::Contains("'photolysis.aerosol.1'"));
 }

@@ -8,6 +8,7 @@
 #include <cmath>
 #include <vector>
 
+#include "h_function.hpp"
 #include "photo/slant_path.hpp"
 #include "photo/two_stream.hpp"
 
@@ -59,37 +60,6 @@ void meador_weaver(TwoStreamClosure closure, double tau, double w, double g, dou
                       ((1.0 + k * mu0) * (a1 + k * g4) * ep - (1.0 - k * mu0) * (a1 - k * g4) * em -
                        2.0 * k * (g4 + a1 * mu0) / eb));
 }
-
-/// Chandrasekhar's H-function of isotropic scattering with albedo w (Radiative Transfer,
-/// 1960, ch. V): 1/H(mu) = sqrt(1 - w) + (w/2) int_0^1 mu' H(mu') / (mu + mu') dmu',
-/// iterated to a fixed point on 96 Gauss-Legendre nodes; evaluated anywhere by the same sum.
-struct HFunction {
-  double w = 0.0;
-  std::vector<double> mu, weight, H;
-  explicit HFunction(double albedo) : w(albedo) {
-    gauss_legendre(96, mu, weight);
-    for (std::size_t i = 0; i < mu.size(); ++i) {
-      mu[i] = 0.5 * (mu[i] + 1.0);
-      weight[i] *= 0.5;
-    }
-    H.assign(mu.size(), 1.0);
-    for (int it = 0; it < 5000; ++it) {
-      std::vector<double> next(mu.size());
-      double change = 0.0;
-      for (std::size_t i = 0; i < mu.size(); ++i) {
-        next[i] = (*this)(mu[i]);
-        change = std::max(change, std::abs(next[i] - H[i]));
-      }
-      H = next;
-      if (change < 1e-15) break;
-    }
-  }
-  double operator()(double at) const {
-    double s = 0.0;
-    for (std::size_t i = 0; i < mu.size(); ++i) s += weight[i] * mu[i] * H[i] / (at + mu[i]);
-    return 1.0 / (std::sqrt(1.0 - w) + 0.5 * w * s);
-  }
-};
 
 }  // namespace
 
@@ -193,7 +163,7 @@ TEST_CASE("two-stream: semi-infinite isotropic scattering against the exact H-fu
                         {TwoStreamClosure::kHemisphericMean, 0.99, 0.004}};
   for (const auto& c : cases) {
     for (double mu0 : {0.5, 1.0}) {
-      const double exact = 1.0 - HFunction(c.w)(mu0) * std::sqrt(1.0 - c.w);
+      const double exact = 1.0 - test::HFunction(c.w)(mu0) * std::sqrt(1.0 - c.w);
       const Result r = solve(2000.0, c.w, 0.0, mu0, 0.0, c.closure, 6);
       const double model = r.up[0] / mu0;
       INFO("closure " << two_stream_closure_name(c.closure) << " w " << c.w << " mu0 " << mu0
@@ -208,7 +178,7 @@ TEST_CASE("two-stream: the H-function of the reference satisfies its moment iden
   // int_0^1 H(mu) dmu = (2/w) (1 - sqrt(1 - w)) (Chandrasekhar 1960, ch. V; analytic): checks
   // the reference of the case above, by Gauss-Legendre quadrature of the computed H.
   for (double w : {0.5, 0.9, 0.99}) {
-    const HFunction H(w);
+    const test::HFunction H(w);
     double a0 = 0.0;
     for (std::size_t i = 0; i < H.mu.size(); ++i) a0 += H.weight[i] * H(H.mu[i]);
     CHECK(a0 == Approx(2.0 / w * (1.0 - std::sqrt(1.0 - w))).epsilon(1e-6));
