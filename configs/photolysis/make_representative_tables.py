@@ -198,3 +198,47 @@ write("cl2.csv", "Cl2 absorption cross section", XS,
 write("clo.csv", "ClO absorption cross section (A-X continuum and band envelope)", XS,
       [(200, 3e-19), (220, 1.5e-18), (240, 4e-18), (250, 5e-18), (257, 5.2e-18),
        (265, 4.5e-18), (275, 3e-18), (290, 1e-18), (300, 4e-19), (310, 1e-19), (320, 0.0)])
+
+# --- Tables of the extended Pyrene network (configs/photolysis/pyrene_extended_photo.yaml) ---
+# CO2 at 195 K: the cross section longward of ~170 nm falls with temperature (the
+# vibrationally excited lower levels that absorb there are depopulated); ratio to room
+# temperature ~0.8 at 170 nm falling to ~0.15 at 200-205 nm, shape from memory of the
+# published low-temperature measurements (Lewis and Carver 1983; Yoshino et al. 1996;
+# Parkinson et al. 2003 -- from memory). Identical to co2.csv below 165 nm.
+write("co2_195K.csv", "CO2 absorption cross section at 195 K (low-temperature shape)", XS,
+      [(100, 3e-17), (110, 2e-17), (115, 8e-18), (119, 3e-19), (121, 7e-20), (122, 7e-20),
+       (125, 3e-19), (130, 5e-19), (135, 6e-19), (140, 6e-19), (145, 7e-19), (150, 6e-19),
+       (155, 4e-19), (160, 2e-19), (165, 7.5e-20), (170, 2.4e-20), (175, 1.0e-20),
+       (180, 3.5e-21), (185, 1.2e-21), (190, 3.5e-22), (195, 7e-23), (200, 6e-24),
+       (205, 1.5e-24), (206, 0.0)])
+# Sulfur allotropes: broad visible bands, S3 near 400-420 nm and S4 near 520-530 nm; band
+# positions from memory, peak values order of magnitude only (INVENTED shape).
+write("s3.csv", "S3 absorption cross section (visible band; invented shape, position and "
+      "order of magnitude from memory)", XS,
+      [(250, 1e-18), (300, 3e-18), (350, 1e-17), (400, 3e-17), (420, 3e-17), (450, 1.5e-17),
+       (480, 4e-18), (500, 1e-18), (520, 0.0)])
+write("s4.csv", "S4 absorption cross section (visible band; invented shape, position and "
+      "order of magnitude from memory)", XS,
+      [(300, 1e-18), (400, 3e-18), (450, 8e-18), (500, 2e-17), (530, 3e-17), (560, 2e-17),
+       (600, 5e-18), (650, 5e-19), (670, 0.0)])
+write("oclo.csv", "OClO absorption cross section (A-X band envelope)", XS,
+      [(240, 1e-19), (260, 6e-19), (280, 1.5e-18), (300, 3e-18), (320, 5.5e-18),
+       (340, 8.5e-18), (360, 1.1e-17), (380, 9e-18), (400, 6e-18), (420, 3e-18),
+       (440, 1.2e-18), (460, 3e-19), (480, 5e-20), (490, 0.0)])
+write("cl2o2.csv", "Cl2O2 (ClOOCl) absorption cross section", XS,
+      [(200, 3e-18), (220, 4.5e-18), (240, 6.3e-18), (250, 6.3e-18), (260, 5e-18),
+       (280, 2.5e-18), (300, 9e-19), (320, 4e-19), (340, 2e-19), (360, 1.1e-19),
+       (380, 6e-20), (400, 3e-20), (420, 1.2e-20), (440, 0.0)])
+write("scl2.csv", "SCl2 absorption cross section (UV band and visible tail; invented shape, "
+      "order of magnitude from memory)", XS,
+      [(220, 5e-18), (250, 1e-17), (270, 8e-18), (300, 3e-18), (330, 1.5e-18),
+       (370, 5e-19), (400, 3e-19), (450, 1e-19), (500, 2e-20), (520, 0.0)])
+write("oscl.csv", "ClSO absorption cross section (INVENTED placeholder: no measured spectrum "
+      "known to us)", XS,
+      [(220, 1e-18), (250, 2e-18), (280, 2e-18), (300, 1e-18), (330, 2e-19), (350, 0.0)])
+write("cls.csv", "ClS absorption cross section (INVENTED placeholder: no measured spectrum "
+      "known to us)", XS,
+      [(220, 1e-18), (250, 1e-18), (280, 5e-19), (300, 1e-19), (310, 0.0)])
+write("hso.csv", "HSO absorption cross section (INVENTED placeholder: no measured "
+      "dissociating spectrum known to us)", XS,
+      [(200, 1e-18), (230, 1e-18), (260, 3e-19), (290, 5e-20), (300, 0.0)])

@@ -97,10 +97,12 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
   const bool chem = model.has_chemistry();
   ColumnDiagnostics d;
   std::vector<ElementBudget> budgets;
+  std::vector<ExchangeReport> exchanges;
   if (chem) {
     model.refresh_photolysis(o.x);
     d = model.diagnostics(o.x, o.time_s);
     budgets = column_element_budgets(model, d);
+    exchanges = model.exchange_report(o.x);
     define_species(nc, model.species());
     define_reactions(nc, d.equations.size());
     nc.variable("held_fixed", {"species"}, {"1", "1 where the species is held at its background mixing ratio", "", {}});
@@ -124,6 +126,28 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     }
     nc.variable("element_relative_imbalance", {"element"},
                 {"1", "|imbalance| / gross (sum of magnitudes of every column term)", "", {}});
+    if (!exchanges.empty()) {
+      nc.dimension("exchange", exchanges.size());
+      nc.string_variable("exchange_equation", "exchange",
+                         "exchange with a condensed phase or held profile (its pseudo-reaction)");
+      nc.variable("exchange_equilibrium_density", {"exchange", "altitude"},
+                  {"cm-3",
+                   "saturation density (held density for a held profile); 0 where the exchange "
+                   "does not act",
+                   "",
+                   {}});
+      nc.variable(
+          "exchange_rate_constant", {"exchange", "altitude"},
+          {"s-1",
+           "relaxation rate constant k of f = -k (n - n_eq); 0 where the exchange does not act",
+           "",
+           {}});
+      nc.variable("exchange_reservoir", {"exchange", "altitude"},
+                  {"1",
+                   "1 where a condensed reservoir (or held profile) allows evaporation or supply",
+                   "",
+                   {}});
+    }
     if (model.photolysis()) define_photolysis_output(nc, *model.photolysis(), false);
     define_snapshots(nc, o.snapshots.size());
   }
@@ -171,6 +195,20 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.put("element_profile_supply", ps);
     nc.put("element_imbalance", im);
     nc.put("element_relative_imbalance", rel);
+    if (!exchanges.empty()) {
+      std::vector<std::string> xeq;
+      std::vector<double> xn, xk, xr;
+      for (const auto& x : exchanges) {
+        xeq.push_back(x.equation);
+        xn.insert(xn.end(), x.n_eq.begin(), x.n_eq.end());
+        xk.insert(xk.end(), x.k.begin(), x.k.end());
+        for (int v : x.reservoir) xr.push_back(v);
+      }
+      nc.put_strings("exchange_equation", xeq);
+      nc.put("exchange_equilibrium_density", xn);
+      nc.put("exchange_rate_constant", xk);
+      nc.put("exchange_reservoir", xr);
+    }
     if (model.photolysis()) write_photolysis_output(nc, *model.photolysis(), model.jvalues(), {});
     write_snapshots(nc, bg, S, o.snapshot_times_s, o.snapshots);
   }

@@ -187,3 +187,16 @@ add_test(NAME cli.ensemble
           ${CMAKE_CURRENT_BINARY_DIR}/ensemble_work)
 set_tests_properties(cli.ensemble PROPERTIES PROCESSORS 2)
 colchem_cli_test(help_ensemble 0 "latin_hypercube" $<TARGET_FILE:colchem> ensemble --help)
+
+# H2SO4 vapour over the haze in the shipped Pyrene base state (pyrene_full.yaml as shipped):
+# the run file's exchange variables against the kinetic uptake law, the closed-form local
+# balance n - n_sat = supply / k, and vapour within 10x of saturation wherever that balance
+# allows it and in the cloud deck (tests/cli/acid_vapour_test.py says why not above).
+add_test(NAME cli.pyrene_acid_vapour
+  COMMAND sh -c "'$<TARGET_FILE:colchem>' --log-level warn run '${CFG}/pyrene_full.yaml' -o pyrene_acid_vapour.nc && /usr/bin/python3 '${CMAKE_CURRENT_LIST_DIR}/acid_vapour_test.py' pyrene_acid_vapour.nc '${CMAKE_SOURCE_DIR}/profiles/pyrene_condensed_acid.csv'")
+set_tests_properties(cli.pyrene_acid_vapour PROPERTIES WORKING_DIRECTORY ${CMAKE_CURRENT_BINARY_DIR})
+# The extended Pyrene network converges at 54, 108 and 216 cells, resolved between 108 and
+# 216, S8 held at its vapour pressure by the haze, budgets closed (about 10 s).
+add_test(NAME cli.pyrene_extended
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/pyrene_extended_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/pyrene_extended_work)
