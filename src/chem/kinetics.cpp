@@ -96,6 +96,7 @@ Kinetics::Kinetics(std::shared_ptr<const Mechanism> mech, std::span<const std::s
     reaction_channel_[a] = c;
   }
   scale_.assign(R, 1.0);
+  multiplier_.assign(R, 1.0);
   rescale();
 }
 
@@ -163,11 +164,16 @@ void Kinetics::set_parameter(std::size_t p, double value) {
   rescale();
 }
 
+void Kinetics::set_rate_multiplier(std::size_t r, double m) {
+  multiplier_.at(r) = m;
+  rescale();
+}
+
 void Kinetics::rescale() {
   const Mechanism& m = *mech_;
   const std::size_t N = levels_;
   for (std::size_t a = 0; a < reactions_.size(); ++a) {
-    double s = 1.0;
+    double s = multiplier_[a];
     for (const auto& f : m.reactions[reactions_[a]].scale) {
       s *= f.complement ? 1.0 - params_[f.parameter] : params_[f.parameter];
     }
@@ -207,7 +213,7 @@ void Kinetics::rate_constant_sensitivities(std::span<double> out) const {
     const auto& scale = m.reactions[reactions_[a]].scale;
     for (std::size_t i = 0; i < scale.size(); ++i) {
       // d/dp prod_m f_m = sum over factors naming p of (+-1) prod_{m != i} f_m.
-      double others = scale[i].complement ? -1.0 : 1.0;
+      double others = scale[i].complement ? -multiplier_[a] : multiplier_[a];
       for (std::size_t q = 0; q < scale.size(); ++q) {
         if (q == i) continue;
         others *= scale[q].complement ? 1.0 - params_[scale[q].parameter]
@@ -219,13 +225,15 @@ void Kinetics::rate_constant_sensitivities(std::span<double> out) const {
   }
 }
 
+double Kinetics::rate_product(std::size_t r, const double* n) const {
+  double p = 1.0;
+  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) p *= n[occ_species_[o]];
+  return p;
+}
+
 void Kinetics::reaction_rates(std::size_t cell, const double* n, double* R) const {
   const std::size_t N = levels_;
-  for (std::size_t a = 0; a < reactions_.size(); ++a) {
-    double r = k_[a * N + cell];
-    for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) r *= n[occ_species_[o]];
-    R[a] = r;
-  }
+  for (std::size_t a = 0; a < reactions_.size(); ++a) R[a] = k_[a * N + cell] * rate_product(a, n);
 }
 
 void Kinetics::production_loss(std::size_t cell, const double* n, double* P, double* L,
@@ -275,6 +283,14 @@ void Kinetics::add_photolysis_tendency(const double* n, const double* dJ,
         return c == npos ? 0.0 : scale_[a] * dJ[c];
       },
       tendency);
+}
+
+void Kinetics::rate_gradient(std::size_t cell, std::size_t r, const double* n, double* dR) const {
+  std::fill(dR, dR + S_, 0.0);
+  const double k = k_[r * levels_ + cell];
+  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) {
+    dR[occ_species_[o]] += partial(o, k, n);
+  }
 }
 
 double Kinetics::partial(std::size_t occurrence, double k, const double* n) const {

@@ -43,6 +43,9 @@ class Kinetics {
   void set_conditions(std::span<const double> temperature_K, std::span<const double> air_cm3,
                       const std::map<std::string, double>& bulk_mole_fraction);
   void set_parameter(std::size_t parameter, double value);
+  /// Multiplies the rate constant of active reaction r by m (1 by default) on top of its
+  /// scale, at every level (finite-difference checks of sensitivities; 1 restores it).
+  void set_rate_multiplier(std::size_t r, double m);
   [[nodiscard]] std::span<const double> parameters() const { return params_; }
 
   /// Photolysis channels used by the active reactions, in first-use order.
@@ -62,8 +65,18 @@ class Kinetics {
   void rate_constant_sensitivities(std::span<double> out) const;
 
   // --- Evaluation in one cell (n points at the cell's S densities) -------------------
+  /// prod_s n_s^nu_rs of active reaction r (R_r = k_r times this).
+  [[nodiscard]] double rate_product(std::size_t r, const double* n) const;
+  /// The chemistry channel of active reaction r (a photolysis reaction), or npos.
+  [[nodiscard]] std::size_t reaction_channel(std::size_t r) const { return reaction_channel_[r]; }
+  /// The scale of active reaction r (named parameters times its multiplier): k = scale J
+  /// for a photolysis reaction.
+  [[nodiscard]] double reaction_scale(std::size_t r) const { return scale_[r]; }
   /// R_r for every active reaction.
   void reaction_rates(std::size_t cell, const double* n, double* R) const;
+  /// dR_r/dn_s (size S, overwritten) of active reaction r in `cell`: the product rule on the
+  /// mass-action rate (the Jacobian's partial derivatives for one reaction).
+  void rate_gradient(std::size_t cell, std::size_t r, const double* n, double* dR) const;
   /// P and L (size S) and R (size reactions); fixed species get P = L = 0.
   void production_loss(std::size_t cell, const double* n, double* P, double* L,
                        double* R) const;
@@ -112,7 +125,8 @@ class Kinetics {
   std::vector<std::string> channels_;
   std::vector<std::size_t> reaction_channel_;  // npos for thermal reactions
   std::vector<double> k_base_;                 // without scale; J for photolysis
-  std::vector<double> scale_;                  // per reaction
+  std::vector<double> scale_;                  // per reaction (multiplier included)
+  std::vector<double> multiplier_;             // per reaction, set_rate_multiplier
   std::vector<double> k_;
   std::vector<RateLaw> laws_;        // active reactions' laws, for rate_constants()
   std::vector<double> M_;            // [M] per reaction and level
