@@ -85,7 +85,7 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
       "named parameter, boundary value and the eddy profile.");
   struct Options {
     std::string config, output, restart, objective = "chi2", species, reaction, observations;
-    std::vector<std::string> sets;
+    std::vector<std::string> sets, check_parameters;
     double altitude_km = std::nan("");
     std::size_t bands = 5, top = 15, check = 0;
     double check_tolerance = 1e-4, check_step = 1e-3;
@@ -125,8 +125,11 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
   cmd->add_option("--check", o->check,
                   "Check the N most influential rate constants, the most influential named "
                   "parameter and boundary value, and K, against central finite differences "
-                  "of the full steady solve (exit 1 if one disagrees)")
+                  "of the full steady solve (exit 1 if one disagrees); with 0 and "
+                  "--check-parameter only the parameters named")
       ->capture_default_str();
+  cmd->add_option("--check-parameter", o->check_parameters,
+                  "Also check this parameter (its name as printed; repeatable)");
   cmd->add_option("--check-tolerance", o->check_tolerance,
                   "Relative disagreement allowed by --check")
       ->capture_default_str();
@@ -292,7 +295,7 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
           model.cells(), res.reactions.size(), res.parameters.size(), res.total_s, warm_s,
           warm.iterations, to_string(warm.status), res.total_s / warm_s);
     }
-    if (o->check > 0) {
+    if (o->check > 0 || !o->check_parameters.empty()) {
       // Tight tolerances: G at p +- h must be accurate to far below (dG/dp) h * tolerance.
       tight.tolerance = std::min(tight.tolerance, 1e-12);
       tight.step_tolerance = 1e-9;
@@ -303,7 +306,8 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
       for (std::size_t i = 0; i < std::min(o->check, rorder.size()); ++i) {
         rows.push_back(&res.reactions[rorder[i]]);
       }
-      bool named = false, boundary = false, eddy = false;
+      // --check 0 with --check-parameter: only the parameters named.
+      bool named = o->check == 0, boundary = o->check == 0, eddy = o->check == 0;
       for (std::size_t i : ranked(res.parameters)) {
         const auto& p = res.parameters[i];
         if (p.parameter.kind == ParameterKind::kNamed && !named && p.dG != 0.0) {
@@ -317,6 +321,19 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
           rows.push_back(&p);
           eddy = true;
         }
+      }
+      for (const auto& name : o->check_parameters) {
+        const auto it =
+            std::find_if(res.parameters.begin(), res.parameters.end(),
+                         [&](const SensitivityRow& r) { return r.parameter.name == name; });
+        if (it == res.parameters.end()) {
+          std::string list;
+          for (const auto& r : res.parameters)
+            list += (list.empty() ? "" : ", ") + r.parameter.name;
+          throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--check-parameter",
+                           "a parameter of the table (" + list + ")", "'" + name + "'");
+        }
+        if (std::find(rows.begin(), rows.end(), &*it) == rows.end()) rows.push_back(&*it);
       }
       std::cout << fmt::format(
           "\nfinite-difference check (central, full steady solve):\n"

@@ -22,6 +22,13 @@ run() {  # name, then the arguments
 }
 run pyrene_chi2 "$root/configs/pyrene_full.yaml" --objective chi2 --observations "$obs" --check 20
 run pyrene_column "$root/configs/pyrene_full.yaml" --objective column --species SO2 --check 5
+# Named parameters that act on the photolysis data or on a photolysis reaction's scale
+# (the overtone and UV modules switched on): their log-sensitivities are ~1e-4, so the
+# step is 3e-2: the differences at 1e-3, 1e-2, 3e-2 are 1.8e-3, 2.8e-4, 1.7e-5 for
+# overtone_scale, falling as 1/h, the resolution of the solve (truncation is smaller).
+run pyrene_photo_parameters "$root/configs/pyrene_full.yaml" \
+  --set "chemistry.modules=[base, h2so4_overtone, h2so4_uv]" --objective column --species H2SO4 \
+  --check 0 --check-parameter overtone_scale --check-parameter h2so4_uv_scale --check-step 3e-2
 run tellin_aerosol "$root/configs/tellin.yaml" --set solver.method=steady \
   --objective column --species "H2SO4(aer)" --check 20
 run tellin_so2 "$root/configs/tellin.yaml" --set solver.method=steady \
@@ -31,7 +38,7 @@ run tellin_rate "$root/configs/tellin.yaml" --set solver.method=steady \
 /usr/bin/python3 - <<'PY'
 import netCDF4
 import numpy as np
-for name in ("pyrene_chi2", "pyrene_column", "tellin_aerosol", "tellin_so2", "tellin_rate"):
+for name in ("pyrene_chi2", "pyrene_column", "pyrene_photo_parameters", "tellin_aerosol", "tellin_so2", "tellin_rate"):
     ds = netCDF4.Dataset(name + ".nc")
     assert ds.getncattr("Conventions").startswith("CF-"), name
     share = np.asarray(ds["share"][:])
