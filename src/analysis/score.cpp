@@ -8,16 +8,32 @@
 
 namespace colchem {
 
-double interpolate_log_profile(std::span<const double> z, std::span<const double> f, double at) {
-  if (z.empty() || at < z.front() || at > z.back()) return std::numeric_limits<double>::quiet_NaN();
-  if (z.size() == 1) return f[0];
+InterpolationWeights interpolation_weights(std::span<const double> z, double at) {
+  InterpolationWeights iw;
+  if (z.empty() || at < z.front() || at > z.back()) return iw;
+  iw.valid = true;
+  if (z.size() == 1) return iw;
   auto it = std::upper_bound(z.begin(), z.end(), at);
-  std::size_t k = std::clamp<std::size_t>(static_cast<std::size_t>(it - z.begin()), 1, z.size() - 1);
-  const double w = (at - z[k - 1]) / (z[k] - z[k - 1]);
+  const std::size_t k =
+      std::clamp<std::size_t>(static_cast<std::size_t>(it - z.begin()), 1, z.size() - 1);
+  iw.lo = k - 1;
+  iw.hi = k;
+  iw.w = (at - z[k - 1]) / (z[k] - z[k - 1]);
+  return iw;
+}
+
+double observation_sigma(const ObservationPoint& o) {
+  return (o.upper_limit && o.uncertainty == 0.0) ? o.value : o.uncertainty;
+}
+
+double interpolate_log_profile(std::span<const double> z, std::span<const double> f, double at) {
+  const InterpolationWeights iw = interpolation_weights(z, at);
+  if (!iw.valid) return std::numeric_limits<double>::quiet_NaN();
   // Mole fractions are positive; a non-positive model value (possible only in a failed
   // state) is floored at the smallest normal double so the logarithm stays finite.
   const double tiny = std::numeric_limits<double>::min();
-  return std::exp((1.0 - w) * std::log(std::max(f[k - 1], tiny)) + w * std::log(std::max(f[k], tiny)));
+  return std::exp((1.0 - iw.w) * std::log(std::max(f[iw.lo], tiny)) +
+                  iw.w * std::log(std::max(f[iw.hi], tiny)));
 }
 
 SpeciesScore score_species(const std::string& species, std::span<const double> altitude_cm,
@@ -33,7 +49,7 @@ SpeciesScore score_species(const std::string& species, std::span<const double> a
     p.inside = std::isfinite(p.model);
     if (p.inside) {
       ++s.n_points;
-      const double sigma = (o.upper_limit && o.uncertainty == 0.0) ? o.value : o.uncertainty;
+      const double sigma = observation_sigma(o);
       const double sigma_log = sigma / (o.value * std::log(10.0));
       p.counted = !o.upper_limit || p.model > o.value;
       if (p.counted) {

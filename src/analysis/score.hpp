@@ -40,6 +40,19 @@ struct SpeciesScore {
   std::vector<PointScore> points;
 };
 
+/// The two grid points around z and the weight of the upper one, w = (z - z_lo)/(z_hi - z_lo)
+/// (lo = hi when the grid has one point); valid = false for z outside the grid.
+struct InterpolationWeights {
+  bool valid = false;
+  std::size_t lo = 0, hi = 0;
+  double w = 0.0;
+};
+InterpolationWeights interpolation_weights(std::span<const double> altitude_cm, double z_cm);
+
+/// One-sigma of a point in mole fraction: its uncertainty, or its value for an upper limit
+/// given with zero uncertainty.
+double observation_sigma(const ObservationPoint& o);
+
 /// Model f(z) at altitude z, interpolated in altitude and log f; z outside
 /// [altitude.front(), altitude.back()] returns NaN.
 double interpolate_log_profile(std::span<const double> altitude_cm, std::span<const double> f,

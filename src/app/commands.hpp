@@ -30,5 +30,6 @@ void add_budget_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandA
 void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
+void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 
 }  // namespace colchem::app

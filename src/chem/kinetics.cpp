@@ -233,13 +233,15 @@ void Kinetics::rate_constant_sensitivities(std::span<double> out) const {
   }
 }
 
+double Kinetics::rate_product(std::size_t r, const double* n) const {
+  double p = 1.0;
+  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) p *= n[occ_species_[o]];
+  return p;
+}
+
 void Kinetics::reaction_rates(std::size_t cell, const double* n, double* R) const {
   const std::size_t N = levels_;
-  for (std::size_t a = 0; a < reactions_.size(); ++a) {
-    double r = k_[a * N + cell];
-    for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) r *= n[occ_species_[o]];
-    R[a] = r;
-  }
+  for (std::size_t a = 0; a < reactions_.size(); ++a) R[a] = k_[a * N + cell] * rate_product(a, n);
 }
 
 void Kinetics::production_loss(std::size_t cell, const double* n, double* P, double* L,
@@ -289,6 +291,14 @@ void Kinetics::add_photolysis_tendency(const double* n, const double* dJ,
         return c == npos ? 0.0 : scale_[a] * dJ[c];
       },
       tendency);
+}
+
+void Kinetics::rate_gradient(std::size_t cell, std::size_t r, const double* n, double* dR) const {
+  std::fill(dR, dR + S_, 0.0);
+  const double k = k_[r * levels_ + cell];
+  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) {
+    dR[occ_species_[o]] += partial(o, k, n);
+  }
 }
 
 double Kinetics::partial(std::size_t occurrence, double k, const double* n) const {

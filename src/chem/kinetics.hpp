@@ -67,8 +67,20 @@ class Kinetics {
   void rate_constant_sensitivities(std::span<double> out) const;
 
   // --- Evaluation in one cell (n points at the cell's S densities) -------------------
+  /// prod_s n_s^nu_rs of active reaction r (R_r = k_r times this).
+  [[nodiscard]] double rate_product(std::size_t r, const double* n) const;
+  /// The chemistry channel of active reaction r (a photolysis reaction), or npos.
+  [[nodiscard]] std::size_t reaction_channel(std::size_t r) const { return reaction_channel_[r]; }
+  /// The scale of active reaction r at `level` (named parameters times its rate factor):
+  /// k = scale J for a photolysis reaction.
+  [[nodiscard]] double reaction_scale(std::size_t r, std::size_t level) const {
+    return scale_[r] * factor_[r * levels_ + level];
+  }
   /// R_r for every active reaction.
   void reaction_rates(std::size_t cell, const double* n, double* R) const;
+  /// dR_r/dn_s (size S, overwritten) of active reaction r in `cell`: the product rule on the
+  /// mass-action rate (the Jacobian's partial derivatives for one reaction).
+  void rate_gradient(std::size_t cell, std::size_t r, const double* n, double* dR) const;
   /// P and L (size S) and R (size reactions); fixed species get P = L = 0.
   void production_loss(std::size_t cell, const double* n, double* P, double* L,
                        double* R) const;
@@ -118,7 +130,7 @@ class Kinetics {
   std::vector<std::size_t> reaction_channel_;  // npos for thermal reactions
   std::vector<double> k_base_;                 // without scale; J for photolysis
   std::vector<double> scale_;                  // per reaction
-  std::vector<double> factor_;                 // per reaction and level (ensembles), else 1
+  std::vector<double> factor_;                 // per reaction and level (ensembles, checks), else 1
   std::vector<double> k_;
   std::vector<RateLaw> laws_;        // active reactions' laws, for rate_constants()
   std::vector<double> M_;            // [M] per reaction and level

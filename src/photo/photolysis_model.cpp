@@ -392,6 +392,16 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   }
 }
 
+std::vector<std::size_t> PhotolysisModel::absorber_species() const {
+  std::vector<std::size_t> out;
+  for (const auto& a : attenuators_) {
+    if (a.species >= 0) out.push_back(static_cast<std::size_t>(a.species));
+  }
+  std::sort(out.begin(), out.end());
+  out.erase(std::unique(out.begin(), out.end()), out.end());
+  return out;
+}
+
 int PhotolysisModel::channel_index(const std::string& name) const {
   for (std::size_t c = 0; c < channel_names_.size(); ++c) {
     if (channel_names_[c] == name) return static_cast<int>(c);
@@ -451,6 +461,80 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
       if (!actinic_flux.empty()) {
         double* F = actinic_flux.data() + j * B;
         for (std::size_t b = 0; b < B; ++b) F[b] += w * beam_[b] / widths_[b];
+      }
+    }
+  }
+}
+
+void PhotolysisModel::add_transpose_product(std::span<const double> n, std::span<const double> u,
+                                            std::span<double> out) {
+  if (two_stream_) {
+    throw std::logic_error("PhotolysisModel::add_transpose_product: direct beam only");
+  }
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
+  if (n.size() != N * species_ || u.size() != chans_.size() * N || out.size() != n.size()) {
+    throw std::invalid_argument("PhotolysisModel::add_transpose_product: span sizes");
+  }
+  compute_depths(n);
+  // Reverse sweep of compute(): g_dtau[j*B + b] = d(u.J)/d dtau_j,b, g_top[b] likewise for
+  // the column above the top; J_c(z_i) = sum_k w_k sum_b sp_c,b(i) F_b exp(-tau_s,k(i, b)).
+  std::vector<double> g_dtau(N * B, 0.0), g_top(B, 0.0), g_slant(B), g_v(N * B, 0.0);
+  for (std::size_t k = 0; k < nodes_.size(); ++k) {
+    const double w = nodes_[k].weight;
+    for (std::size_t i = 0; i < N; ++i) {
+      slant_depth(k, i, dtau_, tau_top_, vtau_, beam_);
+      std::fill(g_slant.begin(), g_slant.end(), 0.0);
+      for (std::size_t c = 0; c < chans_.size(); ++c) {
+        const double uc = u[c * N + i];
+        if (uc == 0.0) continue;
+        const Channel& ch = chans_[c];
+        const double* sp = ch.sigma_phi.data() + (ch.per_level ? i * B : 0);
+        for (std::size_t b = ch.lo; b < ch.hi; ++b) g_slant[b] += uc * sp[b];
+      }
+      // d/d tau_s of w F exp(-tau_s) sum_c u sp.
+      for (std::size_t b = 0; b < B; ++b) {
+        g_slant[b] *= -w * top_flux_[b] * std::exp(-beam_[b]);
+      }
+      if (!spherical_) {  // tau_s = vtau / mu0
+        const double inv_mu = 1.0 / nodes_[k].mu0;
+        for (std::size_t b = 0; b < B; ++b) g_v[i * B + b] += g_slant[b] * inv_mu;
+      } else {  // tau_s = tau_top tf + sum_{kk >= i} pf dtau_kk
+        const double tf = top_factor_[k][i];
+        const double* pf = path_factor_[k].data() + i * N;
+        for (std::size_t b = 0; b < B; ++b) g_top[b] += g_slant[b] * tf;
+        for (std::size_t kk = i; kk < N; ++kk) {
+          double* g = g_dtau.data() + kk * B;
+          for (std::size_t b = 0; b < B; ++b) g[b] += pf[kk] * g_slant[b];
+        }
+      }
+    }
+  }
+  if (!spherical_) {
+    // vtau_i = tau_top + sum_{kk > i} dtau_kk + dtau_i / 2 (vertical_depth).
+    std::vector<double> above(B, 0.0);  // sum of g_v over the cells below kk
+    for (std::size_t kk = 0; kk < N; ++kk) {
+      for (std::size_t b = 0; b < B; ++b) {
+        g_dtau[kk * B + b] += above[b] + 0.5 * g_v[kk * B + b];
+        above[b] += g_v[kk * B + b];
+      }
+    }
+    for (std::size_t b = 0; b < B; ++b) g_top[b] += above[b];
+  }
+  // dtau_j,b = sum_a sigma_a,b(j) n_a,j dz_j (+ aerosol); tau_top += sigma(N-1) n_a,N-1 H_top.
+  for (const auto& a : attenuators_) {
+    if (a.species < 0) continue;
+    const auto s = static_cast<std::size_t>(a.species);
+    for (std::size_t j = 0; j < N; ++j) {
+      if (!(n[j * species_ + s] > 0.0)) continue;  // density() floors at 0
+      const double* sig = a.sigma.data() + (a.per_level ? j * B : 0);
+      double sum = 0.0;
+      for (std::size_t b = a.lo; b < a.hi; ++b) sum += sig[b] * g_dtau[j * B + b];
+      out[j * species_ + s] += sum * dz_[j];
+      if (j + 1 == N) {
+        double top = 0.0;
+        for (std::size_t b = a.lo; b < a.hi; ++b) top += sig[b] * g_top[b];
+        out[j * species_ + s] += top * top_height_;
       }
     }
   }

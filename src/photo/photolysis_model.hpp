@@ -69,6 +69,18 @@ class PhotolysisModel {
   /// safe to call concurrently on one object (it reuses its workspace).
   void compute(std::span<const double> n, std::span<double> J, std::span<double> actinic_flux = {});
 
+  /// The model species (indices into n's species) whose densities attenuate the light: the
+  /// only ones J depends on. Sorted, each once.
+  [[nodiscard]] std::vector<std::size_t> absorber_species() const;
+
+  /// The transposed Jacobian of compute() applied to u (reverse mode; direct beam only,
+  /// plane-parallel or spherical): out[j*S + s] += sum_{c,i} u[c*N + i] dJ_c(z_i)/dn_{j,s}
+  /// at the densities n, exact (the beam's derivative through the absorbers' optical
+  /// depths, the column above the top included). Cost about that of one compute().
+  /// Throws std::logic_error with the two-stream scheme. Allocates.
+  void add_transpose_product(std::span<const double> n, std::span<const double> u,
+                             std::span<double> out);
+
   /// Whether a named parameter (index as Mechanism::parameters) acts on the photolysis data.
   [[nodiscard]] bool acts_on(std::size_t parameter) const;
   /// dJ[c * N + j] / dp (s^-1 per unit of p) for the named parameter `parameter` at the

@@ -72,8 +72,8 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
   if (names_.empty()) return;
 
   try {
-    transport_ = std::make_unique<TransportOperator>(bg_, transport_species_,
-                                                     boundaries_for(species_setup_, transport_species_));
+    boundaries_ = boundaries_for(species_setup_, transport_species_);
+    transport_ = std::make_unique<TransportOperator>(bg_, transport_species_, boundaries_);
   } catch (const std::invalid_argument& e) {
     throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "species",
                      "boundary conditions that fit their boundary", e.what());
@@ -88,6 +88,7 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
                            channels.front() + "')",
                        "none");
     }
+    photo_spec_ = sc.photolysis;
     photo_ = std::make_unique<PhotolysisModel>(sc.photolysis, bg_, names_, sc.chemistry.parameters);
     for (const auto& c : channels) {
       const int pc = photo_->channel_index(c);
@@ -179,6 +180,106 @@ void ColumnModel::add_jacobian_product(std::span<const double> x, std::span<cons
     for (std::size_t j = 0; j < N; ++j) dJ_[c * N + j] = (J_shifted_[pc + j] - J_[pc + j]) / h;
   }
   chemistry_->add_photolysis_tendency(x, dJ_, out);
+}
+
+void ColumnModel::rebuild_transport(const Background& bg, std::vector<SpeciesBoundaries> bcs) {
+  transport_ = std::make_unique<TransportOperator>(bg, transport_species_, bcs);
+  boundaries_ = std::move(bcs);
+}
+
+void ColumnModel::set_parameter(std::size_t q, double value) {
+  Kinetics& kin = chemistry_->kinetics();
+  kin.set_parameter(q, value);
+  if (photo_ && photo_->acts_on(q)) {
+    const auto p = kin.parameters();
+    photo_ = std::make_unique<PhotolysisModel>(photo_spec_, bg_, names_,
+                                               std::vector<double>(p.begin(), p.end()));
+  }
+}
+
+void ColumnModel::parameter_tendency(std::size_t q, std::span<const double> x,
+                                     std::span<double> out) {
+  const std::size_t S = species_count(), N = cells();
+  const std::size_t P = chemistry_->kinetics().parameters().size();
+  std::vector<double> all(P * N * S);
+  chemistry_->parameter_sensitivities(x, all);
+  std::copy(all.begin() + static_cast<std::ptrdiff_t>(q * N * S),
+            all.begin() + static_cast<std::ptrdiff_t>((q + 1) * N * S), out.begin());
+  if (photo_ && photo_->acts_on(q)) {
+    std::vector<double> dJ(J_.size());
+    photo_->parameter_derivative(q, x, dJ);
+    std::vector<double> dJc(channel_map_.size() * N, 0.0);
+    for (std::size_t c = 0; c < channel_map_.size(); ++c) {
+      for (std::size_t j = 0; j < N; ++j) dJc[c * N + j] = dJ[channel_map_[c] * N + j];
+    }
+    chemistry_->add_photolysis_tendency(x, dJc, out);
+  }
+  for (std::size_t i = 0; i < out.size(); ++i) {
+    if (held_[i % S]) out[i] = 0.0;
+  }
+}
+
+ColumnModel::PhotolysisJacobian ColumnModel::photolysis_jacobian(std::span<const double> x) {
+  PhotolysisJacobian pj;
+  if (!photo_) return pj;
+  const std::size_t S = species_count(), N = cells(), C = channel_map_.size();
+  pj.channels = C;
+  pj.B.assign(C * N * S, 0.0);
+  std::vector<double> unit(C * N, 0.0);
+  for (std::size_t c = 0; c < C; ++c) {
+    std::fill(unit.begin(), unit.end(), 0.0);
+    std::fill(unit.begin() + static_cast<std::ptrdiff_t>(c * N),
+              unit.begin() + static_cast<std::ptrdiff_t>((c + 1) * N), 1.0);
+    chemistry_->add_photolysis_tendency(x, unit, std::span<double>(pj.B.data() + c * N * S, N * S));
+  }
+  for (std::size_t i = 0; i < pj.B.size(); ++i) {
+    if (held_[i % S]) pj.B[i] = 0.0;
+  }
+  if (!photo_->two_stream()) {
+    pj.reverse = true;
+    return pj;
+  }
+  std::vector<std::size_t> absorbers;
+  for (std::size_t a : photo_->absorber_species()) {
+    if (!held_[a]) absorbers.push_back(a);
+  }
+  x_shifted_.assign(x.begin(), x.end());
+  J_shifted_.resize(J_.size());
+  J_minus_.resize(J_.size());
+  for (std::size_t a : absorbers) {
+    for (std::size_t k = 0; k < N; ++k) {
+      const std::size_t i = k * S + a;
+      const double h = 1e-7 * (std::abs(x[i]) + 1.0);
+      x_shifted_[i] = x[i] + h;
+      photo_->compute(x_shifted_, J_shifted_);
+      x_shifted_[i] = x[i] - h;
+      photo_->compute(x_shifted_, J_minus_);
+      x_shifted_[i] = x[i];
+      pj.columns.push_back(i);
+      const std::size_t off = pj.dJ.size();
+      pj.dJ.resize(off + C * N);
+      for (std::size_t c = 0; c < C; ++c) {
+        const std::size_t pc = channel_map_[c] * N;
+        for (std::size_t j = 0; j < N; ++j) {
+          pj.dJ[off + c * N + j] = (J_shifted_[pc + j] - J_minus_[pc + j]) / (2.0 * h);
+        }
+      }
+    }
+  }
+  return pj;
+}
+
+void ColumnModel::add_photolysis_transpose(std::span<const double> x, std::span<const double> u,
+                                           std::span<double> out) {
+  const std::size_t S = species_count(), N = cells();
+  std::vector<double> up(J_.size(), 0.0), tmp(x.size(), 0.0);
+  for (std::size_t c = 0; c < channel_map_.size(); ++c) {
+    for (std::size_t j = 0; j < N; ++j) up[channel_map_[c] * N + j] += u[c * N + j];
+  }
+  photo_->add_transpose_product(x, up, tmp);
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    if (!held_[i % S]) out[i] += tmp[i];
+  }
 }
 
 ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,

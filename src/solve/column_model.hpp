@@ -120,6 +120,45 @@ class ColumnModel : public NonlocalCoupling {
                                              double reference_time_s);
 
   [[nodiscard]] ColumnDiagnostics diagnostics(std::span<const double> n, double t);
+
+  // --- Parameters and derivatives for sensitivities (solve/adjoint.hpp) ------------------
+  [[nodiscard]] const std::vector<TransportSpecies>& transport_species() const {
+    return transport_species_;
+  }
+  /// The boundary conditions the transport operator was built with (one per species).
+  [[nodiscard]] const std::vector<SpeciesBoundaries>& boundaries() const { return boundaries_; }
+  /// Replaces the transport operator by one on `bg` (its eddy profile; the rest of the
+  /// model keeps the scenario's background) with the boundary conditions `bcs`. Systems
+  /// taken from system() before hold the old operator: take them again.
+  void rebuild_transport(const Background& bg, std::vector<SpeciesBoundaries> bcs);
+  /// Sets named parameter q (index as Mechanism::parameters) in the rate constants and,
+  /// where it acts on them, in the photolysis data (rebuilt). Refresh J before use.
+  void set_parameter(std::size_t q, double value);
+  /// dF/dp_q at x (cm^-3 s^-1 per unit of p, [j*S + s], overwritten): rate constants
+  /// through their scales, photolysis data through dJ/dp (PhotolysisModel::
+  /// parameter_derivative). J must be those of x (refresh first).
+  void parameter_tendency(std::size_t q, std::span<const double> x, std::span<double> out);
+
+  /// The photolysis part of the Jacobian in factored form, J_nl = B DJ (at x; J refreshed
+  /// at x first by the caller):
+  ///   B[(c*N + j)*S + s] = d f_{j,s} / d J_c(z_j)   (local: the chemistry, linear in J),
+  ///   dJ[k*C*N + c*N + j] = d J_c(z_j) / d x_{columns[k]}
+  /// over the free absorber unknowns (free species that attenuate the light, every cell),
+  /// each column a one-sided directional derivative as in add_jacobian_product (step 1e-7
+  /// (|x| + 1 cm^-3)). C counts the chemistry's channels. Empty without photolysis.
+  /// With the direct beam alone (no two-stream scheme) DJ is not assembled (reverse = true):
+  /// its transpose is applied exactly by add_photolysis_transpose instead.
+  struct PhotolysisJacobian {
+    std::size_t channels = 0;
+    bool reverse = false;
+    std::vector<std::size_t> columns;
+    std::vector<double> B, dJ;
+  };
+  [[nodiscard]] PhotolysisJacobian photolysis_jacobian(std::span<const double> x);
+  /// out[i] += (DJ^T u)_i for the free unknowns i (u over the chemistry's channels,
+  /// [c*N + j]): PhotolysisModel::add_transpose_product (direct beam only).
+  void add_photolysis_transpose(std::span<const double> x, std::span<const double> u,
+                                std::span<double> out);
   /// The exchange terms at state n (empty without chemistry).
   [[nodiscard]] std::vector<ExchangeReport> exchange_report(std::span<const double> n) const;
 
@@ -135,8 +174,10 @@ class ColumnModel : public NonlocalCoupling {
   std::unique_ptr<PhotolysisModel> photo_;
   std::vector<std::size_t> channel_map_;  ///< chemistry channel -> photolysis channel
   std::vector<double> J_;
-  std::vector<double> x_shifted_, J_shifted_, dJ_;  ///< workspace of add_jacobian_product
+  std::vector<double> x_shifted_, J_shifted_, J_minus_, dJ_;  ///< workspace of add_jacobian_product
   std::vector<Injection> injections_;
+  std::vector<SpeciesBoundaries> boundaries_;
+  PhotolysisSpec photo_spec_;
 };
 
 }  // namespace colchem

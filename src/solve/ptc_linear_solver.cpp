@@ -50,6 +50,8 @@ PtcLinearSolver::PtcLinearSolver(std::size_t cells, std::size_t species)
 }
 
 PtcLinearSolver::~PtcLinearSolver() {
+  (void)KSPDestroy(&outer_t_);
+  (void)MatDestroy(&shell_t_);
   (void)KSPDestroy(&outer_);
   (void)MatDestroy(&shell_);
   (void)VecDestroy(&rhs_scaled_);
@@ -279,6 +281,137 @@ bool PtcLinearSolver::solve_coupled(const BlockTridiagonal& jac, double shift,
   check(VecRestoreArrayRead(x_, &xr), "VecRestoreArrayRead");
   if (!finite) {
     reason = "Krylov solve produced non-finite values";
+    return false;
+  }
+  return true;
+}
+
+// y = A^T v - J_nl^T v, A = shift I - J_bt with unit rows for held unknowns (mat_).
+PetscErrorCode PtcLinearSolver::transpose_mult(Mat A, Vec v, Vec y) {
+  void* raw = nullptr;
+  PetscErrorCode ierr = MatShellGetContext(A, &raw);
+  if (ierr != 0) return ierr;
+  auto* c = static_cast<TransposeContext*>(raw);
+  ierr = MatMultTranspose(c->self->mat_, v, y);
+  if (ierr != 0) return ierr;
+  const PetscScalar* vs = nullptr;
+  PetscScalar* ys = nullptr;
+  if ((ierr = VecGetArrayRead(v, &vs)) != 0) return ierr;
+  if ((ierr = VecGetArray(y, &ys)) != 0) return ierr;
+  const std::size_t n = c->tmp.size();
+  std::fill(c->tmp.begin(), c->tmp.end(), 0.0);
+  try {
+    (*c->nonlocal)(std::span<const double>(vs, n), c->tmp);
+  } catch (...) {
+    std::fill(c->tmp.begin(), c->tmp.end(), std::numeric_limits<double>::quiet_NaN());
+  }
+  for (std::size_t i = 0; i < n; ++i) ys[i] -= c->tmp[i];
+  (void)VecRestoreArray(y, &ys);
+  (void)VecRestoreArrayRead(v, &vs);
+  return 0;
+}
+
+// z = A^-T r with the LU factors of A (MatSolveTranspose through the direct KSP).
+PetscErrorCode PtcLinearSolver::transpose_precondition(PC pc, Vec r, Vec z) {
+  void* raw = nullptr;
+  PetscErrorCode ierr = PCShellGetContext(pc, &raw);
+  if (ierr != 0) return ierr;
+  auto* c = static_cast<TransposeContext*>(raw);
+  return KSPSolveTranspose(c->self->ksp_, r, z);
+}
+
+bool PtcLinearSolver::solve_transposed(const BlockTridiagonal& jac, double shift,
+                                       std::span<const char> held, std::span<const double> rhs,
+                                       const Product* nonlocal_transpose, double rtol,
+                                       std::span<double> y, std::string& reason) {
+  krylov_its_ = 0;
+  bool ok = true;
+  assemble(jac, shift, held, rhs, reason, ok);
+  if (!ok) return false;
+  // The right-hand side of the transposed system keeps its held entries (assemble zeroes
+  // them for the untransposed one; the callers pass zeros there).
+  PetscScalar* b = nullptr;
+  check(VecGetArray(b_, &b), "VecGetArray");
+  for (std::size_t i = 0; i < rhs.size(); ++i) b[i] = rhs[i];
+  check(VecRestoreArray(b_, &b), "VecRestoreArray");
+  const auto t1 = std::chrono::steady_clock::now();
+  check(KSPSetOperators(ksp_, mat_, mat_), "KSPSetOperators");
+  PetscErrorCode ierr = KSPSolveTranspose(ksp_, b_, x_);
+  KSPConvergedReason why = KSP_CONVERGED_ITERATING;
+  (void)KSPGetConvergedReason(ksp_, &why);
+  if (ierr != 0 || why < 0) {
+    solve_s_ += seconds_since(t1);
+    reason = "transposed LU solve failed";
+    return false;
+  }
+  if (nonlocal_transpose != nullptr) {
+    const auto n = static_cast<PetscInt>(cells_ * species_);
+    if (shell_t_ == nullptr) {
+      check(MatCreateShell(PETSC_COMM_SELF, n, n, n, n, &tctx_, &shell_t_), "MatCreateShell");
+      check(MatShellSetOperation(shell_t_, MATOP_MULT,
+                                 reinterpret_cast<void (*)(void)>(&transpose_mult)),
+            "MatShellSetOperation");
+      check(KSPCreate(PETSC_COMM_SELF, &outer_t_), "KSPCreate");
+      check(KSPSetOptionsPrefix(outer_t_, "colchem_adjoint_"), "KSPSetOptionsPrefix");
+      check(KSPSetType(outer_t_, KSPGMRES), "KSPSetType");
+      check(KSPGMRESSetRestart(outer_t_, 60), "KSPGMRESSetRestart");
+      check(KSPSetPCSide(outer_t_, PC_RIGHT), "KSPSetPCSide");
+      check(KSPSetNormType(outer_t_, KSP_NORM_UNPRECONDITIONED), "KSPSetNormType");
+      PC pc = nullptr;
+      check(KSPGetPC(outer_t_, &pc), "KSPGetPC");
+      check(PCSetType(pc, PCSHELL), "PCSetType");
+      check(PCShellSetContext(pc, &tctx_), "PCShellSetContext");
+      check(PCShellSetApply(pc, &transpose_precondition), "PCShellSetApply");
+      check(KSPSetInitialGuessNonzero(outer_t_, PETSC_TRUE), "KSPSetInitialGuessNonzero");
+      check(KSPSetFromOptions(outer_t_), "KSPSetFromOptions");
+    }
+    tctx_.self = this;
+    tctx_.nonlocal = nonlocal_transpose;
+    tctx_.tmp.assign(cells_ * species_, 0.0);
+    check(KSPSetOperators(outer_t_, shell_t_, shell_t_), "KSPSetOperators");
+    check(KSPSetTolerances(outer_t_, rtol, 0.0, 1e30, 300), "KSPSetTolerances");
+    Vec rhs_copy = nullptr;
+    check(VecDuplicate(b_, &rhs_copy), "VecDuplicate");
+    check(VecCopy(b_, rhs_copy), "VecCopy");
+    Vec sol = nullptr;
+    check(VecDuplicate(b_, &sol), "VecDuplicate");
+    check(VecCopy(x_, sol), "VecCopy");  // the transposed LU's solution starts GMRES
+    PetscReal bnorm = 0.0;
+    check(VecNorm(rhs_copy, NORM_2, &bnorm), "VecNorm");
+    ierr = KSPSolve(outer_t_, rhs_copy, sol);
+    (void)KSPGetConvergedReason(outer_t_, &why);
+    PetscInt its = 0;
+    (void)KSPGetIterationNumber(outer_t_, &its);
+    PetscReal rnorm = 0.0;
+    (void)KSPGetResidualNorm(outer_t_, &rnorm);
+    krylov_its_ = static_cast<int>(its);
+    if (ierr == 0) (void)VecCopy(sol, x_);
+    (void)VecDestroy(&sol);
+    (void)VecDestroy(&rhs_copy);
+    // A solve that stalls at round-off short of rtol (breakdown or the iteration limit) is
+    // accepted when it reduced the residual below 1e-10 of the right-hand side.
+    const bool stalled = (why == KSP_DIVERGED_ITS || why == KSP_DIVERGED_BREAKDOWN) &&
+                         std::isfinite(rnorm) && rnorm <= 1e-10 * bnorm;
+    if (ierr != 0 || (why < 0 && !stalled)) {
+      solve_s_ += seconds_since(t1);
+      reason = "adjoint Krylov solve failed (" +
+               std::string(ierr != 0 ? "PETSc error " + std::to_string(static_cast<int>(ierr))
+                                     : std::string(KSPConvergedReasons[why])) +
+               " after " + std::to_string(its) + " iterations)";
+      return false;
+    }
+  }
+  solve_s_ += seconds_since(t1);
+  const PetscScalar* xs = nullptr;
+  check(VecGetArrayRead(x_, &xs), "VecGetArrayRead");
+  bool finite = true;
+  for (std::size_t i = 0; i < y.size(); ++i) {
+    y[i] = xs[i];
+    finite = finite && std::isfinite(xs[i]);
+  }
+  check(VecRestoreArrayRead(x_, &xs), "VecRestoreArrayRead");
+  if (!finite) {
+    reason = "adjoint solve produced non-finite values (singular Jacobian?)";
     return false;
   }
   return true;

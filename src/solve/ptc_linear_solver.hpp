@@ -57,6 +57,17 @@ class PtcLinearSolver {
                      const Product& nonlocal, double rtol, std::span<double> dx,
                      std::string& reason);
 
+  /// The transposed system (shift I - J - J_nl)^T y = rhs (rows of held unknowns unit
+  /// rows of the untransposed matrix, as in solve()): the adjoint of a steady state
+  /// (solve/adjoint.hpp). `nonlocal_transpose` (v, out): out += J_nl^T v (out arrives
+  /// zeroed); null when F is local, then one transposed LU solve (MatSolveTranspose of the
+  /// same factors) gives y. Otherwise right-preconditioned GMRES (restart 60) on the
+  /// transposed operator with the transposed LU of shift I - J as preconditioner, to
+  /// ||r||_2 <= rtol ||rhs||_2. Returns false (and a reason) on failure.
+  bool solve_transposed(const BlockTridiagonal& jac, double shift, std::span<const char> held,
+                        std::span<const double> rhs, const Product* nonlocal_transpose, double rtol,
+                        std::span<double> y, std::string& reason);
+
   /// Krylov iterations of the last solve_coupled (0 after a direct solve).
   [[nodiscard]] int krylov_iterations() const { return krylov_its_; }
 
@@ -85,6 +96,17 @@ class PtcLinearSolver {
   };
   static PetscErrorCode shell_mult(Mat A, Vec v, Vec y);
   static PetscErrorCode shell_precondition(PC pc, Vec r, Vec z);
+
+  struct TransposeContext {
+    PtcLinearSolver* self = nullptr;
+    const Product* nonlocal = nullptr;
+    std::vector<double> tmp;
+  };
+  static PetscErrorCode transpose_mult(Mat A, Vec v, Vec y);
+  static PetscErrorCode transpose_precondition(PC pc, Vec r, Vec z);
+  Mat shell_t_ = nullptr;
+  KSP outer_t_ = nullptr;
+  TransposeContext tctx_;
 
   Mat shell_ = nullptr;
   KSP outer_ = nullptr;

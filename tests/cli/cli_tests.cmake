@@ -200,3 +200,35 @@ set_tests_properties(cli.pyrene_acid_vapour PROPERTIES WORKING_DIRECTORY ${CMAKE
 add_test(NAME cli.pyrene_extended
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/pyrene_extended_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/pyrene_extended_work)
+# Adjoint sensitivities (README.md, section Sensitivities): finite-difference checks on
+# Pyrene and Tellin for three kinds of objective, the file's consistency, --help and bad
+# inputs.
+add_test(NAME cli.sensitivity
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sensitivity_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/sensitivity_work)
+set_tests_properties(cli.sensitivity PROPERTIES TIMEOUT 900)
+colchem_cli_test(help_sensitivity 0 "--objective.*--check"
+  sh -c "$<TARGET_FILE:colchem> sensitivity --help | tr '\\n' ' '")
+colchem_cli_test(sensitivity_unknown_species 2
+  "pyrene_full.yaml: '--species': expected a species of the model \\(.*SO2.*\\), found 'SO3X'"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective column --species SO3X)
+colchem_cli_test(sensitivity_held_species 2
+  "'--species': expected a species that is not held fixed, found 'CO2' \\(held\\)"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective column --species CO2)
+colchem_cli_test(sensitivity_altitude_outside 2
+  "'--altitude': expected an altitude within the cell centres, 58.5-111.5 km, found '150 km'"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective mole_fraction --species SO2 --altitude 150)
+colchem_cli_test(sensitivity_unknown_reaction 2
+  "'--reaction': expected an active reaction as kN .*found 'k9999'"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective rate --reaction k9999)
+colchem_cli_test(sensitivity_no_observations 2
+  "'--observations': expected an observation file .*found none"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml)
+colchem_cli_test(sensitivity_transient 3
+  "tellin.yaml: 'solver.method': expected steady .*found 'transient'"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/tellin.yaml --objective column --species SO2)
+colchem_cli_test(sensitivity_bad_objective 2 "--objective"
+  $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective flux)
+add_test(NAME validation.solve.adjoint_linear_column
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/solve/adjoint_linear_column/run.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_BINARY_DIR}/adjoint_linear_column_work)

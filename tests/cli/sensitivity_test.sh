@@ -1,0 +1,52 @@
+#!/usr/bin/env bash
+# `colchem sensitivity` on the shipped worlds: adjoint gradients against central finite
+# differences of the full nonlinear steady solve (--check: ln k +- 1e-3, tight steady
+# tolerance; the brief's acceptance 1e-4 relative) for the 20 (first objective of each
+# world) or 5 most influential rate constants plus the most influential named parameter,
+# boundary value and the whole eddy profile, for three kinds of objective: Pyrene (54 cells, its shipped grid) with the
+# chi-square against the invented SO2 observation and the column of SO2, Tellin (50 cells,
+# steady) with the column of sulfate aerosol, the SO2 mole fraction at 25 km and the
+# column rate of O3 photolysis. Then the NetCDF file: the shares sum to 1 and each
+# reaction's profile dG/d ln k(z) sums to its total (definitions, README "Sensitivities").
+set -eu
+colchem=$1; root=$2; work=$3
+mkdir -p "$work"; cd "$work"
+obs=$root/profiles/observed/pyrene_so2_invented.csv
+run() {  # name, then the arguments
+  local name=$1; shift
+  if ! "$colchem" --log-level warn sensitivity "$@" -o "$name.nc" > "$name.log" 2>&1; then
+    cat "$name.log"; echo "FAIL: $name"; exit 1
+  fi
+  grep -A40 "finite-difference check" "$name.log"
+  grep -q "worst relative difference" "$name.log" || { cat "$name.log"; exit 1; }
+}
+run pyrene_chi2 "$root/configs/pyrene_full.yaml" --objective chi2 --observations "$obs" --check 20
+run pyrene_column "$root/configs/pyrene_full.yaml" --objective column --species SO2 --check 5
+# Named parameters that act on the photolysis data or on a photolysis reaction's scale
+# (the overtone and UV modules switched on): their log-sensitivities are ~1e-4, so the
+# step is 3e-2: the differences at 1e-3, 1e-2, 3e-2 are 1.8e-3, 2.8e-4, 1.7e-5 for
+# overtone_scale, falling as 1/h, the resolution of the solve (truncation is smaller).
+run pyrene_photo_parameters "$root/configs/pyrene_full.yaml" \
+  --set "chemistry.modules=[base, h2so4_overtone, h2so4_uv]" --objective column --species H2SO4 \
+  --check 0 --check-parameter overtone_scale --check-parameter h2so4_uv_scale --check-step 3e-2
+run tellin_aerosol "$root/configs/tellin.yaml" --set solver.method=steady \
+  --objective column --species "H2SO4(aer)" --check 20
+run tellin_so2 "$root/configs/tellin.yaml" --set solver.method=steady \
+  --objective mole_fraction --species SO2 --altitude 25 --check 5
+run tellin_rate "$root/configs/tellin.yaml" --set solver.method=steady \
+  --objective rate --reaction "O3 + hv -> O2 + O(1D)" --check 5
+/usr/bin/python3 - <<'PY'
+import netCDF4
+import numpy as np
+for name in ("pyrene_chi2", "pyrene_column", "pyrene_photo_parameters", "tellin_aerosol", "tellin_so2", "tellin_rate"):
+    ds = netCDF4.Dataset(name + ".nc")
+    assert ds.getncattr("Conventions").startswith("CF-"), name
+    share = np.asarray(ds["share"][:])
+    assert abs(share.sum() - 1.0) < 1e-12, (name, share.sum())
+    prof = np.asarray(ds["sensitivity_profile"][:])
+    tot = np.asarray(ds["dG_dlnk"][:])
+    assert np.allclose(prof.sum(axis=1), tot, rtol=1e-10, atol=1e-12 * np.abs(tot).max()), name
+    G = float(ds.getncattr("colchem_objective_value"))
+    assert np.allclose(np.asarray(ds["log_sensitivity"][:]) * G, tot, rtol=1e-12), name
+    print(f"ok: {name}: G = {G:.6g}, {len(tot)} reactions, file consistent")
+PY
