@@ -14,17 +14,8 @@ namespace colchem {
 
 namespace {
 
-/// A variable spelt once: its definition and its data together.
-struct Field {
-  std::string name;
-  std::vector<std::string> dims;
-  NcVarAttrs attrs;
-  std::vector<double> data;
-};
-struct TextField {
-  std::string name, dim, long_name;
-  std::vector<std::string> data;
-};
+using Field = NcField;
+using TextField = NcTextField;
 
 }  // namespace
 
@@ -168,15 +159,7 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
     fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, ob, ol, oh, oi});
   }
 
-  for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
-  for (const auto& f : fields) {
-    nc.variable(f.name, f.dims, f.attrs);
-    nc.var_number(f.name, "_FillValue", std::numeric_limits<double>::quiet_NaN());
-  }
-  nc.end_definitions();
-  write_background_data(nc, bg);
-  for (const auto& t : texts) nc.put_strings(t.name, t.data);
-  for (const auto& f : fields) nc.put(f.name, f.data);
+  write_fields(nc, bg, texts, fields);
 }
 
 std::string ensemble_summary_text(const EnsembleResults& r) {

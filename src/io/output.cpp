@@ -208,4 +208,17 @@ BudgetInputs read_budget_inputs(const NcReader& nc) {
   return in;
 }
 
+void write_fields(NcWriter& nc, const Background& bg, const std::vector<NcTextField>& texts,
+                  const std::vector<NcField>& fields) {
+  for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
+  for (const auto& f : fields) {
+    nc.variable(f.name, f.dims, f.attrs);
+    nc.var_number(f.name, "_FillValue", std::numeric_limits<double>::quiet_NaN());
+  }
+  nc.end_definitions();
+  write_background_data(nc, bg);
+  for (const auto& t : texts) nc.put_strings(t.name, t.data);
+  for (const auto& f : fields) nc.put(f.name, f.data);
+}
+
 }  // namespace colchem

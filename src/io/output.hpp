@@ -21,6 +21,23 @@ void write_provenance(NcWriter& nc, const Scenario& sc, const std::string& comma
 /// Defines the altitude coordinates ("altitude" at cell centres, "altitude_edge" at edges,
 /// with CF bounds) and the background profiles; call write_background_data after
 /// end_definitions().
+/// A variable spelt once: its definition and its data together (numbers, NaN fill).
+struct NcField {
+  std::string name;
+  std::vector<std::string> dims;
+  NcVarAttrs attrs;
+  std::vector<double> data;
+};
+/// A string variable along one dimension.
+struct NcTextField {
+  std::string name, dim, long_name;
+  std::vector<std::string> data;
+};
+/// Defines the fields (dimensions already defined), ends the definitions, writes the
+/// background's data and then every field's.
+void write_fields(NcWriter& nc, const Background& bg, const std::vector<NcTextField>& texts,
+                  const std::vector<NcField>& fields);
+
 void define_background(NcWriter& nc, const Background& bg);
 void write_background_data(NcWriter& nc, const Background& bg);
 

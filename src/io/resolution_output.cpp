@@ -13,17 +13,8 @@ namespace colchem {
 namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-/// A variable spelt once: its definition and its data together.
-struct Field {
-  std::string name;
-  std::vector<std::string> dims;
-  NcVarAttrs attrs;
-  std::vector<double> data;
-};
-struct TextField {
-  std::string name, dim, long_name;
-  std::vector<std::string> data;
-};
+using Field = NcField;
+using TextField = NcTextField;
 
 double status_code(ResolutionStatus s) {
   return static_cast<double>(static_cast<int>(s));
@@ -258,15 +249,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
     fields.insert(fields.end(), {bv, bp, be, bs, bg});
   }
 
-  for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
-  for (const auto& f : fields) {
-    nc.variable(f.name, f.dims, f.attrs);
-    nc.var_number(f.name, "_FillValue", kNaN);
-  }
-  nc.end_definitions();
-  write_background_data(nc, base.background);
-  for (const auto& t : texts) nc.put_strings(t.name, t.data);
-  for (const auto& f : fields) nc.put(f.name, f.data);
+  write_fields(nc, base.background, texts, fields);
 }
 
 std::string resolution_table_text(const ResolutionStudy& st) {
