@@ -178,3 +178,4 @@ colchem_cli_test(condensation_bad_weight 3 "weight_fraction': expected an acid w
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.saturation.h2so4_aqueous.weight_fraction=0.3)
 colchem_cli_test(condensation_fixed_species 3 "condensation.0.species': expected a species that is not held fixed, found 'CO2'"
   $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set chemistry.condensation.0.species=CO2)
+include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)
