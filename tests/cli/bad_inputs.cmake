@@ -126,3 +126,31 @@ colchem_nc_test(bad.nc_compare_species_type 4
 colchem_nc_test(bad.nc_budget_good 0 "SO2: column production"
   $<TARGET_FILE:colchem> budget ${NCW}/good.nc -s SO2)
 
+# --- check builds everything run builds (exit as run) -----------------------------------
+colchem_cli_test(bad.check_unknown_species 3 "tellin.yaml: 'species.SO3x': expected a species of the mechanism"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set species.SO3x.initial=1e-9)
+colchem_cli_test(bad.check_injection_species 3
+  "'injections': expected a species of the mechanism, found unknown species 'XYZ'"
+  $<TARGET_FILE:colchem> check ${RCOL} --set "injections=[{species: XYZ, column: 1e16 cm-2, time: 0.5 day, from: 13 km, to: 15 km}]")
+colchem_cli_test(bad.check_missing_observations 4
+  "no_such_observations.csv: expected a readable table file, found no such file"
+  $<TARGET_FILE:colchem> check ${RCOL} --set observations=no_such_observations.csv)
+set(MISSING_CHANNEL "photo_missing_channel.yaml: 'channels': expected a channel named 'SO3_SO2_O' \\(used by the mechanism\\), found none")
+colchem_cli_test(bad.check_missing_channel 4 "${MISSING_CHANNEL}"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.data=${BAD}/photo_missing_channel.yaml)
+colchem_cli_test(bad.run_missing_channel 4 "${MISSING_CHANNEL}"
+  $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --set photolysis.data=${BAD}/photo_missing_channel.yaml -o missing_channel.nc)
+
+# --- Output paths that name an input (exit 6; on copies, so that a failure harms nothing) --
+colchem_cli_test(bad.output_onto_scenario 6
+  "'-o/--output': expected an output path that is not one of the inputs, found the scenario file '[^']*onto_input/restart_column.yaml'"
+  sh -c "rm -rf onto_input && cp -r ${CMAKE_SOURCE_DIR}/tests/solve/restart onto_input && $<TARGET_FILE:colchem> run onto_input/restart_column.yaml -o ./onto_input/restart_column.yaml")
+colchem_cli_test(bad.output_onto_box_config 6
+  "expected an output path that is not one of the inputs, found the box configuration '[^']*box_copy.yaml'"
+  sh -c "cp ${CHEMV}/box_equilibrium/box.yaml ${CHEMV}/box_equilibrium/mechanism.yaml . && cp box.yaml box_copy.yaml && $<TARGET_FILE:colchem> box box_copy.yaml -o box_copy.yaml")
+colchem_nc_test(bad.output_onto_observations 6
+  "expected an output path that is not one of the inputs, found the observation file '[^']*obs_copy.csv'"
+  sh -c "cp ${OBS} ${NCW}/obs_copy.csv && $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${NCW}/obs_copy.csv -o ${NCW}/obs_copy.csv")
+colchem_nc_test(bad.output_onto_run_file 6
+  "expected an output path that is not one of the inputs, found the run file '[^']*good_copy.nc'"
+  sh -c "cp ${NCW}/good.nc ${NCW}/good_copy.nc && $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml --from ${NCW}/good_copy.nc -o ${NCW}/good_copy.nc")
