@@ -75,7 +75,9 @@ void check_tree(const YAML::Node& n, const std::string& file, const std::string&
     if (!it->first.IsScalar()) {
       throw InputError(code, where(it->first), path,
                        "a key that is a single word or value",
-                       it->first.IsMap() ? "a map used as a key" : "a list used as a key",
+                       it->first.IsMap()        ? "a map used as a key"
+                       : it->first.IsSequence() ? "a list used as a key"
+                                                : "an empty key",
                        "write the key as plain text (quote it if it contains ':' or brackets)");
     }
     const std::string key = it->first.Scalar();
@@ -94,6 +96,10 @@ void check_tree(const YAML::Node& n, const std::string& file, const std::string&
 }  // namespace
 
 ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode code) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(file, ec)) {
+    throw InputError(code, SourceLocation{file.string()}, "", "a YAML file", "a directory");
+  }
   std::ifstream in(file);
   if (!in) {
     throw InputError(code, SourceLocation{file.string()}, "", "a readable YAML file",

@@ -154,3 +154,55 @@ colchem_nc_test(bad.output_onto_observations 6
 colchem_nc_test(bad.output_onto_run_file 6
   "expected an output path that is not one of the inputs, found the run file '[^']*good_copy.nc'"
   sh -c "cp ${NCW}/good.nc ${NCW}/good_copy.nc && $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml --from ${NCW}/good_copy.nc -o ${NCW}/good_copy.nc")
+
+# --- Further input kinds (each already refused; kept here so that it stays so) ----------
+set(BOXV ${CMAKE_SOURCE_DIR}/validation/chem/box_equilibrium/box.yaml)
+# Scenario values (exit 3).
+colchem_cli_test(bad.scenario_zero_cells 3 "--set grid.cells=0: 'grid.cells': expected a number of cells from 1 to 100000, found '0'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set grid.cells=0)
+colchem_cli_test(bad.scenario_negative_radius 3 "'planet.radius': expected a positive radius, found '-5 km'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=planet.radius=-5 km")
+colchem_cli_test(bad.scenario_infinite_value 3 "'grid.top': expected a finite value, found '1e400 km'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=grid.top=1e400 km")
+colchem_cli_test(bad.scenario_mixing_ratio 3 "'species.SO2.initial': expected a mixing ratio: a number from 0 to 1 or a quantity such as '3 ppm', found 'abc'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set species.SO2.initial=abc)
+colchem_cli_test(bad.scenario_solver_method 3 "'solver.method': expected one of: steady, transient, split_steady, found 'explicit'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set solver.method=explicit)
+colchem_cli_test(bad.scenario_unknown_module 3 "'chemistry.modules.0': expected a module of mechanism 'tellin', found unknown module 'nosuch'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.modules=[nosuch])
+colchem_cli_test(bad.scenario_unknown_parameter 3 "'chemistry.parameters.nosuch': expected a parameter of mechanism 'tellin', found unknown parameter 'nosuch'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.parameters.nosuch=1)
+colchem_cli_test(bad.scenario_rt_choice 3 "'photolysis.radiative_transfer.scheme': expected one of: direct_beam, two_stream, found 'two_streem'; did you mean 'two_stream'\\?"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.radiative_transfer.scheme=two_streem)
+# Paths that are directories or files of the wrong kind.
+colchem_cli_test(bad.table_is_directory 4 "tests/cli/bad: expected a table file, found a directory"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD})
+colchem_cli_test(bad.mechanism_is_directory 4 "tests/cli/bad: expected a YAML file, found a directory"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD})
+colchem_cli_test(bad.photolysis_data_is_table 4 "o2.csv:[0-9]+:1: expected a map of sections at the top level, found a list or a single value"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.data=${CFG}/photolysis/o2.csv)
+colchem_nc_test(bad.run_file_is_yaml 4 "tellin.yaml: expected a readable NetCDF file written by colchem, found NetCDF: Unknown file format"
+  $<TARGET_FILE:colchem> compare ${CFG}/tellin.yaml ${OBS} --no-write)
+# Box configurations (exit 3).
+colchem_cli_test(bad.box_pressure_unit 3 "'box.pressure': expected a number with a unit, such as '1 bar', found '5' with no unit"
+  $<TARGET_FILE:colchem> box ${BOXV} --set box.pressure=5)
+colchem_cli_test(bad.box_negative_duration 3 "'box.duration': expected a positive duration, found '-1 d'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.duration=-1 d")
+colchem_cli_test(bad.box_unknown_species 3 "'box.initial.XYZ': expected a species of mechanism 'clo-dimer', found 'XYZ'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.initial.XYZ=1 ppb")
+# Observation files (exit 4), with the row's line.
+colchem_nc_test(bad.obs_not_number 4 "obs_not_number.csv:4: 'value': expected a finite number, found 'abc'"
+  $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${BAD}/obs_not_number.csv --no-write)
+colchem_nc_test(bad.obs_unknown_species 4 "obs_unknown_species.csv:4: 'species': expected a species of the model \\(SO2, OH, HSO3\\), found 'XYZ'"
+  $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${BAD}/obs_unknown_species.csv --no-write)
+colchem_nc_test(bad.obs_negative_uncertainty 4 "obs_negative_sigma.csv:4: 'uncertainty': expected a positive uncertainty for a detection, found -2e-11 \\(as a mole fraction\\)"
+  $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${BAD}/obs_negative_sigma.csv --no-write)
+# Sweep configurations (exit 3).
+colchem_cli_test(bad.sweep_unknown_key 3 "'sweep.variants': expected a known key in 'sweep', found unknown key 'variants'"
+  $<TARGET_FILE:colchem> sweep ${CMAKE_CURRENT_LIST_DIR}/sweep/tellin_sweep.yaml --set sweep.variants=3)
+# Command lines (exit 2).
+colchem_cli_test(bad.cli_missing_config 2 "CONFIG is required" $<TARGET_FILE:colchem> check)
+colchem_cli_test(bad.cli_missing_restart 2 "--restart: File does not exist: no_such_restart.nc"
+  $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --restart no_such_restart.nc)
+colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_run.nc"
+  $<TARGET_FILE:colchem> budget no_such_run.nc -s SO2)
