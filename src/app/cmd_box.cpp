@@ -5,10 +5,10 @@
 #include <iostream>
 
 #include "app/commands.hpp"
-#include "io/output.hpp"
 #include "chem/box_model.hpp"
 #include "io/chemistry_section.hpp"
 #include "io/netcdf_file.hpp"
+#include "io/output.hpp"
 
 namespace colchem::app {
 

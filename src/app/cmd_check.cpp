@@ -8,8 +8,8 @@
 #include "app/commands.hpp"
 #include "app/summary.hpp"
 #include "core/background.hpp"
-#include "io/scenario.hpp"
 #include "io/chemistry_section.hpp"
+#include "io/scenario.hpp"
 #include "solve/column_model.hpp"
 
 namespace colchem::app {

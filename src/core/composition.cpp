@@ -48,7 +48,8 @@ class Parser {
         if (!read_count(mult, why)) return false;
         for (const auto& [el, n] : inner.atoms) {
           const long total = static_cast<long>(out.atoms[el]) + static_cast<long>(n) * mult;
-          if (total > kMaxCount) return fail(why, "more than " + std::to_string(kMaxCount) + " atoms of " + el);
+          if (total > kMaxCount)
+            return fail(why, "more than " + std::to_string(kMaxCount) + " atoms of " + el);
           out.atoms[el] = static_cast<int>(total);
         }
         (void)open;

@@ -73,8 +73,7 @@ void check_tree(const YAML::Node& n, const std::string& file, const std::string&
   std::map<std::string, YAML::Mark> seen;
   for (auto it = n.begin(); it != n.end(); ++it) {
     if (!it->first.IsScalar()) {
-      throw InputError(code, where(it->first), path,
-                       "a key that is a single word or value",
+      throw InputError(code, where(it->first), path, "a key that is a single word or value",
                        it->first.IsMap()        ? "a map used as a key"
                        : it->first.IsSequence() ? "a list used as a key"
                                                 : "an empty key",

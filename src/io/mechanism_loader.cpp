@@ -385,10 +385,12 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   if (!rx.sink) {
     std::map<std::string, long long> bal;  // counts <= 9999 times coefficients <= 999
     for (const auto& e : rx.reactants) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms) bal[el] += static_cast<long long>(c) * e.count;
+      for (const auto& [el, c] : m.species[e.species].composition.atoms)
+        bal[el] += static_cast<long long>(c) * e.count;
     }
     for (const auto& e : rx.products) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms) bal[el] -= static_cast<long long>(c) * e.count;
+      for (const auto& [el, c] : m.species[e.species].composition.atoms)
+        bal[el] -= static_cast<long long>(c) * e.count;
     }
     std::string off;
     for (const auto& [el, c] : bal) {

@@ -232,9 +232,10 @@ std::vector<std::string> NcReader::read_strings(const std::string& var) const {
   nc_type type = NC_NAT;
   check(nc_inq_vartype(ncid_, varid(var), &type), var);
   if (type != NC_STRING || shp.size() != 1) {
-    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, var,
-                     "a one-dimensional variable of strings (NC_STRING)",
-                     type != NC_STRING ? "another type" : std::to_string(shp.size()) + " dimensions");
+    throw InputError(
+        ExitCode::kInputData, SourceLocation{path_.string()}, var,
+        "a one-dimensional variable of strings (NC_STRING)",
+        type != NC_STRING ? "another type" : std::to_string(shp.size()) + " dimensions");
   }
   const std::size_t n = shp[0];
   if (n == 0) return {};

@@ -130,10 +130,12 @@ TEST_CASE("suggestions come only for near misses", "[config]") {
 }
 
 TEST_CASE("a key repeated in one map is refused with both lines", "[config]") {
-  const auto msg = error_of(
-      [] { (void)ConfigDocument::from_text("grid:\n  cells: 5\n  top: 1 km\n  cells: 6\n", "d.yaml"); });
-  CHECK(msg == "d.yaml:4:3: 'grid.cells': expected each key once in a map, found 'cells' again "
-               "(first at line 2); remove one of the two; the first would otherwise win silently");
+  const auto msg = error_of([] {
+    (void)ConfigDocument::from_text("grid:\n  cells: 5\n  top: 1 km\n  cells: 6\n", "d.yaml");
+  });
+  CHECK(msg ==
+        "d.yaml:4:3: 'grid.cells': expected each key once in a map, found 'cells' again "
+        "(first at line 2); remove one of the two; the first would otherwise win silently");
   // Inside lists too, and for whole sections.
   CHECK_THROWS_AS(ConfigDocument::from_text("a:\n  - {x: 1, x: 2}\n", "l.yaml"), InputError);
   CHECK_THROWS_AS(ConfigDocument::from_text("s: 1\nt: 2\ns: 3\n", "t.yaml"), InputError);
