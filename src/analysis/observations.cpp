@@ -1,5 +1,7 @@
 #include "analysis/observations.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 
 #include "io/table.hpp"
@@ -34,7 +36,7 @@ ObservationSet read_observations(const std::filesystem::path& file, const UnitSy
     if (u[r] < 0.0 || (!limit && !(u[r] > 0.0))) {
       t.fail_row(r, "uncertainty",
                  limit ? "a non-negative uncertainty" : "a positive uncertainty for a detection",
-                 std::to_string(u[r]));
+                 fmt::format("{:.6g} (as a mole fraction)", u[r]));
     }
     set.points.push_back({z[r], sp[r], v[r], u[r], limit, t.line_of_row(r)});
   }

@@ -47,7 +47,9 @@ class Unpacker {
     const auto n = get<std::uint64_t>();
     need(n * sizeof(double));
     std::vector<double> v(n);
-    std::memcpy(v.data(), p_, n * sizeof(double));
+    // An empty vector's data() may be null, and memcpy from or to null is undefined even
+    // for zero bytes (UBSan: nonnull-attribute).
+    if (n > 0) std::memcpy(v.data(), p_, n * sizeof(double));
     p_ += n * sizeof(double);
     return v;
   }

@@ -4,11 +4,13 @@
 #include <algorithm>
 #include <iostream>
 
+#include "analysis/observations.hpp"
 #include "app/commands.hpp"
 #include "app/summary.hpp"
 #include "core/background.hpp"
-#include "io/scenario.hpp"
 #include "io/chemistry_section.hpp"
+#include "io/scenario.hpp"
+#include "solve/column_model.hpp"
 
 namespace colchem::app {
 
@@ -30,6 +32,11 @@ void add_check_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     if (sc.chemistry.mechanism) {
       std::cout << summarize_chemistry(*sc.chemistry.mechanism, sc.chemistry, *verbose);
     }
+    // Everything `run` builds before it solves, so that check refuses what run refuses at
+    // load: the column model (species settings against the mechanism, injections,
+    // photolysis channels against their data) and the observations.
+    const ColumnModel model(sc);
+    if (!sc.observations.empty()) (void)read_observations(sc.observations, units);
     ctx.log->info("{}: valid", *config);
     return 0;
   });

@@ -35,6 +35,8 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
   cmd->add_flag("--no-write", o->dry, "Print the scores only");
   out.emplace_back(cmd, [o](Context& ctx) {
     const UnitSystem units;
+    // -o may be RUN itself (amended in place), never the observation file.
+    refuse_output_onto_input(o->output, {{"the observation file", o->obs}});
     const ObservationSet obs = read_observations(o->obs, units);
     ModelColumn model;
     {

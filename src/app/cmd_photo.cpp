@@ -32,6 +32,8 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
   out.emplace_back(cmd, [o](Context& ctx) {
     const UnitSystem units;
     const Scenario sc = load_scenario(o->config, o->sets, units);
+    refuse_output_onto_input(o->output,
+                             {{"the scenario file", o->config}, {"the run file", o->from}});
     ColumnModel model(sc);
     if (!model.photolysis()) {
       throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",

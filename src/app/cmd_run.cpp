@@ -51,6 +51,9 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     const UnitSystem units;
     Scenario sc = load_scenario(o->config, o->sets, units);
     if (!o->output.empty()) sc.output.file = o->output;
+    refuse_output_onto_input(sc.output.file, {{"the scenario file", o->config},
+                                              {"the restart file", o->restart},
+                                              {"the observation file", sc.observations}});
     ColumnModel model(sc);
     ctx.log->info("scenario {}: {} cells, {} species", sc.name, model.cells(), model.species_count());
     std::vector<SpeciesScore> scores;

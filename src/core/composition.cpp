@@ -22,6 +22,10 @@ constexpr std::array<ElementEntry, 26> kElements{{
     {"Hg", 200.592},
 }};
 
+// The largest atom count of one element in a formula (larger is a typo, not a molecule;
+// common practice, no source).
+constexpr int kMaxCount = 9999;
+
 class Parser {
  public:
   explicit Parser(const std::string& s) : s_(s) {}
@@ -40,8 +44,14 @@ class Parser {
         if (!parse_group(inner, why, true)) return false;
         if (pos_ >= s_.size() || s_[pos_] != ')') return fail(why, "missing ')'");
         ++pos_;
-        const int mult = read_count();
-        for (const auto& [el, n] : inner.atoms) out.atoms[el] += n * mult;
+        int mult = 1;
+        if (!read_count(mult, why)) return false;
+        for (const auto& [el, n] : inner.atoms) {
+          const long total = static_cast<long>(out.atoms[el]) + static_cast<long>(n) * mult;
+          if (total > kMaxCount)
+            return fail(why, "more than " + std::to_string(kMaxCount) + " atoms of " + el);
+          out.atoms[el] = static_cast<int>(total);
+        }
         (void)open;
         continue;
       }
@@ -61,21 +71,30 @@ class Parser {
       if (!atomic_weight(sym)) {
         return fail(why, "unknown element '" + (two.empty() ? sym : two) + "'");
       }
-      out.atoms[sym] += read_count();
+      int count = 1;
+      if (!read_count(count, why)) return false;
+      if (out.atoms[sym] + count > kMaxCount) {
+        return fail(why, "more than " + std::to_string(kMaxCount) + " atoms of " + sym);
+      }
+      out.atoms[sym] += count;
     }
     return true;
   }
 
  private:
-  int read_count() {
-    int n = 0;
+  // A count after an element or a group (1 when absent); more than kMaxCount is refused
+  // before it can overflow.
+  bool read_count(int& n, std::string* why) {
+    n = 0;
     bool any = false;
     while (pos_ < s_.size() && std::isdigit(static_cast<unsigned char>(s_[pos_])) != 0) {
       n = 10 * n + (s_[pos_] - '0');
       ++pos_;
       any = true;
+      if (n > kMaxCount) return fail(why, "a count above " + std::to_string(kMaxCount));
     }
-    return any ? n : 1;
+    if (!any) n = 1;
+    return true;
   }
   static bool fail(std::string* why, const std::string& msg) {
     if (why) *why = msg;

@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <stdexcept>
+#include <string>
 
 namespace colchem {
 
@@ -9,6 +11,12 @@ std::optional<std::vector<double>> interpolate(std::span<const double> x,
                                                std::span<const double> y,
                                                std::span<const double> at, InterpScale scale,
                                                Extrapolation policy, std::size_t* bad_index) {
+  // Callers validate their tables; an empty or mismatched one reaching here is a bug, not
+  // something to read out of bounds.
+  if (x.empty() || x.size() != y.size()) {
+    throw std::invalid_argument("interpolate: " + std::to_string(x.size()) + " abscissae and " +
+                                std::to_string(y.size()) + " values");
+  }
   std::vector<double> out(at.size());
   const double tol = 1e-9 * std::max(1.0, std::abs(x.back() - x.front()));
   for (std::size_t i = 0; i < at.size(); ++i) {

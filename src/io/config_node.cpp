@@ -36,9 +36,69 @@ bool is_index(const std::string& s) {
   return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return c >= '0' && c <= '9'; });
 }
 
+// A list index of a --set path, refused (exit 2) when it is not below the list's size; an
+// index too long for any list is refused before conversion.
+std::size_t list_index(const std::string& key, std::size_t size, const SourceLocation& where,
+                       const std::string& path) {
+  const auto first = key.find_first_not_of('0');
+  const std::string digits = first == std::string::npos ? "0" : key.substr(first);
+  const std::size_t idx = digits.size() > 9 ? size : std::stoul(digits);
+  if (idx >= size) {
+    throw InputError(ExitCode::kUsage, where, path, "an index below " + std::to_string(size),
+                     key.size() > 40 ? "'" + key.substr(0, 40) + "...'" : "'" + key + "'");
+  }
+  return idx;
+}
+
+// The key path of a node for messages while checking the raw tree.
+std::string join_key(const std::string& path, const std::string& key) {
+  return path.empty() ? key : path + "." + key;
+}
+
+// Structural checks yaml-cpp does not make: every map key is a single value (not a list or
+// a map: `[a, b]: 1`), and no key appears twice in one map (the first would otherwise win
+// silently). `origin` replaces the file position for values given on the command line.
+void check_tree(const YAML::Node& n, const std::string& file, const std::string& path,
+                ExitCode code, const std::string& origin) {
+  auto where = [&](const YAML::Node& at) {
+    return origin.empty() ? mark_location(file, at.Mark()) : SourceLocation{origin};
+  };
+  if (n.IsSequence()) {
+    for (std::size_t i = 0; i < n.size(); ++i) {
+      check_tree(n[i], file, join_key(path, std::to_string(i)), code, origin);
+    }
+    return;
+  }
+  if (!n.IsMap()) return;
+  std::map<std::string, YAML::Mark> seen;
+  for (auto it = n.begin(); it != n.end(); ++it) {
+    if (!it->first.IsScalar()) {
+      throw InputError(code, where(it->first), path, "a key that is a single word or value",
+                       it->first.IsMap()        ? "a map used as a key"
+                       : it->first.IsSequence() ? "a list used as a key"
+                                                : "an empty key",
+                       "write the key as plain text (quote it if it contains ':' or brackets)");
+    }
+    const std::string key = it->first.Scalar();
+    const auto [prev, fresh] = seen.emplace(key, it->first.Mark());
+    if (!fresh) {
+      const std::string first_line =
+          prev->second.line >= 0 ? "line " + std::to_string(prev->second.line + 1) : "earlier";
+      throw InputError(code, where(it->first), join_key(path, key), "each key once in a map",
+                       "'" + key + "' again (first at " + first_line + ")",
+                       "remove one of the two; the first would otherwise win silently");
+    }
+    check_tree(it->second, file, join_key(path, key), code, origin);
+  }
+}
+
 }  // namespace
 
 ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode code) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(file, ec)) {
+    throw InputError(code, SourceLocation{file.string()}, "", "a YAML file", "a directory");
+  }
   std::ifstream in(file);
   if (!in) {
     throw InputError(code, SourceLocation{file.string()}, "", "a readable YAML file",
@@ -77,6 +137,7 @@ ConfigDocument ConfigDocument::from_text(const std::string& text, const std::str
                      "a map of sections at the top level", "a list or a single value");
   }
   if (doc.root_.IsNull()) doc.root_ = YAML::Node(YAML::NodeType::Map);
+  check_tree(doc.root_, name, "", code, "");
   return doc;
 }
 
@@ -95,6 +156,7 @@ void ConfigDocument::apply_override(const std::string& assignment) {
     throw InputError(ExitCode::kUsage, where, path, "a YAML value", "'" + value_text + "'",
                      e.msg);
   }
+  check_tree(value, "", path, ExitCode::kUsage, where.file);
   const auto parts = split_path(path);
   for (const auto& p : parts) {
     if (p.empty()) {
@@ -106,17 +168,16 @@ void ConfigDocument::apply_override(const std::string& assignment) {
   for (std::size_t i = 0; i + 1 < parts.size(); ++i) {
     const auto& key = parts[i];
     if (cur.IsSequence() && is_index(key)) {
-      const std::size_t idx = std::stoul(key);
-      if (idx >= cur.size()) {
-        throw InputError(ExitCode::kUsage, where, path,
-                         "an index below " + std::to_string(cur.size()), key);
-      }
-      cur.reset(cur[idx]);
+      cur.reset(cur[list_index(key, cur.size(), where, path)]);
       continue;
     }
     if (cur.IsScalar()) {
       throw InputError(ExitCode::kUsage, where, path, "a path through maps",
                        "a single value at '" + key + "'");
+    }
+    if (cur.IsSequence()) {
+      throw InputError(ExitCode::kUsage, where, path, "a list index (0, 1, ...) after a list",
+                       "'" + key + "'");
     }
     YAML::Node next = cur[key];
     if (!next.IsDefined() || next.IsNull()) {
@@ -127,12 +188,14 @@ void ConfigDocument::apply_override(const std::string& assignment) {
   }
   const auto& last = parts.back();
   if (cur.IsSequence() && is_index(last)) {
-    const std::size_t idx = std::stoul(last);
-    if (idx >= cur.size()) {
-      throw InputError(ExitCode::kUsage, where, path,
-                       "an index below " + std::to_string(cur.size()), last);
-    }
-    cur[idx] = value;
+    cur[list_index(last, cur.size(), where, path)] = value;
+  } else if (cur.IsSequence()) {
+    throw InputError(ExitCode::kUsage, where, path, "a list index (0, 1, ...) after a list",
+                     "'" + last + "'");
+  } else if (cur.IsScalar()) {
+    const std::string parent = parts.size() > 1 ? parts[parts.size() - 2] : std::string();
+    throw InputError(ExitCode::kUsage, where, path, "a path through maps",
+                     "a single value at '" + parent + "', which has no key '" + last + "'");
   } else {
     cur[last] = value;
   }

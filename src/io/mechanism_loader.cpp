@@ -16,6 +16,10 @@ namespace colchem {
 namespace {
 
 constexpr ExitCode kCode = ExitCode::kInputData;
+// The largest stoichiometric coefficient of a term (common practice, no source: elementary
+// and lumped reactions use single digits; three digits leave room and keep every element
+// balance far from integer overflow).
+constexpr int kMaxCoefficient = 999;
 
 std::string trim(const std::string& s) {
   const auto b = s.find_first_not_of(" \t");
@@ -53,7 +57,14 @@ Side parse_side(const std::string& text, const ConfigNode& where, const std::str
         where.fail("a whole-number stoichiometric coefficient before a species",
                    "'" + c + "' in '" + eq + "'", "coefficients are integers only");
       }
-      count = std::stoi(c);
+      // At most kMaxCoefficient (checked on the digits, before any conversion can overflow).
+      const auto first = c.find_first_not_of('0');
+      const std::string digits_only = first == std::string::npos ? "0" : c.substr(first);
+      if (digits_only.size() > 3) {
+        where.fail(fmt::format("a stoichiometric coefficient from 1 to {}", kMaxCoefficient),
+                   "'" + c + "' in '" + eq + "'");
+      }
+      count = std::stoi(digits_only);
       if (count < 1) where.fail("a positive coefficient", "'" + c + "' in '" + eq + "'");
     }
     if (name == "M") {
@@ -389,12 +400,14 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
 
   // Element balance (hv and M carry no atoms); sinks are exempt.
   if (!rx.sink) {
-    std::map<std::string, int> bal;
+    std::map<std::string, long long> bal;  // counts <= 9999 times coefficients <= 999
     for (const auto& e : rx.reactants) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms) bal[el] += c * e.count;
+      for (const auto& [el, c] : m.species[e.species].composition.atoms)
+        bal[el] += static_cast<long long>(c) * e.count;
     }
     for (const auto& e : rx.products) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms) bal[el] -= c * e.count;
+      for (const auto& [el, c] : m.species[e.species].composition.atoms)
+        bal[el] -= static_cast<long long>(c) * e.count;
     }
     std::string off;
     for (const auto& [el, c] : bal) {

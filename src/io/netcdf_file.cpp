@@ -229,7 +229,16 @@ std::vector<double> NcReader::read(const std::string& var) const {
 
 std::vector<std::string> NcReader::read_strings(const std::string& var) const {
   const auto shp = shape(var);
-  const std::size_t n = shp.empty() ? 1 : shp[0];
+  nc_type type = NC_NAT;
+  check(nc_inq_vartype(ncid_, varid(var), &type), var);
+  if (type != NC_STRING || shp.size() != 1) {
+    throw InputError(
+        ExitCode::kInputData, SourceLocation{path_.string()}, var,
+        "a one-dimensional variable of strings (NC_STRING)",
+        type != NC_STRING ? "another type" : std::to_string(shp.size()) + " dimensions");
+  }
+  const std::size_t n = shp[0];
+  if (n == 0) return {};
   std::vector<char*> raw(n, nullptr);
   check(nc_get_var_string(ncid_, varid(var), raw.data()), var);
   std::vector<std::string> out;
@@ -240,10 +249,25 @@ std::vector<std::string> NcReader::read_strings(const std::string& var) const {
 
 std::optional<std::string> NcReader::global_text(const std::string& name) const {
   std::size_t len = 0;
-  if (nc_inq_attlen(ncid_, NC_GLOBAL, name.c_str(), &len) != NC_NOERR) return std::nullopt;
+  nc_type type = NC_NAT;
+  if (nc_inq_att(ncid_, NC_GLOBAL, name.c_str(), &type, &len) != NC_NOERR) return std::nullopt;
+  if (type == NC_STRING && len >= 1) return att_string(NC_GLOBAL, name, len, name);
+  if (type != NC_CHAR) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, name,
+                     "a text global attribute", "an attribute of another type");
+  }
   std::string s(len, '\0');
   check(nc_get_att_text(ncid_, NC_GLOBAL, name.c_str(), s.data()), name);
   return s;
+}
+
+std::string NcReader::att_string(int varid, const std::string& att, std::size_t len,
+                                 const std::string& what) const {
+  std::vector<char*> raw(len, nullptr);
+  check(nc_get_att_string(ncid_, varid, att.c_str(), raw.data()), what);
+  std::string out = raw[0] ? raw[0] : "";
+  nc_free_string(len, raw.data());
+  return out;
 }
 
 std::optional<double> NcReader::global_number(const std::string& name) const {
@@ -260,7 +284,13 @@ std::optional<std::string> NcReader::var_text(const std::string& var,
                                               const std::string& att) const {
   const int id = varid(var);
   std::size_t len = 0;
-  if (nc_inq_attlen(ncid_, id, att.c_str(), &len) != NC_NOERR) return std::nullopt;
+  nc_type type = NC_NAT;
+  if (nc_inq_att(ncid_, id, att.c_str(), &type, &len) != NC_NOERR) return std::nullopt;
+  if (type == NC_STRING && len >= 1) return att_string(id, att, len, var + ":" + att);
+  if (type != NC_CHAR) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, var + ":" + att,
+                     "a text attribute", "an attribute of another type");
+  }
   std::string s(len, '\0');
   check(nc_get_att_text(ncid_, id, att.c_str(), s.data()), var + ":" + att);
   return s;

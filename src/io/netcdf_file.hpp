@@ -88,6 +88,9 @@ class NcReader {
  private:
   int varid(const std::string& name) const;
   void check(int status, const std::string& what) const;
+  /// The first value of an NC_STRING attribute with `len` values.
+  std::string att_string(int varid, const std::string& att, std::size_t len,
+                         const std::string& what) const;
   std::filesystem::path path_;
   int ncid_ = -1;
 };

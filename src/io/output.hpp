@@ -3,8 +3,10 @@
 // NcWriter before commit().
 #pragma once
 
+#include <filesystem>
 #include <span>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/background.hpp"
@@ -47,6 +49,14 @@ void write_background_data(NcWriter& nc, const Background& bg);
 void define_species(NcWriter& nc, const std::vector<std::string>& species);
 void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
                         std::span<const double> n);
+
+/// Refuses (exit 6, before anything is computed) an output path that names one of the
+/// inputs (`inputs`: what the file is, e.g. "the scenario file", and its path): writing it
+/// would overwrite the input. Paths are compared as files (links and relative paths
+/// resolved), so "./a.yaml" and "a.yaml" are the same; inputs that do not exist are skipped.
+void refuse_output_onto_input(
+    const std::filesystem::path& output,
+    const std::vector<std::pair<std::string, std::filesystem::path>>& inputs);
 
 /// The species profiles of a run file (read back for compare, restart and budgets).
 struct ModelColumn {

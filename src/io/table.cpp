@@ -42,6 +42,10 @@ std::vector<std::string> split_fields(const std::string& line, bool comma) {
 
 Table Table::read(const std::filesystem::path& file, ExitCode code,
                   const std::vector<std::string>& text_columns) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(file, ec)) {
+    throw InputError(code, SourceLocation{file.string()}, "", "a table file", "a directory");
+  }
   std::ifstream in(file);
   if (!in) {
     throw InputError(code, SourceLocation{file.string()}, "", "a readable table file",

@@ -62,10 +62,15 @@ colchem_cli_test(box_bad_mechanism 4
   $<TARGET_FILE:colchem> box ${CMAKE_SOURCE_DIR}/tests/chem/bad/box_unbalanced.yaml)
 colchem_cli_test(box_bad_parameter 3 "chemistry.modules.0': expected a module of mechanism 'clo-dimer', found unknown module 'dimmer'; did you mean 'dimer'"
   $<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml --set chemistry.modules=[dimmer])
-colchem_cli_test(check_chemistry 0 "50 of 52 active reactions balanced in every element; 2 sinks"
+# scenario_soh.yaml has a mechanism with photolysis channels and no photolysis section: check
+# prints its chemistry summary and then refuses it (exit 3), as run does.
+colchem_cli_test(check_chemistry 3 "50 of 52 active reactions balanced in every element; 2 sinks"
   $<TARGET_FILE:colchem> check ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
-colchem_cli_test(check_chemistry_verbose 0 "HSO3 \\+ M -> OH \\+ SO2 \\+ M +equilibrium_reverse"
+colchem_cli_test(check_chemistry_verbose 3 "HSO3 \\+ M -> OH \\+ SO2 \\+ M +equilibrium_reverse"
   $<TARGET_FILE:colchem> check -v ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
+colchem_cli_test(check_chemistry_no_photolysis 3
+  "'photolysis': expected a photolysis section \\(the mechanism has photolysis channel 'O2'\\), found none"
+  $<TARGET_FILE:colchem> check ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
 
 # The output read by real clients: ncdump (netcdf-bin) and xarray (python3-xarray, run on
 # Debian's own interpreter so that its python3-* packages are the ones imported).
@@ -232,3 +237,5 @@ colchem_cli_test(sensitivity_bad_objective 2 "--objective"
 add_test(NAME validation.solve.adjoint_linear_column
   COMMAND ${CMAKE_SOURCE_DIR}/validation/solve/adjoint_linear_column/run.sh $<TARGET_FILE:colchem>
           ${CMAKE_CURRENT_BINARY_DIR}/adjoint_linear_column_work)
+
+include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)

@@ -41,3 +41,18 @@ TEST_CASE("bad formulae are rejected with a reason", "[composition]") {
   CHECK(why == "empty state label '()'");
   CHECK_FALSE(parse_formula("", &why));
 }
+
+// Counts that would overflow an int are refused (the limit 9999 is colchem's own, common
+// practice, no source); the largest allowed count still parses.
+TEST_CASE("element counts beyond the limit are refused before they overflow", "[composition]") {
+  std::string why;
+  CHECK_FALSE(parse_formula("O99999999999", &why));
+  CHECK(why == "a count above 9999");
+  CHECK_FALSE(parse_formula("(O5000)2", &why));
+  CHECK(why == "more than 9999 atoms of O");
+  CHECK_FALSE(parse_formula("O5000O5000", &why));
+  CHECK(why == "more than 9999 atoms of O");
+  const auto big = parse_formula("C9999");
+  REQUIRE(big);
+  CHECK(big->composition.atoms.at("C") == 9999);
+}

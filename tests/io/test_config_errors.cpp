@@ -128,3 +128,43 @@ TEST_CASE("suggestions come only for near misses", "[config]") {
   CHECK(edit_distance("kitten", "sitting") == 3);
   CHECK(edit_distance("", "abc") == 3);
 }
+
+TEST_CASE("a key repeated in one map is refused with both lines", "[config]") {
+  const auto msg = error_of([] {
+    (void)ConfigDocument::from_text("grid:\n  cells: 5\n  top: 1 km\n  cells: 6\n", "d.yaml");
+  });
+  CHECK(msg ==
+        "d.yaml:4:3: 'grid.cells': expected each key once in a map, found 'cells' again "
+        "(first at line 2); remove one of the two; the first would otherwise win silently");
+  // Inside lists too, and for whole sections.
+  CHECK_THROWS_AS(ConfigDocument::from_text("a:\n  - {x: 1, x: 2}\n", "l.yaml"), InputError);
+  CHECK_THROWS_AS(ConfigDocument::from_text("s: 1\nt: 2\ns: 3\n", "t.yaml"), InputError);
+}
+
+TEST_CASE("lists and maps used as keys are refused", "[config]") {
+  CHECK(error_of([] { (void)ConfigDocument::from_text("grid:\n  [a, b]: 1\n", "k.yaml"); }) ==
+        "k.yaml:2:3: 'grid': expected a key that is a single word or value, found a list used "
+        "as a key; write the key as plain text (quote it if it contains ':' or brackets)");
+  CHECK_THROWS_AS(ConfigDocument::from_text("? {a: 1}\n: 2\n", "m.yaml"), InputError);
+}
+
+TEST_CASE("override paths that cannot be followed are usage errors, not crashes", "[config]") {
+  auto doc = ConfigDocument::from_text("grid:\n  cells: 5\nlist: [a, b]\n", "o.yaml");
+  const auto code_of = [&](const std::string& set) {
+    try {
+      doc.apply_override(set);
+    } catch (const InputError& e) {
+      return static_cast<int>(e.code());
+    }
+    return 0;
+  };
+  CHECK(code_of("list.99999999999999999999999=c") == 2);
+  CHECK(code_of("list.2=c") == 2);
+  CHECK(code_of("list.x=c") == 2);
+  CHECK(code_of("grid.cells.x=1") == 2);
+  CHECK(code_of("grid.cells.x.y=1") == 2);
+  CHECK(code_of("grid={[a]: 1}") == 2);
+  CHECK(code_of("grid={a: 1, a: 2}") == 2);
+  CHECK(code_of("list.1=c") == 0);
+  CHECK(doc.root().child("list").text_list() == std::vector<std::string>{"a", "c"});
+}
