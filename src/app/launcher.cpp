@@ -21,7 +21,7 @@ bool launcher_runs(int argc, char** argv) {
       continue;
     }
     if (a.starts_with("--log-level=")) continue;
-    for (const char* light : {"check", "compare", "budget", "photo", "box"}) {
+    for (const char* light : {"check", "compare", "budget", "photo", "box", "rates"}) {
       if (a == light) return true;
     }
     return false;  // run, sweep, --help, --version, a typo: the full program

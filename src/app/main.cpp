@@ -50,6 +50,7 @@ int main(int argc, char** argv) {
 #endif
   app::add_photo_command(cli, commands);
   app::add_box_command(cli, commands);
+  app::add_rates_command(cli, commands);
 
   // 2. Parse it. Help and version exit 0; a usage error exits 2.
   try {

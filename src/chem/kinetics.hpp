@@ -62,6 +62,9 @@ class Kinetics {
 
   /// k[r * levels + j] including scale and [M] where it multiplies (units by order).
   [[nodiscard]] std::span<const double> rate_constants() const { return k_; }
+  /// [M] (cm^-3) of active reaction r at level j, M[r * levels + j]: the air density
+  /// weighted by the reaction's third-body efficiencies over the bulk gases.
+  [[nodiscard]] std::span<const double> third_body_densities() const { return M_; }
   /// d k_r / d p at every level: out[(p * R + r) * levels + j]. Only reactions whose scale
   /// names p are non-zero.
   void rate_constant_sensitivities(std::span<double> out) const;

@@ -91,6 +91,13 @@ add_test(NAME cli.plot_profiles
 colchem_cli_test(help_compare 0 "--fitted-parameters" $<TARGET_FILE:colchem> compare --help)
 colchem_cli_test(help_budget 0 "--bands" $<TARGET_FILE:colchem> budget --help)
 
+# Rate constants printed for kineticists, against JPL 19-5 k(298 K) and the rate-law formulas
+# (tests/cli/rates_test.py names each source).
+add_test(NAME cli.rates
+  COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/rates_test.py $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR})
+colchem_cli_test(help_rates 0 "--temperature" $<TARGET_FILE:colchem> rates --help)
+
 # Sweeps on one and two MPI ranks; a failing variant.
 add_test(NAME cli.sweep
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_test.sh $<TARGET_FILE:colchem>
