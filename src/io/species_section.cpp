@@ -222,7 +222,8 @@ void load_species_section(const ConfigNode& n, const UnitSystem& units, ColumnSp
   if (!n.is_map()) n.fail("a map from species name to settings");
   for (const auto& [name, value] : n.entries()) {
     if (name == "default") {
-      if (!value.is_map()) value.fail("{initial: MIXING_RATIO}");
+      if (!value.is_map()) value.fail("{initial: MIXING_RATIO, molecular_diffusion: BOOL}");
+      if (auto m = value.find("molecular_diffusion")) spec.molecular_diffusion = m->boolean();
       if (auto i = value.find("initial")) {
         if (i->is_map() && !i->has("column")) {
           i->fail("'column' naming the table column for the default profile", "no column");

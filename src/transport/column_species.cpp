@@ -18,6 +18,7 @@ const SpeciesColumnSettings* ColumnSpeciesSpec::find(const std::string& name) co
 
 void apply_species_settings(const ColumnSpeciesSpec& spec, std::vector<TransportSpecies>& sp) {
   for (auto& s : sp) {
+    if (!spec.molecular_diffusion) s.diffusion_A = 0.0;  // b = 0: no molecular or thermal flux
     const SpeciesColumnSettings* c = spec.find(s.name);
     if (c == nullptr) continue;
     if (c->fixed) s.fixed = *c->fixed;

@@ -67,6 +67,9 @@ struct InjectionSpec {
 
 struct ColumnSpeciesSpec {
   InitialProfile default_initial;  ///< species not listed (mixing ratio 0 unless given)
+  /// false: no molecular (or thermal) diffusion for any species but those whose own
+  /// settings give a binary_diffusion (species.default.molecular_diffusion).
+  bool molecular_diffusion = true;
   std::vector<SpeciesColumnSettings> species;
   std::vector<InjectionSpec> injections;
 
@@ -74,7 +77,8 @@ struct ColumnSpeciesSpec {
   [[nodiscard]] const SpeciesColumnSettings* find(const std::string& name) const;
 };
 
-/// Applies the spec's fixed/diffusion overrides to matching species (by name).
+/// Applies the spec's fixed/diffusion overrides to matching species (by name), after the
+/// whole-run switch `molecular_diffusion` (false sets every b to 0 first).
 void apply_species_settings(const ColumnSpeciesSpec& spec, std::vector<TransportSpecies>& sp);
 
 /// Boundary conditions per species (zero flux where the spec says nothing).

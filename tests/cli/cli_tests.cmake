@@ -98,6 +98,11 @@ add_test(NAME cli.rates
           ${CMAKE_SOURCE_DIR})
 colchem_cli_test(help_rates 0 "--temperature" $<TARGET_FILE:colchem> rates --help)
 
+# The whole-run switch for molecular diffusion against the per-species one.
+add_test(NAME cli.molecular_switch
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/molecular_switch_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/molecular_switch)
+
 # Sweeps on one and two MPI ranks; a failing variant.
 add_test(NAME cli.sweep
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_test.sh $<TARGET_FILE:colchem>
