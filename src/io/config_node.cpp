@@ -1,6 +1,7 @@
 #include "io/config_node.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <sstream>
@@ -411,6 +412,25 @@ std::string ConfigNode::choice(const std::vector<std::string>& choices) const {
   fail("one of: " + list, "'" + s + "'", hint);
 }
 
+namespace {
+
+/// A spelling of `unit` that UDUNITS-2 parses and converts to `target` when the user's does
+/// not parse: the same letters in another case ("AU" -> "au", "KM" -> "km"), "" if none.
+std::string unit_spelling_hint(const UnitSystem& units, const std::string& unit,
+                               const std::string& target) {
+  std::string lower = unit, upper = unit;
+  for (auto& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  for (auto& c : upper) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+  for (const auto& cand : {lower, upper}) {
+    if (cand != unit && units.parses(cand) && units.convertible(cand, target)) {
+      return "did you mean '" + cand + "'? (unit symbols are case-sensitive)";
+    }
+  }
+  return {};
+}
+
+}  // namespace
+
 double ConfigNode::quantity(const UnitSystem& units, const std::string& target_unit,
                             const std::string& example) const {
   const std::string s = text();
@@ -424,7 +444,7 @@ double ConfigNode::quantity(const UnitSystem& units, const std::string& target_u
   if (!v) {
     if (!units.parses(q->unit)) {
       fail("a unit that UDUNITS-2 knows (convertible to '" + target_unit + "')",
-           "'" + q->unit + "'");
+           "'" + q->unit + "'", unit_spelling_hint(units, q->unit, target_unit));
     }
     fail("a unit convertible to '" + target_unit + "', such as '" + example + "'",
          "'" + q->unit + "'");
@@ -446,7 +466,11 @@ std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
     const std::string unit = child("unit").text();
     for (const auto& item : child("values").items()) {
       auto v = units.convert(item.number(), unit, target_unit);
-      if (!v) child("unit").fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'");
+      if (!v) {
+        child("unit").fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
+                           units.parses(unit) ? std::string()
+                                              : unit_spelling_hint(units, unit, target_unit));
+      }
       out.push_back(*v);
     }
     done();

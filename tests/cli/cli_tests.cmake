@@ -25,6 +25,11 @@ colchem_cli_test(check_bare_number 3
 colchem_cli_test(check_wrong_unit 3
   "'grid.top': expected a unit convertible to 'cm'.*found 'bar'"
   $<TARGET_FILE:colchem> check ${BAD}/wrong_unit.yaml)
+# A unit spelt in the wrong case gets the right spelling suggested (UDUNITS-2 symbols are
+# case-sensitive).
+colchem_cli_test(check_unit_case 3
+  "'planet.star_distance': expected a unit that UDUNITS-2 knows .*found 'AU'.*did you mean 'au'"
+  $<TARGET_FILE:colchem> check ${CFG}/pyrene_full.yaml --set "planet.star_distance=1.3 AU")
 colchem_cli_test(check_missing_key 3
   "'planet': expected a key 'star_distance' here, found none"
   $<TARGET_FILE:colchem> check ${BAD}/missing_key.yaml)
