@@ -35,6 +35,7 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
   struct Options {
     std::string config, output, restart;
     std::vector<std::string> sets;
+    double progress_every = 0.2;
   };
   auto o = std::make_shared<Options>();
   cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
@@ -47,6 +48,10 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
                   "snapshots), or start from the state of any other run file (interpolated "
                   "onto this grid)")
       ->check(CLI::ExistingFile);
+  cmd->add_option("--progress-every", o->progress_every,
+                  "At most one progress line per this many seconds (0: every iteration or step)")
+      ->check(CLI::NonNegativeNumber)
+      ->capture_default_str();
   out.emplace_back(cmd, [o](Context& ctx) {
     const UnitSystem units;
     Scenario sc = load_scenario(o->config, o->sets, units);
@@ -135,6 +140,7 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     controls.log = ctx.log.get();
     controls.stop_requested = interrupt.query();
     controls.warm_start = warm;
+    controls.progress_interval_s = o->progress_every;
     controls.checkpoint = [&](const RunCheckpoint& cp) {
       write_checkpoint(ckpt, sc, model, cp, ctx.command_line);
     };

@@ -69,8 +69,6 @@ std::string balance_defect(ColumnModel& model, const SolverSpec& solver,
 /// from: the checkpoint a restart continues (nullptr for a fresh run).
 RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<double> x0,
                       const RunControls& c, const RunCheckpoint* from) {
-  std::unique_ptr<Progress> progress;
-  if (c.log) progress = std::make_unique<Progress>(*c.log, "steady");
   SteadyStateOptions opt = steady_options(solver);
   const long before = from ? from->iteration : 0;
   if (!from && c.warm_start) {
@@ -83,6 +81,13 @@ RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<
     if (from->step_s > 0.0) {
       opt.initial_pseudo_step_s = std::min(from->step_s, opt.max_pseudo_step_s);
     }
+  }
+  std::unique_ptr<Progress> progress;
+  if (c.log) {
+    ProgressOptions po;
+    po.min_interval_s = c.progress_interval_s;
+    po.max_iterations = opt.max_iterations;
+    progress = std::make_unique<Progress>(*c.log, "steady", po);
   }
   SteadyStateCallbacks cb;
   cb.stop_requested = c.stop_requested;
@@ -143,7 +148,15 @@ RunOutcome run_split(ColumnModel& model, const SolverSpec& solver, std::vector<d
     }
   }
   std::unique_ptr<Progress> progress;
-  if (c.log) progress = std::make_unique<Progress>(*c.log, to_steady ? "split" : "transient");
+  if (c.log) {
+    ProgressOptions po;
+    po.min_interval_s = c.progress_interval_s;
+    if (!to_steady) {
+      po.start_s = opt.start_s;
+      po.end_s = opt.end_s;
+    }
+    progress = std::make_unique<Progress>(*c.log, to_steady ? "split" : "transient", po);
+  }
   SplitCallbacks cb;
   cb.refresh = [&](const std::vector<double>& x, double) { model.refresh_photolysis(x); };
   cb.stop_requested = c.stop_requested;

@@ -37,6 +37,9 @@ struct RunControls {
   /// x0 is a converged state of another grid or variant: a steady solve starts with the
   /// pseudo-time step solver.warm_pseudo_step instead of solver.initial_pseudo_step.
   bool warm_start = false;
+  /// At most one progress line per this many seconds of wall time (0: every iteration or
+  /// step; `--progress-every`).
+  double progress_interval_s = 0.2;
 };
 
 /// One row of the convergence history, for either solver.

@@ -3,6 +3,7 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <cmath>
 
 namespace colchem {
@@ -29,8 +30,9 @@ Progress::~Progress() {
   }
 }
 
-std::string Progress::format(const SteadyIteration& it) {
+std::string Progress::format(const SteadyIteration& it, int max_iterations) {
   std::string s = "it " + std::to_string(it.iteration);
+  if (max_iterations > 0) s += "/" + std::to_string(max_iterations);
   s += "  dtau " + fmt_num("%.1e", it.pseudo_step_s) + " s";
   s += "  |F| " + fmt_num("%.1e", it.residual_norm);
   if (std::isfinite(it.max_relative_change)) {
@@ -41,18 +43,30 @@ std::string Progress::format(const SteadyIteration& it) {
   return s;
 }
 
-std::string Progress::format(const SplitStepRecord& st) {
+std::string Progress::format(const SplitStepRecord& st, double start_s, double end_s) {
+  const bool known_end = end_s > start_s;
   std::string s = "step " + std::to_string(st.step);
   s += "  t " + fmt_num("%.3e", st.time_s) + " s";
+  if (known_end) {
+    s += " (" + fmt_num("%.1f", 100.0 * std::clamp((st.time_s - start_s) / (end_s - start_s), 0.0, 1.0)) + " %)";
+  }
   s += "  dt " + fmt_num("%.1e", st.step_s) + " s";
   if (std::isfinite(st.residual_norm)) s += "  |F| " + fmt_num("%.1e", st.residual_norm);
   s += "  elapsed " + fmt_num("%.2f", st.wall_s) + " s";
+  if (known_end && st.time_s > start_s && st.time_s < end_s) {
+    const double left = st.wall_s * (end_s - st.time_s) / (st.time_s - start_s);
+    s += "  left ~" + fmt_num("%.2g", std::max(0.0, left)) + " s";
+  }
   return s;
 }
 
-void Progress::update(const SteadyIteration& it) { show(format(it), false); }
+void Progress::update(const SteadyIteration& it) {
+  show(format(it, options_.max_iterations), false);
+}
 
-void Progress::update(const SplitStepRecord& step) { show(format(step), false); }
+void Progress::update(const SplitStepRecord& step) {
+  show(format(step, options_.start_s, options_.end_s), false);
+}
 
 void Progress::finish(const std::string& outcome) {
   std::string text = pending_.empty() ? outcome : pending_ + "  " + outcome;

@@ -1,7 +1,10 @@
 // A live progress display for the solvers.
 //
 // On a terminal (stderr is a tty) one line is rewritten in place with "\r":
-//   it 12  dtau 3.2e+04 s  |F| 4.1e-06  change 2.0e-03  elapsed 0.21 s
+//   it 12/400  dtau 3.2e+04 s  |F| 4.1e-06  change 2.0e-03  elapsed 0.21 s
+//   step 40  t 3.600e+04 s (41.7 %)  dt 9.0e+02 s  elapsed 0.30 s  left ~0.42 s
+// (the iteration ceiling when known; for a transient with a known end, the share of model
+// time done and the wall time left, extrapolated linearly in model time).
 // Otherwise (a log file, a batch job) the same text goes as plain info lines through the
 // spdlog::logger passed in. Both are rate-limited to one line per min_interval_s; the
 // final state is always shown (finish()).
@@ -24,6 +27,11 @@ struct ProgressOptions {
   /// isatty(stderr). Tests set both.
   std::FILE* stream = nullptr;
   int terminal = -1;  ///< -1: detect, 0: no (log lines), 1: yes (live line)
+  int max_iterations = 0;  ///< steady: the iteration ceiling shown as "it k/max" (0: none)
+  /// Transient: model times of the start and the end; with end_s > start_s each line shows
+  /// the share done and the wall time left.
+  double start_s = 0.0;
+  double end_s = 0.0;
 };
 
 class Progress {
@@ -42,8 +50,10 @@ class Progress {
   /// Lines shown so far (for tests).
   [[nodiscard]] long lines_shown() const { return shown_; }
 
-  static std::string format(const SteadyIteration& it);
-  static std::string format(const SplitStepRecord& step);
+  static std::string format(const SteadyIteration& it, int max_iterations = 0);
+  /// step.wall_s counts from the model time start_s (the run's start or its checkpoint).
+  static std::string format(const SplitStepRecord& step, double start_s = 0.0,
+                            double end_s = 0.0);
 
  private:
   void show(const std::string& text, bool force);

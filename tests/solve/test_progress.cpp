@@ -80,3 +80,28 @@ TEST_CASE("Progress: a rate-limited single line on a terminal", "[solve][progres
   CHECK(text.back() == '\n');
   CHECK(out.str().empty());  // nothing went to the log
 }
+
+TEST_CASE("Progress: iteration ceiling, share of model time and time left", "[solve][progress]") {
+  // Expected text: the format documented in progress.hpp; the time left is the linear
+  // extrapolation wall * (end - t) / (t - start) (common practice, no source).
+  SteadyIteration it;
+  it.iteration = 12;
+  it.pseudo_step_s = 3.2e4;
+  it.residual_norm = 4.1e-6;
+  it.max_relative_change = 2e-3;
+  it.wall_s = 0.21;
+  CHECK_THAT(Progress::format(it, 400), Catch::StartsWith("it 12/400  dtau"));
+  CHECK_THAT(Progress::format(it), Catch::StartsWith("it 12  dtau"));
+  SplitStepRecord st;
+  st.step = 40;
+  st.time_s = 3.6e4;  // a restart at 1.2e4 s of a run that ends at 7.2e4 s: 40 % done
+  st.step_s = 900.0;
+  st.wall_s = 0.30;   // since the restart: 2.4e4 s of model time took 0.30 s, 3.6e4 s remain
+  const std::string s = Progress::format(st, 1.2e4, 7.2e4);
+  CHECK_THAT(s, Catch::Contains("t 3.600e+04 s (40.0 %)"));
+  CHECK_THAT(s, Catch::Contains("left ~0.45 s"));
+  // No end known (a split run to steady state): neither share nor time left.
+  const std::string n = Progress::format(st);
+  CHECK(n.find('%') == std::string::npos);
+  CHECK(n.find("left") == std::string::npos);
+}
