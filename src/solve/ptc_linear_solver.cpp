@@ -151,33 +151,46 @@ bool PtcLinearSolver::solve(const BlockTridiagonal& jac, double shift, std::span
   return ok && direct_solve(dx, reason);
 }
 
+namespace {
+
+/// y = A v (or A^T v) minus the nonlocal product of v (J_nl v, or J_nl^T v), then `combine`
+/// (i, v_i, y_i, nl_i) -> y_i per unknown: the one body of both shell products.
+template <class Combine>
+PetscErrorCode mult_minus_nonlocal(Mat A, bool transpose, const PtcLinearSolver::Product& nonlocal,
+                                   std::vector<double>& tmp, Vec v, Vec y, Combine combine) {
+  PetscErrorCode ierr = transpose ? MatMultTranspose(A, v, y) : MatMult(A, v, y);
+  if (ierr != 0) return ierr;
+  const PetscScalar* vs = nullptr;
+  PetscScalar* ys = nullptr;
+  if ((ierr = VecGetArrayRead(v, &vs)) != 0) return ierr;
+  if ((ierr = VecGetArray(y, &ys)) != 0) return ierr;
+  const std::size_t n = tmp.size();
+  std::fill(tmp.begin(), tmp.end(), 0.0);
+  try {
+    nonlocal(std::span<const double>(vs, n), tmp);
+  } catch (...) {
+    // An exception must not cross PETSc's C frames: a NaN makes GMRES stop with
+    // KSP_DIVERGED_NANORINF, which the caller reports.
+    std::fill(tmp.begin(), tmp.end(), std::numeric_limits<double>::quiet_NaN());
+  }
+  for (std::size_t i = 0; i < n; ++i) ys[i] = combine(i, vs[i], ys[i], tmp[i]);
+  (void)VecRestoreArray(y, &ys);
+  (void)VecRestoreArrayRead(v, &vs);
+  return 0;
+}
+
+}  // namespace
+
 // y = W^-1 (P v - J_nl v); held rows: y = v (P has unit rows there, J_nl none).
 PetscErrorCode PtcLinearSolver::shell_mult(Mat A, Vec v, Vec y) {
   void* raw = nullptr;
   PetscErrorCode ierr = MatShellGetContext(A, &raw);
   if (ierr != 0) return ierr;
   auto* c = static_cast<ShellContext*>(raw);
-  ierr = MatMult(c->self->mat_, v, y);
-  if (ierr != 0) return ierr;
-  const PetscScalar* vs = nullptr;
-  PetscScalar* ys = nullptr;
-  if ((ierr = VecGetArrayRead(v, &vs)) != 0) return ierr;
-  if ((ierr = VecGetArray(y, &ys)) != 0) return ierr;
-  const std::size_t n = c->tmp.size();
-  std::fill(c->tmp.begin(), c->tmp.end(), 0.0);
-  try {
-    (*c->nonlocal)(std::span<const double>(vs, n), c->tmp);
-  } catch (...) {
-    // An exception must not cross PETSc's C frames: a NaN makes GMRES stop with
-    // KSP_DIVERGED_NANORINF, which the caller reports.
-    std::fill(c->tmp.begin(), c->tmp.end(), std::numeric_limits<double>::quiet_NaN());
-  }
-  for (std::size_t i = 0; i < n; ++i) {
-    ys[i] = c->held[i] ? vs[i] : (ys[i] - c->tmp[i]) / c->weights[i];
-  }
-  (void)VecRestoreArray(y, &ys);
-  (void)VecRestoreArrayRead(v, &vs);
-  return 0;
+  return mult_minus_nonlocal(c->self->mat_, false, *c->nonlocal, c->tmp, v, y,
+                             [c](std::size_t i, double vi, double yi, double nl) {
+                               return c->held[i] ? vi : (yi - nl) / c->weights[i];
+                             });
 }
 
 // z = P^-1 W r (the LU factors of the block-tridiagonal part).
@@ -292,23 +305,8 @@ PetscErrorCode PtcLinearSolver::transpose_mult(Mat A, Vec v, Vec y) {
   PetscErrorCode ierr = MatShellGetContext(A, &raw);
   if (ierr != 0) return ierr;
   auto* c = static_cast<TransposeContext*>(raw);
-  ierr = MatMultTranspose(c->self->mat_, v, y);
-  if (ierr != 0) return ierr;
-  const PetscScalar* vs = nullptr;
-  PetscScalar* ys = nullptr;
-  if ((ierr = VecGetArrayRead(v, &vs)) != 0) return ierr;
-  if ((ierr = VecGetArray(y, &ys)) != 0) return ierr;
-  const std::size_t n = c->tmp.size();
-  std::fill(c->tmp.begin(), c->tmp.end(), 0.0);
-  try {
-    (*c->nonlocal)(std::span<const double>(vs, n), c->tmp);
-  } catch (...) {
-    std::fill(c->tmp.begin(), c->tmp.end(), std::numeric_limits<double>::quiet_NaN());
-  }
-  for (std::size_t i = 0; i < n; ++i) ys[i] -= c->tmp[i];
-  (void)VecRestoreArray(y, &ys);
-  (void)VecRestoreArrayRead(v, &vs);
-  return 0;
+  return mult_minus_nonlocal(c->self->mat_, true, *c->nonlocal, c->tmp, v, y,
+                             [](std::size_t, double, double yi, double nl) { return yi - nl; });
 }
 
 // z = A^-T r with the LU factors of A (MatSolveTranspose through the direct KSP).
