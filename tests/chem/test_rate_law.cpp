@@ -275,7 +275,8 @@ TEST_CASE("Pyrene CO + O + M follows its activation energy", "[chem][rate]") {
     REQUIRE(rx != nullptr);
     for (double T : {200.0, 300.0}) {
       INFO("T = " << T);
-      CHECK(rx->rate.low_pressure_limit(T) == Approx(2.2e-33 * std::exp(-1780.0 / T)).epsilon(0.03));
+      CHECK(rx->rate.low_pressure_limit(T) ==
+            Approx(2.2e-33 * std::exp(-1780.0 / T)).epsilon(0.03));
     }
     CHECK(rx->rate.low_pressure_limit(170.0) < rx->rate.low_pressure_limit(260.0));
   }
