@@ -167,19 +167,22 @@ std::string format_species_budget(const SpeciesBudget& b, std::size_t top) {
     }
     return h + "  reaction\n";
   };
-  auto rows = [&](const std::vector<BudgetTerm>& terms) {
+  // Band values are signed in the list's own sense (production: made; loss: removed), so a
+  // reversible term that runs the other way in a band (an exchange that condenses in one
+  // band and evaporates in another) shows there with a minus sign.
+  auto rows = [&](const std::vector<BudgetTerm>& terms, double sense) {
     std::string r;
     for (std::size_t i = 0; i < terms.size() && i < top; ++i) {
       const auto& t = terms[i];
       r += fmt::format("  {:<5} {:6.1f}% {:12.4e}", i + 1, 100.0 * t.share, std::abs(t.column));
-      for (double v : t.bands) r += fmt::format(" {:11.3e}", std::abs(v));
+      for (double v : t.bands) r += fmt::format(" {:11.3e}", sense * v);
       r += "  " + t.equation + "\n";
     }
     if (terms.size() > top) r += fmt::format("  ({} more)\n", terms.size() - top);
     return r;
   };
-  out += "production\n" + header("rank") + rows(b.production);
-  out += "loss\n" + header("rank") + rows(b.loss);
+  out += "production\n" + header("rank") + rows(b.production, 1.0);
+  out += "loss\n" + header("rank") + rows(b.loss, -1.0);
   if (nb > 0) {
     out += "  transport by band:";
     for (double v : b.band_transport) out += fmt::format(" {:+.3e}", v);

@@ -94,6 +94,15 @@ RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<
   cb.reject_reason = [&](const std::vector<double>& x) { return balance_defect(model, solver, x); };
   cb.on_iteration = [&](const SteadyIteration& it) {
     if (progress) progress->update(it);
+    // Where a solve spends its iterations: the entry that sets the residual and the one whose
+    // relative change bounded the step that led here (README "Steady solves per grid").
+    if (c.log != nullptr && c.log->should_log(spdlog::level::debug) && it.iteration > 0) {
+      c.log->debug(
+          "steady it {}: |F| {:.2e} at {}; change {:.2e} at {}{}", it.iteration, it.residual_norm,
+          describe_entry(model.system(), it.worst_cell, it.worst_species), it.max_relative_change,
+          describe_entry(model.system(), it.changed_cell, it.changed_species),
+          it.clipped ? " (clipped)" : "");
+    }
   };
   if (c.checkpoint) {
     cb.checkpoint = [&](int it, double dtau, const std::vector<double>& x) {

@@ -53,15 +53,27 @@ ScaledNorm scaled_residual_norm(const ColumnSystem& sys, std::span<const double>
   return scaled_norm(f, jac, x, scale);
 }
 
-double max_relative_change(std::span<const double> dx, std::span<const double> x,
-                           std::size_t species, const ResidualScale& scale) {
-  double m = 0.0;
+std::size_t max_relative_change_index(std::span<const double> dx, std::span<const double> x,
+                                      std::size_t species, const ResidualScale& scale) {
+  double m = -1.0;
+  std::size_t at = 0;
   for (std::size_t i = 0; i < x.size(); ++i) {
     const double c = std::abs(dx[i]) / (std::abs(x[i]) + scale.absolute(i % species));
-    if (!std::isfinite(c)) return std::numeric_limits<double>::quiet_NaN();
-    m = std::max(m, c);
+    if (!std::isfinite(c)) return i;
+    if (c > m) {
+      m = c;
+      at = i;
+    }
   }
-  return m;
+  return at;
+}
+
+double max_relative_change(std::span<const double> dx, std::span<const double> x,
+                           std::size_t species, const ResidualScale& scale) {
+  if (x.empty()) return 0.0;
+  const std::size_t i = max_relative_change_index(dx, x, species, scale);
+  const double c = std::abs(dx[i]) / (std::abs(x[i]) + scale.absolute(i % species));
+  return std::isfinite(c) ? c : std::numeric_limits<double>::quiet_NaN();
 }
 
 }  // namespace colchem

@@ -58,5 +58,8 @@ ScaledNorm scaled_residual_norm(const ColumnSystem& sys, std::span<const double>
 /// max_i |dx_i| / (|x_i| + a_s): the relative change of a step.
 double max_relative_change(std::span<const double> dx, std::span<const double> x,
                            std::size_t species, const ResidualScale& scale);
+/// The index i of that maximum (0 for an empty state; the first non-finite one if any).
+std::size_t max_relative_change_index(std::span<const double> dx, std::span<const double> x,
+                                      std::size_t species, const ResidualScale& scale);
 
 }  // namespace colchem

@@ -112,6 +112,7 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
   double last_change = std::numeric_limits<double>::infinity();
   double last_dtau = 0.0;
   bool last_clipped = false;  // the last step clipped a density at its positivity floor
+  std::size_t last_changed = 0;  // the entry of the largest relative change of that step
   double rejected_dtau = std::numeric_limits<double>::infinity();  // last dtau undone
   bool have_prev = false;
 
@@ -175,6 +176,9 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
     rec.max_relative_change = last_change;
     rec.worst_cell = norm.cell;
     rec.worst_species = norm.species;
+    rec.changed_cell = S > 0 ? last_changed / S : 0;
+    rec.changed_species = S > 0 ? last_changed % S : 0;
+    rec.clipped = last_clipped;
 
     auto record = [&](double step, double lambda) {
       rec.pseudo_step_s = step;
@@ -297,6 +301,9 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
       dx[i] = x[i] - x_prev[i];
     }
     last_change = max_relative_change(dx, x, S, o.scale);
+    // Where a cold start spends its iterations (README "Steady solves per grid"): the entry
+    // whose relative change bounds the step, reported with the next iteration.
+    last_changed = n > 0 ? max_relative_change_index(dx, x, S, o.scale) : 0;
     last_dtau = dtau;
     prev_norm = norm.value;
     have_prev = true;

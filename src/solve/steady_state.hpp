@@ -83,6 +83,9 @@ struct SteadyIteration {
   std::size_t worst_cell = 0;        ///< where ||F||_s is attained
   std::size_t worst_species = 0;
   int krylov_iterations = 0;         ///< GMRES iterations of the step taken from this state
+  std::size_t changed_cell = 0;      ///< where the step that led here changed most (relative)
+  std::size_t changed_species = 0;
+  bool clipped = false;  ///< that step hit the positivity limit for a non-negligible density
 };
 
 struct SteadyStateCallbacks {

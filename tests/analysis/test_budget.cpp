@@ -107,3 +107,23 @@ TEST_CASE("element budgets count the condensed phase and held-profile supply as 
     CHECK(b.profile_supply == 0.0);
   }
 }
+
+TEST_CASE("a band where a loss term runs backwards is printed with a minus sign",
+          "[budget][condensation]") {
+  // The exchange of the case above for H2SO4: it condenses in cell 0 (rate 3, a loss of
+  // 3e5 cm-2 s-1 over its 1 km band) and evaporates in cell 1 (rate -1: a gain of 1e5).
+  // By hand, the loss row lists +3.000e+05 and -1.000e+05; the column 2e5.
+  BudgetInputs in;
+  in.edge_cm = {0.0, 1e5, 2e5};
+  in.species = {"H2SO4"};
+  in.equations = {std::string("H2SO4 -> ") + kCondensedPhaseMarker};
+  in.net_stoichiometry = {-1};
+  in.reaction_rate = {3, -1};
+  in.transport_tendency = {-3, 1};
+  in.net_tendency = {0, 0};
+  const SpeciesBudget b = species_budget(in, "H2SO4", {0.0, 1e5, 2e5});
+  const std::string text = format_species_budget(b, 5);
+  INFO(text);
+  CHECK_THAT(text, Catch::Contains("  3.000e+05  -1.000e+05  H2SO4 -> "));
+  CHECK_THAT(text, Catch::Contains("2.0000e+05"));
+}

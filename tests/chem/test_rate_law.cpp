@@ -256,3 +256,28 @@ modules:
   CHECK(kin.rate_constants()[0] == Approx(1.4046e-13).epsilon(1e-4));
   CHECK(kin.rate_constants()[1] == Approx(1.4046e-13).epsilon(1e-4));
 }
+
+// CO + O + M -> CO2 + M in both shipped Pyrene mechanisms against the Arrhenius form it is
+// fitted to, k0 = 2.2e-33 exp(-1780/T) cm6 s-1 (Tsang and Hampson 1986, from memory): the
+// power-law fit k0_300 (T/300)^-n with n = -7.3 passes through it at 300 K (2.2e-33 x
+// exp(-5.933) = 5.83e-36) and 200 K (2.2e-33 x exp(-8.9) = 3.00e-37) and, like it, rises
+// with T. The compact file once had n = +7.3: 1.12e-34 at 200 K, 370x too fast.
+TEST_CASE("Pyrene CO + O + M follows its activation energy", "[chem][rate]") {
+  const UnitSystem units;
+  for (const char* file : {COLCHEM_SOURCE_DIR "/configs/mechanisms/pyrene.yaml",
+                           COLCHEM_SOURCE_DIR "/configs/mechanisms/pyrene_extended.yaml"}) {
+    INFO(file);
+    const auto m = load_mechanism(file, units);
+    const Reaction* rx = nullptr;
+    for (const auto& r : m->reactions) {
+      if (r.equation == "CO + O + M -> CO2 + M") rx = &r;
+    }
+    REQUIRE(rx != nullptr);
+    for (double T : {200.0, 300.0}) {
+      INFO("T = " << T);
+      CHECK(rx->rate.low_pressure_limit(T) ==
+            Approx(2.2e-33 * std::exp(-1780.0 / T)).epsilon(0.03));
+    }
+    CHECK(rx->rate.low_pressure_limit(170.0) < rx->rate.low_pressure_limit(260.0));
+  }
+}

@@ -12,7 +12,14 @@
 #    of seconds to hours against condensation, shorter than its production time there;
 #    README "Results on Pyrene");
 #  - every element's column budget closes to 1e-10 relative (boundary + chemistry +
-#    condensed phase; mass conservation).
+#    condensed phase; mass conservation);
+#  - the upper haze evaporates in the warm layer (profiles/pyrene_haze_evaporating.csv and
+#    pyrene_temperature_warm_layer.csv, invented): at 108 cells, in the droplet cells above
+#    99.5 km the H2SO4 vapour is below its saturation density and the gas gains from the
+#    exchange exactly k (n_sat - n), k = vbar A / 4 with vbar = sqrt(8 k_B T / (pi m))
+#    (free-molecular uptake, Seinfeld and Pandis ch. 11, from memory; m from the IUPAC
+#    abridged atomic weights), recomputed here to 1e-6; the vapour there is
+#    physical (at most saturation, not the supersaturated reservoir of the cold haze).
 set -eu
 colchem=$1; root=$2; work=$3
 mkdir -p "$work"; cd "$work"
@@ -40,4 +47,32 @@ pa = np.exp(np.interp(zz, z1, np.log(a))); pb = np.exp(np.interp(zz, z2, np.log(
 worst = np.max(np.abs(pa / pb - 1.0))
 assert worst <= 0.02, f"SO2 at 108 and 216 cells differ by {worst:.3%}"
 print(f"ok: converged at 54, 108, 216 cells; SO2 108 vs 216 cells within {worst:.2%} at 60-110 km")
+PY
+HAZE=$root/profiles/pyrene_haze_evaporating.csv /usr/bin/python3 - <<'PY'
+import math, os
+import netCDF4
+import numpy as np
+K_B, N_A = 1.380649e-16, 6.02214076e23                  # CODATA 2018 / SI exact
+M = (2 * 1.008 + 32.06 + 4 * 15.999) / N_A              # g per H2SO4 molecule
+d = netCDF4.Dataset("e108.nc")
+sp = [str(s) for s in d["species"][:]]
+h = sp.index("H2SO4")
+t = [str(e) for e in d["exchange_equation"][:]].index("H2SO4 -> (condensed phase)")
+r = [str(e) for e in d["reaction_equation"][:]].index("H2SO4 -> (condensed phase)")
+z = np.asarray(d["altitude"][:], dtype=float); T = np.asarray(d["temperature"][:], dtype=float)
+n = np.asarray(d["number_density"][:], dtype=float)[h]
+n_sat = np.asarray(d["exchange_equilibrium_density"][:], dtype=float)[t]
+gain = np.asarray(d["net_stoichiometry"][:], dtype=float)[r, h] * np.asarray(d["reaction_rate"][:], dtype=float)[r]
+rows = np.genfromtxt(os.environ["HAZE"], delimiter=",", comments="#")
+rows = rows[~np.isnan(rows).any(axis=1)]                 # the column-name line
+area = np.interp(z, rows[:, 0], rows[:, 1])
+k = 0.25 * np.sqrt(8 * K_B * T / (math.pi * M)) * area
+warm = (z > 99.5) & (area > 0)
+assert warm.sum() >= 4, warm.sum()
+for j in np.where(warm)[0]:
+    assert n[j] < n_sat[j], (z[j], n[j], n_sat[j])
+    want = k[j] * (n_sat[j] - n[j])
+    assert abs(gain[j] - want) <= 1e-6 * want, (z[j], gain[j], want)
+print(f"ok: the haze evaporates in {int(warm.sum())} cells at {z[warm].min():.2f}-{z[warm].max():.2f} km; "
+      f"vapour {n[warm].min() / n_sat[warm].max():.2g}-{(n / np.where(n_sat > 0, n_sat, np.inf))[warm].max():.2g} of saturation there")
 PY

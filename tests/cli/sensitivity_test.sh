@@ -23,11 +23,16 @@ run() {  # name, then the arguments
 run pyrene_chi2 "$root/configs/pyrene_full.yaml" --objective chi2 --observations "$obs" --check 20
 run pyrene_column "$root/configs/pyrene_full.yaml" --objective column --species SO2 --check 5
 # Named parameters that act on the photolysis data or on a photolysis reaction's scale
-# (the overtone and UV modules switched on): their log-sensitivities are ~1e-4, so the
-# step is 3e-2: the differences at 1e-3, 1e-2, 3e-2 are 1.8e-3, 2.8e-4, 1.7e-5 for
-# overtone_scale, falling as 1/h, the resolution of the solve (truncation is smaller).
+# (the overtone and UV modules switched on), on the H2SO4 vapour at 105 km, above the haze,
+# where photolysis is its main loss (log-sensitivities -0.34 for h2so4_uv_scale and -0.0093
+# for overtone_scale), step 3e-2. The H2SO4 column was the objective before the CO + O + M
+# sign fix; since, overtone_scale's log-sensitivity on it is 3e-5, below what the full
+# solve resolves: its central differences at steps 3e-2, 0.1, 0.3 scatter around the
+# adjoint by +7.9e-4, -3.6e-4, +5.8e-5 (noise ~1/h), so that check could not tell a wrong
+# adjoint from a right one.
 run pyrene_photo_parameters "$root/configs/pyrene_full.yaml" \
-  --set "chemistry.modules=[base, h2so4_overtone, h2so4_uv]" --objective column --species H2SO4 \
+  --set "chemistry.modules=[base, h2so4_overtone, h2so4_uv]" --objective mole_fraction \
+  --species H2SO4 --altitude 105 \
   --check 0 --check-parameter overtone_scale --check-parameter h2so4_uv_scale --check-step 3e-2
 run tellin_aerosol "$root/configs/tellin.yaml" --set solver.method=steady \
   --objective column --species "H2SO4(aer)" --check 20
