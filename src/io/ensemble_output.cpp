@@ -131,6 +131,10 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
     Field oz{"observation_altitude", {"observation"}, {"km", "altitude", "altitude", {}}, {}};
     Field ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
     Field ou{"observation_upper_limit", {"observation"}, {"1", "1 for an upper limit", "", {}}, {}};
+    Field os{"observation_uncertainty",
+             {"observation"},
+             {"1", "1-sigma uncertainty of the observed value (0: upper limit)", "", {}},
+             {}};
     Field ob{"observation_base_model",
              {"observation"},
              {"1", "base state's mole fraction there", "", {}},
@@ -152,12 +156,13 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
       oz.data.push_back(p.point.altitude_cm / constants::kCmPerKm);
       ov.data.push_back(p.point.value);
       ou.data.push_back(p.point.upper_limit ? 1.0 : 0.0);
+      os.data.push_back(p.point.uncertainty);
       ob.data.push_back(p.inside ? p.base_model : std::numeric_limits<double>::quiet_NaN());
       ol.data.push_back(p.low95);
       oh.data.push_back(p.high95);
       oi.data.push_back(p.inside95);
     }
-    fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, ob, ol, oh, oi});
+    fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, os, ob, ol, oh, oi});
   }
 
   if (!r.attribution.empty()) {
