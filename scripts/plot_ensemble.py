@@ -74,8 +74,10 @@ def envelope_figure(ds, species):
             err = (values(ds["observation_uncertainty"])[keep]
                    if "observation_uncertainty" in ds.variables else np.zeros_like(ov))
             if (~lim).any():
-                ax.errorbar(ov[~lim], oz[~lim], xerr=err[~lim], fmt="o", color="tab:red",
-                            ms=5, capsize=2, label="observed", gid="observed")
+                ax.errorbar(ov[~lim], oz[~lim], xerr=err[~lim], fmt="none", ecolor="tab:red",
+                            capsize=2)
+                ax.plot(ov[~lim], oz[~lim], "o", color="tab:red", ms=5, label="observed",
+                        gid="observed")
             if lim.any():
                 ax.plot(ov[lim], oz[lim], "<", color="tab:red", ms=7, label="upper limit",
                         gid="upper_limit")
