@@ -144,6 +144,13 @@ EnsembleAttribution attribute_target(ColumnModel& model, const Scenario& sc,
   sopt.eddy_bands = 0;
   sopt.shift = 1.0 / steady_options(sc.solver).max_pseudo_step_s;
   const SensitivityResult sens = compute_sensitivities(model, obj, x, sopt);
+  if (!(sens.value > 0.0)) {
+    throw RunError(
+        ExitCode::kNotConverged,
+        fmt::format("attribution: the base state's {} at {} km is {}, not positive: "
+                    "no variance of its logarithm",
+                    model.species()[t.species], t.altitude_cm / constants::kCmPerKm, sens.value));
+  }
 
   const Kinetics& kin = model.chemistry().kinetics();
   const Mechanism& mech = kin.mechanism();
@@ -409,8 +416,13 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
     }
 
     // 5. Attribution: one adjoint solve of the base state per target.
+    //    A target whose adjoint fails is reported and left out; the ensemble is still written.
     for (const auto& t : targets) {
-      res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o->sigmas, values));
+      try {
+        res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o->sigmas, values));
+      } catch (const RunError& e) {
+        ctx.log->warn("attribution left out: {}", e.what());
+      }
     }
 
     NcWriter nc(output);
