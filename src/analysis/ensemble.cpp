@@ -116,8 +116,12 @@ std::vector<std::vector<double>> ensemble_percentiles(
   return out;
 }
 
+double ensemble_log_sigma(const RateUncertainty& u, double T_K, double sigmas) {
+  return std::log(u.factor(T_K)) / sigmas;
+}
+
 double ensemble_rate_factor(double z, const RateUncertainty& u, double T_K, double sigmas) {
-  return std::exp(z * std::log(u.factor(T_K)) / sigmas);
+  return std::exp(z * ensemble_log_sigma(u, T_K, sigmas));
 }
 
 }  // namespace colchem

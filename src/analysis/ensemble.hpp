@@ -54,8 +54,11 @@ namespace colchem {
 std::vector<std::vector<double>> ensemble_percentiles(
     const std::vector<std::vector<double>>& member_values);
 
-/// The rate factor of one reaction in one member at temperature T (see the header comment):
-/// exp(z ln f(T) / sigmas), f(T) = RateUncertainty::factor.
+/// The standard deviation of ln k of one reaction at temperature T (see the header comment):
+/// ln f(T) / sigmas, f(T) = RateUncertainty::factor.
+double ensemble_log_sigma(const RateUncertainty& u, double T_K, double sigmas);
+
+/// The rate factor of one reaction in one member at temperature T: exp(z ensemble_log_sigma).
 double ensemble_rate_factor(double z, const RateUncertainty& u, double T_K, double sigmas);
 
 }  // namespace colchem

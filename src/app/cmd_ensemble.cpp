@@ -3,7 +3,11 @@
 // state from the base state (on MPI ranks with the sweep's dynamic balancing), and writes
 // per altitude the percentiles of every species' mole fraction, the distribution of the
 // chi-square against the observations, each member's draws, and which observed points lie
-// inside the base network's 95 % band.
+// inside the base network's 95 % band. With --attribution / --attribute, the variance of
+// ln(mole fraction) at chosen points is attributed to the reactions to first order from the
+// adjoint sensitivities of the base state (analysis/attribution.hpp) and compared with the
+// ensemble's own variance there: here, not in `colchem sensitivity`, because the check needs
+// the members and both must use the same uncertainties and --sigmas.
 #include <mpi.h>
 
 #include <fmt/format.h>
@@ -13,6 +17,7 @@
 #include <iostream>
 #include <limits>
 
+#include "analysis/attribution.hpp"
 #include "analysis/ensemble.hpp"
 #include "analysis/observations.hpp"
 #include "analysis/score.hpp"
@@ -23,9 +28,11 @@
 #include "io/ensemble_output.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
+#include "solve/adjoint.hpp"
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
+#include "solve/solver_options.hpp"
 
 namespace colchem::app {
 
@@ -61,6 +68,130 @@ std::vector<double> mole_fractions(const ColumnModel& model, std::span<const dou
   return f;
 }
 
+struct AttributionTarget {
+  std::size_t species = 0;
+  double altitude_cm = 0.0;
+};
+
+/// The targets: every observed point of a model species inside the column (with
+/// `observed`), then every SPECIES@KM of `--attribute`, each once.
+std::vector<AttributionTarget> attribution_targets(const ColumnModel& model, const Scenario& sc,
+                                                   const ObservationSet& obs, bool observed,
+                                                   const std::vector<std::string>& extra) {
+  std::vector<AttributionTarget> out;
+  const auto& names = model.species();
+  const auto& zc = model.background().grid.center_cm;
+  const auto add = [&](std::size_t s, double z) {
+    for (const auto& t : out) {
+      if (t.species == s && t.altitude_cm == z) return;
+    }
+    out.push_back({s, z});
+  };
+  if (observed || !extra.empty()) {
+    for (const auto& p : obs.points) {
+      const auto it = std::find(names.begin(), names.end(), p.species);
+      if (it == names.end()) continue;
+      const auto s = static_cast<std::size_t>(it - names.begin());
+      if (model.held(s) || p.altitude_cm < zc.front() || p.altitude_cm > zc.back()) continue;
+      add(s, p.altitude_cm);
+    }
+  }
+  for (const auto& text : extra) {
+    const auto at = text.find('@');
+    const std::string name = text.substr(0, at);
+    const auto it = std::find(names.begin(), names.end(), name);
+    double km = kNaN();
+    if (at != std::string::npos) {
+      try {
+        std::size_t used = 0;
+        km = std::stod(text.substr(at + 1), &used);
+        if (used != text.size() - at - 1) km = kNaN();
+      } catch (const std::exception&) {
+        km = kNaN();
+      }
+    }
+    const double z = km * constants::kCmPerKm;
+    if (it == names.end() || model.held(static_cast<std::size_t>(it - names.begin())) ||
+        !(z >= zc.front() && z <= zc.back())) {
+      throw InputError(
+          ExitCode::kUsage, SourceLocation{sc.file.string()}, "--attribute",
+          fmt::format("SPECIES@KM with a species of the model that is not held "
+                      "and an altitude within the cell centres, {:.4g}-{:.4g} km",
+                      zc.front() / constants::kCmPerKm, zc.back() / constants::kCmPerKm),
+          "'" + text + "'");
+    }
+    add(static_cast<std::size_t>(it - names.begin()), z);
+  }
+  return out;
+}
+
+/// The first-order attribution of one target (analysis/attribution.hpp) from the adjoint of
+/// the base state x, and the ensemble's own variance of ln x there over the converged
+/// members' mole fractions `values` (interpolated as the objective interpolates).
+EnsembleAttribution attribute_target(ColumnModel& model, const Scenario& sc,
+                                     std::span<const double> x, const AttributionTarget& t,
+                                     double sigmas,
+                                     const std::vector<std::vector<double>>& values) {
+  const std::size_t N = model.cells();
+  const auto& zc = model.background().grid.center_cm;
+  const auto& T = model.background().temperature_K;
+  Objective obj;
+  obj.kind = ObjectiveKind::kMoleFraction;
+  obj.species = t.species;
+  obj.altitude_cm = t.altitude_cm;
+  obj.units = "1";
+  SensitivityOptions sopt;
+  sopt.eddy_bands = 0;
+  sopt.shift = 1.0 / steady_options(sc.solver).max_pseudo_step_s;
+  const SensitivityResult sens = compute_sensitivities(model, obj, x, sopt);
+  if (!(sens.value > 0.0)) {
+    throw RunError(
+        ExitCode::kNotConverged,
+        fmt::format("attribution: the base state's {} at {} km is {}, not positive: "
+                    "no variance of its logarithm",
+                    model.species()[t.species], t.altitude_cm / constants::kCmPerKm, sens.value));
+  }
+
+  const Kinetics& kin = model.chemistry().kinetics();
+  const Mechanism& mech = kin.mechanism();
+  const std::size_t A = kin.reaction_count();
+  std::vector<double> sigma(A * N);
+  for (std::size_t a = 0; a < A; ++a) {
+    const auto& u = mech.reactions[kin.mechanism_reaction(a)].uncertainty;
+    for (std::size_t j = 0; j < N; ++j) sigma[a * N + j] = ensemble_log_sigma(u, T[j], sigmas);
+  }
+  const AttributionTerms terms =
+      first_order_attribution(sens.reaction_profile, sens.value, sigma, A, N);
+
+  EnsembleAttribution out;
+  out.species = model.species()[t.species];
+  out.altitude_cm = t.altitude_cm;
+  out.base_value = sens.value;
+  out.first_order_variance = terms.variance;
+  out.largest_scaled = terms.largest_scaled;
+  const std::size_t R = mech.reactions.size();
+  out.log_sensitivity.assign(R, 0.0);
+  out.scaled.assign(R, 0.0);
+  out.share.assign(R, 0.0);
+  for (std::size_t a = 0; a < A; ++a) {
+    const std::size_t r = kin.mechanism_reaction(a);
+    out.log_sensitivity[r] = terms.log_sensitivity[a];
+    out.scaled[r] = terms.scaled[a];
+    out.share[r] = terms.share[a];
+  }
+  std::vector<double> ln_x;
+  for (const auto& v : values) {
+    if (v.empty()) continue;
+    const double f = interpolate_log_profile(
+        zc, std::span<const double>(v).subspan(t.species * N, N), t.altitude_cm);
+    ln_x.push_back(std::log(f));
+  }
+  out.ensemble_variance = sample_variance(ln_x);
+  out.ensemble_members = static_cast<double>(ln_x.size());
+  out.agree = attribution_agrees(out.first_order_variance, out.ensemble_variance) ? 1 : 0;
+  return out;
+}
+
 }  // namespace
 
 void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
@@ -79,6 +210,8 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
     std::string sampling = "latin_hypercube";
     double sigmas = 1.0;
     double above_km = 90.0;
+    bool attribution = false;
+    std::vector<std::string> attribute;
   };
   auto o = std::make_shared<Options>();
   cmd->add_option("CONFIG", o->config, "Scenario file (YAML) with a steady solver")
@@ -99,6 +232,13 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
   cmd->add_option("--above", o->above_km,
                   "Altitude (km) above which the chance that a member reaches the observed "
                   "values is reported");
+  cmd->add_flag("--attribution", o->attribution,
+                "Attribute the variance of ln(mole fraction) at every observed point to the "
+                "reactions (first order, from the adjoint sensitivities of the base state) and "
+                "compare it with the ensemble's own variance");
+  cmd->add_option("--attribute", o->attribute,
+                  "An attribution target SPECIES@KM, e.g. SO2@90 (repeatable; implies "
+                  "--attribution, adds to the observed points)");
   out.emplace_back(cmd, [o](Context& ctx) {
     const PetscSession petsc;  // initialises MPI as well
     int rank = 0, size = 1;
@@ -121,6 +261,8 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
                                              : std::filesystem::path(o->output);
     ObservationSet obs;
     if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+    const std::vector<AttributionTarget> targets =
+        attribution_targets(base_model, sc, obs, o->attribution, o->attribute);
     const InterruptGuard interrupt;
 
     // 1. The base state, solved on every rank (the same deterministic solve), from which
@@ -270,6 +412,16 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
         res.reach_probability.push_back(total > 0 && npts > 0 ? static_cast<double>(reach) /
                                                                     static_cast<double>(total)
                                                               : kNaN());
+      }
+    }
+
+    // 5. Attribution: one adjoint solve of the base state per target.
+    //    A target whose adjoint fails is reported and left out; the ensemble is still written.
+    for (const auto& t : targets) {
+      try {
+        res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o->sigmas, values));
+      } catch (const RunError& e) {
+        ctx.log->warn("attribution left out: {}", e.what());
       }
     }
 

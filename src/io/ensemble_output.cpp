@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <iterator>
 #include <limits>
@@ -130,6 +131,10 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
     Field oz{"observation_altitude", {"observation"}, {"km", "altitude", "altitude", {}}, {}};
     Field ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
     Field ou{"observation_upper_limit", {"observation"}, {"1", "1 for an upper limit", "", {}}, {}};
+    Field os{"observation_uncertainty",
+             {"observation"},
+             {"1", "1-sigma uncertainty of the observed value (0: upper limit)", "", {}},
+             {}};
     Field ob{"observation_base_model",
              {"observation"},
              {"1", "base state's mole fraction there", "", {}},
@@ -151,12 +156,75 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
       oz.data.push_back(p.point.altitude_cm / constants::kCmPerKm);
       ov.data.push_back(p.point.value);
       ou.data.push_back(p.point.upper_limit ? 1.0 : 0.0);
+      os.data.push_back(p.point.uncertainty);
       ob.data.push_back(p.inside ? p.base_model : std::numeric_limits<double>::quiet_NaN());
       ol.data.push_back(p.low95);
       oh.data.push_back(p.high95);
       oi.data.push_back(p.inside95);
     }
-    fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, ob, ol, oh, oi});
+    fields.insert(fields.end(), {bc, mc, cp, rp, rn, oz, ov, ou, os, ob, ol, oh, oi});
+  }
+
+  if (!r.attribution.empty()) {
+    nc.dimension("target", r.attribution.size());
+    nc.global_text(
+        "attribution_method",
+        "first order (delta method): Var_1(ln x) = sum_r a_r^2, a_r = sum_j S_rj ln f_r(T_j) / "
+        "sigmas, S_rj = d ln x / d ln k_r(z_j) from the discrete adjoint of the base state, "
+        "each cell at its own temperature; share_r = a_r^2 / Var_1; compared with the sample "
+        "variance (n - 1) of ln x over the converged members, agreement when within 20 %");
+    texts.push_back({"attribution_species", "target", "species of the attribution target", {}});
+    Field az{"attribution_altitude", {"target"}, {"km", "altitude", "altitude", {}}, {}};
+    Field ab{"attribution_base_value",
+             {"target"},
+             {"1", "base state's mole fraction at the target", "", {}},
+             {}};
+    Field a1{"attribution_first_order_variance",
+             {"target"},
+             {"1", "first-order variance of ln(mole fraction) from the adjoint", "", {}},
+             {}};
+    Field ae{"attribution_ensemble_variance",
+             {"target"},
+             {"1", "sample variance of ln(mole fraction) over the converged members", "", {}},
+             {}};
+    Field an{"attribution_ensemble_members",
+             {"target"},
+             {"1", "converged members behind the ensemble variance", "", {}},
+             {}};
+    Field al{"attribution_largest_scaled_sensitivity",
+             {"target"},
+             {"1", "largest |S_r sigma_r| over the reactions (large: nonlinear)", "", {}},
+             {}};
+    Field ag{"attribution_agree",
+             {"target"},
+             {"1", "1 where the first-order variance is within 20 % of the ensemble's", "", {}},
+             {}};
+    Field as{"attribution_log_sensitivity",
+             {"target", "reaction"},
+             {"1", "d ln(mole fraction) / d ln k over the whole column (0: inactive)", "", {}},
+             {}};
+    Field aa{"attribution_scaled_sensitivity",
+             {"target", "reaction"},
+             {"1", "a_r = sum_j S_rj sigma_r(T_j): the reaction's 1-sigma effect on ln x", "", {}},
+             {}};
+    Field ash{"attribution_share",
+              {"target", "reaction"},
+              {"1", "the reaction's share of the first-order variance", "", {}},
+              {}};
+    for (const auto& a : r.attribution) {
+      texts.back().data.push_back(a.species);
+      az.data.push_back(a.altitude_cm / constants::kCmPerKm);
+      ab.data.push_back(a.base_value);
+      a1.data.push_back(a.first_order_variance);
+      ae.data.push_back(a.ensemble_variance);
+      an.data.push_back(a.ensemble_members);
+      al.data.push_back(a.largest_scaled);
+      ag.data.push_back(a.agree);
+      as.data.insert(as.data.end(), a.log_sensitivity.begin(), a.log_sensitivity.end());
+      aa.data.insert(aa.data.end(), a.scaled.begin(), a.scaled.end());
+      ash.data.insert(ash.data.end(), a.share.begin(), a.share.end());
+    }
+    fields.insert(fields.end(), {az, ab, a1, ae, an, al, ag, as, aa, ash});
   }
 
   write_fields(nc, bg, texts, fields);
@@ -203,6 +271,46 @@ std::string ensemble_summary_text(const EnsembleResults& r) {
           "{}: chance that the network alone reaches the {} detected points above {} km (each at "
           "least observed - 1 sigma): {:.3g}\n",
           r.scored_species[s], r.reach_points[s], r.above_km, r.reach_probability[s]);
+    }
+  }
+  if (!r.attribution.empty()) {
+    out +=
+        "variance of ln(mole fraction): first order from the adjoint (sum_r (S_r sigma_r)^2) "
+        "against the ensemble's own\n";
+  }
+  for (const auto& a : r.attribution) {
+    const double ratio = a.first_order_variance / a.ensemble_variance;
+    // The sampling error of a sample variance of n normal values, sqrt(2 / (n - 1)) relative
+    // (Latin hypercube sampling does no worse for monotone responses: McKay et al. 1979).
+    const double rel_se = std::sqrt(2.0 / (a.ensemble_members - 1.0));
+    std::string verdict;
+    if (a.agree == 1) {
+      verdict = "agree within 20 %";
+    } else if (std::isfinite(ratio) && std::abs(ratio - 1.0) < 2.0 * rel_se) {
+      verdict = fmt::format("DIFFER by {:+.0f} %, within 2 sampling errors of {:.0f} members",
+                            100.0 * (ratio - 1.0), a.ensemble_members);
+    } else if (std::isfinite(ratio)) {
+      verdict = fmt::format("DIFFER by {:+.0f} % (largest |S sigma| {:.2g}: {})",
+                            100.0 * (ratio - 1.0), a.largest_scaled,
+                            // 0.3: ln x moves by more than 35 % per sigma of one reaction
+                            // (rule of thumb, common practice, no source).
+                            a.largest_scaled > 0.3 ? "nonlinear: first order not valid here"
+                                                   : "sampling or interactions");
+    } else {
+      verdict = "no ensemble variance to compare";
+    }
+    out += fmt::format("  {:<8} {:7.2f} km  first order {:.3g}  ensemble {:.3g}  {}\n", a.species,
+                       a.altitude_cm / constants::kCmPerKm, a.first_order_variance,
+                       a.ensemble_variance, verdict);
+    std::vector<std::size_t> order(a.share.size());
+    for (std::size_t k = 0; k < order.size(); ++k) order[k] = k;
+    std::sort(order.begin(), order.end(),
+              [&](std::size_t i, std::size_t j) { return a.share[i] > a.share[j]; });
+    for (std::size_t k = 0; k < std::min<std::size_t>(3, order.size()); ++k) {
+      const std::size_t i = order[k];
+      if (!(a.share[i] > 0.0)) break;
+      out += fmt::format("      {:5.1f} %  S {:+.3g}  S sigma {:+.3g}  {}\n", 100.0 * a.share[i],
+                         a.log_sensitivity[i], a.scaled[i], r.equations[i]);
     }
   }
   return out;

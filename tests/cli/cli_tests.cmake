@@ -209,6 +209,17 @@ add_test(NAME cli.ensemble
           ${CMAKE_CURRENT_BINARY_DIR}/ensemble_work)
 set_tests_properties(cli.ensemble PROPERTIES PROCESSORS 2)
 colchem_cli_test(help_ensemble 0 "latin_hypercube" $<TARGET_FILE:colchem> ensemble --help)
+# First-order variance attribution against the closed form and the ensemble, and flagged
+# where it is not valid.
+add_test(NAME cli.ensemble_attribution
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/attribution_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/attribution_work)
+# The ensemble plots from a small real Pyrene run: PNGs written, numbers drawn from the file.
+add_test(NAME cli.plot_ensemble
+  COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/plot_ensemble_test.py $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/plot_ensemble)
+colchem_cli_test(ensemble_attribute_bad 2 "--attribute': expected SPECIES@KM"
+  $<TARGET_FILE:colchem> ensemble ${CMAKE_CURRENT_LIST_DIR}/ensemble/linear_loss.yaml --attribute SO@900)
 
 # H2SO4 vapour over the haze in the shipped Pyrene base state (pyrene_full.yaml as shipped):
 # the run file's exchange variables against the kinetic uptake law, the closed-form local
