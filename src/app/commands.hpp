@@ -31,5 +31,6 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
 void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
+void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 
 }  // namespace colchem::app
