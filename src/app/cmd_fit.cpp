@@ -174,6 +174,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     std::vector<std::string> sets, params;
     bool linear = false, check = false, benchmark = false;
     int max_iterations = 50;
+    double gatol = 1e-3;
     double check_tolerance = 1e-4, check_step = 1e-3;
   };
   auto o = std::make_shared<Options>();
@@ -196,6 +197,10 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       ->check(CLI::ExistingFile);
   cmd->add_option("--max-iterations", o->max_iterations, "Gauss-Newton iterations at most")
       ->capture_default_str();
+  cmd->add_option("--gradient-tolerance", o->gatol,
+                  "Converged when the gradient norm of chi2/2 in the fitted variables is below "
+                  "this (the step left is then at most sigma^2 times it)")
+      ->capture_default_str();
   cmd->add_flag("--check", o->check,
                 "Before fitting, compare the chi-square gradient 2 J^T r of the fit's Jacobian "
                 "with central finite differences of the full steady solve at the start (exit 1 "
@@ -208,7 +213,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
                   "relative to |p|)")
       ->capture_default_str();
   cmd->add_flag("--benchmark", o->benchmark,
-                "Also time one warm steady solve (K x 1.01 from the start state) and print the "
+                "Also time one warm steady solve (K x 1.01 from the fitted state) and print the "
                 "fit's cost in such solves");
   out.emplace_back(cmd, [o](Context& ctx) {
     // 1. The scenario, the observations and the fitted parameters.
@@ -279,7 +284,9 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     FitOptions fopt;
     fopt.log_space = !o->linear;
     fopt.max_iterations = o->max_iterations;
+    fopt.gatol = o->gatol;
     fopt.log = ctx.log.get();
+    fopt.stop_requested = interrupt.query();
     int status = 0;
 
     // 3. The gradient check (before the fit: at the best fit the gradient vanishes).

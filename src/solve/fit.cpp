@@ -80,21 +80,43 @@ void FitProblem::apply(std::span<const double> u) {
   }
 }
 
-bool FitProblem::residuals(std::span<const double> u, std::vector<double>& r) {
+bool FitProblem::solve_to(std::span<const double> u, int depth) {
   apply(u);
   RunControls controls;
   controls.warm_start = true;
-  const RunOutcome run = run_column(model_, solver_, x_, controls);
+  controls.stop_requested = opt_.stop_requested;
+  SolverSpec solver = solver_;
+  solver.max_iterations = std::min(solver.max_iterations, opt_.max_solve_iterations);
+  const RunOutcome run = run_column(model_, solver, x_, controls);
   ++stats_.steady_solves;
   stats_.newton_iterations += run.iterations;
   stats_.steady_s += run.wall_s;
-  if (run.status != SolveStatus::kConverged) {
-    if (opt_.log) opt_.log->warn("fit: steady solve failed at this trial point: {}", run.reason);
+  if (run.status == SolveStatus::kInterrupted) {
+    throw RunError(ExitCode::kInterrupted, "fit: interrupted");
+  }
+  // The residual test alone also passes: round-off in the densities of trace species can
+  // keep the step test of a tight solve (a finite-difference check) from passing once the
+  // residual is at its floor (as solve/adjoint.cpp finite_difference).
+  if (run.status == SolveStatus::kConverged ||
+      (run.status == SolveStatus::kNotConverged && run.residual_norm <= solver.tolerance)) {
+    x_ = run.x;
+    u_.assign(u.begin(), u.end());
+    return true;
+  }
+  if (depth == 0) return false;
+  // Continuation: half-way first, from there to u.
+  std::vector<double> mid(u.size());
+  for (std::size_t k = 0; k < u.size(); ++k) mid[k] = 0.5 * (u_[k] + u[k]);
+  const std::vector<double> target(u.begin(), u.end());
+  return solve_to(mid, depth - 1) && solve_to(target, depth - 1);
+}
+
+bool FitProblem::residuals(std::span<const double> u, std::vector<double>& r) {
+  if (!solve_to(u, opt_.continuation_depth)) {
+    if (opt_.log) opt_.log->warn("fit: no steady state at this trial point; the step is shortened");
     apply(u_);
     return false;
   }
-  x_ = run.x;
-  u_.assign(u.begin(), u.end());
   model_.refresh(x_);
   const auto res = observation_residuals(model_, obs_, opt_.log_space, x_);
   r.resize(res.size());

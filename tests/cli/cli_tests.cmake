@@ -245,7 +245,7 @@ include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)
 add_test(NAME cli.fit
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/fit_work)
-colchem_cli_test(help_fit 0 "--param.*chemistry.parameters.NAME" $<TARGET_FILE:colchem> fit --help)
+colchem_cli_test(help_fit 0 "PATH:MIN:MAX:log, PATH one of chemistry.parameters.NAME" $<TARGET_FILE:colchem> fit --help)
 set(LINEAR ${CMAKE_SOURCE_DIR}/tests/cli/ensemble/linear_loss.yaml)
 colchem_cli_test(fit_unknown_path 2
   "linear_loss.yaml: '--param': expected PATH:MIN:MAX.*found 'chemistry.rates.k1:0.1:10'"
