@@ -115,11 +115,10 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
                         bc.kind == BoundaryKind::kDepositionVelocity ||
                         bc.kind == BoundaryKind::kEscapeVelocity;
     if (!valued || kind != parts[3] || bc.value.value.size() != 1) {
-      throw bad(fmt::format("the {} boundary of {} as it is set in the scenario: {}", parts[2],
-                            parts[1],
-                            valued && bc.value.value.size() == 1
-                                ? "species." + parts[1] + "." + parts[2] + "." + kind
-                                : kind + " (no single value to fit)"));
+      throw bad(fmt::format(
+          "the {} boundary of {} as it is set in the scenario: {}", parts[2], parts[1],
+          valued && bc.value.value.size() == 1 ? "species." + parts[1] + "." + parts[2] + "." + kind
+                                               : kind + " (no single value to fit)"));
     }
     p.initial = bc.value.value[0];
   } else if (p.path.rfind(eddy, 0) == 0) {
@@ -137,16 +136,17 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
       }
       bool num_ok = true;
       const double lo = number(rest.substr(1, dash - 1), num_ok) * constants::kCmPerKm;
-      const double hi = number(rest.substr(dash + 1, rest.size() - dash - 2), num_ok) *
-                        constants::kCmPerKm;
+      const double hi =
+          number(rest.substr(dash + 1, rest.size() - dash - 2), num_ok) * constants::kCmPerKm;
       std::vector<std::size_t> in;
       for (std::size_t e = 0; e < edges.size(); ++e) {
         if (edges[e] >= lo && edges[e] <= hi) in.push_back(e);
       }
       if (!num_ok || in.empty()) {
-        throw bad(fmt::format("atmosphere.eddy_diffusion[LO-HI] (km) holding at least one cell "
-                              "edge ({:.4g}-{:.4g} km)",
-                              edges.front() * 1e-5, edges.back() * 1e-5));
+        throw bad(
+            fmt::format("atmosphere.eddy_diffusion[LO-HI] (km) holding at least one cell "
+                        "edge ({:.4g}-{:.4g} km)",
+                        edges.front() * 1e-5, edges.back() * 1e-5));
       }
       p.edge_lo = in.front();
       p.edge_hi = in.back();
@@ -155,8 +155,8 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
     throw bad(kParamSyntax);
   }
   if (!(p.initial >= p.min && p.initial <= p.max)) {
-    throw bad(fmt::format("bounds that hold the starting value {:.6g} (set it with --set)",
-                          p.initial));
+    throw bad(
+        fmt::format("bounds that hold the starting value {:.6g} (set it with --set)", p.initial));
   }
   return p;
 }
@@ -233,8 +233,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
         o->observations.empty() ? sc.observations : std::filesystem::path(o->observations);
     if (obs_file.empty()) {
       throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--observations",
-                       "an observation file (the option or the scenario's `observations`)",
-                       "none");
+                       "an observation file (the option or the scenario's `observations`)", "none");
     }
     const ObservationSet obs = read_observations(obs_file, units);
     std::vector<FitParameter> params;
@@ -250,7 +249,8 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     const std::filesystem::path file = o->output.empty()
                                            ? std::filesystem::path(sc.name + ".fit.nc")
                                            : std::filesystem::path(o->output);
-    refuse_output_onto_input(file, {{"the scenario file", sc.file}, {"the observations", obs_file}});
+    refuse_output_onto_input(file,
+                             {{"the scenario file", sc.file}, {"the observations", obs_file}});
 
     // 2. The steady state at the starting values.
     const PetscSession petsc;
@@ -312,8 +312,8 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       for (std::size_t k = 0; k < P; ++k) {
         double g = 0.0;
         for (std::size_t i = 0; i < r0.size(); ++i) g += 2.0 * jac[i * P + k] * r0[i];
-        const double h = params[k].log ? o->check_step
-                                       : o->check_step * std::max(std::abs(u0[k]), 1e-3);
+        const double h =
+            params[k].log ? o->check_step : o->check_step * std::max(std::abs(u0[k]), 1e-3);
         double chi[2] = {0.0, 0.0};
         bool ok = true;
         for (int side = 0; side < 2; ++side) {
@@ -327,8 +327,8 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
         const double rel = std::abs(g - fdg) / std::max({std::abs(g), std::abs(fdg), 1e-300});
         const bool good = ok && rel <= o->check_tolerance;
         worst = std::max(worst, ok ? rel : 1.0);
-        std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e}{}\n", params[k].path, g,
-                                 fdg, rel, good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
+        std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e}{}\n", params[k].path, g, fdg,
+                                 rel, good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
         if (!good) status = static_cast<int>(ExitCode::kInternal);
       }
       std::cout << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
@@ -366,7 +366,8 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     std::cout << "\ncorrelation\n";
     for (std::size_t k = 0; k < P; ++k) {
       std::string row = fmt::format("{:<40}", params[k].path);
-      for (std::size_t l = 0; l < P; ++l) row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
+      for (std::size_t l = 0; l < P; ++l)
+        row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
       std::cout << row << "\n";
     }
     ctx.log->info("wrote {}", file.string());

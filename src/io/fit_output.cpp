@@ -10,8 +10,8 @@
 namespace colchem {
 
 void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const ColumnModel& model,
-                    const std::vector<FitParameter>& params, const FitResult& res,
-                    bool log_space, const std::string& command_line) {
+                    const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
+                    const std::string& command_line) {
   const Background& bg = model.background();
   const std::size_t P = params.size(), M = res.residuals.size();
   NcWriter nc(file);
@@ -40,12 +40,15 @@ void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const
   std::vector<NcTextField> texts;
   std::vector<NcField> fields;
   std::vector<std::string> paths, obs_species;
-  NcField init{"parameter_initial", {"parameter"}, {"1", "value at the start of the fit", "", {}}, {}};
+  NcField init{
+      "parameter_initial", {"parameter"}, {"1", "value at the start of the fit", "", {}}, {}};
   NcField val{"parameter_value", {"parameter"}, {"1", "best-fit value", "", {}}, res.value};
   NcField sig{"parameter_sigma",
               {"parameter"},
-              {"1", "one-sigma uncertainty from (J^T J)^-1 (first order in ln p for log parameters)",
-               "", {}},
+              {"1",
+               "one-sigma uncertainty from (J^T J)^-1 (first order in ln p for log parameters)",
+               "",
+               {}},
               res.sigma};
   NcField sigs{"parameter_sigma_scaled",
                {"parameter"},

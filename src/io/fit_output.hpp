@@ -16,7 +16,7 @@
 namespace colchem {
 
 void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const ColumnModel& model,
-                    const std::vector<FitParameter>& params, const FitResult& res,
-                    bool log_space, const std::string& command_line);
+                    const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
+                    const std::string& command_line);
 
 }  // namespace colchem

@@ -112,8 +112,8 @@ std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
   const auto& names = model.species();
   std::vector<ObservationResidual> out;
   for (const auto& sc : scores) {
-    const auto s = static_cast<std::size_t>(std::find(names.begin(), names.end(), sc.species) -
-                                            names.begin());
+    const auto s =
+        static_cast<std::size_t>(std::find(names.begin(), names.end(), sc.species) - names.begin());
     for (const auto& p : sc.points) {
       if (!p.inside) continue;
       ObservationResidual r;
@@ -126,9 +126,9 @@ std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
         const double sigma = observation_sigma(p.obs);
         r.r = log_space ? p.residual_log : p.residual_linear;
         // dr/df_m, then df_m/dn through the log-linear interpolation.
-        const double dr_df = log_space ? 1.0 / (sigma / (p.obs.value * std::log(10.0))) /
-                                             (p.model * std::log(10.0))
-                                       : 1.0 / sigma;
+        const double dr_df =
+            log_space ? 1.0 / (sigma / (p.obs.value * std::log(10.0))) / (p.model * std::log(10.0))
+                      : 1.0 / sigma;
         r.d_lo = dr_df * p.model * (1.0 - iw.w) / x[r.lo];
         r.d_hi = dr_df * p.model * iw.w / x[r.hi];
         if (r.lo == r.hi) {  // one grid point: both weights land on it

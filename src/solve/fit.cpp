@@ -185,11 +185,10 @@ bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
     }
     // (shift I - J) dx = dF/du  =>  dx = dx/du in the Newton limit.
     std::string reason;
-    const bool ok =
-        sys.coupling != nullptr
-            ? linear.solve_coupled(bt, shift, held, Fp, weights, product, opt_.krylov_rtol, dx,
-                                   reason)
-            : linear.solve(bt, shift, held, Fp, dx, reason);
+    const bool ok = sys.coupling != nullptr
+                        ? linear.solve_coupled(bt, shift, held, Fp, weights, product,
+                                               opt_.krylov_rtol, dx, reason)
+                        : linear.solve(bt, shift, held, Fp, dx, reason);
     if (!ok) {
       throw RunError(ExitCode::kNotConverged,
                      "fit: forward sensitivity of " + p.path + " failed: " + reason);
@@ -204,8 +203,7 @@ bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
   return true;
 }
 
-bool gauss_newton_covariance(std::span<const double> jac, std::size_t p,
-                             std::vector<double>& cov) {
+bool gauss_newton_covariance(std::span<const double> jac, std::size_t p, std::vector<double>& cov) {
   const std::size_t m = p == 0 ? 0 : jac.size() / p;
   std::vector<double> A(p * p, 0.0);
   for (std::size_t i = 0; i < m; ++i) {

@@ -45,8 +45,8 @@ enum class FitKind { kNamed, kBoundary, kEddy };
 
 /// One fitted parameter, resolved against the model (app/cmd_fit.cpp parses the text).
 struct FitParameter {
-  std::string path;  ///< as given: "chemistry.parameters.kscale", "species.SO2.bottom.mixing_ratio",
-                     ///< "atmosphere.eddy_diffusion[58-68]"
+  std::string path;  ///< as given: "chemistry.parameters.kscale",
+                     ///< "species.SO2.bottom.mixing_ratio", "atmosphere.eddy_diffusion[58-68]"
   FitKind kind = FitKind::kNamed;
   std::size_t index = 0;                 ///< named parameter q, or species s (boundary)
   bool top = false;                      ///< boundary: top edge
@@ -64,7 +64,7 @@ struct FitOptions {
   /// the noise of the steady solves (at ~1e-6 on Pyrene) in a minimum that is itself only a
   /// statistical estimate (Numerical Recipes, 3rd ed., section 15.5.2, makes the same point).
   double gatol = 1e-3;
-  double grtol = 0.0;       ///< on ||g|| / |chi2 / 2| (0: off)
+  double grtol = 0.0;  ///< on ||g|| / |chi2 / 2| (0: off)
   double krylov_rtol = 1e-12;
   /// Iterations of one warm steady solve inside the fit at most (warm solves of the shipped
   /// worlds take 10-25); a solve that fails is retried by continuation: first half-way from
@@ -83,13 +83,13 @@ struct FitResult {
   std::vector<double> correlation;                 ///< [k*p + l]
   std::vector<int> at_bound;                       ///< -1 lower, +1 upper, 0 free
   double chi2 = 0.0, chi2_initial = 0.0, reduced_chi2 = 0.0;
-  std::size_t points = 0;                          ///< residuals (observed points inside)
-  std::vector<double> x;                           ///< fitted state
-  std::vector<ObservationResidual> residuals;      ///< at the best fit
+  std::size_t points = 0;                      ///< residuals (observed points inside)
+  std::vector<double> x;                       ///< fitted state
+  std::vector<ObservationResidual> residuals;  ///< at the best fit
   int iterations = 0;
-  int steady_solves = 0;      ///< residual evaluations (warm steady solves)
-  long newton_iterations = 0; ///< over every steady solve
-  int jacobians = 0;          ///< Jacobian evaluations (p linear solves each)
+  int steady_solves = 0;       ///< residual evaluations (warm steady solves)
+  long newton_iterations = 0;  ///< over every steady solve
+  int jacobians = 0;           ///< Jacobian evaluations (p linear solves each)
   double wall_s = 0.0, steady_s = 0.0, jacobian_s = 0.0;
 };
 
@@ -132,7 +132,7 @@ class FitProblem {
   FitOptions opt_;
   Background base_bg_;
   std::vector<SpeciesBoundaries> base_bcs_;
-  std::vector<double> x_, u_;  ///< last converged state and its u
+  std::vector<double> x_, u_;        ///< last converged state and its u
   std::vector<double> u_jac_, jac_;  ///< the last Jacobian and its u
   std::size_t m_ = 0;
   FitResult stats_;
