@@ -10,6 +10,7 @@
 #include <chrono>
 #include <cmath>
 #include <iostream>
+#include <limits>
 
 #include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
@@ -161,6 +162,28 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
   return p;
 }
 
+struct FitCliOptions {
+  std::string config, output, restart, observations;
+  std::vector<std::string> sets, params, module_sets, module_params;
+  bool linear = false, check = false, benchmark = false;
+  int max_iterations = 50;
+  double gatol = 1e-3;
+  double check_tolerance = 1e-4, check_step = 1e-3;
+};
+
+/// What the comparison of module sets needs from one fit.
+struct FitSummary {
+  double chi2 = 0.0;
+  std::size_t points = 0, parameters = 0;
+  bool converged = false;
+  std::filesystem::path file;
+};
+
+int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
+             const std::vector<std::string>& param_texts, const std::string& output,
+             Context& ctx, FitSummary* summary);
+int compare_module_sets(const FitCliOptions& o, Context& ctx);
+
 }  // namespace
 
 void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
@@ -169,15 +192,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       "Fit named parameters, boundary values and K scalings to the observations (bounded "
       "Gauss-Newton, PETSc TAO): best fit, one-sigma uncertainties, correlations, reduced "
       "chi-square, fitted profiles.");
-  struct Options {
-    std::string config, output, restart, observations;
-    std::vector<std::string> sets, params;
-    bool linear = false, check = false, benchmark = false;
-    int max_iterations = 50;
-    double gatol = 1e-3;
-    double check_tolerance = 1e-4, check_step = 1e-3;
-  };
-  auto o = std::make_shared<Options>();
+  auto o = std::make_shared<FitCliOptions>();
   cmd->add_option("CONFIG", o->config, "Scenario file (YAML; solver.method steady)")
       ->required()
       ->check(CLI::ExistingFile);
@@ -212,13 +227,30 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
                   "Step of --check in the fitted variable (ln p for log parameters, else "
                   "relative to |p|)")
       ->capture_default_str();
+  cmd->add_option("--module-set", o->module_sets,
+                  "Compare module sets (repeatable): LABEL=MODULE,MODULE,... (the modules "
+                  "switched on, chemistry.modules); each set is fitted with the same -p "
+                  "parameters plus its own --module-param ones and the sets are ranked by "
+                  "minimum chi-square, AIC and BIC; files OUTPUT_STEM.LABEL.nc");
+  cmd->add_option("--module-param", o->module_params,
+                  "A parameter fitted only in one module set (repeatable): LABEL=PATH:MIN:MAX[:log]");
   cmd->add_flag("--benchmark", o->benchmark,
                 "Also time one warm steady solve (K x 1.01 from the fitted state) and print the "
                 "fit's cost in such solves");
   out.emplace_back(cmd, [o](Context& ctx) {
+    if (o->module_sets.empty()) return fit_once(o.get(), o->sets, o->params, o->output, ctx, nullptr);
+    return compare_module_sets(*o, ctx);
+  });
+}
+
+namespace {
+
+int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
+             const std::vector<std::string>& param_texts, const std::string& output,
+             Context& ctx, FitSummary* summary) {
     // 1. The scenario, the observations and the fitted parameters.
     const UnitSystem units;
-    Scenario sc = load_scenario(o->config, o->sets, units);
+    Scenario sc = load_scenario(o->config, sets, units);
     if (sc.solver.method != SolverMethod::kSteady) {
       throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "solver.method",
                        "steady (fits of a steady state; --set solver.method=steady)",
@@ -237,7 +269,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     }
     const ObservationSet obs = read_observations(obs_file, units);
     std::vector<FitParameter> params;
-    for (const auto& text : o->params) {
+    for (const auto& text : param_texts) {
       params.push_back(parse_parameter(text, model, sc));
       for (std::size_t k = 0; k + 1 < params.size(); ++k) {
         if (params[k].path == params.back().path) {
@@ -246,9 +278,9 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
         }
       }
     }
-    const std::filesystem::path file = o->output.empty()
+    const std::filesystem::path file = output.empty()
                                            ? std::filesystem::path(sc.name + ".fit.nc")
-                                           : std::filesystem::path(o->output);
+                                           : std::filesystem::path(output);
     refuse_output_onto_input(file,
                              {{"the scenario file", sc.file}, {"the observations", obs_file}});
 
@@ -261,7 +293,7 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     } else if (sc.solver.grid_sequencing) {
       SolveRequest req;
       req.config = o->config;
-      req.overrides = o->sets;
+      req.overrides = sets;
       req.log = ctx.log.get();
       req.stop_requested = interrupt.query();
       SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
@@ -397,8 +429,107 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       ctx.log->warn("the fit did not converge: {}", res.reason);
       if (status == 0) status = static_cast<int>(ExitCode::kNotConverged);
     }
+    if (summary != nullptr) {
+      summary->chi2 = res.chi2;
+      summary->points = res.points;
+      summary->parameters = P;
+      summary->converged = res.converged;
+      summary->file = file;
+    }
     return status;
-  });
 }
+
+/// Each module set fitted in turn, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE
+/// Trans. Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6,
+/// 461), k the set's fitted parameters and N the observed points; with Gaussian errors of
+/// known sigma -2 ln L_max = chi2_min + a constant the sets share (the same data).
+int compare_module_sets(const FitCliOptions& o, Context& ctx) {
+  struct Row {
+    std::string label;
+    FitSummary fit;
+    int status = 0;
+  };
+  std::vector<Row> rows;
+  const SourceLocation where{o.config};
+  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
+  for (const auto& spec : o.module_sets) {
+    const auto eq = spec.find('=');
+    if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size()) {
+      throw InputError(ExitCode::kUsage, where, "--module-set", "LABEL=MODULE,MODULE,...",
+                       "'" + spec + "'");
+    }
+    Row row;
+    row.label = spec.substr(0, eq);
+    for (const auto& r : rows) {
+      if (r.label == row.label) {
+        throw InputError(ExitCode::kUsage, where, "--module-set", "each LABEL once",
+                         "'" + row.label + "' twice");
+      }
+    }
+    std::string modules;
+    for (const auto& m : split(spec.substr(eq + 1), ',')) modules += (modules.empty() ? "" : ", ") + m;
+    std::vector<std::string> sets = o.sets;
+    sets.push_back("chemistry.modules=[" + modules + "]");
+    std::vector<std::string> params = o.params;
+    for (const auto& mp : o.module_params) {
+      const auto e = mp.find('=');
+      if (e == std::string::npos) {
+        throw InputError(ExitCode::kUsage, where, "--module-param", "LABEL=PATH:MIN:MAX[:log]",
+                         "'" + mp + "'");
+      }
+      if (mp.substr(0, e) == row.label) params.push_back(mp.substr(e + 1));
+    }
+    std::filesystem::path out = o.output.empty() ? std::filesystem::path("fit.nc")
+                                                 : std::filesystem::path(o.output);
+    out.replace_extension();
+    out += "." + row.label + ".nc";
+    std::cout << fmt::format("=== module set {} (modules {})\n", row.label, modules);
+    row.status = fit_once(&o, sets, params, out.string(), ctx, &row.fit);
+    std::cout << "\n";
+    rows.push_back(std::move(row));
+  }
+  for (const auto& m : o.module_params) {
+    const std::string label = m.substr(0, m.find('='));
+    if (std::none_of(rows.begin(), rows.end(), [&](const Row& r) { return r.label == label; })) {
+      throw InputError(ExitCode::kUsage, where, "--module-param",
+                       "the LABEL of a --module-set", "'" + label + "'");
+    }
+  }
+  double best_aic = std::numeric_limits<double>::infinity(), best_bic = best_aic;
+  std::vector<double> aic, bic;
+  for (const auto& r : rows) {
+    const double k = static_cast<double>(r.fit.parameters);
+    aic.push_back(r.fit.chi2 + 2.0 * k);
+    bic.push_back(r.fit.chi2 + k * std::log(static_cast<double>(r.fit.points)));
+    best_aic = std::min(best_aic, aic.back());
+    best_bic = std::min(best_bic, bic.back());
+  }
+  std::vector<std::size_t> order(rows.size());
+  for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::stable_sort(order.begin(), order.end(),
+                   [&](std::size_t a, std::size_t b) { return aic[a] < aic[b]; });
+  std::cout << fmt::format(
+      "module sets ranked by AIC = chi2_min + 2k (Akaike 1974); BIC = chi2_min + k ln N "
+      "(Schwarz 1978); Akaike weight exp(-dAIC/2) normalised\n"
+      "{:>4}  {:<24} {:>12} {:>3} {:>4} {:>12} {:>8} {:>12} {:>8} {:>8}  {}\n",
+      "rank", "module set", "chi2_min", "k", "N", "AIC", "dAIC", "BIC", "dBIC", "weight",
+      "fit");
+  double wsum = 0.0;
+  for (double a : aic) wsum += std::exp(-(a - best_aic) / 2.0);
+  int status = 0;
+  for (std::size_t i = 0; i < order.size(); ++i) {
+    const std::size_t r = order[i];
+    std::cout << fmt::format(
+        "{:>4}  {:<24} {:>12.6g} {:>3} {:>4} {:>12.6g} {:>8.3f} {:>12.6g} {:>8.3f} {:>8.4f}  {}\n",
+        i + 1, rows[r].label, rows[r].fit.chi2, rows[r].fit.parameters, rows[r].fit.points,
+        aic[r], aic[r] - best_aic, bic[r], bic[r] - best_bic,
+        std::exp(-(aic[r] - best_aic) / 2.0) / wsum,
+        rows[r].fit.converged ? "converged" : "NOT CONVERGED");
+    if (status == 0) status = rows[r].status;
+  }
+  return status;
+}
+
+}  // namespace
 
 }  // namespace colchem::app
