@@ -32,5 +32,6 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
 void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 void add_rates_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
+void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out);
 
 }  // namespace colchem::app

@@ -47,6 +47,7 @@ int main(int argc, char** argv) {
   app::add_resolve_command(cli, commands);
   app::add_ensemble_command(cli, commands);
   app::add_sensitivity_command(cli, commands);
+  app::add_fit_command(cli, commands);
 #endif
   app::add_photo_command(cli, commands);
   app::add_box_command(cli, commands);

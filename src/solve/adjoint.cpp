@@ -18,8 +18,7 @@ double seconds_since(std::chrono::steady_clock::time_point t0) {
   return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
 }
 
-/// Step of the central differences of the transport tendency in ln b and ln K.
-constexpr double kLogStep = 1e-4;
+constexpr double kLogStep = kTransportLogStep;
 
 /// G and, when `grad` is not empty, dG/dx|_{local} ([j*S + s], overwritten) and
 /// dG/dJ_c(z_j) ([c*N + j], overwritten; rate objective of a photolysis reaction only).
@@ -71,34 +70,15 @@ double evaluate(ColumnModel& model, const Objective& obj, std::span<const double
       }
       return G;
     }
-    case ObjectiveKind::kChiSquare: {
-      std::vector<double> f(S * N);
-      for (std::size_t s = 0; s < S; ++s) {
-        for (std::size_t j = 0; j < N; ++j) f[s * N + j] = x[j * S + s] / bg.air_density_cm3[j];
-      }
-      const auto scores = score_column(bg.grid.center_cm, model.species(), f, *obj.observations, 0);
-      const auto& names = model.species();
-      for (const auto& sc : scores) {
-        G += obj.log_space ? sc.chi2_log : sc.chi2_linear;
+    case ObjectiveKind::kChiSquare:
+      for (const ObservationResidual& r :
+           observation_residuals(model, *obj.observations, obj.log_space, x)) {
+        G += r.r * r.r;
         if (!want) continue;
-        const auto s = static_cast<std::size_t>(std::find(names.begin(), names.end(), sc.species) -
-                                                names.begin());
-        for (const auto& p : sc.points) {
-          if (!p.counted) continue;
-          const double sigma = observation_sigma(p.obs);
-          // dG/df_m of r^2, then df_m/dn through the log-linear interpolation.
-          const double dG_df = obj.log_space ? 2.0 * p.residual_log /
-                                                   (sigma / (p.obs.value * std::log(10.0))) /
-                                                   (p.model * std::log(10.0))
-                                             : 2.0 * p.residual_linear / sigma;
-          const InterpolationWeights iw =
-              interpolation_weights(bg.grid.center_cm, p.obs.altitude_cm);
-          grad[iw.lo * S + s] += dG_df * p.model * (1.0 - iw.w) / x[iw.lo * S + s];
-          grad[iw.hi * S + s] += dG_df * p.model * iw.w / x[iw.hi * S + s];
-        }
+        grad[r.lo] += 2.0 * r.r * r.d_lo;
+        grad[r.hi] += 2.0 * r.r * r.d_hi;
       }
       return G;
-    }
   }
   return G;
 }
@@ -118,6 +98,49 @@ double log_sensitivity(double dG, double G, double p, bool log_parameter) {
 }
 
 }  // namespace
+
+std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
+                                                       const ObservationSet& obs, bool log_space,
+                                                       std::span<const double> x) {
+  const std::size_t S = model.species_count(), N = model.cells();
+  const Background& bg = model.background();
+  std::vector<double> f(S * N);
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) f[s * N + j] = x[j * S + s] / bg.air_density_cm3[j];
+  }
+  const auto scores = score_column(bg.grid.center_cm, model.species(), f, obs, 0);
+  const auto& names = model.species();
+  std::vector<ObservationResidual> out;
+  for (const auto& sc : scores) {
+    const auto s =
+        static_cast<std::size_t>(std::find(names.begin(), names.end(), sc.species) - names.begin());
+    for (const auto& p : sc.points) {
+      if (!p.inside) continue;
+      ObservationResidual r;
+      r.species = s;
+      r.point = p;
+      const InterpolationWeights iw = interpolation_weights(bg.grid.center_cm, p.obs.altitude_cm);
+      r.lo = iw.lo * S + s;
+      r.hi = iw.hi * S + s;
+      if (p.counted) {
+        const double sigma = observation_sigma(p.obs);
+        r.r = log_space ? p.residual_log : p.residual_linear;
+        // dr/df_m, then df_m/dn through the log-linear interpolation.
+        const double dr_df =
+            log_space ? 1.0 / (sigma / (p.obs.value * std::log(10.0))) / (p.model * std::log(10.0))
+                      : 1.0 / sigma;
+        r.d_lo = dr_df * p.model * (1.0 - iw.w) / x[r.lo];
+        r.d_hi = dr_df * p.model * iw.w / x[r.hi];
+        if (r.lo == r.hi) {  // one grid point: both weights land on it
+          r.d_lo += r.d_hi;
+          r.d_hi = 0.0;
+        }
+      }
+      out.push_back(r);
+    }
+  }
+  return out;
+}
 
 double objective_value(ColumnModel& model, const Objective& obj, std::span<const double> x) {
   return evaluate(model, obj, x, {}, {});

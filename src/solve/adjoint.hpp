@@ -34,6 +34,7 @@
 #include <vector>
 
 #include "analysis/observations.hpp"
+#include "analysis/score.hpp"
 #include "solve/column_model.hpp"
 #include "solve/steady_state.hpp"
 
@@ -51,6 +52,26 @@ struct Objective {
   std::string label;                             ///< for tables and files
   std::string units;                             ///< UDUNITS of G
 };
+
+/// One observed point inside the model's altitude range as a residual of the chi-square
+/// (analysis/score.hpp): r = (log10 f_m - log10 f_o) / s_log (log space) or (f_m - f_o) / s,
+/// 0 for an upper limit the model does not exceed, and its derivative with respect to the
+/// two densities f_m is interpolated from: dr/dx[lo] = d_lo, dr/dx[hi] = d_hi (x[j*S + s]).
+/// chi2 = sum r^2. Every observed species must be a model species (InputError otherwise).
+struct ObservationResidual {
+  PointScore point;
+  std::size_t species = 0;
+  double r = 0.0;
+  std::size_t lo = 0, hi = 0;
+  double d_lo = 0.0, d_hi = 0.0;
+};
+std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
+                                                       const ObservationSet& obs, bool log_space,
+                                                       std::span<const double> x);
+
+/// Step in ln b and ln K of the central differences of the transport tendency at fixed x
+/// that give dF/dp of boundary values and eddy scalings (here and in solve/fit.hpp).
+inline constexpr double kTransportLogStep = 1e-4;
 
 /// G at x (J-values refreshed at x by the caller). For the chi-square every observed species
 /// must be a model species (InputError otherwise, as in score_column).

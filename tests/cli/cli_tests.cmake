@@ -267,3 +267,26 @@ add_test(NAME validation.solve.adjoint_linear_column
           ${CMAKE_CURRENT_BINARY_DIR}/adjoint_linear_column_work)
 
 include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)
+# Fits (README.md, section Fits): the chi-square gradient of the forward-sensitivity
+# Jacobian against finite differences of the full steady solve, and a seeded twin
+# experiment on the closed-form linear column (tests/cli/fit_test.sh); --help; bad specs.
+add_test(NAME cli.fit
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/fit_work)
+colchem_cli_test(help_fit 0 "PATH:MIN:MAX:log, PATH one of chemistry.parameters.NAME" $<TARGET_FILE:colchem> fit --help)
+set(LINEAR ${CMAKE_SOURCE_DIR}/tests/cli/ensemble/linear_loss.yaml)
+colchem_cli_test(fit_unknown_path 2
+  "linear_loss.yaml: '--param': expected PATH:MIN:MAX.*found 'chemistry.rates.k1:0.1:10'"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.rates.k1:0.1:10)
+colchem_cli_test(fit_unknown_parameter 2
+  "'--param': expected a named parameter of the mechanism \\(kscale\\), found 'chemistry.parameters.kscal:0.1:10'"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.parameters.kscal:0.1:10)
+colchem_cli_test(fit_wrong_boundary_kind 2
+  "expected the bottom boundary of SO as it is set in the scenario: species.SO.bottom.mixing_ratio, found 'species.SO.bottom.flux:1:10'"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param species.SO.bottom.flux:1:10)
+colchem_cli_test(fit_log_negative_min 2 "expected MIN > 0 for a log parameter"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.parameters.kscale:-1:10:log)
+colchem_cli_test(fit_start_outside 2 "expected bounds that hold the starting value 1"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.parameters.kscale:2:10)
+colchem_cli_test(fit_bad_band 2 "expected atmosphere.eddy_diffusion\\[LO-HI\\] \\(km\\) holding at least one cell edge"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param "atmosphere.eddy_diffusion[70-80]:0.1:10")

@@ -1,0 +1,535 @@
+// colchem fit CONFIG --param PATH:MIN:MAX[:log] ...: fits named parameters, boundary values
+// and scalings of K in altitude bands to the scenario's observations by bounded nonlinear
+// least squares (solve/fit.hpp), prints the best fit with one-sigma uncertainties, the
+// correlation matrix and the reduced chi-square, and writes them with the fitted profiles
+// to CF NetCDF. --check compares the chi-square gradient of the fit's Jacobian, 2 J^T r,
+// with central finite differences of the full steady solve.
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <iostream>
+#include <limits>
+
+#include "analysis/observations.hpp"
+#include "analysis/resolution_runner.hpp"
+#include "app/commands.hpp"
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "io/fit_output.hpp"
+#include "io/output.hpp"
+#include "io/scenario.hpp"
+#include "solve/column_run.hpp"
+#include "solve/fit.hpp"
+#include "solve/interrupt.hpp"
+#include "solve/petsc_session.hpp"
+#include "solve/solver_options.hpp"
+
+namespace colchem::app {
+
+namespace {
+
+constexpr const char* kParamSyntax =
+    "PATH:MIN:MAX or PATH:MIN:MAX:log, PATH one of chemistry.parameters.NAME, "
+    "species.NAME.bottom.KIND, species.NAME.top.KIND (KIND the boundary's kind, e.g. "
+    "mixing_ratio, flux), atmosphere.eddy_diffusion (a multiplier of K) or "
+    "atmosphere.eddy_diffusion[LO-HI] (a multiplier of K at the edges from LO to HI km)";
+
+std::vector<std::string> split(const std::string& s, char sep) {
+  std::vector<std::string> out;
+  std::size_t start = 0;
+  while (true) {
+    const std::size_t at = s.find(sep, start);
+    out.push_back(s.substr(start, at - start));
+    if (at == std::string::npos) return out;
+    start = at + 1;
+  }
+}
+
+double number(const std::string& text, bool& ok) {
+  try {
+    std::size_t used = 0;
+    const double v = std::stod(text, &used);
+    ok = ok && used == text.size() && std::isfinite(v);
+    return v;
+  } catch (const std::exception&) {
+    ok = false;
+    return 0.0;
+  }
+}
+
+/// Resolves one --param against the model.
+FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
+                             const Scenario& sc) {
+  const SourceLocation where{sc.file.string()};
+  const auto bad = [&](const std::string& expected) {
+    return InputError(ExitCode::kUsage, where, "--param", expected, "'" + text + "'");
+  };
+  // The path may hold no ':'; the last two or three fields are the bounds and the flag.
+  const auto fields = split(text, ':');
+  if (fields.size() < 3 || fields.size() > 4) throw bad(kParamSyntax);
+  FitParameter p;
+  p.path = fields[0];
+  bool ok = true;
+  p.min = number(fields[1], ok);
+  p.max = number(fields[2], ok);
+  if (!ok) throw bad("finite numbers as MIN and MAX (" + std::string(kParamSyntax) + ")");
+  if (fields.size() == 4) {
+    if (fields[3] != "log") throw bad("'log' or nothing after MAX");
+    p.log = true;
+  }
+  if (!(p.min < p.max)) throw bad("MIN < MAX");
+  if (p.log && !(p.min > 0.0)) throw bad("MIN > 0 for a log parameter");
+
+  const auto parts = split(p.path, '.');
+  const std::string& eddy = "atmosphere.eddy_diffusion";
+  if (parts.size() == 3 && parts[0] == "chemistry" && parts[1] == "parameters") {
+    const auto& defs = model.chemistry().kinetics().mechanism().parameters;
+    std::string names;
+    for (std::size_t q = 0; q < defs.size(); ++q) {
+      names += (names.empty() ? "" : ", ") + defs[q].name;
+      if (defs[q].name == parts[2]) {
+        p.kind = FitKind::kNamed;
+        p.index = q;
+        p.initial = model.chemistry().kinetics().parameters()[q];
+      }
+    }
+    if (p.initial == 0.0 && p.kind == FitKind::kNamed &&
+        std::none_of(defs.begin(), defs.end(), [&](const auto& d) { return d.name == parts[2]; })) {
+      throw bad("a named parameter of the mechanism (" + (names.empty() ? "none" : names) + ")");
+    }
+  } else if (parts.size() == 4 && parts[0] == "species" &&
+             (parts[2] == "bottom" || parts[2] == "top")) {
+    const auto& names = model.species();
+    const auto it = std::find(names.begin(), names.end(), parts[1]);
+    if (it == names.end()) throw bad("a species of the model in species.NAME.bottom.KIND");
+    const auto s = static_cast<std::size_t>(it - names.begin());
+    if (model.held(s)) throw bad("a species that is not held fixed");
+    p.kind = FitKind::kBoundary;
+    p.index = s;
+    p.top = parts[2] == "top";
+    const BoundaryCondition& bc = p.top ? model.boundaries()[s].top : model.boundaries()[s].bottom;
+    const std::string kind = boundary_kind_name(bc.kind);
+    const bool valued = bc.kind == BoundaryKind::kMixingRatio ||
+                        bc.kind == BoundaryKind::kDensity || bc.kind == BoundaryKind::kFlux ||
+                        bc.kind == BoundaryKind::kDepositionVelocity ||
+                        bc.kind == BoundaryKind::kEscapeVelocity;
+    if (!valued || kind != parts[3] || bc.value.value.size() != 1) {
+      throw bad(fmt::format(
+          "the {} boundary of {} as it is set in the scenario: {}", parts[2], parts[1],
+          valued && bc.value.value.size() == 1 ? "species." + parts[1] + "." + parts[2] + "." + kind
+                                               : kind + " (no single value to fit)"));
+    }
+    p.initial = bc.value.value[0];
+  } else if (p.path.rfind(eddy, 0) == 0) {
+    const auto& edges = model.background().grid.edge_cm;
+    p.kind = FitKind::kEddy;
+    p.initial = 1.0;
+    const std::string rest = p.path.substr(eddy.size());
+    if (rest.empty()) {
+      p.edge_lo = 0;
+      p.edge_hi = model.cells();
+    } else {
+      const auto dash = rest.find('-', 2);
+      if (rest.front() != '[' || rest.back() != ']' || dash == std::string::npos) {
+        throw bad("atmosphere.eddy_diffusion[LO-HI] with LO and HI in km");
+      }
+      bool num_ok = true;
+      const double lo = number(rest.substr(1, dash - 1), num_ok) * constants::kCmPerKm;
+      const double hi =
+          number(rest.substr(dash + 1, rest.size() - dash - 2), num_ok) * constants::kCmPerKm;
+      std::vector<std::size_t> in;
+      for (std::size_t e = 0; e < edges.size(); ++e) {
+        if (edges[e] >= lo && edges[e] <= hi) in.push_back(e);
+      }
+      if (!num_ok || in.empty()) {
+        throw bad(
+            fmt::format("atmosphere.eddy_diffusion[LO-HI] (km) holding at least one cell "
+                        "edge ({:.4g}-{:.4g} km)",
+                        edges.front() * 1e-5, edges.back() * 1e-5));
+      }
+      p.edge_lo = in.front();
+      p.edge_hi = in.back();
+    }
+  } else {
+    throw bad(kParamSyntax);
+  }
+  if (!(p.initial >= p.min && p.initial <= p.max)) {
+    throw bad(
+        fmt::format("bounds that hold the starting value {:.6g} (set it with --set)", p.initial));
+  }
+  return p;
+}
+
+struct FitCliOptions {
+  std::string config, output, restart, observations;
+  std::vector<std::string> sets, params, module_sets, module_params;
+  bool linear = false, check = false, benchmark = false;
+  int max_iterations = 50;
+  double gatol = 1e-3;
+  double check_tolerance = 1e-4, check_step = 1e-3;
+};
+
+/// What the comparison of module sets needs from one fit.
+struct FitSummary {
+  double chi2 = 0.0;
+  std::size_t points = 0, parameters = 0;
+  bool converged = false;
+  std::filesystem::path file;
+};
+
+int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
+             const std::vector<std::string>& param_texts, const std::string& output,
+             Context& ctx, FitSummary* summary);
+int compare_module_sets(const FitCliOptions& o, Context& ctx);
+
+}  // namespace
+
+void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
+  auto* cmd = app.add_subcommand(
+      "fit",
+      "Fit named parameters, boundary values and K scalings to the observations (bounded "
+      "Gauss-Newton, PETSc TAO): best fit, one-sigma uncertainties, correlations, reduced "
+      "chi-square, fitted profiles.");
+  auto o = std::make_shared<FitCliOptions>();
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML; solver.method steady)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-p,--param", o->params,
+                  std::string("Fitted parameter (repeatable): ") + kParamSyntax +
+                      "; the start is the scenario's value (change it with --set)")
+      ->required();
+  cmd->add_option("--observations", o->observations,
+                  "Observation file (default: the scenario's `observations`)")
+      ->check(CLI::ExistingFile);
+  cmd->add_flag("--linear", o->linear,
+                "Residuals of chi2_linear, (f_m - f_o)/sigma (default: chi2_log, in log10 f)");
+  cmd->add_option("-o,--output", o->output, "Output NetCDF file (default: SCENARIO_NAME.fit.nc)");
+  cmd->add_option("--set", o->sets, "Override a config value by its dotted key path (repeatable)");
+  cmd->add_option("--restart", o->restart,
+                  "Start the first steady solve from this run file's state")
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--max-iterations", o->max_iterations, "Gauss-Newton iterations at most")
+      ->capture_default_str();
+  cmd->add_option("--gradient-tolerance", o->gatol,
+                  "Converged when the gradient norm of chi2/2 in the fitted variables is below "
+                  "this (the step left is then at most sigma^2 times it)")
+      ->capture_default_str();
+  cmd->add_flag("--check", o->check,
+                "Before fitting, compare the chi-square gradient 2 J^T r of the fit's Jacobian "
+                "with central finite differences of the full steady solve at the start (exit 1 "
+                "if one disagrees)");
+  cmd->add_option("--check-tolerance", o->check_tolerance,
+                  "Relative disagreement allowed by --check")
+      ->capture_default_str();
+  cmd->add_option("--check-step", o->check_step,
+                  "Step of --check in the fitted variable (ln p for log parameters, else "
+                  "relative to |p|)")
+      ->capture_default_str();
+  cmd->add_option("--module-set", o->module_sets,
+                  "Compare module sets (repeatable): LABEL=MODULE,MODULE,... (the modules "
+                  "switched on, chemistry.modules); each set is fitted with the same -p "
+                  "parameters plus its own --module-param ones and the sets are ranked by "
+                  "minimum chi-square, AIC and BIC; files OUTPUT_STEM.LABEL.nc");
+  cmd->add_option("--module-param", o->module_params,
+                  "A parameter fitted only in one module set (repeatable): LABEL=PATH:MIN:MAX[:log]");
+  cmd->add_flag("--benchmark", o->benchmark,
+                "Also time one warm steady solve (K x 1.01 from the fitted state) and print the "
+                "fit's cost in such solves");
+  out.emplace_back(cmd, [o](Context& ctx) {
+    if (o->module_sets.empty()) return fit_once(o.get(), o->sets, o->params, o->output, ctx, nullptr);
+    return compare_module_sets(*o, ctx);
+  });
+}
+
+namespace {
+
+int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
+             const std::vector<std::string>& param_texts, const std::string& output,
+             Context& ctx, FitSummary* summary) {
+    // 1. The scenario, the observations and the fitted parameters.
+    const UnitSystem units;
+    Scenario sc = load_scenario(o->config, sets, units);
+    if (sc.solver.method != SolverMethod::kSteady) {
+      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "solver.method",
+                       "steady (fits of a steady state; --set solver.method=steady)",
+                       "'" + std::string(method_name(sc.solver.method)) + "'");
+    }
+    ColumnModel model(sc);
+    if (!model.has_chemistry()) {
+      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "chemistry",
+                       "a chemistry section", "none");
+    }
+    const std::filesystem::path obs_file =
+        o->observations.empty() ? sc.observations : std::filesystem::path(o->observations);
+    if (obs_file.empty()) {
+      throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--observations",
+                       "an observation file (the option or the scenario's `observations`)", "none");
+    }
+    const ObservationSet obs = read_observations(obs_file, units);
+    std::vector<FitParameter> params;
+    for (const auto& text : param_texts) {
+      params.push_back(parse_parameter(text, model, sc));
+      for (std::size_t k = 0; k + 1 < params.size(); ++k) {
+        if (params[k].path == params.back().path) {
+          throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--param",
+                           "each path once", "'" + params[k].path + "' twice");
+        }
+      }
+    }
+    const std::filesystem::path file = output.empty()
+                                           ? std::filesystem::path(sc.name + ".fit.nc")
+                                           : std::filesystem::path(output);
+    refuse_output_onto_input(file,
+                             {{"the scenario file", sc.file}, {"the observations", obs_file}});
+
+    // 2. The steady state at the starting values.
+    const PetscSession petsc;
+    const InterruptGuard interrupt;
+    std::vector<double> x0 = model.initial_state();
+    if (!o->restart.empty()) {
+      model.take_restart(o->restart, x0);
+    } else if (sc.solver.grid_sequencing) {
+      SolveRequest req;
+      req.config = o->config;
+      req.overrides = sets;
+      req.log = ctx.log.get();
+      req.stop_requested = interrupt.query();
+      SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
+      if (!seq.x0.empty()) x0 = std::move(seq.x0);
+    }
+    RunControls controls;
+    controls.log = ctx.log.get();
+    controls.stop_requested = interrupt.query();
+    const RunOutcome run = run_column(model, sc.solver, std::move(x0), controls);
+    if (run.status == SolveStatus::kInterrupted) {
+      ctx.log->warn("interrupted (signal {})", interrupt.signal_number());
+      return static_cast<int>(ExitCode::kInterrupted);
+    }
+    if (run.status != SolveStatus::kConverged) {
+      ctx.log->error("steady solve at the starting values did not converge: {}", run.reason);
+      return static_cast<int>(ExitCode::kNotConverged);
+    }
+    ctx.log->info("start: steady state in {} iterations, {:.3f} s", run.iterations, run.wall_s);
+
+    FitOptions fopt;
+    fopt.log_space = !o->linear;
+    fopt.max_iterations = o->max_iterations;
+    fopt.gatol = o->gatol;
+    fopt.log = ctx.log.get();
+    fopt.stop_requested = interrupt.query();
+    int status = 0;
+
+    // 3. The gradient check (before the fit: at the best fit the gradient vanishes).
+    if (o->check) {
+      FitProblem probe(model, sc.solver, obs, params, run.x, fopt);
+      // Tight tolerances: chi2 at u +- h must be accurate far below g h * tolerance.
+      probe.solver().tolerance = std::min(probe.solver().tolerance, 1e-12);
+      probe.solver().step_tolerance = 1e-10;
+      probe.solver().max_iterations = 200;
+      const std::vector<double> u0 = probe.initial_u();
+      std::vector<double> r0, jac;
+      if (!probe.residuals(u0, r0) || !probe.jacobian(u0, jac)) {
+        ctx.log->error("--check: the steady solve at the start failed");
+        return static_cast<int>(ExitCode::kNotConverged);
+      }
+      const std::vector<double> x_start = probe.state();
+      const std::size_t P = params.size();
+      std::cout << fmt::format(
+          "gradient check at the start (central differences of the full steady solve):\n"
+          "{:<40} {:>16} {:>16} {:>10}\n",
+          "parameter", "2 J^T r", "finite diff.", "rel. diff.");
+      double worst = 0.0;
+      for (std::size_t k = 0; k < P; ++k) {
+        double g = 0.0;
+        for (std::size_t i = 0; i < r0.size(); ++i) g += 2.0 * jac[i * P + k] * r0[i];
+        const double h =
+            params[k].log ? o->check_step : o->check_step * std::max(std::abs(u0[k]), 1e-3);
+        double chi[2] = {0.0, 0.0};
+        bool ok = true;
+        for (int side = 0; side < 2; ++side) {
+          FitProblem fd(model, probe.solver(), obs, params, x_start, fopt);
+          std::vector<double> u = u0, r;
+          u[k] += side == 0 ? h : -h;
+          ok = fd.residuals(u, r) && ok;
+          for (double v : r) chi[side] += v * v;
+        }
+        const double fdg = (chi[0] - chi[1]) / (2.0 * h);
+        const double rel = std::abs(g - fdg) / std::max({std::abs(g), std::abs(fdg), 1e-300});
+        const bool good = ok && rel <= o->check_tolerance;
+        worst = std::max(worst, ok ? rel : 1.0);
+        std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e}{}\n", params[k].path, g, fdg,
+                                 rel, good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
+        if (!good) status = static_cast<int>(ExitCode::kInternal);
+      }
+      std::cout << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
+                               o->check_tolerance);
+    }
+
+    // 4. The fit.
+    FitProblem problem(model, sc.solver, obs, params, run.x, fopt);
+    const FitResult res = problem.solve();
+    write_fit_file(file, sc, model, params, res, fopt.log_space, ctx.command_line);
+
+    const std::size_t P = params.size();
+    std::cout << fmt::format(
+        "fit: {} after {} Gauss-Newton iterations; {} steady solves ({} Newton iterations, "
+        "{:.3f} s), {} Jacobians ({:.3f} s); {:.3f} s in all\n",
+        res.reason, res.iterations, res.steady_solves, res.newton_iterations, res.steady_s,
+        res.jacobians, res.jacobian_s, res.wall_s);
+    std::cout << fmt::format(
+        "chi2 ({}) {:.6g} (start {:.6g}); N = {} points, p = {}; reduced chi2 = chi2/(N - p) = "
+        "{:.4g}\n\n",
+        fopt.log_space ? "log" : "linear", res.chi2, res.chi2_initial, res.points, P,
+        res.reduced_chi2);
+    std::cout << fmt::format("{:<40} {:>13} {:>13} {:>13} {:>13}  {}\n", "parameter", "start",
+                             "best fit", "1 sigma", "sigma scaled", "bounds");
+    for (std::size_t k = 0; k < P; ++k) {
+      const auto& p = params[k];
+      std::cout << fmt::format(
+          "{:<40} {:>13.6g} {:>13.6g} {:>13.4g} {:>13.4g}  [{:.4g}, {:.4g}]{}{}\n", p.path,
+          p.initial, res.value[k], res.sigma[k], res.sigma_scaled[k], p.min, p.max,
+          p.log ? fmt::format(" log (factor {:.4g})", std::exp(res.sigma_u[k])) : "",
+          res.at_bound[k] < 0   ? "  AT LOWER BOUND"
+          : res.at_bound[k] > 0 ? "  AT UPPER BOUND"
+                                : "");
+    }
+    std::cout << "\ncorrelation\n";
+    for (std::size_t k = 0; k < P; ++k) {
+      std::string row = fmt::format("{:<40}", params[k].path);
+      for (std::size_t l = 0; l < P; ++l)
+        row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
+      std::cout << row << "\n";
+    }
+    ctx.log->info("wrote {}", file.string());
+
+    if (o->benchmark) {
+      // One warm steady solve: K x 1.01 from the fitted state (as `sensitivity --benchmark`).
+      FitParameter k;
+      k.path = "atmosphere.eddy_diffusion";
+      k.kind = FitKind::kEddy;
+      k.edge_lo = 0;
+      k.edge_hi = model.cells();
+      k.initial = 1.0;
+      k.min = 0.5;
+      k.max = 2.0;
+      FitProblem one(model, sc.solver, obs, {k}, res.x, fopt);
+      std::vector<double> r;
+      const auto t0 = std::chrono::steady_clock::now();
+      one.residuals(std::vector<double>{1.01}, r);
+      const double warm_s =
+          std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+      std::cout << fmt::format(
+          "\nbenchmark: {} parameters, {} cells; fit {:.3f} s; one warm steady solve (K x 1.01) "
+          "{:.3f} s; the fit costs {:.1f} warm steady solves\n",
+          P, model.cells(), res.wall_s, warm_s, res.wall_s / warm_s);
+    }
+    if (!res.converged) {
+      ctx.log->warn("the fit did not converge: {}", res.reason);
+      if (status == 0) status = static_cast<int>(ExitCode::kNotConverged);
+    }
+    if (summary != nullptr) {
+      summary->chi2 = res.chi2;
+      summary->points = res.points;
+      summary->parameters = P;
+      summary->converged = res.converged;
+      summary->file = file;
+    }
+    return status;
+}
+
+/// Each module set fitted in turn, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE
+/// Trans. Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6,
+/// 461), k the set's fitted parameters and N the observed points; with Gaussian errors of
+/// known sigma -2 ln L_max = chi2_min + a constant the sets share (the same data).
+int compare_module_sets(const FitCliOptions& o, Context& ctx) {
+  struct Row {
+    std::string label;
+    FitSummary fit;
+    int status = 0;
+  };
+  std::vector<Row> rows;
+  const SourceLocation where{o.config};
+  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
+  for (const auto& spec : o.module_sets) {
+    const auto eq = spec.find('=');
+    if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size()) {
+      throw InputError(ExitCode::kUsage, where, "--module-set", "LABEL=MODULE,MODULE,...",
+                       "'" + spec + "'");
+    }
+    Row row;
+    row.label = spec.substr(0, eq);
+    for (const auto& r : rows) {
+      if (r.label == row.label) {
+        throw InputError(ExitCode::kUsage, where, "--module-set", "each LABEL once",
+                         "'" + row.label + "' twice");
+      }
+    }
+    std::string modules;
+    for (const auto& m : split(spec.substr(eq + 1), ',')) modules += (modules.empty() ? "" : ", ") + m;
+    std::vector<std::string> sets = o.sets;
+    sets.push_back("chemistry.modules=[" + modules + "]");
+    std::vector<std::string> params = o.params;
+    for (const auto& mp : o.module_params) {
+      const auto e = mp.find('=');
+      if (e == std::string::npos) {
+        throw InputError(ExitCode::kUsage, where, "--module-param", "LABEL=PATH:MIN:MAX[:log]",
+                         "'" + mp + "'");
+      }
+      if (mp.substr(0, e) == row.label) params.push_back(mp.substr(e + 1));
+    }
+    std::filesystem::path out = o.output.empty() ? std::filesystem::path("fit.nc")
+                                                 : std::filesystem::path(o.output);
+    out.replace_extension();
+    out += "." + row.label + ".nc";
+    std::cout << fmt::format("=== module set {} (modules {})\n", row.label, modules);
+    row.status = fit_once(&o, sets, params, out.string(), ctx, &row.fit);
+    std::cout << "\n";
+    rows.push_back(std::move(row));
+  }
+  for (const auto& m : o.module_params) {
+    const std::string label = m.substr(0, m.find('='));
+    if (std::none_of(rows.begin(), rows.end(), [&](const Row& r) { return r.label == label; })) {
+      throw InputError(ExitCode::kUsage, where, "--module-param",
+                       "the LABEL of a --module-set", "'" + label + "'");
+    }
+  }
+  double best_aic = std::numeric_limits<double>::infinity(), best_bic = best_aic;
+  std::vector<double> aic, bic;
+  for (const auto& r : rows) {
+    const double k = static_cast<double>(r.fit.parameters);
+    aic.push_back(r.fit.chi2 + 2.0 * k);
+    bic.push_back(r.fit.chi2 + k * std::log(static_cast<double>(r.fit.points)));
+    best_aic = std::min(best_aic, aic.back());
+    best_bic = std::min(best_bic, bic.back());
+  }
+  std::vector<std::size_t> order(rows.size());
+  for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::stable_sort(order.begin(), order.end(),
+                   [&](std::size_t a, std::size_t b) { return aic[a] < aic[b]; });
+  std::cout << fmt::format(
+      "module sets ranked by AIC = chi2_min + 2k (Akaike 1974); BIC = chi2_min + k ln N "
+      "(Schwarz 1978); Akaike weight exp(-dAIC/2) normalised\n"
+      "{:>4}  {:<24} {:>12} {:>3} {:>4} {:>12} {:>8} {:>12} {:>8} {:>8}  {}\n",
+      "rank", "module set", "chi2_min", "k", "N", "AIC", "dAIC", "BIC", "dBIC", "weight",
+      "fit");
+  double wsum = 0.0;
+  for (double a : aic) wsum += std::exp(-(a - best_aic) / 2.0);
+  int status = 0;
+  for (std::size_t i = 0; i < order.size(); ++i) {
+    const std::size_t r = order[i];
+    std::cout << fmt::format(
+        "{:>4}  {:<24} {:>12.6g} {:>3} {:>4} {:>12.6g} {:>8.3f} {:>12.6g} {:>8.3f} {:>8.4f}  {}\n",
+        i + 1, rows[r].label, rows[r].fit.chi2, rows[r].fit.parameters, rows[r].fit.points,
+        aic[r], aic[r] - best_aic, bic[r], bic[r] - best_bic,
+        std::exp(-(aic[r] - best_aic) / 2.0) / wsum,
+        rows[r].fit.converged ? "converged" : "NOT CONVERGED");
+    if (status == 0) status = rows[r].status;
+  }
+  return status;
+}
+
+}  // namespace
+
+}  // namespace colchem::app

@@ -1,0 +1,109 @@
+#include "io/fit_output.hpp"
+
+#include <cmath>
+
+#include "analysis/score.hpp"
+#include "core/constants.hpp"
+#include "io/netcdf_file.hpp"
+#include "io/output.hpp"
+
+namespace colchem {
+
+void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const ColumnModel& model,
+                    const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
+                    const std::string& command_line) {
+  const Background& bg = model.background();
+  const std::size_t P = params.size(), M = res.residuals.size();
+  NcWriter nc(file);
+  write_provenance(nc, sc, command_line);
+  nc.global_text("colchem_fit_method",
+                 "bounded Gauss-Newton (PETSc TAO, TAOBRGN) on the chi-square residuals; "
+                 "Jacobian by forward sensitivities of the steady state, J dx/dp = -dF/dp; "
+                 "covariance (J^T J)^-1 at the best fit, unscaled (Press et al., Numerical "
+                 "Recipes, 3rd ed., sections 15.4-15.5)");
+  nc.global_text("colchem_fit_residuals", log_space ? "chi2_log" : "chi2_linear");
+  nc.global_text("colchem_fit_status", res.reason);
+  nc.global_number("colchem_fit_converged", res.converged ? 1.0 : 0.0);
+  nc.global_number("colchem_fit_chi2", res.chi2);
+  nc.global_number("colchem_fit_chi2_initial", res.chi2_initial);
+  nc.global_number("colchem_fit_reduced_chi2", res.reduced_chi2);
+  nc.global_number("colchem_fit_points", static_cast<double>(res.points));
+  nc.global_number("colchem_fit_iterations", res.iterations);
+  nc.global_number("colchem_fit_steady_solves", res.steady_solves);
+  nc.global_number("colchem_fit_jacobians", res.jacobians);
+  define_background(nc, bg);
+  define_species(nc, model.species());
+  nc.dimension("parameter", P);
+  nc.dimension("parameter2", P);
+  nc.dimension("observation", M);
+
+  std::vector<NcTextField> texts;
+  std::vector<NcField> fields;
+  std::vector<std::string> paths, obs_species;
+  NcField init{
+      "parameter_initial", {"parameter"}, {"1", "value at the start of the fit", "", {}}, {}};
+  NcField val{"parameter_value", {"parameter"}, {"1", "best-fit value", "", {}}, res.value};
+  NcField sig{"parameter_sigma",
+              {"parameter"},
+              {"1",
+               "one-sigma uncertainty from (J^T J)^-1 (first order in ln p for log parameters)",
+               "",
+               {}},
+              res.sigma};
+  NcField sigs{"parameter_sigma_scaled",
+               {"parameter"},
+               {"1", "parameter_sigma times sqrt(reduced chi-square)", "", {}},
+               res.sigma_scaled};
+  NcField sigu{"parameter_sigma_fitted",
+               {"parameter"},
+               {"1", "one-sigma of the fitted variable (ln p for log parameters, else p)", "", {}},
+               res.sigma_u};
+  NcField mn{"parameter_min", {"parameter"}, {"1", "lower bound", "", {}}, {}};
+  NcField mx{"parameter_max", {"parameter"}, {"1", "upper bound", "", {}}, {}};
+  NcField lg{"parameter_log", {"parameter"}, {"1", "1 where fitted as ln p", "", {}}, {}};
+  NcField ab{"parameter_at_bound",
+             {"parameter"},
+             {"1", "-1 at the lower bound, 1 at the upper bound, 0 free", "", {}},
+             {}};
+  for (std::size_t k = 0; k < P; ++k) {
+    paths.push_back(params[k].path);
+    init.data.push_back(params[k].initial);
+    mn.data.push_back(params[k].min);
+    mx.data.push_back(params[k].max);
+    lg.data.push_back(params[k].log ? 1.0 : 0.0);
+    ab.data.push_back(res.at_bound[k]);
+  }
+  NcField corr{"parameter_correlation",
+               {"parameter", "parameter2"},
+               {"1", "correlation of the fitted variables from (J^T J)^-1", "", {}},
+               res.correlation};
+  NcField oz{"observation_altitude", {"observation"}, {"km", "altitude of the point", "", {}}, {}};
+  NcField ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
+  NcField os{"observation_sigma", {"observation"}, {"1", "one-sigma of the point", "", {}}, {}};
+  NcField ou{"observation_upper_limit", {"observation"}, {"1", "1 for an upper limit", "", {}}, {}};
+  NcField om{"observation_model",
+             {"observation"},
+             {"1", "fitted model mole fraction at the point", "", {}},
+             {}};
+  NcField orr{"observation_residual",
+              {"observation"},
+              {"1", "residual of the point at the best fit (analysis/score.hpp)", "", {}},
+              {}};
+  for (const auto& r : res.residuals) {
+    obs_species.push_back(r.point.obs.species);
+    oz.data.push_back(r.point.obs.altitude_cm / constants::kCmPerKm);
+    ov.data.push_back(r.point.obs.value);
+    os.data.push_back(observation_sigma(r.point.obs));
+    ou.data.push_back(r.point.obs.upper_limit ? 1.0 : 0.0);
+    om.data.push_back(r.point.model);
+    orr.data.push_back(r.r);
+  }
+  texts.push_back({"parameter_path", "parameter", "fitted parameter (its path)", paths});
+  texts.push_back({"observation_species", "observation", "species observed", obs_species});
+  fields = {init, val, sig, sigs, sigu, mn, mx, lg, ab, corr, oz, ov, os, ou, om, orr};
+  write_fields(nc, bg, texts, fields);
+  write_species_data(nc, bg, model.species(), res.x);
+  nc.commit();
+}
+
+}  // namespace colchem
