@@ -2,6 +2,7 @@
 // column (coupled steady state or transient) and write its CF NetCDF output.
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <iostream>
 #include <optional>
 
@@ -125,7 +126,12 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       sequence = std::move(seq.levels);
       if (!seq.x0.empty()) {
         x0 = std::move(seq.x0);
-        warm = true;
+        // A start from direct-beam levels is no converged state of this (two-stream)
+        // scenario: its first step at solver.warm_pseudo_step (1e8 s) changed densities
+        // 1e10-fold, and whether PTC recovered from there depended on round-off (the
+        // BLAS library; issue 10). It starts with solver.initial_pseudo_step instead.
+        warm = std::none_of(sequence.begin(), sequence.end(),
+                            [](const SequenceLevel& l) { return l.direct_beam; });
       }
       for (const SequenceLevel& l : sequence) {
         if (!l.converged) {
