@@ -206,3 +206,13 @@ colchem_cli_test(bad.cli_missing_restart 2 "--restart: File does not exist: no_s
   $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --restart no_such_restart.nc)
 colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_run.nc"
   $<TARGET_FILE:colchem> budget no_such_run.nc -s SO2)
+
+# --- Sweeps (issue 16): no variant converged (5); a module the mechanism lacks (3) --------
+colchem_cli_test(bad.sweep_all_failed 5
+  "no variant of the sweep converged: 0 of 2 \\(2 failed\\); the reasons are in the status column of sweep_all_failed.csv"
+  $<TARGET_FILE:colchem> sweep ${CMAKE_SOURCE_DIR}/tests/cli/sweep/tellin_sweep_all_fail.yaml
+  -o sweep_all_failed.nc --table sweep_all_failed.csv)
+colchem_cli_test(bad.sweep_unknown_module 3
+  "tellin_sweep_unknown_module.yaml:10:9: 'modules.typo': expected a module of mechanism 'tellin' \\(base, sulfur\\), found unknown module 'sulphur'; did you mean 'sulfur'\\?"
+  $<TARGET_FILE:colchem> sweep ${CMAKE_SOURCE_DIR}/tests/cli/sweep/tellin_sweep_unknown_module.yaml
+  -o sweep_unknown_module.nc --table sweep_unknown_module.csv)
