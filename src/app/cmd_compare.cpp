@@ -7,6 +7,7 @@
 #include "app/commands.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/score_output.hpp"
 
 namespace colchem::app {
@@ -37,6 +38,7 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
     const UnitSystem units;
     // -o may be RUN itself (amended in place), never the observation file.
     refuse_output_onto_input(o->output, {{"the observation file", o->obs}});
+    const OutputClaim claim(o->output);
     const ObservationSet obs = read_observations(o->obs, units);
     ModelColumn model;
     {

@@ -19,6 +19,7 @@
 #include "core/error.hpp"
 #include "io/config_node.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/scenario.hpp"
 #include "io/sweep_loader.hpp"
 #include "io/sweep_output.hpp"
@@ -54,6 +55,9 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     if (!o->output.empty()) spec.output = o->output;
     if (!o->table.empty()) spec.table = o->table;
     const auto variants = expand_variants(spec);
+    // Rank 0 writes the files: it holds them for the whole sweep (one live writer per path).
+    std::vector<OutputClaim> claims;
+    if (rank == 0) claims = claim_outputs({spec.output, spec.table});
 
     // The base scenario fixes the grid and species every variant must share.
     const Scenario base = load_scenario(spec.scenario, spec.common_overrides, units);

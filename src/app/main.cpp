@@ -17,6 +17,7 @@
 #include "app/launcher.hpp"
 #include "colchem/version.hpp"
 #include "core/error.hpp"
+#include "solve/interrupt.hpp"
 
 int main(int argc, char** argv) {
   using namespace colchem;
@@ -71,11 +72,25 @@ int main(int argc, char** argv) {
   ctx.log->set_pattern("[%H:%M:%S.%e] %^%l%$ %v");
   ctx.log->set_level(spdlog::level::from_str(log_level));
   for (int i = 0; i < argc; ++i) ctx.command_line += (i ? " " : "") + std::string(argv[i]);
+  // Library warnings (io/output_claim.hpp: stale locks and temporaries) use the default logger.
+  spdlog::set_default_logger(ctx.log);
+  // SIGINT/SIGTERM only set a flag for the whole command (solve/interrupt.hpp), so every
+  // exit path runs the destructors that remove temporary files and output locks; commands
+  // that solve poll the flag and stop early, the others finish and exit 7 here.
+  const InterruptGuard interrupt;
 
   // 3. Run the chosen command; 4. map errors to exit codes.
   try {
     for (auto& [sub, action] : commands) {
-      if (sub->parsed()) return action(ctx);
+      if (!sub->parsed()) continue;
+      const int code = action(ctx);
+      if (code == 0 && interrupt.requested()) {
+        ctx.log->warn("interrupted (signal {}) after the command had finished; its files are "
+                      "complete",
+                      interrupt.signal_number());
+        return static_cast<int>(ExitCode::kInterrupted);
+      }
+      return code;
     }
     return static_cast<int>(ExitCode::kUsage);
   } catch (const InputError& e) {
