@@ -32,7 +32,9 @@ namespace colchem::app {
 void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand(
       "sweep", "Run a sweep of scenario variants (modules x parameters x overrides); under "
-               "mpirun the variants are shared among the ranks.");
+               "mpirun the variants are shared among the ranks. Exits 5 when no variant "
+               "converged; SIGINT/SIGTERM: unfinished variants are written as 'interrupted', "
+               "exit 7.");
   struct Options {
     std::string file;
     std::vector<std::string> sets;

@@ -62,6 +62,30 @@ int main(int argc, char** argv) {
   } catch (const CLI::CallForVersion& e) {
     return cli.exit(e);
   } catch (const CLI::ParseError& e) {
+    // A first word that is no command: say so and list the commands (CLI11 would only say
+    // that a subcommand is required).
+    std::string word;
+    for (int i = 1; i < argc; ++i) {
+      const std::string a = argv[i];
+      if (a == "--log-level") {
+        ++i;
+        continue;
+      }
+      if (!a.empty() && a[0] == '-') continue;
+      word = a;
+      break;
+    }
+    std::string names;
+    bool known = word.empty();
+    for (const auto& [sub, action] : commands) {
+      names += (names.empty() ? "" : ", ") + sub->get_name();
+      known = known || sub->get_name() == word;
+    }
+    if (!known) {
+      std::cerr << "colchem: unknown command '" << clip_for_message(word)
+                << "'; expected one of: " << names << " (colchem --help)\n";
+      return static_cast<int>(ExitCode::kUsage);
+    }
     (void)cli.exit(e);
     return static_cast<int>(ExitCode::kUsage);
   }
