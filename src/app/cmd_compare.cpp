@@ -56,8 +56,8 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
       if (static_cast<long>(sc.n_points) > static_cast<long>(o->fitted)) continue;
       throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "-p/--fitted-parameters",
                        "fewer fitted parameters than the observation points of each species "
-                       "inside the model grid (" + sc.species + ": " +
-                           std::to_string(sc.n_points) + " in " + o->obs + ")",
+                       "inside the model grid (" +
+                           sc.species + ": " + std::to_string(sc.n_points) + " in " + o->obs + ")",
                        std::to_string(o->fitted));
     }
     std::cout << format_scores(scores);

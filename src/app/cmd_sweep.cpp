@@ -31,10 +31,11 @@ namespace colchem::app {
 
 void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand(
-      "sweep", "Run a sweep of scenario variants (modules x parameters x overrides); under "
-               "mpirun the variants are shared among the ranks. Exits 5 when no variant "
-               "converged; SIGINT/SIGTERM: unfinished variants are written as 'interrupted', "
-               "exit 7.");
+      "sweep",
+      "Run a sweep of scenario variants (modules x parameters x overrides); under "
+      "mpirun the variants are shared among the ranks. Exits 5 when no variant "
+      "converged; SIGINT/SIGTERM: unfinished variants are written as 'interrupted', "
+      "exit 7.");
   struct Options {
     std::string file;
     std::vector<std::string> sets;
@@ -78,7 +79,8 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
         for (const auto& md : mech.modules) all.push_back(md.name);
         const auto near = nearest_word(name, all);
         throw InputError(ExitCode::kConfig, ms.where, ms.key_path,
-                         "a module of mechanism '" + mech.name + "' (" + fmt::format("{}", fmt::join(all, ", ")) + ")",
+                         "a module of mechanism '" + mech.name + "' (" +
+                             fmt::format("{}", fmt::join(all, ", ")) + ")",
                          "unknown module '" + name + "'",
                          near ? "did you mean '" + *near + "'?" : std::string{});
       }
@@ -186,7 +188,7 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     const std::size_t failed = res.outcomes.size() - converged - interrupted;
     // What the files say about the sweep as a whole: complete only when nothing was
     // interrupted; a sweep with no converged variant is not a result either.
-    const std::string sweep_status = interrupted > 0 ? "interrupted"
+    const std::string sweep_status = interrupted > 0  ? "interrupted"
                                      : converged == 0 ? "failed"
                                                       : "complete";
     const auto ranking = rank_variants(res, spec.rank_by);
@@ -195,9 +197,10 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
       write_provenance(nc, base, ctx.command_line);
       nc.global_text("colchem_sweep_file", spec.file.string());
       nc.global_number("colchem_sweep_ranks", size);
-      nc.global_text("colchem_sweep_status",
-                     fmt::format("{}: {} of {} variants converged, {} failed, {} interrupted",
-                                 sweep_status, converged, res.outcomes.size(), failed, interrupted));
+      nc.global_text(
+          "colchem_sweep_status",
+          fmt::format("{}: {} of {} variants converged, {} failed, {} interrupted", sweep_status,
+                      converged, res.outcomes.size(), failed, interrupted));
       write_sweep_netcdf(nc, base_model.background(), res, ranking);
       nc.commit();
     }
@@ -207,15 +210,17 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                   spec.output.string(), spec.table.string(), converged, res.outcomes.size(), failed,
                   interrupted);
     if (interrupted > 0) {
-      ctx.log->warn("sweep interrupted (signal {}): {} variant{} not finished, recorded as "
-                    "'interrupted'; the results are incomplete",
-                    interrupt.signal_number(), interrupted, interrupted == 1 ? "" : "s");
+      ctx.log->warn(
+          "sweep interrupted (signal {}): {} variant{} not finished, recorded as "
+          "'interrupted'; the results are incomplete",
+          interrupt.signal_number(), interrupted, interrupted == 1 ? "" : "s");
       return finish(static_cast<int>(ExitCode::kInterrupted));
     }
     if (converged == 0) {
-      ctx.log->error("no variant of the sweep converged: 0 of {} ({} failed); the reasons are in the "
-                     "status column of {}",
-                     res.outcomes.size(), failed, spec.table.string());
+      ctx.log->error(
+          "no variant of the sweep converged: 0 of {} ({} failed); the reasons are in the "
+          "status column of {}",
+          res.outcomes.size(), failed, spec.table.string());
       return finish(static_cast<int>(ExitCode::kNotConverged));
     }
     return finish(0);

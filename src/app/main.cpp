@@ -109,9 +109,10 @@ int main(int argc, char** argv) {
       if (!sub->parsed()) continue;
       const int code = action(ctx);
       if (code == 0 && interrupt.requested()) {
-        ctx.log->warn("interrupted (signal {}) after the command had finished; its files are "
-                      "complete",
-                      interrupt.signal_number());
+        ctx.log->warn(
+            "interrupted (signal {}) after the command had finished; its files are "
+            "complete",
+            interrupt.signal_number());
         return static_cast<int>(ExitCode::kInterrupted);
       }
       return code;

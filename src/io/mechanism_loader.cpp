@@ -5,9 +5,9 @@
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <functional>
 #include <cctype>
 #include <cmath>
+#include <functional>
 #include <sstream>
 
 #include "io/config_node.hpp"
@@ -494,8 +494,7 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
           const auto from = std::find(path.begin(), path.end(), r);
           for (auto it = from; it != path.end(); ++it) cycle += m->modules[*it].name + " -> ";
           cycle += m->modules[r].name;
-          requires_text[r].first.fail("module requirements without a cycle",
-                                      "the cycle " + cycle);
+          requires_text[r].first.fail("module requirements without a cycle", "the cycle " + cycle);
         }
         if (state[r] == 0) visit(r);
       }

@@ -73,14 +73,16 @@ std::vector<std::filesystem::path> remove_stale_temporaries(const std::filesyste
         output.has_parent_path() ? found.path() : found.path().filename();
     std::error_code rm;
     if (std::filesystem::remove(found.path(), rm) && !rm) {
-      spdlog::warn("removed {}, the temporary file of an earlier run (process {}) that is no "
-                   "longer running",
-                   entry_path.string(), pid);
+      spdlog::warn(
+          "removed {}, the temporary file of an earlier run (process {}) that is no "
+          "longer running",
+          entry_path.string(), pid);
       removed.push_back(entry_path);
     } else {
-      spdlog::warn("{} is the temporary file of an earlier run (process {}) that is no longer "
-                   "running; it could not be removed: {}",
-                   entry_path.string(), pid, rm.message());
+      spdlog::warn(
+          "{} is the temporary file of an earlier run (process {}) that is no longer "
+          "running; it could not be removed: {}",
+          entry_path.string(), pid, rm.message());
     }
   }
   return removed;
@@ -122,10 +124,11 @@ OutputClaim::OutputClaim(const std::filesystem::path& output) {
                          ") is writing this file (lock " + lock.string() +
                          "); wait for it to finish or choose another output path");
     }
-    spdlog::warn("{}: removing the stale lock {} of an earlier run ({}) that is no longer "
-                 "running",
-                 output.string(), lock.string(),
-                 pid > 0 ? "process " + std::to_string(pid) : std::string("no process id"));
+    spdlog::warn(
+        "{}: removing the stale lock {} of an earlier run ({}) that is no longer "
+        "running",
+        output.string(), lock.string(),
+        pid > 0 ? "process " + std::to_string(pid) : std::string("no process id"));
     std::error_code ec;
     std::filesystem::remove(lock, ec);
   }
@@ -140,7 +143,9 @@ void OutputClaim::release() noexcept {
   lock_.clear();
 }
 
-OutputClaim::~OutputClaim() { release(); }
+OutputClaim::~OutputClaim() {
+  release();
+}
 
 OutputClaim::OutputClaim(OutputClaim&& other) noexcept : lock_(std::move(other.lock_)) {
   other.lock_.clear();

@@ -68,7 +68,8 @@ SweepSpec load_sweep(const std::filesystem::path& file, const std::vector<std::s
   if (modules && combos) combos->fail("either 'modules' or 'module_combinations'", "both");
   if (modules) {
     for (const auto& [label, list] : modules->entries()) {
-      spec.module_sets.push_back(ModuleSet{label, list.text_list(), list.location(), "modules." + label});
+      spec.module_sets.push_back(
+          ModuleSet{label, list.text_list(), list.location(), "modules." + label});
     }
   } else if (combos) {
     const auto always = combos->find("always") ? combos->child("always").text_list()

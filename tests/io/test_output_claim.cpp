@@ -22,12 +22,15 @@ namespace {
 constexpr long kDeadPid = 99999999;
 
 fs::path fresh_dir(const std::string& name) {
-  const fs::path d = fs::temp_directory_path() / ("colchem_claim_" + name + "_" + std::to_string(::getpid()));
+  const fs::path d =
+      fs::temp_directory_path() / ("colchem_claim_" + name + "_" + std::to_string(::getpid()));
   fs::remove_all(d);
   fs::create_directories(d);
   return d;
 }
-void write(const fs::path& p, const std::string& text) { std::ofstream(p) << text; }
+void write(const fs::path& p, const std::string& text) {
+  std::ofstream(p) << text;
+}
 }  // namespace
 
 TEST_CASE("a claim creates the lock with the PID and removes it", "[io][output]") {
