@@ -31,7 +31,8 @@ double coordinate(const ParameterAxis& a, std::size_t i) {
 
 std::vector<Variant> expand_variants(const SweepSpec& spec) {
   const std::vector<ModuleSet> modules =
-      spec.module_sets.empty() ? std::vector<ModuleSet>{ModuleSet{"scenario", {}}} : spec.module_sets;
+      spec.module_sets.empty() ? std::vector<ModuleSet>{ModuleSet{"scenario", {}, {}, {}}}
+                               : spec.module_sets;
   const std::vector<OverrideSet> overrides =
       spec.override_sets.empty() ? std::vector<OverrideSet>{OverrideSet{"", {}}} : spec.override_sets;
   std::size_t grid = 1;

@@ -7,11 +7,15 @@
 #include <string>
 #include <vector>
 
+#include "core/error.hpp"
+
 namespace colchem {
 
 struct ModuleSet {
   std::string label;                 ///< e.g. "base+h2so4_overtone"
   std::vector<std::string> modules;  ///< switched on (chemistry.modules)
+  SourceLocation where;              ///< where the sweep file names them (for errors)
+  std::string key_path;              ///< e.g. "modules.sulfur" (for errors)
 };
 
 struct ParameterAxis {

@@ -73,6 +73,7 @@ class Unpacker {
 void pack(Packer& pk, const VariantOutcome& o) {
   pk.put<std::uint64_t>(o.index);
   pk.put<std::uint8_t>(o.converged ? 1 : 0);
+  pk.put<std::uint8_t>(o.interrupted ? 1 : 0);
   pk.put<std::uint8_t>(o.warm_started ? 1 : 0);
   pk.put<std::int32_t>(o.iterations);
   pk.put<std::int32_t>(o.rank);
@@ -87,6 +88,7 @@ VariantOutcome unpack(Unpacker& up) {
   VariantOutcome o;
   o.index = up.get<std::uint64_t>();
   o.converged = up.get<std::uint8_t>() != 0;
+  o.interrupted = up.get<std::uint8_t>() != 0;
   o.warm_started = up.get<std::uint8_t>() != 0;
   o.iterations = up.get<std::int32_t>();
   o.rank = up.get<std::int32_t>();
@@ -101,7 +103,8 @@ VariantOutcome unpack(Unpacker& up) {
 }  // namespace
 
 std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
-                                         const VariantRunner& run, const VariantDone& done) {
+                                         const VariantRunner& run, const VariantDone& done,
+                                         const std::function<bool()>& stop_requested) {
   int rank = 0, size = 1;
   MPI_Comm_rank(comm, &rank);
   MPI_Comm_size(comm, &size);
@@ -117,7 +120,12 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
 
   std::vector<VariantOutcome> mine;
   const long one = 1;
+  bool stopped = false;
   for (;;) {
+    if (stop_requested && stop_requested()) {
+      stopped = true;
+      break;
+    }
     long next = 0;
     MPI_Fetch_and_op(&one, &next, MPI_LONG, 0, 0, MPI_SUM, win);
     MPI_Win_flush(0, win);
@@ -157,6 +165,7 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
 
   // Gather every rank's outcomes on rank 0.
   Packer pk;
+  pk.put<std::uint8_t>(stopped ? 1 : 0);
   pk.put<std::uint64_t>(mine.size());
   for (const auto& o : mine) pack(pk, o);
   int nbytes = static_cast<int>(pk.bytes().size());
@@ -177,9 +186,11 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
 
   std::vector<VariantOutcome> outcomes(variants.size());
   std::vector<bool> seen(variants.size(), false);
+  bool any_stopped = false;
   for (int r = 0; r < size; ++r) {
     Unpacker up(all.data() + displs[static_cast<std::size_t>(r)],
                 static_cast<std::size_t>(counts[static_cast<std::size_t>(r)]));
+    any_stopped = (up.get<std::uint8_t>() != 0) || any_stopped;
     const auto n = up.get<std::uint64_t>();
     for (std::uint64_t i = 0; i < n; ++i) {
       VariantOutcome o = unpack(up);
@@ -191,6 +202,12 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
     }
   }
   for (std::size_t i = 0; i < seen.size(); ++i) {
+    if (!seen[i] && any_stopped) {
+      outcomes[i].index = i;
+      outcomes[i].interrupted = true;
+      outcomes[i].reason = "interrupted before it started";
+      continue;
+    }
     if (!seen[i]) throw std::runtime_error("sweep: variant " + std::to_string(i) + " never ran");
   }
   return outcomes;

@@ -23,6 +23,9 @@ namespace colchem {
 struct VariantOutcome {
   std::size_t index = 0;
   bool converged = false;
+  /// Stopped by SIGINT/SIGTERM (while running, or never started): neither converged nor
+  /// failed; reason "interrupted" (or "interrupted before it started").
+  bool interrupted = false;
   std::string reason;          ///< why it failed, or "converged"
   int iterations = 0;
   double residual = 0.0;       ///< scaled coupled residual of the end state
@@ -42,8 +45,11 @@ using VariantRunner =
 using VariantDone = std::function<void(const Variant&, const VariantOutcome&)>;
 
 /// Runs every variant; returns all outcomes in variant order on rank 0, and an empty vector
-/// on the other ranks. Collective over `comm`.
+/// on the other ranks. Collective over `comm`. When `stop_requested` (optional) turns true on
+/// a rank, that rank starts no further variant; variants no rank started come back with
+/// interrupted = true (the runner marks the one it was running itself).
 std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
-                                         const VariantRunner& run, const VariantDone& done);
+                                         const VariantRunner& run, const VariantDone& done,
+                                         const std::function<bool()>& stop_requested = {});
 
 }  // namespace colchem

@@ -9,6 +9,7 @@
 #include "io/chemistry_section.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 
 namespace colchem::app {
 
@@ -76,6 +77,7 @@ void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     BoxSpec box = load_box_config(*config, *sets, units);
     if (!output->empty()) box.output_file = *output;
     refuse_output_onto_input(box.output_file, {{"the box configuration", *config}});
+    const OutputClaim claim(box.output_file);
     const BoxProblem pb = box_problem(box);
     const BoxResult res = run_box(pb);
     write_box(box, res, ctx.command_line);

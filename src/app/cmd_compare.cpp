@@ -7,6 +7,7 @@
 #include "app/commands.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/score_output.hpp"
 
 namespace colchem::app {
@@ -37,6 +38,7 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
     const UnitSystem units;
     // -o may be RUN itself (amended in place), never the observation file.
     refuse_output_onto_input(o->output, {{"the observation file", o->obs}});
+    const OutputClaim claim(o->output);
     const ObservationSet obs = read_observations(o->obs, units);
     ModelColumn model;
     {
@@ -49,6 +51,15 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
     }
     const auto scores =
         score_column(model.altitude_cm, model.species, model.mole_fraction, obs, o->fitted);
+    // chi2/(N - p) needs N > p for every species (else NaN or a negative count).
+    for (const auto& sc : scores) {
+      if (static_cast<long>(sc.n_points) > static_cast<long>(o->fitted)) continue;
+      throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "-p/--fitted-parameters",
+                       "fewer fitted parameters than the observation points of each species "
+                       "inside the model grid (" +
+                           sc.species + ": " + std::to_string(sc.n_points) + " in " + o->obs + ")",
+                       std::to_string(o->fitted));
+    }
     std::cout << format_scores(scores);
     if (!o->dry) {
       const std::string target = o->output.empty() ? o->run : o->output;

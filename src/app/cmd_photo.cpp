@@ -6,6 +6,7 @@
 #include "app/commands.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/scenario.hpp"
 #include "photo/photolysis_output.hpp"
 #include "solve/column_model.hpp"
@@ -34,6 +35,7 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     const Scenario sc = load_scenario(o->config, o->sets, units);
     refuse_output_onto_input(o->output,
                              {{"the scenario file", o->config}, {"the run file", o->from}});
+    const OutputClaim claim(o->output);
     ColumnModel model(sc);
     if (!model.photolysis()) {
       throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",

@@ -14,6 +14,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/run_output.hpp"
 #include "io/scenario.hpp"
 #include "io/score_output.hpp"
@@ -60,6 +61,8 @@ void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     refuse_output_onto_input(sc.output.file, {{"the scenario file", o->config},
                                               {"the restart file", o->restart},
                                               {"the observation file", sc.observations}});
+    // One live run per output file (and its checkpoint), held until the command ends.
+    const auto claims = claim_outputs({sc.output.file, checkpoint_path(sc.output.file)});
     ColumnModel model(sc);
     ctx.log->info("scenario {}: {} cells, {} species", sc.name, model.cells(), model.species_count());
     std::vector<SpeciesScore> scores;

@@ -4,6 +4,7 @@
 #include <mpi.h>
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include <algorithm>
 #include <cmath>
@@ -16,7 +17,9 @@
 #include "analysis/sweep_runner.hpp"
 #include "app/commands.hpp"
 #include "core/error.hpp"
+#include "io/config_node.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 #include "io/scenario.hpp"
 #include "io/sweep_loader.hpp"
 #include "io/sweep_output.hpp"
@@ -28,8 +31,11 @@ namespace colchem::app {
 
 void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand(
-      "sweep", "Run a sweep of scenario variants (modules x parameters x overrides); under "
-               "mpirun the variants are shared among the ranks.");
+      "sweep",
+      "Run a sweep of scenario variants (modules x parameters x overrides); under "
+      "mpirun the variants are shared among the ranks. Exits 5 when no variant "
+      "converged; SIGINT/SIGTERM: unfinished variants are written as 'interrupted', "
+      "exit 7.");
   struct Options {
     std::string file;
     std::vector<std::string> sets;
@@ -52,6 +58,9 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     if (!o->output.empty()) spec.output = o->output;
     if (!o->table.empty()) spec.table = o->table;
     const auto variants = expand_variants(spec);
+    // Rank 0 writes the files: it holds them for the whole sweep (one live writer per path).
+    std::vector<OutputClaim> claims;
+    if (rank == 0) claims = claim_outputs({spec.output, spec.table});
 
     // The base scenario fixes the grid and species every variant must share.
     const Scenario base = load_scenario(spec.scenario, spec.common_overrides, units);
@@ -59,6 +68,22 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     if (!base_model.has_chemistry()) {
       throw InputError(ExitCode::kConfig, SourceLocation{spec.scenario.string()}, "chemistry",
                        "a scenario with a chemistry section", "none");
+    }
+    // Every module a variant switches on exists in the mechanism: refused here (exit 3), not
+    // as every variant failing.
+    const Mechanism& mech = *base.chemistry.mechanism;
+    for (const auto& ms : spec.module_sets) {
+      for (const auto& name : ms.modules) {
+        if (mech.module_index(name)) continue;
+        std::vector<std::string> all;
+        for (const auto& md : mech.modules) all.push_back(md.name);
+        const auto near = nearest_word(name, all);
+        throw InputError(ExitCode::kConfig, ms.where, ms.key_path,
+                         "a module of mechanism '" + mech.name + "' (" +
+                             fmt::format("{}", fmt::join(all, ", ")) + ")",
+                         "unknown module '" + name + "'",
+                         near ? "did you mean '" + *near + "'?" : std::string{});
+      }
     }
     const std::size_t S = base_model.species_count(), N = base_model.cells();
     ObservationSet obs;
@@ -85,7 +110,9 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
       controls.warm_start = warm_start;
       RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
       result.converged = r.ok();
-      result.reason = r.ok() ? std::string("converged") : r.reason;
+      result.interrupted = r.status == SolveStatus::kInterrupted;
+      result.reason = r.ok() ? std::string("converged")
+                             : (result.interrupted ? std::string("interrupted") : r.reason);
       result.iterations = static_cast<int>(r.iterations);
       result.residual = r.residual_norm;
       result.values.resize(S * N);
@@ -100,10 +127,22 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
       ctx.log->info("variant {}/{} [{}] {} on rank {}: {} ({} iterations, {:.2f} s)", v.index + 1,
                     variants.size(), v.label, r.warm_started ? "warm" : "cold", rank,
-                    r.converged ? "converged" : "FAILED: " + r.reason, r.iterations, r.wall_seconds);
+                    r.converged ? "converged" : (r.interrupted ? r.reason : "FAILED: " + r.reason),
+                    r.iterations, r.wall_seconds);
     };
-    std::vector<VariantOutcome> outcomes = run_variants(MPI_COMM_WORLD, variants, runner, done);
-    if (rank != 0) return 0;
+    std::vector<VariantOutcome> outcomes =
+        run_variants(MPI_COMM_WORLD, variants, runner, done, interrupt.query());
+    // The other ranks wait for rank 0's exit code, so that none exits (and mpirun aborts the
+    // job, killing rank 0) before rank 0 has written the files.
+    if (rank != 0) {
+      int code = 0;
+      MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
+      return code;
+    }
+    const auto finish = [](int code) {
+      MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
+      return code;
+    };
 
     SweepResults res;
     res.variants = variants;
@@ -141,22 +180,50 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
       }
     }
     res.outcomes = std::move(outcomes);
+    std::size_t converged = 0, interrupted = 0;
+    for (const auto& oc : res.outcomes) {
+      converged += oc.converged ? 1 : 0;
+      interrupted += oc.interrupted ? 1 : 0;
+    }
+    const std::size_t failed = res.outcomes.size() - converged - interrupted;
+    // What the files say about the sweep as a whole: complete only when nothing was
+    // interrupted; a sweep with no converged variant is not a result either.
+    const std::string sweep_status = interrupted > 0  ? "interrupted"
+                                     : converged == 0 ? "failed"
+                                                      : "complete";
     const auto ranking = rank_variants(res, spec.rank_by);
     {
       NcWriter nc(spec.output);
       write_provenance(nc, base, ctx.command_line);
       nc.global_text("colchem_sweep_file", spec.file.string());
       nc.global_number("colchem_sweep_ranks", size);
+      nc.global_text(
+          "colchem_sweep_status",
+          fmt::format("{}: {} of {} variants converged, {} failed, {} interrupted", sweep_status,
+                      converged, res.outcomes.size(), failed, interrupted));
       write_sweep_netcdf(nc, base_model.background(), res, ranking);
       nc.commit();
     }
     write_text_file(spec.table, sweep_table_csv(res, ranking, spec.rank_by));
     std::cout << sweep_table_text(res, ranking, spec.rank_by);
-    std::size_t failed = 0;
-    for (const auto& oc : res.outcomes) failed += oc.converged ? 0 : 1;
-    ctx.log->info("wrote {} and {}; {} of {} variants converged", spec.output.string(),
-                  spec.table.string(), res.outcomes.size() - failed, res.outcomes.size());
-    return 0;
+    ctx.log->info("wrote {} and {}; {} of {} variants converged, {} failed, {} interrupted",
+                  spec.output.string(), spec.table.string(), converged, res.outcomes.size(), failed,
+                  interrupted);
+    if (interrupted > 0) {
+      ctx.log->warn(
+          "sweep interrupted (signal {}): {} variant{} not finished, recorded as "
+          "'interrupted'; the results are incomplete",
+          interrupt.signal_number(), interrupted, interrupted == 1 ? "" : "s");
+      return finish(static_cast<int>(ExitCode::kInterrupted));
+    }
+    if (converged == 0) {
+      ctx.log->error(
+          "no variant of the sweep converged: 0 of {} ({} failed); the reasons are in the "
+          "status column of {}",
+          res.outcomes.size(), failed, spec.table.string());
+      return finish(static_cast<int>(ExitCode::kNotConverged));
+    }
+    return finish(0);
   });
 }
 

@@ -17,6 +17,7 @@
 #include "app/launcher.hpp"
 #include "colchem/version.hpp"
 #include "core/error.hpp"
+#include "solve/interrupt.hpp"
 
 int main(int argc, char** argv) {
   using namespace colchem;
@@ -63,6 +64,30 @@ int main(int argc, char** argv) {
   } catch (const CLI::CallForVersion& e) {
     return cli.exit(e);
   } catch (const CLI::ParseError& e) {
+    // A first word that is no command: say so and list the commands (CLI11 would only say
+    // that a subcommand is required).
+    std::string word;
+    for (int i = 1; i < argc; ++i) {
+      const std::string a = argv[i];
+      if (a == "--log-level") {
+        ++i;
+        continue;
+      }
+      if (!a.empty() && a[0] == '-') continue;
+      word = a;
+      break;
+    }
+    std::string names;
+    bool known = word.empty();
+    for (const auto& [sub, action] : commands) {
+      names += (names.empty() ? "" : ", ") + sub->get_name();
+      known = known || sub->get_name() == word;
+    }
+    if (!known) {
+      std::cerr << "colchem: unknown command '" << clip_for_message(word)
+                << "'; expected one of: " << names << " (colchem --help)\n";
+      return static_cast<int>(ExitCode::kUsage);
+    }
     (void)cli.exit(e);
     return static_cast<int>(ExitCode::kUsage);
   }
@@ -73,11 +98,26 @@ int main(int argc, char** argv) {
   ctx.log->set_pattern("[%H:%M:%S.%e] %^%l%$ %v");
   ctx.log->set_level(spdlog::level::from_str(log_level));
   for (int i = 0; i < argc; ++i) ctx.command_line += (i ? " " : "") + std::string(argv[i]);
+  // Library warnings (io/output_claim.hpp: stale locks and temporaries) use the default logger.
+  spdlog::set_default_logger(ctx.log);
+  // SIGINT/SIGTERM only set a flag for the whole command (solve/interrupt.hpp), so every
+  // exit path runs the destructors that remove temporary files and output locks; commands
+  // that solve poll the flag and stop early, the others finish and exit 7 here.
+  const InterruptGuard interrupt;
 
   // 3. Run the chosen command; 4. map errors to exit codes.
   try {
     for (auto& [sub, action] : commands) {
-      if (sub->parsed()) return action(ctx);
+      if (!sub->parsed()) continue;
+      const int code = action(ctx);
+      if (code == 0 && interrupt.requested()) {
+        ctx.log->warn(
+            "interrupted (signal {}) after the command had finished; its files are "
+            "complete",
+            interrupt.signal_number());
+        return static_cast<int>(ExitCode::kInterrupted);
+      }
+      return code;
     }
     return static_cast<int>(ExitCode::kUsage);
   } catch (const InputError& e) {

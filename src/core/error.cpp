@@ -16,14 +16,25 @@ std::string SourceLocation::str() const {
   return s;
 }
 
+std::string clip_for_message(const std::string& text) {
+  constexpr std::size_t kKeep = 200, kLimit = 240;
+  if (text.size() <= kLimit) return text;
+  std::string out = text.substr(0, kKeep);
+  out.append("... (").append(std::to_string(text.size())).append(" characters in all)");
+  return out;
+}
+
 namespace {
 std::string compose(const SourceLocation& where, const std::string& key_path,
                     const std::string& expected, const std::string& found,
                     const std::string& hint) {
-  std::string msg = where.str() + ": ";
-  if (!key_path.empty()) msg += "'" + key_path + "': ";
-  msg += "expected " + expected + ", found " + found;
-  if (!hint.empty()) msg += "; " + hint;
+  // append() again (GCC bug 105329, -Wrestrict on operator+ chains).
+  std::string msg = clip_for_message(where.str());
+  msg.append(": ");
+  if (!key_path.empty()) msg.append("'").append(clip_for_message(key_path)).append("': ");
+  msg.append("expected ").append(clip_for_message(expected));
+  msg.append(", found ").append(clip_for_message(found));
+  if (!hint.empty()) msg.append("; ").append(clip_for_message(hint));
   return msg;
 }
 }  // namespace
@@ -33,9 +44,9 @@ InputError::InputError(ExitCode code, SourceLocation where, std::string key_path
     : std::runtime_error(compose(where, key_path, expected, found, hint)),
       code_(code),
       where_(std::move(where)),
-      key_path_(std::move(key_path)),
-      expected_(std::move(expected)),
-      found_(std::move(found)) {}
+      key_path_(clip_for_message(key_path)),
+      expected_(clip_for_message(expected)),
+      found_(clip_for_message(found)) {}
 
 std::size_t edit_distance(const std::string& a, const std::string& b) {
   std::vector<std::size_t> prev(b.size() + 1), cur(b.size() + 1);

@@ -29,7 +29,8 @@ struct SourceLocation {
   [[nodiscard]] std::string str() const;
 };
 
-/// An error in something the user gave us. The message is complete and ready to print.
+/// An error in something the user gave us. The message is complete and ready to print; each
+/// part is clipped (clip_for_message).
 class InputError : public std::runtime_error {
  public:
   InputError(ExitCode code, SourceLocation where, std::string key_path, std::string expected,
@@ -60,6 +61,10 @@ class RunError : public std::runtime_error {
  private:
   ExitCode code_;
 };
+
+/// A value as it appears in a message: longer than 240 characters, its first 200 and
+/// "... (N characters in all)" (a 10 MB value is not echoed whole).
+std::string clip_for_message(const std::string& text);
 
 /// Levenshtein distance, for "did you mean" suggestions.
 std::size_t edit_distance(const std::string& a, const std::string& b);

@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <cctype>
 #include <cmath>
+#include <functional>
 #include <sstream>
 
 #include "io/config_node.hpp"
@@ -477,6 +478,31 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
                   near ? "did you mean '" + *near + "'?" : std::string{});
       }
       m->modules[i].requires_modules.push_back(*idx);
+    }
+  }
+  // Requirements form no cycle (a module that requires itself, directly or through others):
+  // depth-first search, 0 unvisited, 1 on the current path, 2 done.
+  {
+    std::vector<int> state(m->modules.size(), 0);
+    std::vector<std::size_t> path;
+    std::function<void(std::size_t)> visit = [&](std::size_t i) {
+      state[i] = 1;
+      path.push_back(i);
+      for (const std::size_t r : m->modules[i].requires_modules) {
+        if (state[r] == 1) {
+          std::string cycle;
+          const auto from = std::find(path.begin(), path.end(), r);
+          for (auto it = from; it != path.end(); ++it) cycle += m->modules[*it].name + " -> ";
+          cycle += m->modules[r].name;
+          requires_text[r].first.fail("module requirements without a cycle", "the cycle " + cycle);
+        }
+        if (state[r] == 0) visit(r);
+      }
+      path.pop_back();
+      state[i] = 2;
+    };
+    for (std::size_t i = 0; i < m->modules.size(); ++i) {
+      if (state[i] == 0) visit(i);
     }
   }
   root.done();

@@ -12,7 +12,8 @@ namespace colchem {
 // ---------------------------------------------------------------------------------------
 // NcWriter
 
-NcWriter::NcWriter(std::filesystem::path final_path) : final_(std::move(final_path)) {
+NcWriter::NcWriter(std::filesystem::path final_path)
+    : claim_(final_path), final_(std::move(final_path)) {
   temp_ = final_;
   temp_ += ".tmp-" + std::to_string(::getpid());
   if (final_.has_parent_path() && !final_.parent_path().empty()) {
@@ -27,7 +28,7 @@ NcWriter NcWriter::amend(const std::filesystem::path& source, std::filesystem::p
 }
 
 NcWriter::NcWriter(AmendTag, const std::filesystem::path& source, std::filesystem::path final_path)
-    : final_(std::move(final_path)) {
+    : claim_(final_path), final_(std::move(final_path)) {
   temp_ = final_;
   temp_ += ".tmp-" + std::to_string(::getpid());
   std::error_code ec;

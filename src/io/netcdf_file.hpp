@@ -13,6 +13,8 @@
 #include <string>
 #include <vector>
 
+#include "io/output_claim.hpp"
+
 namespace colchem {
 
 struct NcVarAttrs {
@@ -59,6 +61,7 @@ class NcWriter {
   NcWriter(AmendTag, const std::filesystem::path& source, std::filesystem::path final_path);
   int varid(const std::string& name) const;
   void check(int status, const std::string& what) const;
+  OutputClaim claim_;  ///< OUTPUT.lock while this writer lives (io/output_claim.hpp)
   std::filesystem::path final_;
   std::filesystem::path temp_;
   int ncid_ = -1;

@@ -68,7 +68,8 @@ SweepSpec load_sweep(const std::filesystem::path& file, const std::vector<std::s
   if (modules && combos) combos->fail("either 'modules' or 'module_combinations'", "both");
   if (modules) {
     for (const auto& [label, list] : modules->entries()) {
-      spec.module_sets.push_back(ModuleSet{label, list.text_list()});
+      spec.module_sets.push_back(
+          ModuleSet{label, list.text_list(), list.location(), "modules." + label});
     }
   } else if (combos) {
     const auto always = combos->find("always") ? combos->child("always").text_list()
@@ -80,6 +81,8 @@ SweepSpec load_sweep(const std::filesystem::path& file, const std::vector<std::s
     for (std::size_t mask = 0; mask < (std::size_t{1} << optional.size()); ++mask) {
       ModuleSet m;
       m.modules = always;
+      m.where = combos->location();
+      m.key_path = "module_combinations";
       std::string label;
       for (std::size_t k = 0; k < optional.size(); ++k) {
         if (mask & (std::size_t{1} << k)) {

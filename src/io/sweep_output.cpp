@@ -11,6 +11,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
+#include "io/output_claim.hpp"
 
 namespace colchem {
 
@@ -257,6 +258,7 @@ std::string sweep_table_text(const SweepResults& r, const std::vector<std::size_
 }
 
 void write_text_file(const std::filesystem::path& file, const std::string& text) {
+  const OutputClaim claim(file);
   std::filesystem::path tmp = file;
   tmp += ".tmp-" + std::to_string(::getpid());
   if (file.has_parent_path()) {

@@ -12,8 +12,8 @@ namespace {
 
 // The signal number received, 0 if none; -1 marks a programmatic request.
 volatile std::sig_atomic_t g_interrupt_signal = 0;
-// Whether a guard is installed (touched only outside handlers).
-volatile std::sig_atomic_t g_guard_active = 0;
+// How many guards are alive (touched only outside handlers).
+int g_guard_depth = 0;
 
 struct sigaction g_previous_int;
 struct sigaction g_previous_term;
@@ -32,25 +32,23 @@ extern "C" void colchem_on_signal(int sig) {
 }  // namespace
 
 InterruptGuard::InterruptGuard() {
-  if (g_guard_active != 0) {
-    throw RunError(ExitCode::kInternal, "an InterruptGuard is already installed");
-  }
-  g_interrupt_signal = 0;
+  const bool outermost = g_guard_depth == 0;
+  if (outermost) g_interrupt_signal = 0;
   struct sigaction sa {};
   sa.sa_handler = colchem_on_signal;
   sigemptyset(&sa.sa_mask);
   sa.sa_flags = 0;  // no SA_RESTART: a blocking read returns EINTR and the solver polls
-  if (sigaction(SIGINT, &sa, &g_previous_int) != 0 ||
-      sigaction(SIGTERM, &sa, &g_previous_term) != 0) {
+  if (sigaction(SIGINT, &sa, outermost ? &g_previous_int : nullptr) != 0 ||
+      sigaction(SIGTERM, &sa, outermost ? &g_previous_term : nullptr) != 0) {
     throw RunError(ExitCode::kInternal, "could not install the SIGINT/SIGTERM handlers");
   }
-  g_guard_active = 1;
+  ++g_guard_depth;
 }
 
 InterruptGuard::~InterruptGuard() {
+  if (--g_guard_depth > 0) return;
   sigaction(SIGINT, &g_previous_int, nullptr);
   sigaction(SIGTERM, &g_previous_term, nullptr);
-  g_guard_active = 0;
   g_interrupt_signal = 0;
 }
 

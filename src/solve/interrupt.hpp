@@ -7,11 +7,17 @@
 // handlers when destroyed. A second signal while the flag is set falls through to the
 // previous (default) handler, so a hung run can still be killed with a second Ctrl-C.
 //
-// The flag (with the saved previous handlers) is the one piece of file-scope mutable state
-// in the library (interrupt.cpp): a POSIX signal handler receives no user pointer, so the
-// only thing it can legally touch is a static object of type volatile std::sig_atomic_t
-// (or a lock-free std::atomic). Only one guard may exist at a time; constructing a second
-// one throws RunError.
+// The flag (with the saved previous handlers and the nesting depth) is the one piece of
+// file-scope mutable state in the library (interrupt.cpp): a POSIX signal handler receives
+// no user pointer, so the only thing it can legally touch is a static object of type
+// volatile std::sig_atomic_t (or a lock-free std::atomic).
+//
+// Guards nest: main() holds one for the whole command, so that a signal anywhere (also
+// while a file is being written) only sets the flag and every temporary file is removed on
+// the normal path (NcWriter's destructor, write_text_file); a command's own guard inside it
+// re-installs the handler (a library initialised in between, PETSc, may have replaced it)
+// and keeps the flag; only the outermost guard restores the previous handlers and clears
+// the flag when it goes.
 #pragma once
 
 #include <functional>

@@ -65,3 +65,33 @@ TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]"
   CHECK(out[0].reason == "solver blew up");
   CHECK(out[1].converged);
 }
+
+TEST_CASE("a stop request leaves the variants not run as interrupted, not failed", "[sweep][mpi]") {
+  colchem_test::ensure_mpi();
+  SweepSpec spec;
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0}, false});
+  const auto variants = expand_variants(spec);
+  std::size_t started = 0;
+  const auto out = run_variants(
+      MPI_COMM_SELF, variants,
+      [&](const Variant& v, const std::vector<double>*) {
+        ++started;
+        VariantOutcome o;
+        // The second variant is the one running when the signal arrives.
+        o.interrupted = v.index == 1;
+        o.converged = !o.interrupted;
+        o.reason = o.interrupted ? "interrupted" : "converged";
+        return o;
+      },
+      nullptr, [&] { return started >= 2; });
+  REQUIRE(out.size() == 4);
+  CHECK(started == 2);
+  CHECK(out[0].converged);
+  CHECK(out[1].interrupted);
+  for (std::size_t i = 2; i < 4; ++i) {
+    CHECK(out[i].index == i);
+    CHECK(out[i].interrupted);
+    CHECK_FALSE(out[i].converged);
+    CHECK(out[i].reason == "interrupted before it started");
+  }
+}

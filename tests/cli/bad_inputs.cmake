@@ -206,3 +206,40 @@ colchem_cli_test(bad.cli_missing_restart 2 "--restart: File does not exist: no_s
   $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml --restart no_such_restart.nc)
 colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_run.nc"
   $<TARGET_FILE:colchem> budget no_such_run.nc -s SO2)
+
+# --- Sweeps (issue 16): no variant converged (5); a module the mechanism lacks (3) --------
+colchem_cli_test(bad.sweep_all_failed 5
+  "no variant of the sweep converged: 0 of 2 \\(2 failed\\); the reasons are in the status column of sweep_all_failed.csv"
+  $<TARGET_FILE:colchem> sweep ${CMAKE_SOURCE_DIR}/tests/cli/sweep/tellin_sweep_all_fail.yaml
+  -o sweep_all_failed.nc --table sweep_all_failed.csv)
+colchem_cli_test(bad.sweep_unknown_module 3
+  "tellin_sweep_unknown_module.yaml:10:9: 'modules.typo': expected a module of mechanism 'tellin' \\(base, sulfur\\), found unknown module 'sulphur'; did you mean 'sulfur'\\?"
+  $<TARGET_FILE:colchem> sweep ${CMAKE_SOURCE_DIR}/tests/cli/sweep/tellin_sweep_unknown_module.yaml
+  -o sweep_unknown_module.nc --table sweep_unknown_module.csv)
+
+# --- Absurd or inconsistent values (issue 16, item 3) --------------------------------------
+colchem_cli_test(bad.mechanism_circular_requires 4
+  "mech_circular_requires.yaml:9:15: 'modules.0.requires': expected module requirements without a cycle, found the cycle a -> b -> a"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_circular_requires.yaml)
+colchem_cli_test(bad.mechanism_circular_requires_check 4
+  "mech_circular_requires.yaml:9:15: 'modules.0.requires': expected module requirements without a cycle"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD}/mech_circular_requires.yaml)
+colchem_cli_test(bad.negative_absolute_density 3
+  "'solver.absolute_density': expected a positive"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set "solver.absolute_density=-1 cm-3")
+colchem_cli_test(bad.negative_relative_tolerance 3
+  "'solver.transient.relative_tolerance': expected a positive"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set solver.transient.relative_tolerance=-1e-3)
+colchem_cli_test(bad.unknown_command 2
+  "colchem: unknown command 'frobnicate'; expected one of: check, run, compare, budget, sweep, resolve, ensemble, sensitivity, photo, box \\(colchem --help\\)"
+  $<TARGET_FILE:colchem> frobnicate ${CFG}/tellin.yaml)
+colchem_cli_test(bad.unknown_command_after_option 2
+  "colchem: unknown command 'rn'; expected one of: check, run"
+  $<TARGET_FILE:colchem> --log-level warn rn ${CFG}/tellin.yaml)
+colchem_nc_test(bad.compare_too_many_fitted 2
+  "command line: '-p/--fitted-parameters': expected fewer fitted parameters than the observation points of each species inside the model grid \\(SO2: [0-9]+ in .*tellin_so2_invented.csv\\), found 1000"
+  $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${OBS} --no-write -p 1000)
+# A 10 MB value is clipped in the message: its first 200 characters and its length.
+colchem_cli_test(bad.huge_value 3
+  "huge_value.yaml:16:10: 'grid.cells': expected a whole number, found 'x{199}\\.\\.\\. \\(10000002 characters in all\\)"
+  sh -c "/usr/bin/python3 ${BAD}/make_huge_value.py ${CFG}/pyrene.yaml huge_value.yaml && exec $<TARGET_FILE:colchem> check huge_value.yaml")

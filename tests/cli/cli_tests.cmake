@@ -113,6 +113,14 @@ add_test(NAME cli.sweep
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_test.sh $<TARGET_FILE:colchem>
           ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_work)
 set_tests_properties(cli.sweep PROPERTIES PROCESSORS 2)
+add_test(NAME cli.sweep_signal
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_signal_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_signal_work)
+set_tests_properties(cli.sweep_signal PROPERTIES PROCESSORS 2)
+add_test(NAME cli.output_safety
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/output_safety_test.sh $<TARGET_FILE:colchem> ${CFG}
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/output_safety_work)
+set_tests_properties(cli.output_safety PROPERTIES PROCESSORS 2)
 colchem_cli_test(help_sweep 0 "mpirun" $<TARGET_FILE:colchem> sweep --help)
 
 # colchem run / budget / compare / restart / interrupt on the Tellin scenario.

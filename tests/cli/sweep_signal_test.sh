@@ -1,0 +1,72 @@
+#!/usr/bin/env bash
+# A sweep stopped by SIGTERM or SIGINT (issue 16): on one rank and under mpirun (the ranks
+# signalled, as a batch system does) it exits 7, and its files record the variants it did
+# not finish as "interrupted" (never "failed") and the sweep as interrupted, never complete.
+# mpirun itself signalled: Open MPI's own exit code (1), the files as above.
+set -eu
+colchem=$1; dir=$2; work=$3
+mkdir -p "$work"; cd "$work"
+export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
+
+# wait_for LOG PATTERN: until the log shows PATTERN (at most 60 s).
+wait_for() {
+  for _ in $(seq 600); do grep -q "$2" "$1" 2>/dev/null && return 0; sleep 0.1; done
+  echo "FAIL: '$2' never appeared in $1"; cat "$1"; return 1
+}
+# check NAME WANT_CODE GOT_CODE: the files of run NAME say interrupted.
+check() {
+  local name=$1 want=$2 got=$3
+  [ "$got" -eq "$want" ] || { echo "FAIL: $name exited $got, expected $want"; cat "$name.log"; exit 1; }
+  grep -q "interrupted" "$name.csv" || { echo "FAIL: $name.csv has no interrupted variant"; exit 1; }
+  ! ls ./*.tmp-* 2>/dev/null || { echo "FAIL: temporary files left"; exit 1; }
+  /usr/bin/python3 - "$name" <<'PY'
+import csv, sys
+import netCDF4
+name = sys.argv[1]
+rows = list(csv.DictReader(l for l in open(name + ".csv") if not l.startswith("#")))
+status = [r["status"] for r in rows]
+assert len(rows) == 16, len(rows)
+assert not any(s not in ("converged",) and not s.startswith("interrupted") for s in status), status
+n_int = sum(s.startswith("interrupted") for s in status)
+assert n_int >= 1, status
+nc = netCDF4.Dataset(name + ".nc")
+text = nc.getncattr("colchem_sweep_status")
+assert text.startswith("interrupted: "), text
+assert f"{n_int} interrupted" in text and "0 failed" in text, text
+flags = nc["variant_converged"][:]
+assert int(flags.sum()) == 16 - n_int, (flags, n_int)
+print(f"ok: {name}: {n_int} of 16 variants interrupted, files say '{text}'")
+PY
+}
+
+# One rank, SIGTERM and SIGINT.
+for sig in TERM INT; do
+  name=one_$sig
+  "$colchem" sweep "$dir/tellin_sweep.yaml" -o $name.nc --table $name.csv > $name.log 2>&1 &
+  pid=$!
+  wait_for $name.log "variant 3/16"
+  kill -$sig $pid
+  code=0; wait $pid || code=$?
+  check $name 7 $code
+  grep -q "sweep interrupted (signal" $name.log
+done
+
+# Two ranks under mpirun, the ranks signalled.
+name=mpi_ranks
+mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" -o $name.nc --table $name.csv > $name.log 2>&1 &
+pid=$!
+wait_for $name.log "variant 3/16"
+kill -TERM $(pgrep -P $pid)
+code=0; wait $pid || code=$?
+check $name 7 $code
+
+# mpirun itself signalled: it forwards SIGTERM to the ranks; its own exit code is Open MPI's.
+name=mpi_mpirun
+mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" -o $name.nc --table $name.csv > $name.log 2>&1 &
+pid=$!
+wait_for $name.log "variant 3/16"
+kill -TERM $pid
+code=0; wait $pid || code=$?
+[ "$code" -ne 0 ] || { echo "FAIL: mpirun exited 0 after SIGTERM"; exit 1; }
+check $name $code $code
+echo "ok: interrupted sweeps exit 7 and say so"
