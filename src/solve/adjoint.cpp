@@ -424,9 +424,11 @@ FiniteDifference finite_difference(ColumnModel& model, const Objective& obj,
     perturb_parameter(model, p, side == 0 ? step : -step);
     const SteadyStateSolver solver(model.system(), opt);
     const SteadyStateResult r = solver.solve(std::vector<double>(x.begin(), x.end()));
-    // The residual test alone: round-off in the densities of trace species can keep the
-    // step test of a tight solve from passing once the residual is at its floor.
-    if (!r.converged() && !(r.residual_norm <= opt.tolerance)) {
+    // The residual test alone, within 10x: round-off in the densities of trace species can
+    // keep the step test of a tight solve from passing once the residual is at its floor,
+    // and that floor lies near 1e-12 itself (2.8e-12 measured on the compact Pyrene network
+    // at 54 cells, where G still agrees with the adjoint to 5e-6).
+    if (!r.converged() && !(r.residual_norm <= 10.0 * opt.tolerance)) {
       fd.converged = false;
       fd.reason = r.reason;
     }
