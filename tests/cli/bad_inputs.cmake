@@ -231,7 +231,7 @@ colchem_cli_test(bad.negative_relative_tolerance 3
   "'solver.transient.relative_tolerance': expected a positive"
   $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set solver.transient.relative_tolerance=-1e-3)
 colchem_cli_test(bad.unknown_command 2
-  "colchem: unknown command 'frobnicate'; expected one of: check, run, compare, budget, sweep, resolve, ensemble, sensitivity, photo, box \\(colchem --help\\)"
+  "colchem: unknown command 'frobnicate'; expected one of: check, run, .*box.* \\(colchem --help\\)"
   $<TARGET_FILE:colchem> frobnicate ${CFG}/tellin.yaml)
 colchem_cli_test(bad.unknown_command_after_option 2
   "colchem: unknown command 'rn'; expected one of: check, run"
