@@ -7,7 +7,7 @@ colchem=$1; cfg=$2; sweepdir=$3; work=$4
 rm -rf "$work"; mkdir -p "$work"; cd "$work"
 export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 wait_for() {
-  for _ in $(seq 600); do grep -q "$2" "$1" 2>/dev/null && return 0; sleep 0.1; done
+  for _ in $(seq 6000); do grep -q "$2" "$1" 2>/dev/null && return 0; sleep 0.1; done
   echo "FAIL: '$2' never appeared in $1"; cat "$1"; return 1
 }
 leftovers() { ls ./*.tmp-* ./*.lock 2>/dev/null || true; }

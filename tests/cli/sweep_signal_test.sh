@@ -12,9 +12,10 @@ export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 # take 0.1 s and the sweep could finish before it.
 slow=(--set 'sweep.set=[solver.method=steady, grid.cells=240]')
 
-# wait_for LOG PATTERN: until the log shows PATTERN (at most 60 s).
+# wait_for LOG PATTERN: until the log shows PATTERN (at most 600 s: sanitizer builds under load
+# take over a minute for the first variant or step).
 wait_for() {
-  for _ in $(seq 600); do grep -q "$2" "$1" 2>/dev/null && return 0; sleep 0.1; done
+  for _ in $(seq 6000); do grep -q "$2" "$1" 2>/dev/null && return 0; sleep 0.1; done
   echo "FAIL: '$2' never appeared in $1"; cat "$1"; return 1
 }
 # check NAME WANT_CODE GOT_CODE: the files of run NAME say interrupted.
