@@ -66,11 +66,8 @@ code=0; wait $pid || code=$?
 check $name 7 $code
 
 # mpirun itself signalled: it forwards SIGTERM to the ranks; its own exit code is Open MPI's.
-# Open MPI sends SIGKILL odls_base_sigkill_timeout seconds (default 1) after forwarding
-# SIGTERM; the ranks need longer to finish a step and write (much longer in a sanitizer
-# build), so the grace is raised as README "Cluster use" advises.
 name=mpi_mpirun
-mpirun -n 2 --oversubscribe --mca odls_base_sigkill_timeout 120 "$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
+mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
 pid=$!
 wait_for $name.log "variant 3/16"
 kill -TERM $pid
