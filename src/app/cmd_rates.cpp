@@ -53,6 +53,11 @@ struct Condition {
   std::optional<double> altitude_km;
 };
 
+/// p = n k T of a condition, in Pa.
+double pressure_pa(const Condition& c) {
+  return c.air * constants::kBoltzmann * c.T * constants::kPaPerBarye;
+}
+
 /// Where each condition's numbers are evaluated: the chemistry and the bulk gases.
 struct RatesProblem {
   std::shared_ptr<const Mechanism> mech;
@@ -112,7 +117,6 @@ std::vector<Condition> product_conditions(const RatesOptions& o, const UnitSyste
   if (!o.pressure.empty() && !o.air_density_cm3.empty()) {
     throw usage_error("--pressure/--air-density", "one of the two", "both");
   }
-  std::vector<double> air_per_T;
   std::vector<Condition> out;
   for (double T : o.temperature_K) {
     if (!(T > 0.0 && T < 1e5)) {
@@ -294,7 +298,7 @@ std::string csv_text(const RatesProblem& pb, const std::vector<RateRow>& rows) {
   for (const auto& row : rows) {
     for (std::size_t j = 0; j < pb.conditions.size(); ++j) {
       const auto& c = pb.conditions[j];
-      const double p_pa = c.air * constants::kBoltzmann * c.T * constants::kPaPerBarye;
+      const double p_pa = pressure_pa(c);
       out += fmt::format("{},\"{}\",{},{},{:.6g},{:.6g},{:.6e},{},{:.6e},{:.6e},{:.6e}\n", row.id,
                          row.equation, row.form, row.units, c.T, p_pa, c.air,
                          c.altitude_km ? fmt::format("{:.6g}", *c.altitude_km) : std::string(),
@@ -312,7 +316,7 @@ std::string table_text(const RatesProblem& pb, const std::vector<RateRow>& rows)
   std::string head2 = fmt::format("{:<{}}", "", 6 + 1 + eq_w + 1 + 19 + 1 + 8);
   std::string head3 = head2;
   for (const auto& c : pb.conditions) {
-    const double p_pa = c.air * constants::kBoltzmann * c.T * constants::kPaPerBarye;
+    const double p_pa = pressure_pa(c);
     head1 += fmt::format(" {:>12}", c.altitude_km ? fmt::format("{:.4g} km", *c.altitude_km)
                                                   : fmt::format("{:.5g} K", c.T));
     head2 += fmt::format(
