@@ -68,14 +68,23 @@ check $name 7 $code
 # mpirun itself signalled: its own exit code is Open MPI's. Open MPI 4 does not forward the
 # signal at once: it sends the ranks SIGCONT, waits odls_base_sigkill_timeout seconds (default
 # 1), sends SIGTERM, waits as long again, then SIGKILL (measured here: with the timeout at 120 s
-# the ranks saw SIGTERM 120 s and mpirun exited 240 s after it was signalled). A sanitized rank
-# needs more than 1 s to finish its Newton iteration and write, so the test gives each stage
-# 15 s and signals mpirun as the sweep starts, on 400 cells: the first (cold) variant on each
-# rank then takes about 25 s in a normal build (11 s at 240 cells, where the whole sweep took
-# 22 s and SIGTERM sometimes caught only the last variants), so SIGTERM arrives while every
-# rank has variants left.
+# the ranks saw SIGTERM 120 s and mpirun exited 240 s after it was signalled). A rank stops at
+# the end of its Newton iteration and then writes, so each stage gets ten of this build's
+# Newton iterations on 400 cells (measured from the cold variant of the first case, scaled by
+# the cells; at least 15 s): a sanitized build on a loaded machine takes over 10 s for one.
+# mpirun is signalled as the sweep starts, on 400 cells, where the first (cold) variant on each
+# rank takes about 25 s in a normal build (at 240 cells the whole sweep took 22 s and SIGTERM
+# sometimes caught only the last variants), so SIGTERM arrives while every rank has work left.
+grace=$(/usr/bin/python3 - <<'PY'
+import re
+m = re.search(r"cold on rank 0: converged \((\d+) iterations, ([0-9.]+) s\)", open("one_TERM.log").read())
+per_iteration = float(m.group(2)) / int(m.group(1)) * 400 / 240 if m else 10.0
+print(max(15, round(10 * per_iteration)))
+PY
+)
+echo "mpirun kill stages of $grace s"
 name=mpi_mpirun
-mpirun -n 2 --oversubscribe --mca odls_base_sigkill_timeout 15 \
+mpirun -n 2 --oversubscribe --mca odls_base_sigkill_timeout "$grace" \
   "$colchem" sweep "$dir/tellin_sweep.yaml" --set 'sweep.set=[solver.method=steady, grid.cells=400]' -o $name.nc --table $name.csv > $name.log 2>&1 &
 pid=$!
 wait_for $name.log "16 variants on 2 ranks"
