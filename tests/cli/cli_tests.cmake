@@ -144,6 +144,10 @@ colchem_cli_test(photo_parameter_unused 4
   "pyrene.yaml:[0-9]+:[0-9]+: 'parameters.overtone_threshold_kcal'.*used by nothing"
   $<TARGET_FILE:colchem> photo ${CFG}/pyrene_full.yaml
   --set photolysis.data=${CFG}/photolysis/tellin_photo.yaml)
+colchem_cli_test(photo_parameter_unused_extended 4
+  "pyrene_extended.yaml:[0-9]+:[0-9]+: 'parameters.overtone_threshold_kcal'.*used by nothing"
+  $<TARGET_FILE:colchem> photo ${CFG}/pyrene_extended.yaml
+  --set photolysis.data=${CFG}/photolysis/tellin_photo.yaml)
 colchem_cli_test(photo_two_stream_bad 3 "no two-stream settings with 'scheme: direct_beam'"
   $<TARGET_FILE:colchem> photo ${CFG}/tellin.yaml
   --set "photolysis.radiative_transfer={scheme: direct_beam, closure: eddington}")
