@@ -1,7 +1,8 @@
 #!/usr/bin/env python3
 """Checks a Pyrene run file against the published ranges for Venus-like middle atmospheres
 (each recalled, "from memory"; Pyrene is fictional, the comparison says only whether the
-network behaves like those of published CO2 worlds). Prints a Markdown table; exit 0.
+network behaves like those of published CO2 worlds). Prints a Markdown table with, per
+quantity, the factor by which the value lies outside its range (1 inside); exit 0.
 
     scripts/published_ranges.py out/pyrene.nc [--json]
 
@@ -58,6 +59,15 @@ def measure(path):
     return out
 
 
+def factor_outside(v, lo, hi):
+    """How far v lies outside [lo, hi], as a factor: "1" inside, else "Nx below" or "Nx above"."""
+    if v < lo:
+        return f"{lo / v:.2g}x below" if v > 0 else "below (zero)"
+    if v > hi:
+        return f"{v / hi:.2g}x above"
+    return "1"
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("run_file")
@@ -67,11 +77,12 @@ def main():
     if a.json:
         print(json.dumps(m))
         return
-    print("| quantity | Pyrene | published range (from memory) | met |")
-    print("|---|---|---|---|")
+    print("| quantity | Pyrene | published range (from memory) | met | factor outside |")
+    print("|---|---|---|---|---|")
     for key, (lo, hi, src) in RANGES.items():
         v = m[key]
-        print(f"| {key} | {v:.3g} | {lo:.3g}-{hi:.3g}: {src} | {'yes' if lo <= v <= hi else 'no'} |")
+        print(f"| {key} | {v:.3g} | {lo:.3g}-{hi:.3g}: {src} | {'yes' if lo <= v <= hi else 'no'} "
+              f"| {factor_outside(v, lo, hi)} |")
 
 
 if __name__ == "__main__":
