@@ -23,6 +23,7 @@
 #include "analysis/score.hpp"
 #include "analysis/sweep_runner.hpp"
 #include "app/commands.hpp"
+#include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/ensemble_output.hpp"
@@ -55,17 +56,6 @@ void apply_member(ColumnModel& model, std::span<const double> z_member, double s
     }
     kin.set_rate_factors(a, f);
   }
-}
-
-std::vector<double> mole_fractions(const ColumnModel& model, std::span<const double> x) {
-  const std::size_t S = model.species_count(), N = model.cells();
-  std::vector<double> f(S * N);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) {
-      f[s * N + j] = x[j * S + s] / model.background().air_density_cm3[j];
-    }
-  }
-  return f;
 }
 
 struct AttributionTarget {
@@ -192,6 +182,253 @@ EnsembleAttribution attribute_target(ColumnModel& model, const Scenario& sc,
   return out;
 }
 
+struct EnsembleCliOptions {
+  std::string config;
+  std::vector<std::string> sets;
+  std::string output;
+  std::size_t members = 100;
+  std::uint64_t seed = 1;
+  std::string sampling = "latin_hypercube";
+  double sigmas = 1.0;
+  double above_km = 90.0;
+  bool attribution = false;
+  std::vector<std::string> attribute;
+};
+
+/// One member: the scenario with the member's rate factors, warm-started from the base
+/// state `x0`; its mole fractions when it converged.
+VariantOutcome solve_member(const Scenario& sc, std::span<const double> z_member, double sigmas,
+                            const std::vector<double>& x0, const InterruptGuard& interrupt) {
+  VariantOutcome result;
+  try {
+    ColumnModel model(sc);
+    apply_member(model, z_member, sigmas);
+    RunControls controls;
+    controls.stop_requested = interrupt.query();
+    controls.warm_start = true;
+    RunOutcome r = run_column(model, sc.solver, x0, controls);
+    result.converged = r.ok();
+    result.reason = r.ok() ? std::string("converged") : r.reason;
+    result.iterations = static_cast<int>(r.iterations);
+    result.residual = r.residual_norm;
+    if (r.ok()) result.values = mole_fractions(model, r.x);
+  } catch (const std::exception& e) {
+    result.converged = false;
+    result.reason = e.what();
+  }
+  return result;
+}
+
+/// The ensemble's settings, the mechanism's stated uncertainties and each member's outcome;
+/// `values` gets the converged members' mole fractions (empty for the others).
+EnsembleResults ensemble_results(const EnsembleCliOptions& o, const ColumnModel& base_model,
+                                 EnsembleSampling sampling, const std::vector<double>& z,
+                                 const std::vector<VariantOutcome>& outcomes,
+                                 std::vector<std::vector<double>>& values) {
+  const Mechanism& mech = base_model.chemistry().kinetics().mechanism();
+  EnsembleResults res;
+  res.species = base_model.species();
+  res.sampling = sampling_name(sampling);
+  res.seed = o.seed;
+  res.sigmas = o.sigmas;
+  res.above_km = o.above_km;
+  res.z = z;
+  for (const auto& rx : mech.reactions) {
+    res.equations.push_back(rx.equation);
+    res.f298.push_back(rx.uncertainty.f298);
+    res.g_K.push_back(rx.uncertainty.g_K);
+    res.stated.push_back(rx.uncertainty.stated ? 1 : 0);
+  }
+  for (const auto& oc : outcomes) {
+    res.converged.push_back(oc.converged ? 1 : 0);
+    res.reasons.push_back(oc.reason);
+    res.iterations.push_back(oc.iterations);
+    values.push_back(oc.converged ? oc.values : std::vector<double>{});
+  }
+  return res;
+}
+
+/// The scores of the base state and of every converged member (`values`, empty where a
+/// member failed) against the observations: chi-square per species, the 95 % band of the
+/// members at each observed point, and the chance that a member reaches the observations
+/// above `above_km`.
+void score_members(EnsembleResults& res, const std::vector<std::vector<double>>& values,
+                   const ObservationSet& obs, const std::vector<double>& zc, double above_km) {
+  const std::size_t M = values.size();
+  const auto base_scores = score_column(zc, res.species, res.base_mole_fraction, obs, 0);
+  for (const auto& s : base_scores) {
+    res.scored_species.push_back(s.species);
+    res.base_chi2_log.push_back(s.chi2_log);
+  }
+  res.member_chi2_log.assign(M * base_scores.size(), std::numeric_limits<double>::quiet_NaN());
+  // Per observed point: the member values there, for the band and the chance to reach.
+  std::vector<std::vector<double>> at_point;
+  for (const auto& s : base_scores) {
+    for (const auto& p : s.points) {
+      res.points.push_back({p.obs, p.inside, p.model, kNaN(), kNaN(), -1});
+      at_point.emplace_back();
+    }
+  }
+  for (std::size_t m = 0; m < M; ++m) {
+    if (values[m].empty()) continue;
+    const auto scores = score_column(zc, res.species, values[m], obs, 0);
+    std::size_t k = 0;
+    for (std::size_t q = 0; q < scores.size(); ++q) {
+      res.member_chi2_log[m * scores.size() + q] = scores[q].chi2_log;
+      for (const auto& p : scores[q].points) at_point[k++].push_back(p.model);
+    }
+  }
+  for (std::size_t k = 0; k < res.points.size(); ++k) {
+    auto& p = res.points[k];
+    if (!p.inside || at_point[k].empty()) continue;
+    p.low95 = sample_quantile(at_point[k], 0.025);
+    p.high95 = sample_quantile(at_point[k], 0.975);
+    p.inside95 = p.point.upper_limit
+                     ? (p.low95 <= p.point.value ? 1 : 0)
+                     : (p.point.value >= p.low95 && p.point.value <= p.high95 ? 1 : 0);
+  }
+  // The chance that the base network alone reaches the observations above `above`:
+  // the share of converged members whose value at every detected point of the species
+  // above that altitude is at least the observed value minus its 1-sigma uncertainty.
+  for (const auto& sp : res.scored_species) {
+    std::size_t reach = 0, total = 0, npts = 0;
+    for (std::size_t m = 0; m < M; ++m) {
+      if (values[m].empty()) continue;
+      ++total;
+      bool all = true;
+      npts = 0;
+      const auto scores = score_column(zc, res.species, values[m], obs, 0);
+      for (const auto& s : scores) {
+        for (const auto& p : s.points) {
+          if (s.species != sp || !p.inside || p.obs.upper_limit) continue;
+          if (p.obs.altitude_cm < above_km * constants::kCmPerKm) continue;
+          ++npts;
+          if (p.model < p.obs.value - p.obs.uncertainty) all = false;
+        }
+      }
+      if (all && npts > 0) ++reach;
+    }
+    res.reach_points.push_back(static_cast<double>(npts));
+    res.reach_probability.push_back(
+        total > 0 && npts > 0 ? static_cast<double>(reach) / static_cast<double>(total) : kNaN());
+  }
+}
+
+/// The M members (z: R standard normals a member), shared among the ranks of MPI_COMM_WORLD;
+/// the outcomes of all members on rank 0.
+std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<double>& z,
+                                        std::size_t M, std::size_t R, double sigmas,
+                                        const std::vector<double>& x0,
+                                        const InterruptGuard& interrupt, spdlog::logger& log,
+                                        int rank) {
+  std::vector<Variant> members(M);
+  for (std::size_t m = 0; m < members.size(); ++m) {
+    members[m].index = m;
+    members[m].label = fmt::format("member {}", m + 1);
+  }
+  const VariantRunner runner = [&](const Variant& v, const std::vector<double>*) {
+    return solve_member(sc, std::span<const double>(z).subspan(v.index * R, R), sigmas, x0,
+                        interrupt);
+  };
+  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+    log.debug("{} on rank {}: {} ({} iterations, {:.2f} s)", v.label, rank,
+              r.converged ? "converged" : "FAILED: " + r.reason, r.iterations, r.wall_seconds);
+  };
+  return run_variants(MPI_COMM_WORLD, members, runner, done);
+}
+
+/// The ensemble's CF NetCDF file.
+void write_ensemble_file(const std::filesystem::path& output, const Scenario& sc,
+                         const ColumnModel& base_model, const EnsembleResults& res, int ranks,
+                         const std::string& command_line) {
+  NcWriter nc(output);
+  write_provenance(nc, sc, command_line);
+  nc.global_number("colchem_ensemble_ranks", ranks);
+  write_ensemble_netcdf(nc, base_model.background(), res);
+  nc.commit();
+}
+
+int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
+  const PetscSession petsc;  // initialises MPI as well
+  int rank = 0, size = 1;
+  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+  MPI_Comm_size(MPI_COMM_WORLD, &size);
+  const UnitSystem units;
+  const Scenario sc = load_scenario(o.config, o.sets, units);
+  ColumnModel base_model(sc);
+  require_steady_chemistry(sc, base_model, "an ensemble compares steady states");
+  const std::filesystem::path output = o.output.empty()
+                                           ? std::filesystem::path(sc.name + "_ensemble.nc")
+                                           : std::filesystem::path(o.output);
+  ObservationSet obs;
+  if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+  const std::vector<AttributionTarget> targets =
+      attribution_targets(base_model, sc, obs, o.attribution, o.attribute);
+  const InterruptGuard interrupt;
+
+  // 1. The base state, solved on every rank (the same deterministic solve), from which
+  //    every member starts: members do not depend on which rank ran them.
+  //    It starts cold from the scenario's initial state (no grid sequence).
+  BaseStart start(o.config, o.sets);
+  start.grid_sequencing = false;
+  start.progress = rank == 0;
+  const BaseSolve base_solve =
+      solve_steady_base(start, sc, base_model, units, ctx, interrupt, "base state");
+  if (base_solve.exit_code != 0) return base_solve.exit_code;
+  const RunOutcome& base = base_solve.run;
+
+  // 2. The draws: the same on every rank.
+  const Mechanism& mech = base_model.chemistry().kinetics().mechanism();
+  const std::size_t R = mech.reactions.size(), M = o.members;
+  const EnsembleSampling sampling =
+      o.sampling == "random" ? EnsembleSampling::kRandom : EnsembleSampling::kLatinHypercube;
+  const std::vector<double> z = draw_standard_normals(M, R, o.seed, sampling);
+  if (rank == 0) {
+    ctx.log->info(
+        "ensemble of {}: {} members ({} sampling, seed {}) of {} reactions on {} "
+        "rank{}",
+        sc.name, M, sampling_name(sampling), o.seed, R, size, size == 1 ? "" : "s");
+  }
+
+  // 3. The members.
+  const std::vector<VariantOutcome> outcomes =
+      run_members(sc, z, M, R, o.sigmas, base.x, interrupt, *ctx.log, rank);
+  if (interrupt.query()()) {
+    if (rank == 0) ctx.log->warn("interrupted: nothing written");
+    return static_cast<int>(ExitCode::kInterrupted);
+  }
+  if (rank != 0) return 0;
+
+  // 4. Statistics over the converged members.
+  std::vector<std::vector<double>> values;
+  EnsembleResults res = ensemble_results(o, base_model, sampling, z, outcomes, values);
+  res.base_mole_fraction = mole_fractions(base_model, base.x);
+  res.percentile = ensemble_percentiles(values);
+  const auto& zc = base_model.background().grid.center_cm;
+  if (!obs.points.empty()) score_members(res, values, obs, zc, o.above_km);
+
+  // 5. Attribution: one adjoint solve of the base state per target.
+  //    A target whose adjoint fails is reported and left out; the ensemble is still written.
+  for (const auto& t : targets) {
+    try {
+      res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o.sigmas, values));
+    } catch (const RunError& e) {
+      ctx.log->warn("attribution left out: {}", e.what());
+    }
+  }
+
+  write_ensemble_file(output, sc, base_model, res, size, ctx.command_line);
+  std::cout << ensemble_summary_text(res);
+  ctx.log->info("wrote {}", output.string());
+  std::size_t ok = 0;
+  for (int c : res.converged) ok += c != 0 ? 1 : 0;
+  if (ok == 0) {
+    ctx.log->error("no member converged");
+    return static_cast<int>(ExitCode::kNotConverged);
+  }
+  return 0;
+}
+
 }  // namespace
 
 void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
@@ -201,19 +438,7 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
       "the percentiles of every profile, the chi-square distribution and whether the "
       "observations lie inside the model's 95 % band; under mpirun the members are shared "
       "among the ranks.");
-  struct Options {
-    std::string config;
-    std::vector<std::string> sets;
-    std::string output;
-    std::size_t members = 100;
-    std::uint64_t seed = 1;
-    std::string sampling = "latin_hypercube";
-    double sigmas = 1.0;
-    double above_km = 90.0;
-    bool attribution = false;
-    std::vector<std::string> attribute;
-  };
-  auto o = std::make_shared<Options>();
+  auto o = std::make_shared<EnsembleCliOptions>();
   cmd->add_option("CONFIG", o->config, "Scenario file (YAML) with a steady solver")
       ->required()
       ->check(CLI::ExistingFile);
@@ -239,207 +464,7 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
   cmd->add_option("--attribute", o->attribute,
                   "An attribution target SPECIES@KM, e.g. SO2@90 (repeatable; implies "
                   "--attribution, adds to the observed points)");
-  out.emplace_back(cmd, [o](Context& ctx) {
-    const PetscSession petsc;  // initialises MPI as well
-    int rank = 0, size = 1;
-    MPI_Comm_rank(MPI_COMM_WORLD, &rank);
-    MPI_Comm_size(MPI_COMM_WORLD, &size);
-    const UnitSystem units;
-    const Scenario sc = load_scenario(o->config, o->sets, units);
-    if (sc.solver.method != SolverMethod::kSteady) {
-      throw InputError(ExitCode::kConfig, SourceLocation{o->config}, "solver.method",
-                       "steady (an ensemble compares steady states)",
-                       method_name(sc.solver.method));
-    }
-    ColumnModel base_model(sc);
-    if (!base_model.has_chemistry()) {
-      throw InputError(ExitCode::kConfig, SourceLocation{o->config}, "chemistry",
-                       "a scenario with a chemistry section", "none");
-    }
-    const std::filesystem::path output = o->output.empty()
-                                             ? std::filesystem::path(sc.name + "_ensemble.nc")
-                                             : std::filesystem::path(o->output);
-    ObservationSet obs;
-    if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
-    const std::vector<AttributionTarget> targets =
-        attribution_targets(base_model, sc, obs, o->attribution, o->attribute);
-    const InterruptGuard interrupt;
-
-    // 1. The base state, solved on every rank (the same deterministic solve), from which
-    //    every member starts: members do not depend on which rank ran them.
-    RunControls base_controls;
-    base_controls.stop_requested = interrupt.query();
-    if (rank == 0) base_controls.log = ctx.log.get();
-    const RunOutcome base =
-        run_column(base_model, sc.solver, base_model.initial_state(), base_controls);
-    if (base.status == SolveStatus::kInterrupted) {
-      throw RunError(ExitCode::kInterrupted, "interrupted during the base solve");
-    }
-    if (!base.ok()) {
-      throw RunError(ExitCode::kNotConverged, "the base state did not converge: " + base.reason);
-    }
-
-    // 2. The draws: the same on every rank.
-    const Mechanism& mech = base_model.chemistry().kinetics().mechanism();
-    const std::size_t R = mech.reactions.size(), M = o->members;
-    const EnsembleSampling sampling =
-        o->sampling == "random" ? EnsembleSampling::kRandom : EnsembleSampling::kLatinHypercube;
-    const std::vector<double> z = draw_standard_normals(M, R, o->seed, sampling);
-    std::vector<Variant> members(M);
-    for (std::size_t m = 0; m < M; ++m) {
-      members[m].index = m;
-      members[m].label = fmt::format("member {}", m + 1);
-    }
-    if (rank == 0) {
-      ctx.log->info(
-          "ensemble of {}: {} members ({} sampling, seed {}) of {} reactions on {} "
-          "rank{}",
-          sc.name, M, sampling_name(sampling), o->seed, R, size, size == 1 ? "" : "s");
-    }
-
-    // 3. The members.
-    const VariantRunner runner = [&](const Variant& v, const std::vector<double>*) {
-      VariantOutcome result;
-      try {
-        ColumnModel model(sc);
-        apply_member(model, std::span<const double>(z).subspan(v.index * R, R), o->sigmas);
-        RunControls controls;
-        controls.stop_requested = interrupt.query();
-        controls.warm_start = true;
-        RunOutcome r = run_column(model, sc.solver, base.x, controls);
-        result.converged = r.ok();
-        result.reason = r.ok() ? std::string("converged") : r.reason;
-        result.iterations = static_cast<int>(r.iterations);
-        result.residual = r.residual_norm;
-        if (r.ok()) result.values = mole_fractions(model, r.x);
-      } catch (const std::exception& e) {
-        result.converged = false;
-        result.reason = e.what();
-      }
-      return result;
-    };
-    const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
-      ctx.log->debug("{} on rank {}: {} ({} iterations, {:.2f} s)", v.label, rank,
-                     r.converged ? "converged" : "FAILED: " + r.reason, r.iterations,
-                     r.wall_seconds);
-    };
-    std::vector<VariantOutcome> outcomes = run_variants(MPI_COMM_WORLD, members, runner, done);
-    if (interrupt.query()()) {
-      if (rank == 0) ctx.log->warn("interrupted: nothing written");
-      return static_cast<int>(ExitCode::kInterrupted);
-    }
-    if (rank != 0) return 0;
-
-    // 4. Statistics over the converged members.
-    EnsembleResults res;
-    res.species = base_model.species();
-    res.sampling = sampling_name(sampling);
-    res.seed = o->seed;
-    res.sigmas = o->sigmas;
-    res.above_km = o->above_km;
-    res.z = z;
-    for (const auto& rx : mech.reactions) {
-      res.equations.push_back(rx.equation);
-      res.f298.push_back(rx.uncertainty.f298);
-      res.g_K.push_back(rx.uncertainty.g_K);
-      res.stated.push_back(rx.uncertainty.stated ? 1 : 0);
-    }
-    std::vector<std::vector<double>> values;
-    for (const auto& oc : outcomes) {
-      res.converged.push_back(oc.converged ? 1 : 0);
-      res.reasons.push_back(oc.reason);
-      res.iterations.push_back(oc.iterations);
-      values.push_back(oc.converged ? oc.values : std::vector<double>{});
-    }
-    res.base_mole_fraction = mole_fractions(base_model, base.x);
-    res.percentile = ensemble_percentiles(values);
-    const auto& zc = base_model.background().grid.center_cm;
-    if (!obs.points.empty()) {
-      const auto base_scores = score_column(zc, res.species, res.base_mole_fraction, obs, 0);
-      for (const auto& s : base_scores) {
-        res.scored_species.push_back(s.species);
-        res.base_chi2_log.push_back(s.chi2_log);
-      }
-      res.member_chi2_log.assign(M * base_scores.size(), std::numeric_limits<double>::quiet_NaN());
-      // Per observed point: the member values there, for the band and the chance to reach.
-      std::vector<std::vector<double>> at_point;
-      for (const auto& s : base_scores) {
-        for (const auto& p : s.points) {
-          res.points.push_back({p.obs, p.inside, p.model, kNaN(), kNaN(), -1});
-          at_point.emplace_back();
-        }
-      }
-      for (std::size_t m = 0; m < M; ++m) {
-        if (values[m].empty()) continue;
-        const auto scores = score_column(zc, res.species, values[m], obs, 0);
-        std::size_t k = 0;
-        for (std::size_t q = 0; q < scores.size(); ++q) {
-          res.member_chi2_log[m * scores.size() + q] = scores[q].chi2_log;
-          for (const auto& p : scores[q].points) at_point[k++].push_back(p.model);
-        }
-      }
-      for (std::size_t k = 0; k < res.points.size(); ++k) {
-        auto& p = res.points[k];
-        if (!p.inside || at_point[k].empty()) continue;
-        p.low95 = sample_quantile(at_point[k], 0.025);
-        p.high95 = sample_quantile(at_point[k], 0.975);
-        p.inside95 = p.point.upper_limit
-                         ? (p.low95 <= p.point.value ? 1 : 0)
-                         : (p.point.value >= p.low95 && p.point.value <= p.high95 ? 1 : 0);
-      }
-      // The chance that the base network alone reaches the observations above `above`:
-      // the share of converged members whose value at every detected point of the species
-      // above that altitude is at least the observed value minus its 1-sigma uncertainty.
-      for (const auto& sp : res.scored_species) {
-        std::size_t reach = 0, total = 0, npts = 0;
-        for (std::size_t m = 0; m < M; ++m) {
-          if (values[m].empty()) continue;
-          ++total;
-          bool all = true;
-          npts = 0;
-          const auto scores = score_column(zc, res.species, values[m], obs, 0);
-          for (const auto& s : scores) {
-            for (const auto& p : s.points) {
-              if (s.species != sp || !p.inside || p.obs.upper_limit) continue;
-              if (p.obs.altitude_cm < o->above_km * constants::kCmPerKm) continue;
-              ++npts;
-              if (p.model < p.obs.value - p.obs.uncertainty) all = false;
-            }
-          }
-          if (all && npts > 0) ++reach;
-        }
-        res.reach_points.push_back(static_cast<double>(npts));
-        res.reach_probability.push_back(total > 0 && npts > 0 ? static_cast<double>(reach) /
-                                                                    static_cast<double>(total)
-                                                              : kNaN());
-      }
-    }
-
-    // 5. Attribution: one adjoint solve of the base state per target.
-    //    A target whose adjoint fails is reported and left out; the ensemble is still written.
-    for (const auto& t : targets) {
-      try {
-        res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o->sigmas, values));
-      } catch (const RunError& e) {
-        ctx.log->warn("attribution left out: {}", e.what());
-      }
-    }
-
-    NcWriter nc(output);
-    write_provenance(nc, sc, ctx.command_line);
-    nc.global_number("colchem_ensemble_ranks", size);
-    write_ensemble_netcdf(nc, base_model.background(), res);
-    nc.commit();
-    std::cout << ensemble_summary_text(res);
-    ctx.log->info("wrote {}", output.string());
-    std::size_t ok = 0;
-    for (int c : res.converged) ok += c != 0 ? 1 : 0;
-    if (ok == 0) {
-      ctx.log->error("no member converged");
-      return static_cast<int>(ExitCode::kNotConverged);
-    }
-    return 0;
-  });
+  out.emplace_back(cmd, [o](Context& ctx) { return run_ensemble(*o, ctx); });
 }
 
 }  // namespace colchem::app

@@ -15,6 +15,7 @@
 #include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
 #include "app/commands.hpp"
+#include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/fit_output.hpp"
@@ -246,28 +247,165 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
 
 namespace {
 
+/// A central finite difference of chi2 in fitted variable k at step h, with its error
+/// estimate: chi2 at u0 + h, u0 - h, u0 + 2h, u0 - 2h, each solved from `x_start`; then at u0
+/// again from the u0 + h state, whose difference from `chi0` is the steady solves' noise.
+/// Central differences err by C h^2 (Richardson: fd(2h) - fd(h) = 3 C h^2), and the noise of
+/// each chi2 is divided by h.
+struct FiniteDifference {
+  double value = 0.0, error = 0.0;
+  bool ok = true;
+};
+FiniteDifference chi2_finite_difference(ColumnModel& model, const SolverSpec& solver,
+                                        const ObservationSet& obs,
+                                        const std::vector<FitParameter>& params,
+                                        const FitOptions& fopt, const std::vector<double>& x_start,
+                                        const std::vector<double>& u0, double chi0, std::size_t k,
+                                        double h) {
+  FiniteDifference out;
+  const double offsets[4] = {h, -h, 2.0 * h, -2.0 * h};
+  double chi[4] = {0.0, 0.0, 0.0, 0.0};
+  std::vector<double> x_plus;
+  for (int side = 0; side < 4; ++side) {
+    FitProblem fd(model, solver, obs, params, x_start, fopt);
+    std::vector<double> u = u0, r;
+    u[k] += offsets[side];
+    out.ok = fd.residuals(u, r) && out.ok;
+    for (double v : r) chi[side] += v * v;
+    if (side == 0) x_plus = fd.state();
+  }
+  FitProblem back(model, solver, obs, params, x_plus, fopt);
+  std::vector<double> r;
+  out.ok = back.residuals(u0, r) && out.ok;
+  double c = 0.0;
+  for (double v : r) c += v * v;
+  const double noise = std::abs(c - chi0);
+  out.value = (chi[0] - chi[1]) / (2.0 * h);
+  const double fd2 = (chi[2] - chi[3]) / (4.0 * h);
+  out.error = std::abs(fd2 - out.value) / 3.0 + noise / h;
+  fopt.log->debug("--check {}: h {:.3g}, fd(h) {:.10g}, fd(2h) {:.10g}, solve noise {:.3g}",
+                  params[k].path, h, out.value, fd2, noise);
+  return out;
+}
+
+/// Compares the chi-square gradient 2 J^T r of the fit's Jacobian with central finite
+/// differences of the full steady solve at the start `x`: 0, ExitCode::kInternal when one
+/// disagrees, ExitCode::kNotConverged when the steady solve at the start failed.
+int check_gradient(const FitCliOptions& o, ColumnModel& model, const Scenario& sc,
+                   const ObservationSet& obs, const std::vector<FitParameter>& params,
+                   const std::vector<double>& x, const FitOptions& fopt) {
+  int status = 0;
+  FitProblem probe(model, sc.solver, obs, params, x, fopt);
+  // Tight tolerances: chi2 at u +- h must be accurate far below g h * tolerance.
+  probe.solver().tolerance = std::min(probe.solver().tolerance, 1e-12);
+  probe.solver().step_tolerance = 1e-10;
+  probe.solver().max_iterations = 200;
+  const std::vector<double> u0 = probe.initial_u();
+  std::vector<double> r0, jac;
+  if (!probe.residuals(u0, r0) || !probe.jacobian(u0, jac)) {
+    fopt.log->error("--check: the steady solve at the start failed");
+    return static_cast<int>(ExitCode::kNotConverged);  // no fit
+  }
+  const std::vector<double> x_start = probe.state();
+  const std::size_t P = params.size();
+  std::cout << fmt::format(
+      "gradient check at the start (central differences of the full steady solve at steps "
+      "h and 2h; 'fd error' = truncation |fd(h) - fd(2h)|/3 + solve noise/h, relative):\n"
+      "{:<40} {:>16} {:>16} {:>10} {:>10}\n",
+      "parameter", "2 J^T r", "finite diff.", "rel. diff.", "fd error");
+  double chi0 = 0.0;
+  for (double v : r0) chi0 += v * v;
+  double worst = 0.0;
+  for (std::size_t k = 0; k < P; ++k) {
+    double g = 0.0;
+    for (std::size_t i = 0; i < r0.size(); ++i) g += 2.0 * jac[i * P + k] * r0[i];
+    const double h =
+        params[k].log ? o.check_step : o.check_step * std::max(std::abs(u0[k]), 1e-3);
+    const FiniteDifference fd = chi2_finite_difference(model, probe.solver(), obs, params, fopt,
+                                                       x_start, u0, chi0, k, h);
+    const bool ok = fd.ok;
+    const double fdg = fd.value, fd_err = fd.error;
+    const double mag = std::max({std::abs(g), std::abs(fdg), 1e-300});
+    const double rel = std::abs(g - fdg) / mag;
+    // The error estimate rests on one noise sample and one Richardson pair: twice it is
+    // allowed beside the tolerance (common practice, no source).
+    const bool good = ok && std::abs(g - fdg) <= o.check_tolerance * mag + 2.0 * fd_err;
+    worst = std::max(worst, ok ? rel : 1.0);
+    std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e} {:>10.2e}{}\n",
+                             params[k].path, g, fdg, rel, fd_err / mag,
+                             good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
+    if (!good) status = static_cast<int>(ExitCode::kInternal);
+  }
+  std::cout << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
+                           o.check_tolerance);
+  return status;
+}
+
+/// The fit's summary, its parameter table and the correlation matrix.
+void print_fit(const std::vector<FitParameter>& params, const FitResult& res, bool log_space) {
+  const std::size_t P = params.size();
+  std::cout << fmt::format(
+      "fit: {} after {} Gauss-Newton iterations; {} steady solves ({} Newton iterations, "
+      "{:.3f} s), {} Jacobians ({:.3f} s); {:.3f} s in all\n",
+      res.reason, res.iterations, res.steady_solves, res.newton_iterations, res.steady_s,
+      res.jacobians, res.jacobian_s, res.wall_s);
+  std::cout << fmt::format(
+      "chi2 ({}) {:.6g} (start {:.6g}); N = {} points, p = {}; reduced chi2 = chi2/(N - p) = "
+      "{:.4g}\n\n",
+      log_space ? "log" : "linear", res.chi2, res.chi2_initial, res.points, P, res.reduced_chi2);
+  std::cout << fmt::format("{:<40} {:>13} {:>13} {:>13} {:>13}  {}\n", "parameter", "start",
+                           "best fit", "1 sigma", "sigma scaled", "bounds");
+  for (std::size_t k = 0; k < P; ++k) {
+    const auto& p = params[k];
+    std::cout << fmt::format(
+        "{:<40} {:>13.6g} {:>13.6g} {:>13.4g} {:>13.4g}  [{:.4g}, {:.4g}]{}{}\n", p.path, p.initial,
+        res.value[k], res.sigma[k], res.sigma_scaled[k], p.min, p.max,
+        p.log ? fmt::format(" log (factor {:.4g})", std::exp(res.sigma_u[k])) : "",
+        res.at_bound[k] < 0   ? "  AT LOWER BOUND"
+        : res.at_bound[k] > 0 ? "  AT UPPER BOUND"
+                              : "");
+  }
+  std::cout << "\ncorrelation\n";
+  for (std::size_t k = 0; k < P; ++k) {
+    std::string row = fmt::format("{:<40}", params[k].path);
+    for (std::size_t l = 0; l < P; ++l) row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
+    std::cout << row << "\n";
+  }
+}
+
+/// One warm steady solve, K x 1.01 from the fitted state (as `sensitivity --benchmark`),
+/// against the fit's time.
+void print_fit_benchmark(ColumnModel& model, const Scenario& sc, const ObservationSet& obs,
+                         const FitResult& res, const FitOptions& fopt, std::size_t P) {
+  FitParameter k;
+  k.path = "atmosphere.eddy_diffusion";
+  k.kind = FitKind::kEddy;
+  k.edge_lo = 0;
+  k.edge_hi = model.cells();
+  k.initial = 1.0;
+  k.min = 0.5;
+  k.max = 2.0;
+  FitProblem one(model, sc.solver, obs, {k}, res.x, fopt);
+  std::vector<double> r;
+  const auto t0 = std::chrono::steady_clock::now();
+  one.residuals(std::vector<double>{1.01}, r);
+  const double warm_s =
+      std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  std::cout << fmt::format(
+      "\nbenchmark: {} parameters, {} cells; fit {:.3f} s; one warm steady solve (K x 1.01) "
+      "{:.3f} s; the fit costs {:.1f} warm steady solves\n",
+      P, model.cells(), res.wall_s, warm_s, res.wall_s / warm_s);
+}
+
 int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
              const std::vector<std::string>& param_texts, const std::string& output,
              Context& ctx, FitSummary* summary) {
     // 1. The scenario, the observations and the fitted parameters.
     const UnitSystem units;
     Scenario sc = load_scenario(o->config, sets, units);
-    if (sc.solver.method != SolverMethod::kSteady) {
-      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "solver.method",
-                       "steady (fits of a steady state; --set solver.method=steady)",
-                       "'" + std::string(method_name(sc.solver.method)) + "'");
-    }
     ColumnModel model(sc);
-    if (!model.has_chemistry()) {
-      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "chemistry",
-                       "a chemistry section", "none");
-    }
-    const std::filesystem::path obs_file =
-        o->observations.empty() ? sc.observations : std::filesystem::path(o->observations);
-    if (obs_file.empty()) {
-      throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--observations",
-                       "an observation file (the option or the scenario's `observations`)", "none");
-    }
+    require_steady_chemistry(sc, model, "fits of a steady state");
+    const std::filesystem::path obs_file = observation_file(o->observations, sc);
     const ObservationSet obs = read_observations(obs_file, units);
     std::vector<FitParameter> params;
     for (const auto& text : param_texts) {
@@ -288,31 +426,11 @@ int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
     // 2. The steady state at the starting values.
     const PetscSession petsc;
     const InterruptGuard interrupt;
-    std::vector<double> x0 = model.initial_state();
-    if (!o->restart.empty()) {
-      model.take_restart(o->restart, x0);
-    } else if (sc.solver.grid_sequencing) {
-      SolveRequest req;
-      req.config = o->config;
-      req.overrides = sets;
-      req.log = ctx.log.get();
-      req.stop_requested = interrupt.query();
-      SequencedStart seq = sequenced_start(req, model, sc.solver.coarsest_cells, units);
-      if (!seq.x0.empty()) x0 = std::move(seq.x0);
-    }
-    RunControls controls;
-    controls.log = ctx.log.get();
-    controls.stop_requested = interrupt.query();
-    const RunOutcome run = run_column(model, sc.solver, std::move(x0), controls);
-    if (run.status == SolveStatus::kInterrupted) {
-      ctx.log->warn("interrupted (signal {})", interrupt.signal_number());
-      return static_cast<int>(ExitCode::kInterrupted);
-    }
-    if (run.status != SolveStatus::kConverged) {
-      ctx.log->error("steady solve at the starting values did not converge: {}", run.reason);
-      return static_cast<int>(ExitCode::kNotConverged);
-    }
-    ctx.log->info("start: steady state in {} iterations, {:.3f} s", run.iterations, run.wall_s);
+    const BaseStart start(o->config, sets, o->restart);
+    const BaseSolve base = solve_steady_base(start, sc, model, units, ctx, interrupt,
+                                             "steady state at the starting values");
+    if (base.exit_code != 0) return base.exit_code;
+    const RunOutcome& run = base.run;
 
     FitOptions fopt;
     fopt.log_space = !o->linear;
@@ -324,75 +442,8 @@ int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
 
     // 3. The gradient check (before the fit: at the best fit the gradient vanishes).
     if (o->check) {
-      FitProblem probe(model, sc.solver, obs, params, run.x, fopt);
-      // Tight tolerances: chi2 at u +- h must be accurate far below g h * tolerance.
-      probe.solver().tolerance = std::min(probe.solver().tolerance, 1e-12);
-      probe.solver().step_tolerance = 1e-10;
-      probe.solver().max_iterations = 200;
-      const std::vector<double> u0 = probe.initial_u();
-      std::vector<double> r0, jac;
-      if (!probe.residuals(u0, r0) || !probe.jacobian(u0, jac)) {
-        ctx.log->error("--check: the steady solve at the start failed");
-        return static_cast<int>(ExitCode::kNotConverged);
-      }
-      const std::vector<double> x_start = probe.state();
-      const std::size_t P = params.size();
-      std::cout << fmt::format(
-          "gradient check at the start (central differences of the full steady solve at steps "
-          "h and 2h; 'fd error' = truncation |fd(h) - fd(2h)|/3 + solve noise/h, relative):\n"
-          "{:<40} {:>16} {:>16} {:>10} {:>10}\n",
-          "parameter", "2 J^T r", "finite diff.", "rel. diff.", "fd error");
-      double chi0 = 0.0;
-      for (double v : r0) chi0 += v * v;
-      double worst = 0.0;
-      for (std::size_t k = 0; k < P; ++k) {
-        double g = 0.0;
-        for (std::size_t i = 0; i < r0.size(); ++i) g += 2.0 * jac[i * P + k] * r0[i];
-        const double h =
-            params[k].log ? o->check_step : o->check_step * std::max(std::abs(u0[k]), 1e-3);
-        // chi2 at u0 + h, u0 - h, u0 + 2h, u0 - 2h, each solved from the start state; then at
-        // u0 again from the u0 + h state: its difference from chi0 is the solves' noise.
-        const double offsets[4] = {h, -h, 2.0 * h, -2.0 * h};
-        double chi[4] = {0.0, 0.0, 0.0, 0.0};
-        bool ok = true;
-        std::vector<double> x_plus;
-        for (int side = 0; side < 4; ++side) {
-          FitProblem fd(model, probe.solver(), obs, params, x_start, fopt);
-          std::vector<double> u = u0, r;
-          u[k] += offsets[side];
-          ok = fd.residuals(u, r) && ok;
-          for (double v : r) chi[side] += v * v;
-          if (side == 0) x_plus = fd.state();
-        }
-        double noise = 0.0;
-        {
-          FitProblem back(model, probe.solver(), obs, params, x_plus, fopt);
-          std::vector<double> r;
-          ok = back.residuals(u0, r) && ok;
-          double c = 0.0;
-          for (double v : r) c += v * v;
-          noise = std::abs(c - chi0);
-        }
-        const double fdg = (chi[0] - chi[1]) / (2.0 * h);
-        const double fd2 = (chi[2] - chi[3]) / (4.0 * h);
-        // Central differences err by C h^2 (Richardson: fd(2h) - fd(h) = 3 C h^2), and each
-        // chi2 carries the steady solves' noise, which the difference divides by h.
-        const double fd_err = std::abs(fd2 - fdg) / 3.0 + noise / h;
-        ctx.log->debug("--check {}: h {:.3g}, fd(h) {:.10g}, fd(2h) {:.10g}, solve noise {:.3g}",
-                       params[k].path, h, fdg, fd2, noise);
-        const double mag = std::max({std::abs(g), std::abs(fdg), 1e-300});
-        const double rel = std::abs(g - fdg) / mag;
-        // The error estimate rests on one noise sample and one Richardson pair: twice it is
-        // allowed beside the tolerance (common practice, no source).
-        const bool good = ok && std::abs(g - fdg) <= o->check_tolerance * mag + 2.0 * fd_err;
-        worst = std::max(worst, ok ? rel : 1.0);
-        std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e} {:>10.2e}{}\n",
-                                 params[k].path, g, fdg, rel, fd_err / mag,
-                                 good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
-        if (!good) status = static_cast<int>(ExitCode::kInternal);
-      }
-      std::cout << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
-                               o->check_tolerance);
+      status = check_gradient(*o, model, sc, obs, params, run.x, fopt);
+      if (status == static_cast<int>(ExitCode::kNotConverged)) return status;
     }
 
     // 4. The fit.
@@ -401,58 +452,10 @@ int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
     write_fit_file(file, sc, model, params, res, fopt.log_space, ctx.command_line);
 
     const std::size_t P = params.size();
-    std::cout << fmt::format(
-        "fit: {} after {} Gauss-Newton iterations; {} steady solves ({} Newton iterations, "
-        "{:.3f} s), {} Jacobians ({:.3f} s); {:.3f} s in all\n",
-        res.reason, res.iterations, res.steady_solves, res.newton_iterations, res.steady_s,
-        res.jacobians, res.jacobian_s, res.wall_s);
-    std::cout << fmt::format(
-        "chi2 ({}) {:.6g} (start {:.6g}); N = {} points, p = {}; reduced chi2 = chi2/(N - p) = "
-        "{:.4g}\n\n",
-        fopt.log_space ? "log" : "linear", res.chi2, res.chi2_initial, res.points, P,
-        res.reduced_chi2);
-    std::cout << fmt::format("{:<40} {:>13} {:>13} {:>13} {:>13}  {}\n", "parameter", "start",
-                             "best fit", "1 sigma", "sigma scaled", "bounds");
-    for (std::size_t k = 0; k < P; ++k) {
-      const auto& p = params[k];
-      std::cout << fmt::format(
-          "{:<40} {:>13.6g} {:>13.6g} {:>13.4g} {:>13.4g}  [{:.4g}, {:.4g}]{}{}\n", p.path,
-          p.initial, res.value[k], res.sigma[k], res.sigma_scaled[k], p.min, p.max,
-          p.log ? fmt::format(" log (factor {:.4g})", std::exp(res.sigma_u[k])) : "",
-          res.at_bound[k] < 0   ? "  AT LOWER BOUND"
-          : res.at_bound[k] > 0 ? "  AT UPPER BOUND"
-                                : "");
-    }
-    std::cout << "\ncorrelation\n";
-    for (std::size_t k = 0; k < P; ++k) {
-      std::string row = fmt::format("{:<40}", params[k].path);
-      for (std::size_t l = 0; l < P; ++l)
-        row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
-      std::cout << row << "\n";
-    }
+    print_fit(params, res, fopt.log_space);
     ctx.log->info("wrote {}", file.string());
 
-    if (o->benchmark) {
-      // One warm steady solve: K x 1.01 from the fitted state (as `sensitivity --benchmark`).
-      FitParameter k;
-      k.path = "atmosphere.eddy_diffusion";
-      k.kind = FitKind::kEddy;
-      k.edge_lo = 0;
-      k.edge_hi = model.cells();
-      k.initial = 1.0;
-      k.min = 0.5;
-      k.max = 2.0;
-      FitProblem one(model, sc.solver, obs, {k}, res.x, fopt);
-      std::vector<double> r;
-      const auto t0 = std::chrono::steady_clock::now();
-      one.residuals(std::vector<double>{1.01}, r);
-      const double warm_s =
-          std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-      std::cout << fmt::format(
-          "\nbenchmark: {} parameters, {} cells; fit {:.3f} s; one warm steady solve (K x 1.01) "
-          "{:.3f} s; the fit costs {:.1f} warm steady solves\n",
-          P, model.cells(), res.wall_s, warm_s, res.wall_s / warm_s);
-    }
+    if (o->benchmark) print_fit_benchmark(model, sc, obs, res, fopt, P);
     if (!res.converged) {
       ctx.log->warn("the fit did not converge: {}", res.reason);
       if (status == 0) status = static_cast<int>(ExitCode::kNotConverged);

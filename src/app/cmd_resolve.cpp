@@ -12,6 +12,7 @@
 #include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
 #include "app/commands.hpp"
+#include "app/steady_base.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
 #include "io/resolution_output.hpp"
@@ -22,19 +23,82 @@
 
 namespace colchem::app {
 
+namespace {
+
+struct ResolveCliOptions {
+  std::string config, output, grid_out;
+  std::vector<std::string> sets;
+  std::size_t cells = 0, levels = 3, ratio = 2, equidistribute = 0;
+  int passes = 2;
+  double max_ratio = 1.2, floor = 1e-10, low = 1.5, high = 2.5;
+};
+
+int run_resolve(const ResolveCliOptions& o, Context& ctx) {
+  // 1. Load the scenario (for its grid, observations and the provenance of the output).
+  const UnitSystem units;
+  const Scenario sc = load_scenario(o.config, o.sets, units);
+  const std::filesystem::path output = o.output.empty()
+                                           ? std::filesystem::path(sc.name + "_resolution.nc")
+                                           : std::filesystem::path(o.output);
+  ObservationSet obs;
+  if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+  if (!(o.low < o.high)) {
+    throw InputError(ExitCode::kUsage, SourceLocation{"--order-low/--order-high"}, "",
+                     "--order-low below --order-high", fmt::format("{} and {}", o.low, o.high));
+  }
+
+  // 2. The coarsest grid: the scenario's, or uniform cells over its column.
+  const Grid& g = sc.background.grid;
+  std::vector<double> base = g.edge_cm;
+  if (o.cells > 0) base = Grid::uniform(g.edge_cm.front(), g.edge_cm.back(), o.cells).edge_cm;
+
+  const PetscSession petsc;
+  const InterruptGuard interrupt;
+  SolveRequest req = solve_request(BaseStart(o.config, o.sets), ctx.log.get(), interrupt);
+  req.observations = obs.points.empty() ? nullptr : &obs;
+
+  // 3. Optionally adapt: equidistribute the monitor of a solve, write the grid section.
+  if (o.equidistribute > 0) {
+    EquidistributionOptions eo;
+    eo.max_neighbour_ratio = o.max_ratio;
+    base = adapt_grid(req, base, o.equidistribute, o.passes, eo, units);
+    std::filesystem::path grid_file = o.grid_out;
+    if (grid_file.empty())
+      grid_file = std::filesystem::path(output).replace_extension(".grid.yaml");
+    write_text_file(grid_file,
+                    grid_section_yaml(base, fmt::format("equidistributed grid of {} cells for {} "
+                                                        "(colchem resolve --equidistribute)",
+                                                        o.equidistribute, o.config)));
+    ctx.log->info("wrote the adapted grid to {}", grid_file.string());
+  }
+
+  // 4. Solve the grid family, compare, write and print.
+  ResolutionOptions ro;
+  ro.relative_floor = o.floor;
+  ro.range.low = o.low;
+  ro.range.high = o.high;
+  const ResolutionStudy st = run_resolution_study(req, base, o.levels, o.ratio, ro, units);
+  NcWriter nc(output);
+  write_provenance(nc, sc, ctx.command_line);
+  write_resolution_netcdf(nc, st, ro);
+  nc.commit();
+  std::cout << resolution_table_text(st);
+  ctx.log->info("wrote {}", output.string());
+  if (!st.all_converged()) {
+    ctx.log->error("a level did not converge: its species are marked failed");
+    return static_cast<int>(ExitCode::kNotConverged);
+  }
+  return 0;
+}
+
+}  // namespace
+
 void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand(
       "resolve",
       "Solve a scenario on a family of refined grids; report each species' observed order and "
       "Richardson error estimate (profiles and scores); optionally adapt the grid first.");
-  struct Options {
-    std::string config, output, grid_out;
-    std::vector<std::string> sets;
-    std::size_t cells = 0, levels = 3, ratio = 2, equidistribute = 0;
-    int passes = 2;
-    double max_ratio = 1.2, floor = 1e-10, low = 1.5, high = 2.5;
-  };
-  auto o = std::make_shared<Options>();
+  auto o = std::make_shared<ResolveCliOptions>();
   cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")
       ->required()
       ->check(CLI::ExistingFile);
@@ -67,67 +131,7 @@ void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
   cmd->add_option("--grid-out", o->grid_out,
                   "Where the adapted grid is written as a grid: section (default: "
                   "OUTPUT with .grid.yaml)");
-  out.emplace_back(cmd, [o](Context& ctx) {
-    // 1. Load the scenario (for its grid, observations and the provenance of the output).
-    const UnitSystem units;
-    const Scenario sc = load_scenario(o->config, o->sets, units);
-    const std::filesystem::path output = o->output.empty()
-                                             ? std::filesystem::path(sc.name + "_resolution.nc")
-                                             : std::filesystem::path(o->output);
-    ObservationSet obs;
-    if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
-    if (!(o->low < o->high)) {
-      throw InputError(ExitCode::kUsage, SourceLocation{"--order-low/--order-high"}, "",
-                       "--order-low below --order-high", fmt::format("{} and {}", o->low, o->high));
-    }
-
-    // 2. The coarsest grid: the scenario's, or uniform cells over its column.
-    const Grid& g = sc.background.grid;
-    std::vector<double> base = g.edge_cm;
-    if (o->cells > 0) base = Grid::uniform(g.edge_cm.front(), g.edge_cm.back(), o->cells).edge_cm;
-
-    const PetscSession petsc;
-    const InterruptGuard interrupt;
-    SolveRequest req;
-    req.config = o->config;
-    req.overrides = o->sets;
-    req.observations = obs.points.empty() ? nullptr : &obs;
-    req.log = ctx.log.get();
-    req.stop_requested = interrupt.query();
-
-    // 3. Optionally adapt: equidistribute the monitor of a solve, write the grid section.
-    if (o->equidistribute > 0) {
-      EquidistributionOptions eo;
-      eo.max_neighbour_ratio = o->max_ratio;
-      base = adapt_grid(req, base, o->equidistribute, o->passes, eo, units);
-      std::filesystem::path grid_file = o->grid_out;
-      if (grid_file.empty())
-        grid_file = std::filesystem::path(output).replace_extension(".grid.yaml");
-      write_text_file(grid_file,
-                      grid_section_yaml(base, fmt::format("equidistributed grid of {} cells for {} "
-                                                          "(colchem resolve --equidistribute)",
-                                                          o->equidistribute, o->config)));
-      ctx.log->info("wrote the adapted grid to {}", grid_file.string());
-    }
-
-    // 4. Solve the grid family, compare, write and print.
-    ResolutionOptions ro;
-    ro.relative_floor = o->floor;
-    ro.range.low = o->low;
-    ro.range.high = o->high;
-    const ResolutionStudy st = run_resolution_study(req, base, o->levels, o->ratio, ro, units);
-    NcWriter nc(output);
-    write_provenance(nc, sc, ctx.command_line);
-    write_resolution_netcdf(nc, st, ro);
-    nc.commit();
-    std::cout << resolution_table_text(st);
-    ctx.log->info("wrote {}", output.string());
-    if (!st.all_converged()) {
-      ctx.log->error("a level did not converge: its species are marked failed");
-      return static_cast<int>(ExitCode::kNotConverged);
-    }
-    return 0;
-  });
+  out.emplace_back(cmd, [o](Context& ctx) { return run_resolve(*o, ctx); });
 }
 
 }  // namespace colchem::app

@@ -16,6 +16,7 @@
 #include "analysis/score.hpp"
 #include "analysis/sweep_runner.hpp"
 #include "app/commands.hpp"
+#include "app/steady_base.hpp"
 #include "core/error.hpp"
 #include "io/config_node.hpp"
 #include "io/output.hpp"
@@ -115,12 +116,7 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                              : (result.interrupted ? std::string("interrupted") : r.reason);
       result.iterations = static_cast<int>(r.iterations);
       result.residual = r.residual_norm;
-      result.values.resize(S * N);
-      for (std::size_t s = 0; s < S; ++s) {
-        for (std::size_t j = 0; j < N; ++j) {
-          result.values[s * N + j] = r.x[j * S + s] / model.background().air_density_cm3[j];
-        }
-      }
+      result.values = mole_fractions(model, r.x);
       result.state = std::move(r.x);
       return result;
     };

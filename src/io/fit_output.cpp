@@ -9,37 +9,13 @@
 
 namespace colchem {
 
-void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const ColumnModel& model,
-                    const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
-                    const std::string& command_line) {
-  const Background& bg = model.background();
-  const std::size_t P = params.size(), M = res.residuals.size();
-  NcWriter nc(file);
-  write_provenance(nc, sc, command_line);
-  nc.global_text("colchem_fit_method",
-                 "bounded Gauss-Newton (PETSc TAO, TAOBRGN) on the chi-square residuals; "
-                 "Jacobian by forward sensitivities of the steady state, J dx/dp = -dF/dp; "
-                 "covariance (J^T J)^-1 at the best fit, unscaled (Press et al., Numerical "
-                 "Recipes, 3rd ed., sections 15.4-15.5)");
-  nc.global_text("colchem_fit_residuals", log_space ? "chi2_log" : "chi2_linear");
-  nc.global_text("colchem_fit_status", res.reason);
-  nc.global_number("colchem_fit_converged", res.converged ? 1.0 : 0.0);
-  nc.global_number("colchem_fit_chi2", res.chi2);
-  nc.global_number("colchem_fit_chi2_initial", res.chi2_initial);
-  nc.global_number("colchem_fit_reduced_chi2", res.reduced_chi2);
-  nc.global_number("colchem_fit_points", static_cast<double>(res.points));
-  nc.global_number("colchem_fit_iterations", res.iterations);
-  nc.global_number("colchem_fit_steady_solves", res.steady_solves);
-  nc.global_number("colchem_fit_jacobians", res.jacobians);
-  define_background(nc, bg);
-  define_species(nc, model.species());
-  nc.dimension("parameter", P);
-  nc.dimension("parameter2", P);
-  nc.dimension("observation", M);
+namespace {
 
-  std::vector<NcTextField> texts;
-  std::vector<NcField> fields;
-  std::vector<std::string> paths, obs_species;
+/// The fitted parameters: start, best fit, uncertainties, bounds and correlations.
+void add_parameter_fields(NcStateFile& f, const std::vector<FitParameter>& params,
+                          const FitResult& res) {
+  const std::size_t P = params.size();
+  std::vector<std::string> paths;
   NcField init{
       "parameter_initial", {"parameter"}, {"1", "value at the start of the fit", "", {}}, {}};
   NcField val{"parameter_value", {"parameter"}, {"1", "best-fit value", "", {}}, res.value};
@@ -77,6 +53,13 @@ void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const
                {"parameter", "parameter2"},
                {"1", "correlation of the fitted variables from (J^T J)^-1", "", {}},
                res.correlation};
+  f.texts.push_back({"parameter_path", "parameter", "fitted parameter (its path)", paths});
+  f.fields.insert(f.fields.end(), {init, val, sig, sigs, sigu, mn, mx, lg, ab, corr});
+}
+
+/// The observed points with the fitted model's value and residual at each.
+void add_observation_fields(NcStateFile& f, const FitResult& res) {
+  std::vector<std::string> obs_species;
   NcField oz{"observation_altitude", {"observation"}, {"km", "altitude of the point", "", {}}, {}};
   NcField ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
   NcField os{"observation_sigma", {"observation"}, {"1", "one-sigma of the point", "", {}}, {}};
@@ -98,12 +81,39 @@ void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const
     om.data.push_back(r.point.model);
     orr.data.push_back(r.r);
   }
-  texts.push_back({"parameter_path", "parameter", "fitted parameter (its path)", paths});
-  texts.push_back({"observation_species", "observation", "species observed", obs_species});
-  fields = {init, val, sig, sigs, sigu, mn, mx, lg, ab, corr, oz, ov, os, ou, om, orr};
-  write_fields(nc, bg, texts, fields);
-  write_species_data(nc, bg, model.species(), res.x);
-  nc.commit();
+  f.texts.push_back({"observation_species", "observation", "species observed", obs_species});
+  f.fields.insert(f.fields.end(), {oz, ov, os, ou, om, orr});
+}
+
+}  // namespace
+
+void write_fit_file(const std::filesystem::path& file, const Scenario& sc, const ColumnModel& model,
+                    const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
+                    const std::string& command_line) {
+  const std::size_t P = params.size(), M = res.residuals.size();
+  NcWriter nc(file);
+  write_provenance(nc, sc, command_line);
+  nc.global_text("colchem_fit_method",
+                 "bounded Gauss-Newton (PETSc TAO, TAOBRGN) on the chi-square residuals; "
+                 "Jacobian by forward sensitivities of the steady state, J dx/dp = -dF/dp; "
+                 "covariance (J^T J)^-1 at the best fit, unscaled (Press et al., Numerical "
+                 "Recipes, 3rd ed., sections 15.4-15.5)");
+  nc.global_text("colchem_fit_residuals", log_space ? "chi2_log" : "chi2_linear");
+  nc.global_text("colchem_fit_status", res.reason);
+  nc.global_number("colchem_fit_converged", res.converged ? 1.0 : 0.0);
+  nc.global_number("colchem_fit_chi2", res.chi2);
+  nc.global_number("colchem_fit_chi2_initial", res.chi2_initial);
+  nc.global_number("colchem_fit_reduced_chi2", res.reduced_chi2);
+  nc.global_number("colchem_fit_points", static_cast<double>(res.points));
+  nc.global_number("colchem_fit_iterations", res.iterations);
+  nc.global_number("colchem_fit_steady_solves", res.steady_solves);
+  nc.global_number("colchem_fit_jacobians", res.jacobians);
+
+  NcStateFile f;
+  f.dimensions = {{"parameter", P}, {"parameter2", P}, {"observation", M}};
+  add_parameter_fields(f, params, res);
+  add_observation_fields(f, res);
+  write_state_file(nc, model.background(), model.species(), res.x, f);
 }
 
 }  // namespace colchem

@@ -326,4 +326,14 @@ void write_fields(NcWriter& nc, const Background& bg, const std::vector<NcTextFi
   for (const auto& f : fields) nc.put(f.name, f.data);
 }
 
+void write_state_file(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
+                      std::span<const double> n, const NcStateFile& f) {
+  define_background(nc, bg);
+  define_species(nc, species);
+  for (const auto& [name, size] : f.dimensions) nc.dimension(name, size);
+  write_fields(nc, bg, f.texts, f.fields);
+  write_species_data(nc, bg, species, n);
+  nc.commit();
+}
+
 }  // namespace colchem

@@ -40,6 +40,19 @@ struct NcTextField {
 void write_fields(NcWriter& nc, const Background& bg, const std::vector<NcTextField>& texts,
                   const std::vector<NcField>& fields);
 
+/// The variables of a file that holds one column state and what was found of it (fit,
+/// sensitivity): dimensions of its own, text fields and number fields.
+struct NcStateFile {
+  std::vector<std::pair<std::string, std::size_t>> dimensions;
+  std::vector<NcTextField> texts;
+  std::vector<NcField> fields;
+};
+/// Defines the background, the species profiles of the state `n` (cell-major, n[j*S + s])
+/// and `f`'s dimensions and fields, writes them all (write_fields, write_species_data) and
+/// commits. Provenance and global attributes go first, before the call.
+void write_state_file(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
+                      std::span<const double> n, const NcStateFile& f);
+
 void define_background(NcWriter& nc, const Background& bg);
 void write_background_data(NcWriter& nc, const Background& bg);
 

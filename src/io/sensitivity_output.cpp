@@ -16,11 +16,31 @@ std::vector<double> reaction_shares(const SensitivityResult& res) {
   return out;
 }
 
+namespace {
+
+/// The adjoint lambda, species-major (res.lambda is cell-major, [j*S + s]).
+NcField adjoint_field(const SensitivityResult& res, std::size_t S, std::size_t N,
+                      const std::string& lambda_units) {
+  NcField lam{"adjoint",
+              {"species", "altitude"},
+              {lambda_units,
+               "adjoint lambda: dG/d(source) of a steady source of the species in the cell (cm-3 "
+               "s-1); 0 for held species",
+               "",
+               {}},
+              std::vector<double>(S * N)};
+  for (std::size_t s = 0; s < S; ++s) {
+    for (std::size_t j = 0; j < N; ++j) lam.data[s * N + j] = res.lambda[j * S + s];
+  }
+  return lam;
+}
+
+}  // namespace
+
 void write_sensitivity_file(const std::filesystem::path& file, const Scenario& sc,
                             const ColumnModel& model, std::span<const double> x,
                             const Objective& obj, const SensitivityResult& res,
                             const std::string& command_line) {
-  const Background& bg = model.background();
   const std::size_t S = model.species_count(), N = model.cells();
   const std::size_t R = res.reactions.size(), P = res.parameters.size();
   const std::string g_units = obj.units.empty() ? "1" : obj.units;
@@ -35,75 +55,59 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
                  "J^T lambda = (dG/dx)^T, dG/dp = dG/dp|_x - lambda^T dF/dp");
   nc.global_number("colchem_adjoint_krylov_iterations", res.krylov_iterations);
   nc.global_number("colchem_adjoint_seconds", res.total_s);
-  define_background(nc, bg);
-  define_species(nc, model.species());
-  nc.dimension("reaction", R);
-  nc.dimension("parameter", P);
-  nc.string_variable("reaction_id", "reaction",
-                     "reaction identifier (k and its 1-based number in the mechanism file)");
-  nc.string_variable("reaction_equation", "reaction",
-                     "reaction equation as written in the mechanism");
-  nc.variable(
-      "dG_dlnk", {"reaction"},
-      {g_units, "derivative of the objective with respect to ln k of the reaction", "", {}});
-  nc.variable("log_sensitivity", {"reaction"}, {"1", "d ln G / d ln k of the reaction", "", {}});
-  nc.variable("share", {"reaction"}, {"1", "|dG/d ln k| over its sum over the reactions", "", {}});
-  nc.variable("sensitivity_profile", {"reaction", "altitude"},
-              {g_units,
-               "dG/d ln k of the reaction with k scaled in this cell alone (sums to dG_dlnk)",
-               "",
-               {}});
-  nc.string_variable("parameter_name", "parameter", "parameter");
-  nc.string_variable("parameter_description", "parameter", "what the parameter is");
-  nc.variable("parameter_value", {"parameter"},
-              {"1", "value of a named parameter (1: a multiplier)", "", {}});
-  nc.variable("parameter_dG", {"parameter"},
-              {g_units,
-               "dG/dp for a named parameter, dG/d ln p for a multiplier or boundary value",
-               "",
-               {}});
-  nc.variable("parameter_log_sensitivity", {"parameter"}, {"1", "d ln G / d ln p", "", {}});
-  nc.variable("adjoint", {"species", "altitude"},
-              {lambda_units,
-               "adjoint lambda: dG/d(source) of a steady source of the species in the cell (cm-3 "
-               "s-1); 0 for held species",
-               "",
-               {}});
-  nc.end_definitions();
-  write_background_data(nc, bg);
-  write_species_data(nc, bg, model.species(), x);
   std::vector<std::string> ids, eqs, pn, pd;
-  std::vector<double> dG, ls, pv, pdG, pls;
+  NcField dG{"dG_dlnk",
+             {"reaction"},
+             {g_units, "derivative of the objective with respect to ln k of the reaction", "", {}},
+             {}};
+  NcField ls{"log_sensitivity", {"reaction"}, {"1", "d ln G / d ln k of the reaction", "", {}}, {}};
+  NcField share{"share",
+                {"reaction"},
+                {"1", "|dG/d ln k| over its sum over the reactions", "", {}},
+                reaction_shares(res)};
+  NcField profile{"sensitivity_profile",
+                  {"reaction", "altitude"},
+                  {g_units,
+                   "dG/d ln k of the reaction with k scaled in this cell alone (sums to dG_dlnk)",
+                   "",
+                   {}},
+                  res.reaction_profile};
   for (const auto& r : res.reactions) {
     ids.push_back(r.parameter.name);
     eqs.push_back(r.equation);
-    dG.push_back(r.dG);
-    ls.push_back(r.log_sensitivity);
+    dG.data.push_back(r.dG);
+    ls.data.push_back(r.log_sensitivity);
   }
+  NcField pv{"parameter_value",
+             {"parameter"},
+             {"1", "value of a named parameter (1: a multiplier)", "", {}},
+             {}};
+  NcField pdG{"parameter_dG",
+              {"parameter"},
+              {g_units,
+               "dG/dp for a named parameter, dG/d ln p for a multiplier or boundary value",
+               "",
+               {}},
+              {}};
+  NcField pls{"parameter_log_sensitivity", {"parameter"}, {"1", "d ln G / d ln p", "", {}}, {}};
   for (const auto& p : res.parameters) {
     pn.push_back(p.parameter.name);
     pd.push_back(p.equation);
-    pv.push_back(p.parameter.value);
-    pdG.push_back(p.dG);
-    pls.push_back(p.log_sensitivity);
+    pv.data.push_back(p.parameter.value);
+    pdG.data.push_back(p.dG);
+    pls.data.push_back(p.log_sensitivity);
   }
-  nc.put_strings("reaction_id", ids);
-  nc.put_strings("reaction_equation", eqs);
-  nc.put("dG_dlnk", dG);
-  nc.put("log_sensitivity", ls);
-  nc.put("share", reaction_shares(res));
-  nc.put("sensitivity_profile", res.reaction_profile);
-  nc.put_strings("parameter_name", pn);
-  nc.put_strings("parameter_description", pd);
-  nc.put("parameter_value", pv);
-  nc.put("parameter_dG", pdG);
-  nc.put("parameter_log_sensitivity", pls);
-  std::vector<double> lam(S * N);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) lam[s * N + j] = res.lambda[j * S + s];
-  }
-  nc.put("adjoint", lam);
-  nc.commit();
+  const NcField lam = adjoint_field(res, S, N, lambda_units);
+  NcStateFile f;
+  f.dimensions = {{"reaction", R}, {"parameter", P}};
+  f.texts = {
+      {"reaction_id", "reaction",
+       "reaction identifier (k and its 1-based number in the mechanism file)", ids},
+      {"reaction_equation", "reaction", "reaction equation as written in the mechanism", eqs},
+      {"parameter_name", "parameter", "parameter", pn},
+      {"parameter_description", "parameter", "what the parameter is", pd}};
+  f.fields = {dG, ls, share, profile, pv, pdG, pls, lam};
+  write_state_file(nc, model.background(), model.species(), x, f);
 }
 
 }  // namespace colchem
