@@ -198,40 +198,50 @@ SpeciesResolution compare_species(const std::string& name,
 }
 
 std::vector<double> curvature_indicator(const Grid& grid, std::span<const double> f,
-                                        std::size_t species, const std::vector<bool>& use) {
+                                        std::size_t species, const std::vector<bool>& use,
+                                        double relative_floor) {
   const std::size_t N = grid.cells();
   std::vector<double> c(N, 0.0);
   if (N < 3) return c;
   const auto& z = grid.center_cm;
+  std::vector<double> u(N), cs(N);
   for (std::size_t s = 0; s < species; ++s) {
     if (!use[s]) continue;
-    const auto u = f.subspan(s * N, N);
-    const double peak = *std::max_element(u.begin(), u.end());
+    const auto fs = f.subspan(s * N, N);
+    const double peak = *std::max_element(fs.begin(), fs.end());
     if (!(peak > 0.0)) continue;
-    std::vector<double> d2(N);
+    const double floor = relative_floor * peak;
+    for (std::size_t j = 0; j < N; ++j) u[j] = std::log(std::max(fs[j], floor));
     for (std::size_t j = 1; j + 1 < N; ++j) {
       const double hm = z[j] - z[j - 1], hp = z[j + 1] - z[j];
-      d2[j] = 2.0 * ((u[j + 1] - u[j]) / hp - (u[j] - u[j - 1]) / hm) / (hp + hm) / peak;
+      const double dm = (u[j] - u[j - 1]) / hm, dp = (u[j + 1] - u[j]) / hp;
+      const double d1 = (hm * dp + hp * dm) / (hm + hp);  // exact for quadratic u
+      const double d2 = 2.0 * (dp - dm) / (hp + hm);
+      cs[j] = std::abs(d2) + d1 * d1;
     }
-    d2[0] = d2[1];
-    d2[N - 1] = d2[N - 2];
-    for (std::size_t j = 0; j < N; ++j) c[j] += std::abs(d2[j]);
+    cs[0] = cs[1];
+    cs[N - 1] = cs[N - 2];
+    for (std::size_t j = 0; j < N; ++j) c[j] = std::max(c[j], cs[j]);
   }
   return c;
 }
 
 std::vector<double> monitor_from_indicator(const Grid& grid, std::span<const double> c,
-                                           int smoothing_passes) {
+                                           int smoothing_passes, double uniform_share) {
+  if (!(uniform_share > 0.0 && uniform_share < 1.0)) {
+    throw std::invalid_argument("monitor_from_indicator: uniform share outside (0, 1)");
+  }
   const std::size_t N = grid.cells();
   double sum = 0.0, span = 0.0;
   for (std::size_t j = 0; j < N; ++j) {
-    sum += grid.width_cm(j) * std::cbrt(c[j]);
+    sum += grid.width_cm(j) * std::sqrt(c[j]);
     span += grid.width_cm(j);
   }
-  const double alpha = std::pow(sum / span, 3.0);
+  const double w = (sum / span) * uniform_share / (1.0 - uniform_share);
+  const double alpha = w * w;
   std::vector<double> M(N, 1.0);
   if (alpha > 0.0) {
-    for (std::size_t j = 0; j < N; ++j) M[j] = std::sqrt(1.0 + std::pow(c[j] / alpha, 2.0 / 3.0));
+    for (std::size_t j = 0; j < N; ++j) M[j] = std::sqrt(1.0 + c[j] / alpha);
   }
   for (int pass = 0; pass < smoothing_passes && N > 1; ++pass) {
     std::vector<double> s(N);
@@ -242,6 +252,55 @@ std::vector<double> monitor_from_indicator(const Grid& grid, std::span<const dou
     M = std::move(s);
   }
   return M;
+}
+
+SampledMonitor gradient_limited_monitor(const Grid& grid, std::span<const double> M,
+                                        std::size_t cells, double r, std::size_t subcells) {
+  const std::size_t N = grid.cells();
+  if (M.size() != N || cells < 1 || subcells < 1 || !(r >= 1.0)) {
+    throw std::invalid_argument("gradient_limited_monitor: bad input");
+  }
+  SampledMonitor out;
+  out.edges_cm = refine_edges(grid.edge_cm, subcells);
+  const std::size_t K = out.edges_cm.size() - 1;
+  // w = 1/M, linear between the old centres (held beyond the end centres).
+  std::vector<double> zs(K), w(K);
+  const auto& zc = grid.center_cm;
+  std::size_t j = 0;
+  for (std::size_t k = 0; k < K; ++k) {
+    zs[k] = 0.5 * (out.edges_cm[k] + out.edges_cm[k + 1]);
+    while (j + 1 < N && zc[j + 1] <= zs[k]) ++j;
+    if (zs[k] <= zc.front() || j + 1 >= N) {
+      w[k] = 1.0 / M[zs[k] <= zc.front() ? 0 : N - 1];
+    } else {
+      const double t = (zs[k] - zc[j]) / (zc[j + 1] - zc[j]);
+      w[k] = (1.0 - t) / M[j] + t / M[j + 1];
+    }
+  }
+  // The widths h = C w, C = (int dz/w)/cells, limited to slope g: h_k <= h_i + g |z_k - z_i|,
+  // i.e. w_k <= w_i + (g/C) |z_k - z_i| (a forward and a backward sweep give the envelope).
+  // Limiting lowers w and so raises C: repeat with the new C until it settles.
+  const double g = 2.0 * (r - 1.0) / (r + 1.0);
+  std::vector<double> lim(w);
+  double C = 0.0;
+  for (int it = 0; it < 100; ++it) {
+    double I = 0.0;
+    for (std::size_t k = 0; k < K; ++k) I += (out.edges_cm[k + 1] - out.edges_cm[k]) / lim[k];
+    const double C_new = I / static_cast<double>(cells);
+    if (it > 0 && std::abs(C_new - C) <= 1e-6 * C) break;
+    C = C_new;
+    const double slope = g / C;
+    lim = w;
+    for (std::size_t k = 1; k < K; ++k) {
+      lim[k] = std::min(lim[k], lim[k - 1] + slope * (zs[k] - zs[k - 1]));
+    }
+    for (std::size_t k = K - 1; k-- > 0;) {
+      lim[k] = std::min(lim[k], lim[k + 1] + slope * (zs[k + 1] - zs[k]));
+    }
+  }
+  out.M.resize(K);
+  for (std::size_t k = 0; k < K; ++k) out.M[k] = 1.0 / lim[k];
+  return out;
 }
 
 std::vector<double> equidistribute(std::span<const double> edges_cm, std::span<const double> M,
@@ -284,9 +343,11 @@ std::vector<double> equidistributed_edges(const Grid& grid, std::span<const doub
                                           std::size_t species, const std::vector<bool>& use,
                                           std::size_t cells,
                                           const EquidistributionOptions& options) {
-  const auto c = curvature_indicator(grid, f, species, use);
-  const auto M = monitor_from_indicator(grid, c, options.smoothing_passes);
-  return limit_neighbour_ratio(equidistribute(grid.edge_cm, M, cells), options.max_neighbour_ratio);
+  const auto c = curvature_indicator(grid, f, species, use, options.relative_floor);
+  const auto M = monitor_from_indicator(grid, c, options.smoothing_passes, options.uniform_share);
+  const SampledMonitor sm = gradient_limited_monitor(grid, M, cells, options.max_neighbour_ratio);
+  return limit_neighbour_ratio(equidistribute(sm.edges_cm, sm.M, cells),
+                               options.max_neighbour_ratio);
 }
 
 }  // namespace colchem

@@ -15,13 +15,23 @@
 // Equidistribution (de Boor 1973, "Good approximation by splines with variable knots II";
 // Huang and Russell 2011, Adaptive Moving Mesh Methods, ch. 2): the new edges z_k satisfy
 //   int_{z_0}^{z_k} M dz = (k/N) int_{z_0}^{z_N} M dz
-// for the monitor M(z) = sqrt(1 + (c(z)/alpha)^(2/3)) with the indicator
-//   c(z) = sum_s |d^2 u_s/dz^2|,  u_s = f_s / max_z f_s  (mole fraction over its peak),
-// which is |u''|^(1/3), the L1-optimal density for a second-order profile error, where the
-// curvature dominates and uniform where it does not; alpha = (mean over z of c^(1/3))^3 gives
-// both parts the same weight (Huang and Russell's choice of the intensity parameter, from
-// memory). The monitor is smoothed with (1/4, 1/2, 1/4) passes, and the ratio of
-// neighbouring cell widths is bounded afterwards. Altitudes in cm; f dimensionless.
+// for the monitor M(z) = sqrt(1 + c(z)/alpha) with the indicator
+//   c(z) = max_s (|u_s''| + u_s'^2),  u_s = ln max(f_s, floor * max_z f_s),
+// a bound on |f_s''/f_s| = |u_s'' + u_s'^2|, i.e. 1/L^2 for the local e-folding length L of
+// a species' mole fraction. The study compares log10 f, and a second-order scheme's error in
+// ln f over a cell is ~(h/L)^2: with M ~ 1/L every e-fold of every species (down to the
+// comparison's floor, 1e-10 of its peak) gets the same number of cells, where a monitor of
+// the curvature of f itself sees only the species near their peaks. alpha = (mean over z of
+// sqrt(c))^2 (s/(1 - s))^2 gives the uniform part the share s of the monitor's integral (s =
+// 1/2: both parts the same weight, Huang and Russell's choice of the intensity parameter,
+// from memory). The monitor is smoothed with
+// (1/4, 1/2, 1/4) passes; then the cell widths it asks for, h(z) = (int M dz / N) / M(z),
+// are gradient-limited before the edges are placed, h(z) <= h(z') + g |z - z'| with
+// g = 2 (r - 1)/(r + 1) (a geometric sequence of ratio r has exactly this slope between
+// neighbouring centres; gradient limiting of a mesh size function: Persson 2006, Engineering
+// with Computers 22, 95, from memory), so that the ratio bound r of neighbouring widths holds
+// without stretching the thin cells afterwards; a last pass enforces it exactly. Altitudes in
+// cm; f dimensionless.
 #pragma once
 
 #include <cstddef>
@@ -111,6 +121,8 @@ struct ResolutionOptions {
   /// Altitudes where f < relative_floor * max_z f (of that species, on any level) are not
   /// compared: there the profile is below any meaningful tolerance of the solve.
   double relative_floor = 1e-10;
+  /// The share s of the monitor's integral (and so of the cells) in its uniform part.
+  double uniform_share = 0.5;
 };
 
 /// Compares one species' profiles on a grid family refined by `ratio`.
@@ -126,18 +138,37 @@ SpeciesResolution compare_species(const std::string& name,
 struct EquidistributionOptions {
   int smoothing_passes = 2;          ///< (1/4, 1/2, 1/4) passes over the monitor
   double max_neighbour_ratio = 1.2;  ///< bound on h_{j+1}/h_j and h_j/h_{j+1}
+  /// Mole fractions below this fraction of the species' peak count as the floor (the
+  /// comparison's ResolutionOptions::relative_floor).
+  double relative_floor = 1e-10;
+  /// The share s of the monitor's integral (and so of the cells) in its uniform part.
+  double uniform_share = 0.5;
 };
 
-/// c_j = sum_s |d^2 u_s/dz^2| at the cell centres (three-point formula on non-uniform
-/// centres; the end cells take their neighbour's value). f is [s*N + j]; species with a
-/// zero maximum or with mask false are skipped.
+/// c_j = max_s (|u''| + u'^2) at the cell centres, u = ln max(f_s, floor * peak_s)
+/// (three-point first and second derivatives on non-uniform centres, both exact for
+/// quadratic u; the end cells take their neighbour's value): the inverse square of the
+/// shortest e-folding length there (cm^-2). f is [s*N + j]; species with a zero maximum or
+/// with mask false are skipped.
 std::vector<double> curvature_indicator(const Grid& grid, std::span<const double> f,
-                                        std::size_t species, const std::vector<bool>& use);
+                                        std::size_t species, const std::vector<bool>& use,
+                                        double relative_floor = 1e-10);
 
-/// M_j = sqrt(1 + (c_j/alpha)^(2/3)), alpha = (sum_j h_j c_j^(1/3) / sum_j h_j)^3 (M = 1
-/// where c vanishes everywhere), then smoothed.
+/// M_j = sqrt(1 + c_j/alpha), alpha = (sum_j h_j sqrt(c_j) / sum_j h_j)^2 (s/(1 - s))^2
+/// with s = uniform_share in (0, 1) (M = 1 where c vanishes everywhere), then smoothed.
 std::vector<double> monitor_from_indicator(const Grid& grid, std::span<const double> c,
-                                           int smoothing_passes);
+                                           int smoothing_passes, double uniform_share = 0.5);
+
+/// The monitor of `grid` (one value per cell) resampled on `subcells` equal parts of every
+/// cell, with the widths it asks for gradient-limited to the ratio r of neighbouring widths
+/// for `cells` new cells (see the header comment): returns the sample edges and the limited
+/// monitor on them, ready for equidistribute().
+struct SampledMonitor {
+  std::vector<double> edges_cm;
+  std::vector<double> M;
+};
+SampledMonitor gradient_limited_monitor(const Grid& grid, std::span<const double> M,
+                                        std::size_t cells, double r, std::size_t subcells = 16);
 
 /// Edges of `cells` cells over [edges.front(), edges.back()] with equal integrals of the
 /// piecewise-constant monitor M (one value per old cell).
@@ -148,8 +179,8 @@ std::vector<double> equidistribute(std::span<const double> edges_cm, std::span<c
 /// stretching all to the same span); ends stay fixed.
 std::vector<double> limit_neighbour_ratio(std::span<const double> edges_cm, double r);
 
-/// The composition: indicator of the profiles f [s*N + j] on `grid`, monitor, equidistributed
-/// edges with `cells` cells, ratio bound.
+/// The composition: indicator of the profiles f [s*N + j] on `grid`, monitor, gradient
+/// limit, equidistributed edges with `cells` cells, ratio bound.
 std::vector<double> equidistributed_edges(const Grid& grid, std::span<const double> f,
                                           std::size_t species, const std::vector<bool>& use,
                                           std::size_t cells,

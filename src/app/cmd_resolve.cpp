@@ -4,7 +4,7 @@
 // Resolution as a result: solves the scenario on N, rN, r^2 N ... cells and reports, per
 // species, the observed order and the Richardson error of its profile and of its scores
 // (Roache 1998); with --equidistribute, first places N edges by equidistributing a
-// curvature monitor of a first solve and studies that grid family instead.
+// monitor of the e-folding lengths of a first solve and studies that grid family instead.
 #include <fmt/format.h>
 
 #include <iostream>
@@ -30,7 +30,7 @@ struct ResolveCliOptions {
   std::vector<std::string> sets;
   std::size_t cells = 0, levels = 3, ratio = 2, equidistribute = 0;
   int passes = 2;
-  double max_ratio = 1.2, floor = 1e-10, low = 1.5, high = 2.5;
+  double max_ratio = 1.2, uniform_share = 0.5, floor = 1e-10, low = 1.5, high = 2.5;
 };
 
 int run_resolve(const ResolveCliOptions& o, Context& ctx) {
@@ -61,6 +61,8 @@ int run_resolve(const ResolveCliOptions& o, Context& ctx) {
   if (o.equidistribute > 0) {
     EquidistributionOptions eo;
     eo.max_neighbour_ratio = o.max_ratio;
+    eo.relative_floor = o.floor;
+    eo.uniform_share = o.uniform_share;
     base = adapt_grid(req, base, o.equidistribute, o.passes, eo, units);
     std::filesystem::path grid_file = o.grid_out;
     if (grid_file.empty())
@@ -121,13 +123,17 @@ void add_resolve_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
   cmd->add_option("--order-low", o->low, "Lowest observed order counted as asymptotic");
   cmd->add_option("--order-high", o->high, "Highest observed order counted as asymptotic");
   cmd->add_option("--equidistribute", o->equidistribute,
-                  "Adapt first: N edges equidistributing the curvature monitor of a solve on "
+                  "Adapt first: N edges equidistributing the e-folding monitor of a solve on "
                   "the coarsest grid; the study then refines the adapted grid")
       ->check(CLI::Range(std::size_t{3}, std::size_t{100000}));
   cmd->add_option("--passes", o->passes, "Solve-and-equidistribute passes")
       ->check(CLI::Range(1, 10));
   cmd->add_option("--max-ratio", o->max_ratio, "Bound on the ratio of neighbouring cell widths")
       ->check(CLI::Range(1.0, 10.0));
+  cmd->add_option("--uniform-share", o->uniform_share,
+                  "Share of the adapted cells spread uniformly (the rest follow the shortest "
+                  "e-folding length of the species' profiles)")
+      ->check(CLI::Range(0.01, 0.99));
   cmd->add_option("--grid-out", o->grid_out,
                   "Where the adapted grid is written as a grid: section (default: "
                   "OUTPUT with .grid.yaml)");

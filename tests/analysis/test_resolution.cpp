@@ -158,19 +158,77 @@ TEST_CASE("equidistribution gives every new cell the same monitor integral", "[r
   }
 }
 
-TEST_CASE("the curvature indicator is exact for quadratic profiles on non-uniform cells",
+TEST_CASE("the e-folding indicator is exact for Gaussian-type profiles on non-uniform cells",
           "[resolution]") {
-  // The three-point second derivative is exact for quadratics (analytic): u = z^2 on
-  // [0, 4] normalised by its peak has u'' = 2/peak everywhere.
+  // f = exp(u), u = a z + b z^2: f''/f = u'' + u'^2 = 2b + (a + 2bz)^2, and the three-point
+  // first and second derivatives of u are exact for quadratic u (analytic), so the
+  // indicator |u''| + u'^2 is exact at the interior centres; the end cells take their
+  // neighbour's value.
   const Grid g = Grid::from_edges({0.0, 0.3, 1.0, 1.2, 2.5, 4.0});
+  const double a = -3.0, b = 0.5;
+  const std::size_t N = g.cells();
   std::vector<double> f;
-  for (double z : g.center_cm) f.push_back(z * z);
-  const double peak = f.back();
-  const auto c = curvature_indicator(g, f, 1, {true});
-  for (double x : c) CHECK(x == Approx(2.0 / peak).epsilon(1e-12));
+  for (double z : g.center_cm) f.push_back(std::exp(a * z + b * z * z));
+  for (std::size_t j = 0; j < N; ++j) f.push_back(2.0e-3);  // a constant: no contribution
+  const auto exact = [&](double z) { return 2.0 * b + (a + 2.0 * b * z) * (a + 2.0 * b * z); };
+  const auto c = curvature_indicator(g, f, 2, {true, true});
+  for (std::size_t j = 1; j + 1 < N; ++j) {
+    CHECK(c[j] == Approx(exact(g.center_cm[j])).epsilon(1e-12));
+  }
+  CHECK(c[0] == Approx(c[1]).epsilon(1e-15));
+  CHECK(c[N - 1] == Approx(c[N - 2]).epsilon(1e-15));
+  // Below the floor the profile is flat: a species at most 1e-3 of its peak with floor 1e-2
+  // adds nothing where it is clipped (analytic: u constant there).
+  std::vector<double> clipped{1.0, 1e-3, 1e-4, 1e-5, 1e-6};
+  const auto cc = curvature_indicator(g, clipped, 1, {true}, 1e-2);
+  CHECK(cc[3] == 0.0);
+  CHECK(cc[4] == 0.0);
+  CHECK(cc[1] > 0.0);
   // A constant monitor leaves a grid's equidistribution uniform (analytic).
   const auto M = monitor_from_indicator(g, std::vector<double>(5, 0.0), 2);
   for (double m : M) CHECK(m == 1.0);
+}
+
+TEST_CASE("gradient limiting bounds the width ratio without stretching the thin cells",
+          "[resolution]") {
+  // A monitor 50 times larger on one cell of 20 (a thin layer at 10-11): the widths it asks
+  // for jump by 50. After gradient limiting (slope g = 2 (r - 1)/(r + 1), r = 1.2) the
+  // equidistributed widths grow geometrically away from the layer: the ratio bound holds
+  // before the final ratio pass to within the sampling (16 samples per old cell), and that
+  // pass then changes the thinnest cell by less than 1 % (analytic: a geometric sequence of
+  // ratio r has exactly the slope g between neighbouring centres).
+  const Grid g = Grid::uniform(0.0, 20.0, 20);
+  std::vector<double> M(20, 1.0);
+  M[10] = 50.0;
+  const std::size_t cells = 40;
+  const double r = 1.2;
+  const SampledMonitor sm = gradient_limited_monitor(g, M, cells, r);
+  REQUIRE(sm.edges_cm.size() == 20 * 16 + 1);
+  const auto e = equidistribute(sm.edges_cm, sm.M, cells);
+  double hmin = 1e300, qmax = 0.0;
+  for (std::size_t j = 0; j < cells; ++j) hmin = std::min(hmin, e[j + 1] - e[j]);
+  for (std::size_t j = 1; j < cells; ++j) {
+    const double q = (e[j + 1] - e[j]) / (e[j] - e[j - 1]);
+    qmax = std::max({qmax, q, 1.0 / q});
+  }
+  CHECK(qmax < r * 1.03);
+  const auto l = limit_neighbour_ratio(e, r);
+  double lmin = 1e300;
+  for (std::size_t j = 0; j < cells; ++j) lmin = std::min(lmin, l[j + 1] - l[j]);
+  CHECK(lmin / hmin == Approx(1.0).epsilon(0.01));
+  // The thin cells sit in the layer.
+  std::size_t k = 0;
+  for (std::size_t j = 0; j < cells; ++j) {
+    if (e[j + 1] - e[j] == hmin) k = j;
+  }
+  CHECK(e[k] >= 9.5);
+  CHECK(e[k + 1] <= 11.5);
+  // Without the limiting the final ratio pass would have to stretch the layer's cells: the
+  // unlimited equidistribution's thinnest cell is 50 times thinner than its neighbours.
+  const auto raw = limit_neighbour_ratio(equidistribute(g.edge_cm, M, cells), r);
+  double rmin = 1e300;
+  for (std::size_t j = 0; j < cells; ++j) rmin = std::min(rmin, raw[j + 1] - raw[j]);
+  WARN("thinnest cell: gradient-limited " << lmin << ", limited afterwards only " << rmin);
 }
 
 namespace {
@@ -195,6 +253,18 @@ double max_linear_error(const LevelResult& r, const colchem::test::LossColumn& e
   const auto& z = r.background.grid.center_cm;
   for (std::size_t j = 0; j < z.size(); ++j) {
     e = std::max(e, std::abs(r.mole_fraction[j] - ex(z[j])) / ex.f0);
+  }
+  return e;
+}
+
+/// max |log10 f - log10 f_exact| over the cell centres where f_exact > 1e-10 f0 (the
+/// comparison's floor): the error the equidistribution monitor targets.
+double max_log_error(const LevelResult& r, const colchem::test::LossColumn& ex) {
+  double e = 0.0;
+  const auto& z = r.background.grid.center_cm;
+  for (std::size_t j = 0; j < z.size(); ++j) {
+    if (!(ex(z[j]) > 1e-10 * ex.f0)) continue;
+    e = std::max(e, std::abs(std::log10(r.mole_fraction[j]) - std::log10(ex(z[j]))));
   }
   return e;
 }
@@ -246,7 +316,8 @@ TEST_CASE("an equidistributed grid beats the uniform grid on the thin boundary l
           "[resolution][validation]") {
   // Same closed form (analytic). 50 cells: uniform (dz = 1 km, as thick as the layer)
   // against 50 equidistributed cells from two solve-and-adapt passes started on 50 uniform
-  // cells. The error is measured in the mole fraction relative to its bottom value.
+  // cells. The monitor follows each profile's e-folding length, so the error compared is
+  // that of log10 f (the study's quantity) where f is above 1e-10 f0.
   const UnitSystem units;
   const auto ex = boundary_layer();
   const auto req = request();
@@ -259,13 +330,18 @@ TEST_CASE("an equidistributed grid beats the uniform grid on the thin boundary l
   CHECK(adapted.back() == Approx(50.0e5).epsilon(1e-15));
   const LevelResult a = solve_on_edges(req, adapted, units, nullptr);
   REQUIRE(a.converged);
-  const double eu = max_linear_error(u, ex), ea = max_linear_error(a, ex);
-  WARN("boundary layer, 50 cells: max error uniform "
-       << eu << ", equidistributed " << ea << " (first cell " << adapted[1] / 1e5 << " km)");
-  // (c) the adapted grid is finer in the layer, and its error smaller by a factor 4 or more
-  // (common practice, no source, for the factor)
-  CHECK(adapted[1] < 0.5 * uniform[1]);
-  CHECK(ea < eu / 4.0);
+  const double eu = max_log_error(u, ex), ea = max_log_error(a, ex);
+  WARN("boundary layer, 50 cells: max log10 error uniform "
+       << eu << ", equidistributed " << ea << "; max |f - f_exact|/f0 uniform "
+       << max_linear_error(u, ex) << ", equidistributed " << max_linear_error(a, ex)
+       << " (first cell " << adapted[1] / 1e5 << " km)");
+  // (c) the adapted grid puts more cells where f is above the floor (f_exact = 1e-10 f0 at
+  // 24.4 km: 24 uniform cells) and its log10 error is smaller by a factor 1.5 or more
+  // (common practice, no source, for the factor; measured 1.7)
+  std::size_t below = 0;
+  for (double z : adapted) below += z < 24.4e5 ? 1 : 0;
+  CHECK(below > 28);
+  CHECK(ea < eu / 1.5);
   // The ratio bound holds on the grid written out.
   for (std::size_t j = 1; j + 1 < adapted.size(); ++j) {
     const double q = (adapted[j + 1] - adapted[j]) / (adapted[j] - adapted[j - 1]);
@@ -273,22 +349,21 @@ TEST_CASE("an equidistributed grid beats the uniform grid on the thin boundary l
     CHECK(q >= 1.0 / 1.2 * (1 - 1e-9));
   }
   // Second order holds on the adapted family too (every cell split by 2, 4 and 8; analytic).
-  // The coarsest triple is pre-asymptotic above the layer (cells of 1.8 km against a decay
-  // length of 1 km): measured order 1.70 on 50/100/200, 1.91 on 100/200/400.
   const ResolutionStudy st = run_resolution_study(req, adapted, 4, 2, ResolutionOptions{}, units);
   REQUIRE(st.all_converged());
   const auto& p = st.profiles[0];
   WARN("adapted family 50-400: orders(rms) " << p.order_rms[0] << ", " << p.order_rms[1]);
+  CHECK(p.order_rms[0] > 1.8);
+  CHECK(p.order_rms[0] < 2.2);
   CHECK(p.order_rms[1] > 1.8);
   CHECK(p.order_rms[1] < 2.2);
-  CHECK(p.order_rms[0] < p.order_rms[1]);  // approaching the asymptotic range from below
   // The non-uniform cells converge to the closed form itself at second order (analytic):
-  // the error in f relative to f0 on the adapted family.
+  // the error in log10 f on the adapted family.
   std::vector<double> err;
-  for (const auto& l : st.levels) err.push_back(max_linear_error(l, ex));
+  for (const auto& l : st.levels) err.push_back(max_log_error(l, ex));
   for (std::size_t i = 0; i + 1 < err.size(); ++i) {
     const double order = std::log2(err[i] / err[i + 1]);
-    WARN("adapted family, cells " << st.levels[i].background.grid.cells() << ": max error "
+    WARN("adapted family, cells " << st.levels[i].background.grid.cells() << ": max log10 error "
                                   << err[i] << ", order against the closed form " << order);
     CHECK(order > 1.8);  // analytic: second-order scheme
     CHECK(order < 2.2);
