@@ -228,8 +228,18 @@ SteadyStateResult SteadyStateSolver::solve(std::vector<double> x0,
         }
         dtau *= growth;
       }
-      // A clipped step means dtau reached what the state can follow: no further growth.
-      if (last_clipped) dtau = std::min(dtau, last_dtau * o.clipped_growth);
+      // A clipped step (a density titrated away, limited at its positivity floor) says
+      // the linearisation overshot somewhere; whether dtau is beyond what the state can
+      // follow is for the residual to say (SER): after a clipped step whose residual did
+      // not rise, dtau may grow by at most clipped_growth, after one whose residual rose
+      // it shrinks by min_growth. A titration front that moves one cell per few steps
+      // clips nearly every step while the residual falls, and holding dtau there cost ~55
+      // iterations of a 73-iteration cold start; growing it even where the residual rose
+      // let dtau reach the Newton limit with the residual stalled near 1 (README "Steady
+      // solves per grid").
+      if (last_clipped) {
+        dtau = std::min(dtau, last_dtau * (ratio >= 1.0 ? o.clipped_growth : o.min_growth));
+      }
     }
     dtau_before_newton = 0.0;
     // Never below the tolerance: convergence is declared only after a Newton step.

@@ -12,9 +12,11 @@
 // update n_i + dx_i would fall below f n_i (f = positivity_fraction), the density becomes
 // n_i min(f, exp(dx_i / n_i)), the step of Newton's method in ln n_i, bounded by f n_i, so
 // that densities stay positive and one titrated away falls many decades in one step; a
-// step that limits a density above a_s caps the next dtau at clipped_growth (default 1: no
-// growth) times this one. A step that changed no density by more than change_target
-// (max|dx|/(|x| + a_s)) and clipped none lets dtau grow by up to
+// step that limits a density above a_s caps the next dtau at clipped_growth (default 2)
+// times this one when the residual did not rise over that step, and at min_growth times
+// this one when it rose: the clip bounds the growth, the residual decides it. A step that
+// changed no density by more than change_target (max|dx|/(|x| + a_s)) and clipped none lets
+// dtau grow by up to
 // min(max_change_growth, change_target / change) even where the residual stalls (unless it
 // rose by more than 1/min_growth): the early steps of a cold start and the start from an
 // interpolated state change the state little while the scaled residual, set by the slowest
@@ -63,7 +65,8 @@ struct SteadyStateOptions {
   double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
   double change_target = 1.0;         ///< relative change below which dtau may grow fast
   double max_change_growth = 100.0;   ///< bound of that growth per step
-  double clipped_growth = 1.0;        ///< bound of dtau growth after a clipped step
+  double clipped_growth = 2.0;        ///< bound of dtau growth after a clipped step whose
+                                      ///< residual did not rise (one that rose: min_growth)
   double positivity_fraction = 0.1;   ///< f: x_new >= f x_old
   double min_damping = 1.0;           ///< lower bound of the global damping lambda (1: none)
   double time_s = 0.0;                ///< the t handed to the operators
