@@ -59,7 +59,8 @@ std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
 }
 
 SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& target,
-                               std::size_t coarsest_cells, const UnitSystem& units) {
+                               std::size_t coarsest_cells, double level_tolerance,
+                               const UnitSystem& units) {
   SequencedStart out;
   std::optional<LevelResult> last;
   // With the two-stream scheme the coarser levels take the direct beam: they only give the
@@ -73,6 +74,12 @@ SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& targe
   if (direct_beam_levels) {
     level_req.overrides.emplace_back("photolysis.radiative_transfer={scheme: direct_beam}");
   }
+  // Nested iteration: a coarser level is solved to its discretisation error only
+  // (io/solver_section.hpp, sequence_tolerance); the step and balance tests belong to the
+  // requested grid.
+  level_req.overrides.push_back(fmt::format("solver.tolerance={:.17g}", level_tolerance));
+  level_req.overrides.emplace_back("solver.step_tolerance=1e300");
+  level_req.overrides.emplace_back("solver.balance_tolerance=1e300");
   for (const auto& edges : coarser_grids(target.background().grid.edge_cm, coarsest_cells)) {
     LevelResult r = solve_on_edges(level_req, edges, units, last ? &*last : nullptr);
     out.levels.push_back(

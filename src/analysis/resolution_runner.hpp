@@ -71,13 +71,15 @@ std::vector<std::vector<double>> coarser_grids(std::span<const double> edges_cm,
 /// last converged level interpolated onto the target grid (x0 empty when none converged;
 /// `levels` says what each level did). When `target` uses the two-stream scheme the coarser
 /// levels are solved with the direct beam (the start only; the target grid gets the
-/// scenario's own radiative transfer).
+/// scenario's own radiative transfer). The coarser levels stop at a scaled residual of
+/// `level_tolerance` (solver.sequence_tolerance), their step and balance tests waived.
 struct SequencedStart {
   std::vector<double> x0;
   std::vector<SequenceLevel> levels;
 };
 SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& target,
-                               std::size_t coarsest_cells, const UnitSystem& units);
+                               std::size_t coarsest_cells, double level_tolerance,
+                               const UnitSystem& units);
 
 /// Scores' resolution: chi-square (log) per level and each observed point's log10 model value.
 struct ScoreResolution {

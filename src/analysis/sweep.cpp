@@ -16,17 +16,6 @@ std::string join(const std::vector<std::string>& v, const std::string& sep) {
   return out;
 }
 
-double coordinate(const ParameterAxis& a, std::size_t i) {
-  if (a.values.size() < 2) return 0.0;
-  const auto [lo_it, hi_it] = std::minmax_element(a.values.begin(), a.values.end());
-  double lo = *lo_it, hi = *hi_it, v = a.values[i];
-  if (a.logarithmic && lo > 0.0) {
-    lo = std::log(lo);
-    hi = std::log(hi);
-    v = std::log(v);
-  }
-  return hi > lo ? (v - lo) / (hi - lo) : 0.0;
-}
 }  // namespace
 
 std::vector<Variant> expand_variants(const SweepSpec& spec) {
@@ -65,7 +54,6 @@ std::vector<Variant> expand_variants(const SweepSpec& spec) {
         for (std::size_t a = 0; a < spec.axes.size(); ++a) {
           const double val = spec.axes[a].values[idx[a]];
           v.parameters.emplace_back(spec.axes[a].name, val);
-          v.coordinates.push_back(coordinate(spec.axes[a], idx[a]));
           v.overrides.push_back("chemistry.parameters." + spec.axes[a].name + "=" + exact_number(val));
           label_parts.push_back(fmt::format("{}={:.4g}", spec.axes[a].name, val));
         }
@@ -76,16 +64,6 @@ std::vector<Variant> expand_variants(const SweepSpec& spec) {
     }
   }
   return out;
-}
-
-double variant_distance(const Variant& a, const Variant& b) {
-  // A variant with other modules or overrides is a worse but usable start (same species).
-  double d2 = (a.module_set != b.module_set || a.override_set != b.override_set) ? 1e6 : 0.0;
-  for (std::size_t i = 0; i < a.coordinates.size() && i < b.coordinates.size(); ++i) {
-    const double d = a.coordinates[i] - b.coordinates[i];
-    d2 += d * d;
-  }
-  return std::sqrt(d2);
 }
 
 }  // namespace colchem

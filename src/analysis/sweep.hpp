@@ -53,17 +53,11 @@ struct Variant {
   std::vector<std::string> overrides;  ///< every "--set" this variant applies, in order
   std::size_t module_set = 0;          ///< index into SweepSpec::module_sets
   std::size_t override_set = 0;
-  std::vector<double> coordinates;     ///< parameter coordinates in [0, 1] for distances
 };
 
 /// The cross product, in a fixed order (module sets outermost, then override sets, then
 /// parameters with the last axis fastest). The order does not depend on the number of ranks.
 std::vector<Variant> expand_variants(const SweepSpec& spec);
-
-/// Distance for warm starts: the Euclidean distance of the normalised parameter
-/// coordinates, plus 1000 when the module or override sets differ (such a variant is a
-/// worse but usable starting point).
-double variant_distance(const Variant& a, const Variant& b);
 
 /// Formats a value for a "--set" override so that it reads back exactly (17 significant
 /// digits).

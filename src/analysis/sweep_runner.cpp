@@ -80,7 +80,6 @@ void pack(Packer& pk, const VariantOutcome& o) {
   pk.put<double>(o.residual);
   pk.put<double>(o.wall_seconds);
   pk.put_string(o.reason);
-  pk.put_doubles(o.state);
   pk.put_doubles(o.values);
 }
 
@@ -95,7 +94,6 @@ VariantOutcome unpack(Unpacker& up) {
   o.residual = up.get<double>();
   o.wall_seconds = up.get<double>();
   o.reason = up.get_string();
-  o.state = up.get_doubles();
   o.values = up.get_doubles();
   return o;
 }
@@ -132,21 +130,10 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
     if (next < 0 || static_cast<std::size_t>(next) >= variants.size()) break;
     const Variant& v = variants[static_cast<std::size_t>(next)];
 
-    // Warm start from the nearest variant this rank has finished with a usable state.
-    const std::vector<double>* warm = nullptr;
-    double best = std::numeric_limits<double>::infinity();
-    for (const auto& o : mine) {
-      if (!o.converged || o.state.empty()) continue;
-      const double d = variant_distance(v, variants[o.index]);
-      if (d < best) {
-        best = d;
-        warm = &o.state;
-      }
-    }
     const auto t0 = std::chrono::steady_clock::now();
     VariantOutcome out;
     try {
-      out = run(v, warm);
+      out = run(v);
     } catch (const std::exception& e) {
       out = VariantOutcome{};
       out.converged = false;
@@ -154,7 +141,6 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
     }
     out.index = v.index;
     out.rank = rank;
-    out.warm_started = warm != nullptr;
     out.wall_seconds =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     if (done) done(v, out);

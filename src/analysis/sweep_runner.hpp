@@ -3,11 +3,11 @@
 // Dynamic load balancing: the next variant index is a counter in an MPI one-sided window on
 // rank 0 that every rank increments atomically (MPI_Fetch_and_op) when it is free, so no
 // rank waits while variants remain and all ranks finish within one variant's time of each
-// other. Every rank warm-starts a variant from the nearest variant it has already finished
-// (variant_distance); the first variant on a rank starts cold. Results are gathered on rank
-// 0 in variant order, so the output does not depend on the number of ranks beyond the
-// solver tolerance (each variant is converged to the coupled steady-state tolerance from
-// whatever start it had).
+// other. Where a variant starts is the runner's business and must not depend on the rank or
+// on which variants ran before it there (the sweep and ensemble commands start every
+// variant from the same base state, solved on every rank): then each outcome is a function
+// of its variant alone, and results, gathered on rank 0 in variant order, are identical
+// whatever the number of ranks.
 #pragma once
 
 #include <mpi.h>
@@ -31,15 +31,13 @@ struct VariantOutcome {
   double residual = 0.0;       ///< scaled coupled residual of the end state
   double wall_seconds = 0.0;
   int rank = 0;
-  bool warm_started = false;
-  std::vector<double> state;   ///< final column state (number densities), empty if none
+  bool warm_started = false;   ///< started from a converged state (not the initial guess)
   std::vector<double> values;  ///< variant-specific numbers the caller packs (profiles, scores)
 };
 
-/// Runs one variant; `warm_start` is the state of the nearest finished variant on this rank,
-/// or null. Must not throw for a variant that fails: return converged = false with a reason.
-using VariantRunner =
-    std::function<VariantOutcome(const Variant& variant, const std::vector<double>* warm_start)>;
+/// Runs one variant. Must not throw for a variant that fails: return converged = false with
+/// a reason.
+using VariantRunner = std::function<VariantOutcome(const Variant& variant)>;
 
 /// Called on the rank that finished a variant (for progress lines).
 using VariantDone = std::function<void(const Variant&, const VariantOutcome&)>;

@@ -326,7 +326,7 @@ std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<do
     members[m].index = m;
     members[m].label = fmt::format("member {}", m + 1);
   }
-  const VariantRunner runner = [&](const Variant& v, const std::vector<double>*) {
+  const VariantRunner runner = [&](const Variant& v) {
     return solve_member(sc, std::span<const double>(z).subspan(v.index * R, R), sigmas, x0,
                         interrupt);
   };

@@ -95,7 +95,19 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     }
     const InterruptGuard interrupt;
 
-    const VariantRunner runner = [&](const Variant& v, const std::vector<double>* warm) {
+    // Every variant starts from the base scenario's steady state, solved on every rank by
+    // the same deterministic solve (grid sequencing as `colchem run`), so that a variant's
+    // answer does not depend on the rank that ran it or on what that rank ran before: the
+    // scores on 1 and 2 ranks are identical (tests/cli/sweep_test.sh). A variant that does
+    // not converge from there (or every variant, when the base did not converge) starts
+    // again from its own scenario's cold start, grid-sequenced as `colchem run` does.
+    BaseStart base_start(spec.scenario.string(), spec.common_overrides);
+    base_start.progress = rank == 0;
+    const BaseSolve base_solve = solve_steady_base(base_start, base, base_model, units, ctx,
+                                                   interrupt, "base state of the sweep");
+    const bool base_ok = base_solve.run.ok();
+
+    const VariantRunner runner = [&](const Variant& v) {
       VariantOutcome result;
       const Scenario sc = load_scenario(spec.scenario, v.overrides, units);
       ColumnModel model(sc);
@@ -103,13 +115,35 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
         result.reason = "the variant changes the grid or the species of the base scenario";
         return result;
       }
-      const bool warm_start = warm && warm->size() == S * N;
-      std::vector<double> x0 = warm_start ? *warm : model.initial_state();
-      model.impose_held(x0);
       RunControls controls;
       controls.stop_requested = interrupt.query();
-      controls.warm_start = warm_start;
-      RunOutcome r = run_column(model, sc.solver, std::move(x0), controls);
+      RunOutcome r;
+      if (base_ok) {
+        std::vector<double> x0 = base_solve.run.x;
+        model.impose_held(x0);
+        controls.warm_start = true;
+        r = run_column(model, sc.solver, std::move(x0), controls);
+        result.warm_started = true;
+      }
+      if (!base_ok || (!r.ok() && r.status != SolveStatus::kInterrupted)) {
+        BaseStart own(spec.scenario.string(), v.overrides);
+        own.progress = false;
+        StartState st;
+        try {
+          st = start_state(own, sc, model, units, nullptr, interrupt);
+        } catch (const RunError& e) {
+          if (e.code() != ExitCode::kInterrupted) throw;
+          result.interrupted = true;
+          result.reason = "interrupted";
+          return result;
+        }
+        model.impose_held(st.x0);
+        controls.warm_start = st.warm;
+        const long before = base_ok ? r.iterations : 0;
+        r = run_column(model, sc.solver, std::move(st.x0), controls);
+        r.iterations += before;
+        result.warm_started = false;
+      }
       result.converged = r.ok();
       result.interrupted = r.status == SolveStatus::kInterrupted;
       result.reason = r.ok() ? std::string("converged")
@@ -117,12 +151,11 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
       result.iterations = static_cast<int>(r.iterations);
       result.residual = r.residual_norm;
       result.values = mole_fractions(model, r.x);
-      result.state = std::move(r.x);
       return result;
     };
     const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
       ctx.log->info("variant {}/{} [{}] {} on rank {}: {} ({} iterations, {:.2f} s)", v.index + 1,
-                    variants.size(), v.label, r.warm_started ? "warm" : "cold", rank,
+                    variants.size(), v.label, r.warm_started ? "from the base" : "cold", rank,
                     r.converged ? "converged" : (r.interrupted ? r.reason : "FAILED: " + r.reason),
                     r.iterations, r.wall_seconds);
     };
@@ -155,7 +188,6 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
         scores = score_column(base_model.background().grid.center_cm, res.species, oc.values, obs, 0);
       }
       res.scores.push_back(std::move(scores));
-      oc.state.clear();
     }
     if (!obs.points.empty()) {
       // Failed variants get the observation layout with no model values, for a rectangular file.

@@ -40,7 +40,8 @@ StartState start_state(const BaseStart& start, const Scenario& sc, const ColumnM
     return st;
   }
   SequencedStart seq =
-      sequenced_start(solve_request(start, log, interrupt), model, sc.solver.coarsest_cells, units);
+      sequenced_start(solve_request(start, log, interrupt), model, sc.solver.coarsest_cells,
+                      sc.solver.sequence_tolerance, units);
   st.sequence = std::move(seq.levels);
   if (!seq.x0.empty()) {
     st.x0 = std::move(seq.x0);

@@ -107,6 +107,7 @@ SolverSpec load_solver_section(const ConfigNode& n, const UnitSystem& u) {
   if (auto v = n.find("coarsest_cells")) {
     s.coarsest_cells = static_cast<std::size_t>(count(*v, 2, 100000000));
   }
+  if (auto v = n.find("sequence_tolerance")) s.sequence_tolerance = positive_number(*v);
   const auto tr = n.find("transient");
   n.done();
   if (tr) s.transient = load_transient(*tr, u);

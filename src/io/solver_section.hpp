@@ -1,4 +1,5 @@
-// The scenario's `solver:` section as typed values (keys documented in README.md, section What the model computes).
+// The scenario's `solver:` section as typed values (keys documented in README.md, section What the
+// model computes).
 //
 //   solver:
 //     method: steady            # steady | transient | split_steady
@@ -12,6 +13,9 @@
 //     absolute_density: 1 cm-3  # a of the scaled norm and of relative changes
 //     positivity_fraction: 0.1
 //     checkpoint_every: 50      # iterations (steady) or accepted steps (split)
+//     grid_sequencing: true     # cold steady starts solved first on coarser grids
+//     coarsest_cells: 24
+//     sequence_tolerance: 1e-3  # scaled residual at which a coarser level stops
 //     transient:
 //       end: 30 day
 //       step: 1 h               # fixed step, or the first adaptive one
@@ -71,6 +75,14 @@ struct SolverSpec {
   /// Phys. 193, 357, section 4.4, "mesh sequencing"). Not for restarts or transients.
   bool grid_sequencing = true;
   std::size_t coarsest_cells = 24;
+  /// The scaled residual at which a coarser level of the sequence stops (its step and
+  /// column-balance tests are waived there). A coarser level only gives the next one its
+  /// start, and interpolating it to twice the cells leaves a scaled residual of order 1
+  /// (the discretisation difference between the grids), so polishing it to `tolerance`
+  /// buys nothing: nested iteration solves each coarse level to its discretisation error
+  /// only (Briggs, Henson and McCormick 2000, A Multigrid Tutorial, 2nd ed., ch. 3, "full
+  /// multigrid"). The requested grid is always solved to `tolerance`.
+  double sequence_tolerance = 1e-3;
   TransientSpec transient;
 };
 

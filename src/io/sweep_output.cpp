@@ -64,7 +64,9 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
   nc.variable("variant_residual", {"variant"}, {"1", "scaled coupled residual of the end state", "", {}});
   nc.variable("variant_wall_time", {"variant"}, {"s", "wall time of the variant", "", {}});
   nc.variable("variant_rank_of_process", {"variant"}, {"1", "MPI rank that ran the variant", "", {}});
-  nc.variable("variant_warm_started", {"variant"}, {"1", "1 where started from a finished neighbour", "", {}});
+  nc.variable(
+      "variant_warm_started", {"variant"},
+      {"1", "1 where started from the base state, 0 where from its own cold start", "", {}});
   nc.variable("variant_ranking", {"variant"}, {"1", "position in the ranked table (1 = best)", "", {}});
   nc.variable("mole_fraction", {"variant", "species", "altitude"},
               {"1", "mole fraction (NaN where the variant failed)", "", {}});

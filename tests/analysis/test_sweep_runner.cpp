@@ -1,6 +1,5 @@
 // The MPI variant runner on one rank (tests/cli runs it under mpirun with two ranks):
-// every variant runs once, results come back in variant order, failures are recorded, and
-// warm starts come from the nearest finished variant.
+// every variant runs once, results come back in variant order, and failures are recorded.
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -15,8 +14,7 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
   SweepSpec spec;
   spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false});
   const auto variants = expand_variants(spec);
-  std::vector<std::size_t> warm_from_value;
-  auto runner = [&](const Variant& v, const std::vector<double>* warm) {
+  auto runner = [&](const Variant& v) {
     VariantOutcome o;
     const double x = v.parameters[0].second;
     if (x == 3.0) {
@@ -26,9 +24,7 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
     }
     o.converged = true;
     o.reason = "converged";
-    o.state = {x};
     o.values = {x * x};
-    warm_from_value.push_back(warm ? static_cast<std::size_t>((*warm)[0]) : 0);
     return o;
   };
   std::size_t calls = 0;
@@ -40,11 +36,6 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
   CHECK(out[2].converged == false);
   CHECK(out[2].reason == "absurd parameter");
   CHECK(out[4].values[0] == 25.0);
-  // On one rank, variants run in order; each warm-starts from its nearest finished
-  // converged neighbour: 1 cold, 2 from 1, (3 fails), 4 from 2, 5 from 4.
-  CHECK(warm_from_value == std::vector<std::size_t>{0, 1, 2, 4});
-  CHECK_FALSE(out[0].warm_started);
-  CHECK(out[1].warm_started);
 }
 
 TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]") {
@@ -54,7 +45,7 @@ TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]"
   const auto variants = expand_variants(spec);
   const auto out = run_variants(
       MPI_COMM_SELF, variants,
-      [](const Variant& v, const std::vector<double>*) -> VariantOutcome {
+      [](const Variant& v) -> VariantOutcome {
         if (v.index == 0) throw std::runtime_error("solver blew up");
         VariantOutcome o;
         o.converged = true;
@@ -74,7 +65,7 @@ TEST_CASE("a stop request leaves the variants not run as interrupted, not failed
   std::size_t started = 0;
   const auto out = run_variants(
       MPI_COMM_SELF, variants,
-      [&](const Variant& v, const std::vector<double>*) {
+      [&](const Variant& v) {
         ++started;
         VariantOutcome o;
         // The second variant is the one running when the signal arrives.
