@@ -145,14 +145,16 @@ def explain(path):
                 "mole_fraction_70_km": float(math.exp(np.interp(70.0, z, np.log(x[k["O2"]])))),
                 "null_cycle_production_share": ps.get(back, 0.0),
                 "null_cycle_loss_share": ls.get(fwd, 0.0),
-                "net_production_without_null_cycle": (pt - p.get(back, 0.0)) - (lt - l.get(fwd, 0.0))}
+                "net_production_without_null_cycle":
+                    (pt - p.get(back, 0.0)) - (lt - l.get(fwd, 0.0))}
     # OCS at 60-66 km.
     w = d["dz"] * ((z >= 60.0) & (z <= 66.0))
     p, l, tend = budget(d, "OCS", w)
     ps, pt = shares(p)
     ls, lt = shares(l)
     lnx = np.log(x[k["OCS"]])
-    at = {f"{h:g}": float(math.exp(np.interp(h, z, lnx))) for h in (60.0, 62.0, 64.0, 65.0, 66.0, 68.0)}
+    at = {f"{h:g}": float(math.exp(np.interp(h, z, lnx)))
+          for h in (60.0, 62.0, 64.0, 65.0, 66.0, 68.0)}
     def efold(a, b):
         return float(-(b - a) / (np.interp(b, z, lnx) - np.interp(a, z, lnx)))
     under = z <= 65.0
@@ -187,14 +189,16 @@ def print_explain(ex):
           f"{_top(s['production'], s['production_total'])}")
     print(f"  SO2 loss {s['loss_total']:.3g} cm-3 s-1: {_top(s['loss'], s['loss_total'])}; "
           f"transport {s['transport_tendency']:.2g} cm-3 s-1")
-    print(f"  J_SO2 {s['J_SO2']:.3g} s-1, k[O][M] (SO + O + M) {s['k_O_M']:.3g} s-1; 90-100 km mean "
+    print(f"  J_SO2 {s['J_SO2']:.3g} s-1, k[O][M] (SO + O + M) {s['k_O_M']:.3g} s-1; "
+          f"90-100 km mean "
           f"J_SO2/(k[O][M]) {s['equilibrium_ratio_90_100']:.3g} against the model's SO/SO2 "
           f"{s['model_ratio_90_100']:.3g}; 0.1-0.3 needs k[O][M] {s['factor_to_0.3']:.2g}-"
           f"{s['factor_to_0.1']:.2g}x larger or J_SO2 as much smaller")
     o = ex["o2"]
     print(f"O2 column production {o['production_total']:.3g} cm-2 s-1: "
           f"{_top(o['production'], o['production_total'], unit='cm-2 s-1')}")
-    print(f"  O2 column loss {o['loss_total']:.3g} cm-2 s-1: {_top(o['loss'], o['loss_total'], unit='cm-2 s-1')}")
+    print(f"  O2 column loss {o['loss_total']:.3g} cm-2 s-1: "
+          f"{_top(o['loss'], o['loss_total'], unit='cm-2 s-1')}")
     print(f"  O2 mole fraction {o['mole_fraction_70_km']:.2g} at 70 km, at most "
           f"{o['peak_mole_fraction']:.3g} (at {o['peak_z_km']:.1f} km); "
           f"null cycle Cl + O2 + M <-> ClOO: {100 * o['null_cycle_production_share']:.1f} % of "
@@ -206,7 +210,8 @@ def print_explain(ex):
           f"{c['efolding_64_66_km']:.2g} km at 64-66 km")
     print(f"  production 60-66 km {c['production_total']:.3g} cm-2 s-1: "
           f"{_top(c['production'], c['production_total'], unit='cm-2 s-1')}")
-    print(f"  loss 60-66 km {c['loss_total']:.3g} cm-2 s-1: {_top(c['loss'], c['loss_total'], unit='cm-2 s-1')}")
+    print(f"  loss 60-66 km {c['loss_total']:.3g} cm-2 s-1: "
+          f"{_top(c['loss'], c['loss_total'], unit='cm-2 s-1')}")
     print(f"  ClCO + S -> OCS + Cl {100 * c['ClCO_S_share']:.2g} % of production; ClCO at most "
           f"{c['ClCO_max_below_65']:.2g} below 65 km")
     h = ex["h2so4"]

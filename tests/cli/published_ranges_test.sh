@@ -33,7 +33,8 @@ for key in ("so_so2", "o2", "ocs"):
         total = sum(b[side].values())
         assert abs(total - 1.0) <= 1e-6, (key, side, total)
     diff = b["production_total"] - b["loss_total"]
-    assert abs(diff - b["chemical_tendency"]) <= 1e-9 * b["production_total"], (key, diff, b["chemical_tendency"])
+    assert abs(diff - b["chemical_tendency"]) <= 1e-9 * b["production_total"], \
+        (key, diff, b["chemical_tendency"])
 s = e["so_so2"]
 assert s["production"]["SO + O + M -> SO2 + M"] > 0.9, s["production"]
 assert s["loss"]["SO2 + hv -> SO + O"] > 0.9, s["loss"]
@@ -44,6 +45,7 @@ h = e["h2so4"]
 assert abs(h["production"] / m["h2so4_column_production"] - 1.0) <= 1e-12
 use = h["production"] / h["H2SO4_limit_from_H"]
 assert 0.9 <= use <= 1.0 + 1e-6, use
-print(f"ok: shares sum to 100 %, budgets match chemical_tendency; J_SO2/(k[O][M]) / (SO/SO2) = {q:.3f}; "
+print(f"ok: shares sum to 100 %, budgets match chemical_tendency; "
+      f"J_SO2/(k[O][M]) / (SO/SO2) = {q:.3f}; "
       f"H2SO4 production {100 * use:.1f} % of half the H input")
 PY
