@@ -258,6 +258,12 @@ set_tests_properties(cli.pyrene_extended_acid_vapour PROPERTIES WORKING_DIRECTOR
 add_test(NAME cli.pyrene_extended
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/pyrene_extended_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/pyrene_extended_work)
+# The per-miss explanations of the published ranges (scripts/published_ranges.py --explain)
+# on a 108-cell base run: shares, budgets and the SO/SO2 equilibrium ratio consistent with the
+# run file (about 5 s).
+add_test(NAME cli.published_ranges
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/published_ranges_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/published_ranges_work)
 # Adjoint sensitivities (README.md, section Sensitivities): finite-difference checks on
 # Pyrene and Tellin for three kinds of objective, the file's consistency, --help and bad
 # inputs.
