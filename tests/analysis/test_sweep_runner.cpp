@@ -13,7 +13,7 @@ using namespace colchem;
 TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   std::vector<std::size_t> warm_from_value;
   auto runner = [&](const Variant& v, const std::vector<double>* warm) {
@@ -50,7 +50,7 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
 TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   const auto out = run_variants(
       MPI_COMM_SELF, variants,
@@ -69,7 +69,7 @@ TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]"
 TEST_CASE("a stop request leaves the variants not run as interrupted, not failed", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   std::size_t started = 0;
   const auto out = run_variants(
