@@ -68,27 +68,35 @@ SpeciesScore score_species(const std::string& species, std::span<const double> a
   return s;
 }
 
+void require_observed_species(const ObservationSet& obs,
+                              const std::vector<std::string>& model_species) {
+  for (const auto& name : obs.species()) {
+    if (std::find(model_species.begin(), model_species.end(), name) != model_species.end()) {
+      continue;
+    }
+    int line = 0;
+    for (const auto& p : obs.points) {
+      if (p.species == name) {
+        line = p.line;
+        break;
+      }
+    }
+    std::string list;
+    for (const auto& m : model_species) list += (list.empty() ? "" : ", ") + m;
+    throw InputError(ExitCode::kInputData, SourceLocation{obs.file.string(), line}, "species",
+                     "a species of the model (" + list + ")", "'" + name + "'");
+  }
+}
+
 std::vector<SpeciesScore> score_column(std::span<const double> altitude_cm,
                                        const std::vector<std::string>& model_species,
                                        std::span<const double> mole_fraction,
                                        const ObservationSet& obs, int fitted_parameters) {
   const std::size_t N = altitude_cm.size();
   std::vector<SpeciesScore> out;
+  require_observed_species(obs, model_species);
   for (const auto& name : obs.species()) {
     const auto it = std::find(model_species.begin(), model_species.end(), name);
-    if (it == model_species.end()) {
-      int line = 0;
-      for (const auto& p : obs.points) {
-        if (p.species == name) {
-          line = p.line;
-          break;
-        }
-      }
-      std::string list;
-      for (const auto& m : model_species) list += (list.empty() ? "" : ", ") + m;
-      throw InputError(ExitCode::kInputData, SourceLocation{obs.file.string(), line}, "species",
-                       "a species of the model (" + list + ")", "'" + name + "'");
-    }
     const std::size_t s = static_cast<std::size_t>(it - model_species.begin());
     out.push_back(score_species(name, altitude_cm, mole_fraction.subspan(s * N, N), obs.points,
                                 fitted_parameters));

@@ -63,6 +63,12 @@ SpeciesScore score_species(const std::string& species, std::span<const double> a
                            std::span<const double> model_mole_fraction,
                            const std::vector<ObservationPoint>& points, int fitted_parameters);
 
+/// Every observed species is one of `model_species`; otherwise an InputError
+/// (ExitCode::kInputData) naming the observation file and line. Commands call it at load,
+/// before they solve; score_column calls it too.
+void require_observed_species(const ObservationSet& obs,
+                              const std::vector<std::string>& model_species);
+
 /// Scores every observed species against a model column given as mole fractions [s][j] at
 /// cell centres. An observed species the model lacks is an InputError naming the
 /// observation file and line.

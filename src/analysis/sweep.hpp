@@ -22,6 +22,8 @@ struct ParameterAxis {
   std::string name;            ///< a mechanism parameter (chemistry.parameters.NAME)
   std::vector<double> values;
   bool logarithmic = false;    ///< distance between variants measured in log(value)
+  SourceLocation where;        ///< where the sweep file names it (for errors)
+  std::string key_path;        ///< e.g. "parameters.k_scale" (for errors)
 };
 
 struct OverrideSet {

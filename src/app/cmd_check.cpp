@@ -5,6 +5,7 @@
 #include <iostream>
 
 #include "analysis/observations.hpp"
+#include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "app/summary.hpp"
 #include "core/background.hpp"
@@ -36,7 +37,9 @@ void add_check_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     // load: the column model (species settings against the mechanism, injections,
     // photolysis channels against their data) and the observations.
     const ColumnModel model(sc);
-    if (!sc.observations.empty()) (void)read_observations(sc.observations, units);
+    if (!sc.observations.empty()) {
+      require_observed_species(read_observations(sc.observations, units), model.species());
+    }
     ctx.log->info("{}: valid", *config);
     return 0;
   });

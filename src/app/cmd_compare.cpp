@@ -1,6 +1,9 @@
 // colchem compare RUN.nc OBS.csv: score a run's profiles against observed ones, print the
 // per-point table and write the scores into the NetCDF (in place, or into -o OUT.nc).
+#include <charconv>
 #include <iostream>
+#include <string>
+#include <system_error>
 
 #include "analysis/observations.hpp"
 #include "analysis/score.hpp"
@@ -31,7 +34,18 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
                   "Write the run plus its scores to this file instead of amending RUN");
   cmd->add_option("-p,--fitted-parameters", o->fitted,
                   "Number of fitted parameters p in the reduced chi-square chi2/(N - p)")
-      ->check(CLI::NonNegativeNumber)
+      ->check(CLI::Validator(
+          [](std::string& text) -> std::string {
+            int value = 0;
+            const char* end = text.data() + text.size();
+            const auto [ptr, ec] = std::from_chars(text.data(), end, value);
+            if (ec != std::errc{} || ptr != end || value < 0) {
+              return "expected a whole number of at least 0, found '" + text.substr(0, 40) +
+                     (text.size() > 40 ? "...'" : "'");
+            }
+            return {};
+          },
+          "INT>=0", "whole number"))
       ->capture_default_str();
   cmd->add_flag("--no-write", o->dry, "Print the scores only");
   out.emplace_back(cmd, [o](Context& ctx) {

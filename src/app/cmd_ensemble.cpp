@@ -361,7 +361,10 @@ int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
                                            ? std::filesystem::path(sc.name + "_ensemble.nc")
                                            : std::filesystem::path(o.output);
   ObservationSet obs;
-  if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+  if (!sc.observations.empty()) {
+    obs = read_observations(sc.observations, units);
+    require_observed_species(obs, base_model.species());  // before any member is solved
+  }
   const std::vector<AttributionTarget> targets =
       attribution_targets(base_model, sc, obs, o.attribution, o.attribute);
   const InterruptGuard interrupt;

@@ -76,7 +76,10 @@ int run_scenario(const RunCliOptions& o, Context& ctx) {
   ctx.log->info("scenario {}: {} cells, {} species", sc.name, model.cells(), model.species_count());
   std::vector<SpeciesScore> scores;
   ObservationSet obs;
-  if (!sc.observations.empty()) obs = read_observations(sc.observations, units);
+  if (!sc.observations.empty()) {
+    obs = read_observations(sc.observations, units);
+    require_observed_species(obs, model.species());  // before solving, not after
+  }
 
   if (!model.has_chemistry()) {  // the background column alone
     RunOutcome none;

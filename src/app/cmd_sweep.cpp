@@ -86,9 +86,35 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                          near ? "did you mean '" + *near + "'?" : std::string{});
       }
     }
+    // Every swept parameter exists and every value lies within its bounds: refused here
+    // (exit 3), not as every variant failing.
+    for (const auto& a : spec.axes) {
+      const auto idx = mech.parameter_index(a.name);
+      if (!idx) {
+        std::vector<std::string> all;
+        for (const auto& p : mech.parameters) all.push_back(p.name);
+        const auto near = nearest_word(a.name, all);
+        throw InputError(ExitCode::kConfig, a.where, a.key_path,
+                         "a parameter of mechanism '" + mech.name + "' (" +
+                             fmt::format("{}", fmt::join(all, ", ")) + ")",
+                         "unknown parameter '" + a.name + "'",
+                         near ? "did you mean '" + *near + "'?" : std::string{});
+      }
+      const Parameter& p = mech.parameters[*idx];
+      for (const double x : a.values) {
+        if (!(x >= p.min && x <= p.max)) {
+          throw InputError(ExitCode::kConfig, a.where, a.key_path,
+                           fmt::format("values of '{}' within [{}, {}]", a.name, p.min, p.max),
+                           fmt::format("{}", x));
+        }
+      }
+    }
     const std::size_t S = base_model.species_count(), N = base_model.cells();
     ObservationSet obs;
-    if (!spec.observations.empty()) obs = read_observations(spec.observations, units);
+    if (!spec.observations.empty()) {
+      obs = read_observations(spec.observations, units);
+      require_observed_species(obs, base_model.species());  // not as every variant failing
+    }
     if (rank == 0) {
       ctx.log->info("sweep {}: {} variants on {} rank{}", spec.name, variants.size(), size,
                     size == 1 ? "" : "s");

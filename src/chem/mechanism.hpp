@@ -121,6 +121,18 @@ struct Mechanism {
   [[nodiscard]] std::string equation_text(std::size_t reaction) const;
 };
 
+/// Thresholds of "absurd" rate constants that check_rates (io/mechanism_loader.hpp) refuses
+/// at load (common practice, no source); a scenario or box configuration may set them in
+/// `chemistry.rate_limits` where a real world needs wider ones.
+struct RateLimits {
+  double first_order_s = 1e20;      ///< s^-1
+  double bimolecular_cm3_s = 1e-8;  ///< cm^3 s^-1 (also bimolecular-equivalent k)
+  /// cm^6 s^-1 (k0 of fall-off forms). Not lower: SO3 + 2 H2O -> H2SO4 + H2O (Lovejoy et
+  /// al. 1996), extrapolated as planetary models do to 170 K, reaches a few 1e-24 through its
+  /// water-complex route.
+  double termolecular_cm6_s = 1e-22;
+};
+
 /// What a scenario asks of the chemistry: the mechanism, the active modules, the
 /// parameter values (index as Mechanism::parameters) and the scenario-level exchanges with a
 /// condensed phase (chem/condensation.hpp; held profiles are added by the column model).
@@ -129,6 +141,7 @@ struct ChemistrySpec {
   std::vector<std::size_t> modules;            ///< active modules, with their requirements
   std::vector<double> parameters;
   std::vector<CondensationExchange> exchanges;
+  RateLimits rate_limits;  ///< checked at load only
 };
 
 }  // namespace colchem

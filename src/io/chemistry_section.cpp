@@ -11,6 +11,7 @@
 #include "core/constants.hpp"
 #include "io/config_node.hpp"
 #include "io/mechanism_loader.hpp"
+#include "io/physical_bounds.hpp"
 #include "io/scenario.hpp"
 #include "io/table.hpp"
 
@@ -159,6 +160,28 @@ CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
   return s;
 }
 
+/// `chemistry.rate_limits`: the thresholds of check_rates, each a positive, finite quantity;
+/// the ones not given keep their defaults (RateLimits).
+RateLimits read_rate_limits(const ConfigNode& n, const UnitSystem& units) {
+  RateLimits lim;
+  if (!n.is_map()) {
+    n.fail("a map of limits {first_order: ..., bimolecular: ..., termolecular: ...}");
+  }
+  const auto read = [&](const char* key, const char* unit, const char* example, double& out) {
+    if (auto v = n.find(key)) {
+      out = v->quantity(units, unit, example);
+      if (!(out > 0.0 && std::isfinite(out))) {
+        v->fail(std::string("a positive, finite limit in ") + unit, "'" + v->text() + "'");
+      }
+    }
+  };
+  read("first_order", "s-1", "1e20 s-1", lim.first_order_s);
+  read("bimolecular", "cm3 s-1", "1e-8 cm3 s-1", lim.bimolecular_cm3_s);
+  read("termolecular", "cm6 s-1", "1e-22 cm6 s-1", lim.termolecular_cm6_s);
+  n.done();
+  return lim;
+}
+
 }  // namespace
 
 ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
@@ -202,6 +225,7 @@ ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
       }
     }
   }
+  if (auto rl = n.find("rate_limits")) spec.rate_limits = read_rate_limits(*rl, units);
   n.done();
   spec.mechanism = std::move(mech);
   return spec;
@@ -210,8 +234,8 @@ ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
 void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenario& sc) {
   sc.chemistry = load_chemistry_spec(n, units, sc.inputs, true);
   const Background bg = build_background(sc.background);
-  check_rates(*sc.chemistry.mechanism, bg.temperature_K, bg.air_density_cm3,
-              bg.bulk_mole_fraction);
+  check_rates(*sc.chemistry.mechanism, bg.temperature_K, bg.air_density_cm3, bg.bulk_mole_fraction,
+              sc.chemistry.rate_limits);
 }
 
 BoxSpec load_box_config(const std::filesystem::path& file,
@@ -234,10 +258,16 @@ BoxSpec load_box_config(const std::filesystem::path& file,
   const auto b = root.child("box");
   const auto tn = b.child("temperature");
   box.temperature_K = tn.quantity(units, "K", "298 K");
-  if (!(box.temperature_K > 0.0)) tn.fail("a positive temperature");
+  if (!(box.temperature_K >= bounds::kMinTemperatureK &&
+        box.temperature_K <= bounds::kMaxTemperatureK)) {
+    tn.fail("a temperature from 1 K to 1e5 K (common practice, no source)");
+  }
   const auto pn = b.child("pressure");
   box.pressure_dyn_cm2 = pn.quantity(units, "g cm-1 s-2", "1 bar");
   if (!(box.pressure_dyn_cm2 > 0.0)) pn.fail("a positive pressure");
+  if (!(box.pressure_dyn_cm2 <= bounds::kMaxPressureDynCm2)) {
+    pn.fail("a pressure of at most 1e5 bar (common practice, no source)");
+  }
   box.air_cm3 = box.pressure_dyn_cm2 / (constants::kBoltzmann * box.temperature_K);
   const auto dn = b.child("duration");
   box.duration_s = dn.quantity(units, "s", "1 h");
@@ -316,8 +346,16 @@ BoxSpec load_box_config(const std::filesystem::path& file,
   b.done();
 
   if (auto s = root.find("solver")) {
-    if (auto r = s->find("rtol")) box.solver.rtol = r->number();
-    if (auto a = s->find("atol")) box.solver.atol = a->quantity(units, "cm-3", "1e-3 cm-3");
+    if (auto r = s->find("rtol")) {
+      box.solver.rtol = r->number();
+      if (!(box.solver.rtol > 0.0 && box.solver.rtol < 1.0)) {
+        r->fail("a relative tolerance between 0 and 1 (exclusive)");
+      }
+    }
+    if (auto a = s->find("atol")) {
+      box.solver.atol = a->quantity(units, "cm-3", "1e-3 cm-3");
+      if (!(box.solver.atol > 0.0)) a->fail("a positive absolute tolerance");
+    }
     s->done();
   } else {
     box.solver.atol = std::max(1e-20 * box.air_cm3, 1e-30);
@@ -329,7 +367,7 @@ BoxSpec load_box_config(const std::filesystem::path& file,
   }
   root.done();
   check_rates(m, std::vector<double>{box.temperature_K}, std::vector<double>{box.air_cm3},
-              box.bulk_mole_fraction);
+              box.bulk_mole_fraction, box.chemistry.rate_limits);
   return box;
 }
 

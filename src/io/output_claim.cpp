@@ -91,9 +91,31 @@ std::vector<std::filesystem::path> remove_stale_temporaries(const std::filesyste
 OutputClaim::OutputClaim(const std::filesystem::path& output) {
   if (output.empty()) return;
   const std::filesystem::path lock = lock_path(output);
+  std::error_code dir_ec;
+  if (std::filesystem::is_directory(output, dir_ec)) {
+    throw RunError(ExitCode::kOutput, output.string() +
+                                          ": '-o/--output': expected the path of an output file, "
+                                          "found a directory; name a file in it, such as " +
+                                          (output / "out.nc").string());
+  }
   if (output.has_parent_path()) {
-    std::error_code ec;
-    std::filesystem::create_directories(output.parent_path(), ec);
+    std::error_code mk_ec;
+    std::filesystem::create_directories(output.parent_path(), mk_ec);
+    if (mk_ec) {
+      // The nearest existing ancestor is what blocks: a file where a directory is needed.
+      std::filesystem::path p = output.parent_path();
+      std::error_code ec2;
+      while (p.has_parent_path() && p != p.parent_path() && !std::filesystem::exists(p, ec2)) {
+        p = p.parent_path();
+      }
+      const bool is_file =
+          std::filesystem::exists(p, ec2) && !std::filesystem::is_directory(p, ec2);
+      throw RunError(ExitCode::kOutput,
+                     output.string() + ": '-o/--output': expected a directory for the output, " +
+                         (is_file ? "found '" + p.string() + "', which is a file, not a directory"
+                                  : "could not create '" + output.parent_path().string() +
+                                        "': " + mk_ec.message()));
+    }
   }
   const long me = static_cast<long>(::getpid());
   for (int attempt = 0; attempt < 2; ++attempt) {

@@ -1,11 +1,14 @@
 // Scenario loader: YAML -> Scenario. Every section has one function here; every key it
 // accepts is documented in README.md "Configuration reference".
+#include <fmt/format.h>
+
 #include <cmath>
 
-#include "core/constants.hpp"
 #include "core/composition.hpp"
+#include "core/constants.hpp"
 #include "io/config_node.hpp"
 #include "io/photolysis_loader.hpp"
+#include "io/physical_bounds.hpp"
 #include "io/scenario.hpp"
 #include "io/species_section.hpp"
 #include "io/table.hpp"
@@ -108,6 +111,18 @@ void require_positive(const ProfileSpec& p, const std::string& what) {
   }
 }
 
+/// Every value of a table within [lo, hi] (bounds of physical sense, io/physical_bounds.hpp).
+void require_within(const ProfileSpec& p, const std::string& what, double lo, double hi,
+                    const std::string& expected) {
+  for (std::size_t i = 0; i < p.value.size(); ++i) {
+    if (!(p.value[i] >= lo && p.value[i] <= hi)) {
+      throw InputError(ExitCode::kInputData, SourceLocation{p.source}, what, expected,
+                       fmt::format("{:g} in data row {}", p.value[i], i + 1),
+                       "bounds of physical sense: common practice, no source");
+    }
+  }
+}
+
 void check_covers(const ProfileSpec& p, const ConfigNode& n, const Grid& g, Extrapolation e) {
   if (e == Extrapolation::kHoldEnds) return;
   const double lo = g.edge_cm.front();
@@ -159,7 +174,9 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
   const auto tn = n.child("temperature");
   if (tn.is_map() && tn.has("isothermal")) {
     const double T = tn.child("isothermal").quantity(ctx.units, "K", "250 K");
-    if (!(T > 0.0)) tn.child("isothermal").fail("a positive temperature");
+    if (!(T >= bounds::kMinTemperatureK && T <= bounds::kMaxTemperatureK)) {
+      tn.child("isothermal").fail("a temperature from 1 K to 1e5 K (common practice, no source)");
+    }
     bg.temperature_K.altitude_cm = {bg.grid.edge_cm.front(), bg.grid.edge_cm.back()};
     bg.temperature_K.value = {T, T};
     bg.temperature_K.source = "isothermal";
@@ -167,6 +184,8 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
   } else {
     bg.temperature_K = load_profile_table(tn, ctx, "temperature table", "temperature", "K");
     require_positive(bg.temperature_K, "temperature");
+    require_within(bg.temperature_K, "temperature", bounds::kMinTemperatureK,
+                   bounds::kMaxTemperatureK, "temperatures from 1 K to 1e5 K");
     check_covers(bg.temperature_K, tn, bg.grid, bg.extrapolation);
   }
 
@@ -177,6 +196,9 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     bg.pressure_mode = PressureMode::kHydrostatic;
     bg.base_pressure_dyn_cm2 = h->child("base").quantity(ctx.units, "g cm-1 s-2", "190 mbar");
     if (!(bg.base_pressure_dyn_cm2 > 0.0)) h->child("base").fail("a positive pressure");
+    if (!(bg.base_pressure_dyn_cm2 <= bounds::kMaxPressureDynCm2)) {
+      h->child("base").fail("a pressure of at most 1e5 bar (common practice, no source)");
+    }
     bg.base_altitude_cm = bg.grid.edge_cm.front();
     if (auto at = h->find("at")) bg.base_altitude_cm = at->quantity(ctx.units, "cm", "58 km");
     h->done();
@@ -184,6 +206,8 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     bg.pressure_mode = PressureMode::kTable;
     bg.pressure_dyn_cm2 = load_profile_table(pn, ctx, "pressure table", "pressure", "g cm-1 s-2");
     require_positive(bg.pressure_dyn_cm2, "pressure");
+    require_within(bg.pressure_dyn_cm2, "pressure", 0.0, bounds::kMaxPressureDynCm2,
+                   "pressures of at most 1e5 bar");
     check_covers(bg.pressure_dyn_cm2, pn, bg.grid, bg.extrapolation);
   } else {
     pn.fail("'hydrostatic: {base: ..., at: ...}' or 'table: FILE'");
@@ -202,12 +226,17 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     bg.eddy_form = EddyForm::kConstant;
     bg.eddy_cm2_s = kc->quantity(ctx.units, "cm2 s-1", "1e6 cm2 s-1");
     if (!(bg.eddy_cm2_s >= 0.0)) kc->fail("a non-negative diffusion coefficient");
+    if (!(bg.eddy_cm2_s <= bounds::kMaxEddyCm2S)) {
+      kc->fail("a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
+    }
     kn.done();
   } else if (kt) {
     bg.eddy_form = EddyForm::kTable;
     bg.eddy_table_cm2_s = load_profile_table(kn, ctx, "eddy diffusion table", "eddy_diffusion",
                                              "cm2 s-1");
     require_positive(bg.eddy_table_cm2_s, "eddy_diffusion");
+    require_within(bg.eddy_table_cm2_s, "eddy_diffusion", 0.0, bounds::kMaxEddyCm2S,
+                   "diffusion coefficients of at most 1e12 cm2 s-1");
     check_covers(bg.eddy_table_cm2_s, kn, bg.grid, bg.extrapolation);
   } else {
     bg.eddy_form = EddyForm::kDensityPower;
@@ -215,6 +244,15 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     bg.eddy_exponent = kp->child("exponent").number();
     if (auto mx = kp->find("max")) bg.eddy_max_cm2_s = mx->quantity(ctx.units, "cm2 s-1", "1e8 cm2 s-1");
     if (!(bg.eddy_cm2_s > 0.0)) kp->child("bottom").fail("a positive diffusion coefficient");
+    if (!(bg.eddy_cm2_s <= bounds::kMaxEddyCm2S)) {
+      kp->child("bottom").fail(
+          "a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
+    }
+    if (auto mx = kp->find("max");
+        mx && !(bg.eddy_max_cm2_s > 0.0 && bg.eddy_max_cm2_s <= bounds::kMaxEddyCm2S)) {
+      mx->fail(
+          "a positive diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
+    }
     kp->done();
     kn.done();
   }

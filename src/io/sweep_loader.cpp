@@ -27,7 +27,8 @@ std::vector<double> load_axis_values(const ConfigNode& n, bool* logarithmic) {
   if (count < 1 || count > 100000) r.child("count").fail("a count from 1 to 100000");
   std::vector<double> v(static_cast<std::size_t>(count));
   if (log_range) {
-    if (!(from > 0.0 && to > 0.0)) r.fail("positive 'from' and 'to' for a logarithmic range");
+    if (!(from > 0.0)) r.child("from").fail("a positive 'from' for a logarithmic range");
+    if (!(to > 0.0)) r.child("to").fail("a positive 'to' for a logarithmic range");
     *logarithmic = true;
     for (long i = 0; i < count; ++i) {
       const double w = count == 1 ? 0.0 : static_cast<double>(i) / static_cast<double>(count - 1);
@@ -100,6 +101,8 @@ SweepSpec load_sweep(const std::filesystem::path& file, const std::vector<std::s
       ParameterAxis a;
       a.name = name;
       a.values = load_axis_values(values, &a.logarithmic);
+      a.where = values.location();
+      a.key_path = values.key_path();
       spec.axes.push_back(std::move(a));
     }
   }

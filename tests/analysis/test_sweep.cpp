@@ -67,7 +67,8 @@ TEST_CASE("sweep-file errors", "[sweep]") {
   CHECK_THAT(error_of("sweep: {name: t, scenario: s.yaml}\nparameter: {beta: [1]}\n"),
              Catch::Contains("unknown key 'parameter'; did you mean 'parameters'?"));
   CHECK_THAT(error_of("sweep: {name: t, scenario: s.yaml}\nparameters: {b: {log_range: {from: 0, to: 1, count: 3}}}\n"),
-             Catch::Contains("expected positive 'from' and 'to' for a logarithmic range"));
+             Catch::Contains("'parameters.b.log_range.from': expected a positive 'from' for a "
+                             "logarithmic range, found '0'"));
   CHECK_THAT(error_of("sweep: {name: t, scenario: s.yaml}\nmodules: {a: [x]}\nmodule_combinations: {optional: [y]}\n"),
              Catch::Contains("expected either 'modules' or 'module_combinations', found both"));
   CHECK_THAT(error_of("sweep: {name: t, scenario: s.yaml}\noverrides: {a: [nonsense]}\n"),

@@ -17,7 +17,7 @@ TEST_CASE("sweep results are ranked, failed variants last, and written with a va
   const Background bg = build_background(sc.background);
   const std::size_t N = bg.grid.cells();
   SweepSpec spec;
-  spec.axes.push_back({"beta", {0.01, 0.02, 0.03}, false});
+  spec.axes.push_back({"beta", {0.01, 0.02, 0.03}, false, {}, {}});
   SweepResults r;
   r.variants = expand_variants(spec);
   r.species = {"SO2"};

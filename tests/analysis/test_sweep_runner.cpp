@@ -12,7 +12,7 @@ using namespace colchem;
 TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0, 5.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   auto runner = [&](const Variant& v) {
     VariantOutcome o;
@@ -41,7 +41,7 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
 TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   const auto out = run_variants(
       MPI_COMM_SELF, variants,
@@ -60,7 +60,7 @@ TEST_CASE("a runner that throws is recorded as a failed variant", "[sweep][mpi]"
 TEST_CASE("a stop request leaves the variants not run as interrupted, not failed", "[sweep][mpi]") {
   colchem_test::ensure_mpi();
   SweepSpec spec;
-  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0}, false});
+  spec.axes.push_back({"x", {1.0, 2.0, 3.0, 4.0}, false, {}, {}});
   const auto variants = expand_variants(spec);
   std::size_t started = 0;
   const auto out = run_variants(

@@ -207,6 +207,187 @@ colchem_cli_test(bad.cli_missing_restart 2 "--restart: File does not exist: no_s
 colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_run.nc"
   $<TARGET_FILE:colchem> budget no_such_run.nc -s SO2)
 
+# --- Rate-constant sanity limits (issue 16): refused by default, widened by the user ------
+# Tellin's SO3 + 2 H2O -> H2SO4 + H2O, k = 3.9e-41 exp(6830.6/T) cm6 s-1 (mechanism line
+# 122), is 3.9e-41 exp(6830.6/160) = 1.354e-22 cm6 s-1 at 160 K: above the default
+# termolecular limit of 1e-22 (common practice, no source), below a widened 1e-21.
+set(COLD "--set=atmosphere.temperature={isothermal: 160 K}")
+set(TERMO_REFUSED "tellin.yaml:122:9: 'rate': expected a termolecular rate constant below 1e-22 cm6 s-1 for reaction 'SO3 \\+ 2 H2O -> H2SO4 \\+ H2O', found 1.354e-22 cm6 s-1 at T = 160.0 K, n_air = [0-9.e+]+ cm-3; limits are common practice, no source; a world that needs more sets chemistry.rate_limits.termolecular")
+colchem_cli_test(bad.rate_limit_cold_world 4 "${TERMO_REFUSED}"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml ${COLD})
+colchem_cli_test(bad.rate_limit_cold_world_widened 0 "46 of 47 active reactions balanced"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml ${COLD} "--set=chemistry.rate_limits.termolecular=1e-21 cm6 s-1")
+colchem_cli_test(bad.rate_limit_cold_world_run 4 "${TERMO_REFUSED}"
+  $<TARGET_FILE:colchem> run ${CFG}/tellin.yaml ${COLD} -o rate_limit_cold.nc)
+colchem_cli_test(bad.rate_limit_cold_box 4 "${TERMO_REFUSED}"
+  $<TARGET_FILE:colchem> box ${BAD}/box_cold.yaml -o box_cold_refused.nc)
+colchem_cli_test(bad.rate_limit_cold_box_widened 0 "final state \\(number density cm-3, mole fraction\\)"
+  $<TARGET_FILE:colchem> box ${BAD}/box_cold.yaml "--set=chemistry.rate_limits={termolecular: 1e-21 cm6 s-1}" -o box_cold_widened.nc)
+colchem_cli_test(bad.rate_limit_first_order 4
+  "mech_first_order_absurd.yaml:12:9: 'rate': expected a first-order rate constant below 1e\\+20 s-1 for reaction 'O3 -> O2 \\+ O', found 1e\\+25 s-1 at T = 250.0 K.*sets chemistry.rate_limits.first_order"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_first_order_absurd.yaml)
+colchem_cli_test(bad.rate_limit_negative 3
+  "'chemistry.rate_limits.termolecular': expected a positive, finite limit in cm6 s-1, found '-1 cm6 s-1'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=chemistry.rate_limits.termolecular=-1 cm6 s-1")
+colchem_cli_test(bad.rate_limit_infinite 3
+  "'chemistry.rate_limits.bimolecular': expected a finite value, found '1e400 cm3 s-1'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=chemistry.rate_limits.bimolecular=1e400 cm3 s-1")
+colchem_cli_test(bad.rate_limit_unit 3
+  "'chemistry.rate_limits.bimolecular': expected a unit convertible to 'cm3 s-1'.*found 'cm6 s-1'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=chemistry.rate_limits.bimolecular=1e-8 cm6 s-1")
+colchem_cli_test(bad.rate_limit_unknown_key 3
+  "'chemistry.rate_limits.termolecularr': expected a known key in 'chemistry.rate_limits', found unknown key 'termolecularr'; did you mean 'termolecular'\\?"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=chemistry.rate_limits.termolecularr=1e-21 cm6 s-1")
+colchem_cli_test(bad.rate_limit_box_negative 3
+  "'chemistry.rate_limits.first_order': expected a positive, finite limit in s-1, found '0 s-1'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=chemistry.rate_limits.first_order=0 s-1")
+
+# --- Values without physical sense (issue 16): refused at their key, not blamed later ----
+colchem_cli_test(bad.scenario_huge_pressure 3
+  "'atmosphere.pressure.hydrostatic.base': expected a pressure of at most 1e5 bar \\(common practice, no source\\), found '1e300 bar'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.pressure.hydrostatic.base=1e300 bar")
+colchem_cli_test(bad.scenario_hot_world 3
+  "'atmosphere.temperature.isothermal': expected a temperature from 1 K to 1e5 K \\(common practice, no source\\), found '1e300 K'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.temperature={isothermal: 1e300 K}")
+colchem_cli_test(bad.scenario_frozen_world 3
+  "'atmosphere.temperature.isothermal': expected a temperature from 1 K to 1e5 K \\(common practice, no source\\), found '1e-300 K'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.temperature={isothermal: 1e-300 K}")
+colchem_cli_test(bad.scenario_huge_eddy 3
+  "'atmosphere.eddy_diffusion.constant': expected a diffusion coefficient of at most 1e12 cm2 s-1 \\(common practice, no source\\), found '1e300 cm2 s-1'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.eddy_diffusion={constant: 1e300 cm2 s-1}")
+colchem_cli_test(bad.scenario_star_distance 3 "'planet.star_distance': expected a positive distance, found '0 au'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=planet.star_distance=0 au")
+colchem_cli_test(bad.scenario_top_below_bottom 3 "'grid.top': expected a top above the bottom, found '5 km'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=grid.top=5 km")
+colchem_cli_test(bad.scenario_mixing_ratio_above_one 3 "'species.SO2.initial': expected a mixing ratio from 0 to 1, found '2'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set species.SO2.initial=2)
+colchem_cli_test(bad.scenario_bulk_sum 3
+  "'atmosphere.bulk_composition': expected mole fractions summing to 1 \\(within 0.001\\), found a sum of 0.7104"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.bulk_composition={N2: 0.5, O2: 0.21, CO2: 0.0004}")
+colchem_cli_test(bad.scenario_parameter_range 3
+  "'chemistry.parameters.sulfate_removal_scale': expected a value of 'sulfate_removal_scale' within \\[0.25, 4\\], found 100"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.parameters.sulfate_removal_scale=100)
+colchem_cli_test(bad.box_hot 3
+  "'box.temperature': expected a temperature from 1 K to 1e5 K \\(common practice, no source\\), found '1e300 K'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.temperature=1e300 K")
+colchem_cli_test(bad.box_huge_pressure 3
+  "'box.pressure': expected a pressure of at most 1e5 bar \\(common practice, no source\\), found '1e300 bar'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.pressure=1e300 bar")
+colchem_cli_test(bad.box_negative_atol 3 "'solver.atol': expected a positive absolute tolerance, found '-1 cm-3'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=solver.atol=-1 cm-3")
+colchem_cli_test(bad.box_rtol 3 "'solver.rtol': expected a relative tolerance between 0 and 1 \\(exclusive\\), found '2'"
+  $<TARGET_FILE:colchem> box ${BOXV} --set solver.rtol=2)
+colchem_cli_test(bad.box_bulk_sum 3
+  "box.yaml:[0-9]+:[0-9]+: 'box.bulk_composition': expected mole fractions summing to 1 \\(within 0.001\\), found a sum of 0.5"
+  $<TARGET_FILE:colchem> box ${BOXV} --set box.bulk_composition.N2=0.5)
+colchem_cli_test(bad.box_zero_outputs 3 "'box.outputs': expected a number of output times from 1 to 1000000, found '0'"
+  $<TARGET_FILE:colchem> box ${BOXV} --set box.outputs=0)
+colchem_cli_test(bad.box_first_output 3 "'box.first_output': expected a first output time in \\(0, duration\\], found '20 d'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.first_output=20 d")
+colchem_cli_test(bad.box_unknown_channel 3 "'box.photolysis.NOPE': expected a photolysis channel named by a reaction, found 'NOPE'"
+  $<TARGET_FILE:colchem> box ${BOXV} "--set=box.photolysis.NOPE=1e-3 s-1")
+
+# --- Mechanism files (exit 4), one defect each, through a box and through check --------
+colchem_cli_test(bad.mechanism_undeclared 4
+  "mech_undeclared.yaml:12:19: 'modules.0.reactions.0.equation': expected species declared under 'species', found undeclared 'Cl' in reaction 'O3 \\+ Cl -> ClO \\+ O2'; did you mean 'ClO'\\?"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_undeclared.yaml)
+colchem_cli_test(bad.mechanism_negative_rate 4
+  "mech_negative_rate.yaml:12:9: 'rate': expected a finite, non-negative rate constant for reaction 'O \\+ O3 -> O2 \\+ O2', found -2.111e-15 at T = 250.0 K"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_negative_rate.yaml)
+colchem_cli_test(bad.mechanism_rate_units 4
+  "mech_rate_units.yaml:13:57: 'modules.0.reactions.0.rate.units': expected 'cm3 s-1' \\(or a unit convertible to it\\) for the order-2 reaction 'O \\+ O3 -> O2 \\+ O2', found 'cm6 s-1'"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_rate_units.yaml)
+colchem_cli_test(bad.mechanism_photolysis_no_hv 4
+  "mech_photolysis_no_hv.yaml:13:15: 'modules.0.reactions.0.rate': expected 'hv' among the reactants of a photolysis reaction, found reaction 'O3 -> O2 \\+ O'"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_photolysis_no_hv.yaml)
+colchem_cli_test(bad.mechanism_duplicate_reaction 4
+  "mech_duplicate_reaction.yaml:14:19: 'modules.0.reactions.1.equation': expected a reaction listed once \\(or `duplicate: true`\\), found reaction 'O \\+ O3 -> O2 \\+ O2', already at line 12"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD}/mech_duplicate_reaction.yaml)
+colchem_cli_test(bad.mechanism_unknown_key 4
+  "mech_unknown_key.yaml:14:9: 'modules.0.reactions.0.sorce': expected a known key in 'modules.0.reactions.0', found unknown key 'sorce'; did you mean 'source'\\?"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_unknown_key.yaml)
+colchem_cli_test(bad.mechanism_parameter_range 4
+  "mech_parameter_range.yaml:11:31: 'parameters.0.default': expected a default within \\[0.1, 10\\] for parameter 'o3_scale', found 20"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_parameter_range.yaml)
+
+# --- Photolysis data files (exit 4) -------------------------------------------------------
+colchem_cli_test(bad.photo_negative_yield 4
+  "photo_negative_yield.yaml:30:74: 'channels.8.quantum_yield': expected a quantum yield from 0 to 1, found '-0.5'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.data=${BAD}/photo_negative_yield.yaml)
+colchem_cli_test(bad.photo_unknown_absorber 4
+  "photo_unknown_absorber.yaml:30:33: 'channels.8.absorber': expected an absorber declared under 'absorbers', found 'SO4'; did you mean 'SO2'\\?"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.data=${BAD}/photo_unknown_absorber.yaml)
+colchem_cli_test(bad.photo_threshold_unit 4
+  "photo_threshold_unit.yaml:30:88: 'channels.8.threshold': expected a wavelength \\('816.9 nm'\\) or an energy .*found unit 'K'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set photolysis.data=${BAD}/photo_threshold_unit.yaml)
+
+# --- Table files (exit 4) -----------------------------------------------------------------
+colchem_cli_test(bad.table_negative 4 "table_negative.csv: 'temperature': expected positive values, found -5.000000 in data row 2"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD}/table_negative.csv)
+colchem_cli_test(bad.table_hot 4 "table_hot.csv: 'temperature': expected temperatures from 1 K to 1e5 K, found 1e\\+06 in data row 3; bounds of physical sense"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD}/table_hot.csv)
+colchem_cli_test(bad.table_eddy_huge 4
+  "table_eddy_huge.csv: 'eddy_diffusion': expected diffusion coefficients of at most 1e12 cm2 s-1, found 1e\\+300 in data row 2"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.eddy_diffusion={table: ${BAD}/table_eddy_huge.csv}")
+colchem_cli_test(bad.table_descending 4 "table_descending.csv:5: 'altitude': expected values increasing down the column, found 30.000000 after 70.000000"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD}/table_descending.csv)
+colchem_cli_test(bad.table_no_column 4 "table_no_column.csv:3: 'header': expected a column named 'temperature', found columns altitude, temp"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD}/table_no_column.csv)
+colchem_cli_test(bad.table_pressure_unit 4
+  "table_pressure_unit.csv:3: 'pressure': expected a unit convertible to 'g cm-1 s-2', found 'K'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml "--set=atmosphere.pressure={table: ${BAD}/table_pressure_unit.csv}")
+colchem_cli_test(bad.table_empty 4 "table_empty.csv: expected a header line naming the columns, found an empty file"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set atmosphere.temperature=${BAD}/table_empty.csv)
+
+# --- Observation files through check (exit 4) ---------------------------------------------
+colchem_cli_test(bad.obs_no_rows 4 "obs_no_rows.csv:3: expected at least one data row after the header, found none"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set observations=${BAD}/obs_no_rows.csv)
+colchem_cli_test(bad.obs_altitude_unit 4 "obs_altitude_unit.csv:3: 'altitude': expected a unit convertible to 'cm', found 'K'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set observations=${BAD}/obs_altitude_unit.csv)
+
+colchem_cli_test(bad.check_observation_species 4
+  "obs_unknown_species.csv:4: 'species': expected a species of the model \\(SO2, OH, HSO3\\), found 'XYZ'"
+  $<TARGET_FILE:colchem> check ${RCOL} --set observations=${BAD}/obs_unknown_species.csv)
+
+# --- Sweep files (exit 3), before any variant runs -----------------------------------------
+set(SWEEP ${CMAKE_CURRENT_LIST_DIR}/sweep/tellin_sweep.yaml)
+# An observed species the model lacks: refused before the variants (4), not as each failing.
+colchem_cli_test(bad.sweep_observation_species 4
+  "obs_unknown_species.csv:4: 'species': expected a species of the model \\(.*\\), found 'XYZ'"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} --set sweep.observations=${BAD}/obs_unknown_species.csv -o sweep_obs_species.nc --table sweep_obs_species.csv)
+colchem_cli_test(bad.sweep_unknown_parameter 3
+  "'parameters.sulfate_removal_scal': expected a parameter of mechanism 'tellin' \\(sulfate_condensation_scale, sulfate_removal_scale\\), found unknown parameter 'sulfate_removal_scal'; did you mean 'sulfate_removal_scale'\\?"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} "--set=parameters.sulfate_removal_scal=[1, 2]" -o sweep_unknown_parameter.nc --table sweep_unknown_parameter.csv)
+colchem_cli_test(bad.sweep_parameter_range 3
+  "'parameters.sulfate_removal_scale': expected values of 'sulfate_removal_scale' within \\[0.25, 4\\], found 100"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} "--set=parameters.sulfate_removal_scale=[1, 100]" -o sweep_parameter_range.nc --table sweep_parameter_range.csv)
+colchem_cli_test(bad.sweep_log_range_negative 3
+  "'parameters.sulfate_removal_scale.log_range.from': expected a positive 'from' for a logarithmic range, found '-0.5'"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} "--set=parameters.sulfate_removal_scale={log_range: {from: -0.5, to: 4, count: 3}}" -o sweep_log_range.nc --table sweep_log_range.csv)
+colchem_cli_test(bad.sweep_zero_count 3
+  "'parameters.sulfate_removal_scale.log_range.count': expected a count from 1 to 100000, found '0'"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} "--set=parameters.sulfate_removal_scale={log_range: {from: 0.5, to: 4, count: 0}}" -o sweep_zero_count.nc --table sweep_zero_count.csv)
+colchem_cli_test(bad.sweep_missing_scenario 3 "no_such_scenario.yaml: expected a readable YAML file, found no such file or it cannot be read"
+  $<TARGET_FILE:colchem> sweep ${SWEEP} --set sweep.scenario=no_such_scenario.yaml -o sweep_missing.nc --table sweep_missing.csv)
+
+# --- Command lines (exit 2) -----------------------------------------------------------------
+colchem_cli_test(bad.cli_set_without_value 2 "--set grid.cells: expected KEY.PATH=VALUE, found 'grid.cells'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set grid.cells)
+colchem_cli_test(bad.cli_log_level 2 "--log-level: loud not in \\{trace,debug,info,warn,error,off\\}"
+  $<TARGET_FILE:colchem> --log-level loud check ${CFG}/tellin.yaml)
+colchem_nc_test(bad.cli_fitted_not_number 2 "--fitted-parameters: expected a whole number of at least 0, found 'abc'"
+  $<TARGET_FILE:colchem> compare ${NCW}/good.nc ${OBS} -p abc --no-write)
+colchem_nc_test(bad.cli_budget_unknown_species 2 "--species: expected a species of the run \\(SO2, OH, HSO3\\), found 'XYZ'"
+  $<TARGET_FILE:colchem> budget ${NCW}/good.nc -s XYZ)
+
+# --- Output paths (exit 6), refused before anything is computed --------------------------
+colchem_cli_test(bad.output_is_directory 6
+  "out_is_dir: '-o/--output': expected the path of an output file, found a directory; name a file in it, such as out_is_dir/out.nc"
+  sh -c "mkdir -p out_is_dir && exec $<TARGET_FILE:colchem> run ${RCOL} -o out_is_dir")
+colchem_cli_test(bad.output_under_file 6
+  "out_plain_file/x.nc: '-o/--output': expected a directory for the output, found 'out_plain_file', which is a file, not a directory"
+  sh -c "touch out_plain_file && exec $<TARGET_FILE:colchem> run ${RCOL} -o out_plain_file/x.nc")
+
 # --- Sweeps (issue 16): no variant converged (5); a module the mechanism lacks (3) --------
 colchem_cli_test(bad.sweep_all_failed 5
   "no variant of the sweep converged: 0 of 2 \\(2 failed\\); the reasons are in the status column of sweep_all_failed.csv"
