@@ -33,7 +33,8 @@ namespace {
 /// input is skipped: no file of that form can exist).
 bool write_file(FuzzedDataProvider& in, const std::string& path) {
   int nc = -1;
-  if (nc_create(path.c_str(), NC_NETCDF4 | NC_CLOBBER, &nc) != NC_NOERR) return false;
+  if (nc_create(path.c_str(), NC_NETCDF4 | NC_CLOBBER | NC_DISKLESS | NC_PERSIST, &nc) != NC_NOERR)
+    return false;
   struct Closer {
     int id;
     ~Closer() { nc_close(id); }
