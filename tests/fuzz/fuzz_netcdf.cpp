@@ -202,10 +202,11 @@ extern "C" int LLVMFuzzerInitialize(int*, char***) {
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
   FuzzedDataProvider in(data, size);
-  const colchem::fuzz::ScratchFile file("run.nc", "");
-  if (!write_file(in, file.path().string())) return 0;
+  const colchem::fuzz::ScratchDir dir;
+  const std::filesystem::path file = dir.path() / "run.nc";
+  if (!write_file(in, file.string())) return 0;
   colchem::fuzz::refusals_allowed([&] {
-    const colchem::NcReader nc(file.path());
+    const colchem::NcReader nc(file);
     colchem::fuzz::refusals_allowed([&] {
       const colchem::ModelColumn m = colchem::read_model_column(nc);
       // Two observed points of the first species, one inside and one far above the column.

@@ -12,8 +12,9 @@ extern "C" int LLVMFuzzerInitialize(int*, char***) {
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
   static const colchem::UnitSystem units;
-  const colchem::fuzz::ScratchFile file(
-      "observations.csv", std::string_view(reinterpret_cast<const char*>(data), size));
-  colchem::fuzz::refusals_allowed([&] { (void)colchem::read_observations(file.path(), units); });
+  const colchem::fuzz::ScratchDir dir;
+  const auto file = colchem::fuzz::write_file(
+      dir, "observations.csv", std::string_view(reinterpret_cast<const char*>(data), size));
+  colchem::fuzz::refusals_allowed([&] { (void)colchem::read_observations(file, units); });
   return 0;
 }

@@ -46,45 +46,40 @@ inline std::vector<std::string> split_nul(const std::uint8_t* data, std::size_t 
   return parts;
 }
 
-/// A directory of this process under $TMPDIR (or /tmp), created on first use and removed
-/// with everything in it when the process exits normally (a crash leaves it for the
-/// post-mortem; its name carries the process id).
-inline const std::filesystem::path& scratch_dir() {
-  static const std::filesystem::path dir = [] {
+/// A directory for one input under $TMPDIR (or /tmp), removed with everything in it when
+/// the input is done. (libFuzzer ends the process without running atexit handlers, so
+/// nothing may outlive an input; a crash leaves the directory for the post-mortem, its name
+/// carries the process id.)
+class ScratchDir {
+ public:
+  ScratchDir() {
     const char* tmp = std::getenv("TMPDIR");
     std::string templ = std::string(tmp && *tmp ? tmp : "/tmp") + "/colchem-fuzz-" +
                         std::to_string(::getpid()) + "-XXXXXX";
     if (::mkdtemp(templ.data()) == nullptr) std::abort();
-    std::atexit([] {
-      std::error_code ec;
-      std::filesystem::remove_all(scratch_dir(), ec);
-    });
-    return std::filesystem::path(templ);
-  }();
-  return dir;
-}
-
-/// `bytes` written to scratch_dir()/`name`; the file is removed when this goes out of scope.
-class ScratchFile {
- public:
-  ScratchFile(const std::string& name, std::string_view bytes,
-              const std::filesystem::path& dir = scratch_dir())
-      : path_(dir / name) {
-    std::ofstream out(path_, std::ios::binary | std::ios::trunc);
-    out.write(bytes.data(), static_cast<std::streamsize>(bytes.size()));
-    if (!out) std::abort();
+    path_ = templ;
   }
-  ~ScratchFile() {
+  ~ScratchDir() {
     std::error_code ec;
-    std::filesystem::remove(path_, ec);
+    std::filesystem::remove_all(path_, ec);
   }
-  ScratchFile(const ScratchFile&) = delete;
-  ScratchFile& operator=(const ScratchFile&) = delete;
+  ScratchDir(const ScratchDir&) = delete;
+  ScratchDir& operator=(const ScratchDir&) = delete;
   [[nodiscard]] const std::filesystem::path& path() const { return path_; }
 
  private:
   std::filesystem::path path_;
 };
+
+/// `bytes` written to `dir`/`name` (removed with the directory).
+inline std::filesystem::path write_file(const ScratchDir& dir, const std::string& name,
+                                        std::string_view bytes) {
+  const std::filesystem::path path = dir.path() / name;
+  std::ofstream out(path, std::ios::binary | std::ios::trunc);
+  out.write(bytes.data(), static_cast<std::streamsize>(bytes.size()));
+  if (!out) std::abort();
+  return path;
+}
 
 /// Silences the library's log output (warnings on every other input would drown libFuzzer's).
 inline void quiet_logs() {
