@@ -221,6 +221,17 @@ std::vector<std::size_t> NcReader::shape(const std::string& var) const {
 }
 
 std::vector<double> NcReader::read(const std::string& var) const {
+  // Only numbers convert to double: netCDF-C hands a string variable to HDF5's conversion,
+  // which fails and leaks the strings it read.
+  nc_type type = NC_NAT;
+  check(nc_inq_vartype(ncid_, varid(var), &type), var);
+  if (type == NC_CHAR || type == NC_STRING || type > NC_STRING) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, var,
+                     "a numeric variable",
+                     type == NC_CHAR     ? "a variable of characters (NC_CHAR)"
+                     : type == NC_STRING ? "a variable of strings (NC_STRING)"
+                                         : "a variable of a user-defined type");
+  }
   std::size_t total = 1;
   for (auto n : shape(var)) total *= n;
   std::vector<double> out(total);

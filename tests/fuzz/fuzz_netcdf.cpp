@@ -1,0 +1,225 @@
+// Fuzzes the readers of colchem's NetCDF inputs: read_model_column (run --restart, photo
+// --from and compare read the species profiles through it) followed by the scoring compare
+// does, and read_budget_inputs followed by the budget of the file's first species (colchem
+// budget).
+//
+// The input does not hold the file's bytes: it describes a netCDF-4 file that this harness
+// writes with the netCDF-C API to a scratch file, then the readers open. Each variable the
+// readers use may be missing, of the wrong dimensions or type, or carry NaN, infinite,
+// negative, zero, huge or arbitrary values; dimensions may be empty, inconsistent or
+// unlimited; names may be arbitrary, empty or repeated. An empty input describes a consistent
+// run file (6 cells, 3 species, 4 reactions). Mutating the HDF5 container's bytes instead
+// exercises HDF5 itself, whose Debian 12 version (1.10.8) crashes inside nc_open on corrupt
+// files within seconds, a fault of that library that colchem cannot avoid.
+#include <fuzzer/FuzzedDataProvider.h>
+#include <netcdf.h>
+
+#include <cmath>
+#include <limits>
+#include <map>
+#include <string>
+#include <vector>
+
+#include "analysis/budget.hpp"
+#include "analysis/observations.hpp"
+#include "analysis/score.hpp"
+#include "fuzz_support.hpp"
+#include "io/netcdf_file.hpp"
+#include "io/output.hpp"
+
+namespace {
+
+/// Writes the described file; false when the netCDF-C API refused the description (then the
+/// input is skipped: no file of that form can exist).
+bool write_file(FuzzedDataProvider& in, const std::string& path) {
+  int nc = -1;
+  if (nc_create(path.c_str(), NC_NETCDF4 | NC_CLOBBER | NC_DISKLESS | NC_PERSIST, &nc) != NC_NOERR)
+    return false;
+  struct Closer {
+    int id;
+    ~Closer() { nc_close(id); }
+  } closer{nc};
+  // Dimensions (an exhausted input gives the consistent default).
+  const std::size_t N = 6 - in.ConsumeIntegralInRange<std::size_t>(0, 6);
+  const std::size_t E = N + 1 - in.ConsumeIntegralInRange<std::size_t>(0, 2) + 0;
+  const std::size_t S = 3 - in.ConsumeIntegralInRange<std::size_t>(0, 3);
+  const std::size_t R = 4 - in.ConsumeIntegralInRange<std::size_t>(0, 4);
+  const bool unlimited = in.ConsumeIntegralInRange<int>(0, 7) == 1;
+  std::map<std::string, int> dim;
+  const std::pair<const char*, std::size_t> dims[] = {{"altitude", unlimited ? NC_UNLIMITED : N},
+                                                      {"altitude_edge", E},
+                                                      {"species", S},
+                                                      {"reaction", R}};
+  for (const auto& [name, len] : dims) {
+    if (nc_def_dim(nc, name, len, &dim[name]) != NC_NOERR) return false;
+  }
+  const std::string all_dims[] = {"altitude", "altitude_edge", "species", "reaction"};
+  struct Var {
+    const char* name;
+    std::vector<std::string> dims;
+    bool text;
+    int id = -1;
+    int kind = 0;
+    nc_type type = NC_DOUBLE;
+  };
+  std::vector<Var> vars = {{"altitude", {"altitude"}, false},
+                           {"altitude_edge", {"altitude_edge"}, false},
+                           {"species", {"species"}, true},
+                           {"number_density", {"species", "altitude"}, false},
+                           {"mole_fraction", {"species", "altitude"}, false},
+                           {"reaction_equation", {"reaction"}, true},
+                           {"net_stoichiometry", {"reaction", "species"}, false},
+                           {"reaction_rate", {"reaction", "altitude"}, false},
+                           {"transport_tendency", {"species", "altitude"}, false},
+                           {"net_tendency", {"species", "altitude"}, false}};
+  for (auto& v : vars) {
+    // 0 as written by colchem, 1 absent, 2 other dimensions, 3 another type, 4 an extra dimension
+    v.kind = in.ConsumeIntegralInRange<int>(0, 4);
+    if (v.kind == 1) continue;
+    if (v.kind == 2) {
+      v.dims.clear();
+      const int n = in.ConsumeIntegralInRange<int>(0, 3);
+      for (int k = 0; k < n; ++k) v.dims.push_back(all_dims[in.ConsumeIntegralInRange<int>(0, 3)]);
+    }
+    if (v.kind == 4) v.dims.push_back(all_dims[in.ConsumeIntegralInRange<int>(0, 3)]);
+    v.type = v.text ? NC_STRING : NC_DOUBLE;
+    if (v.kind == 3) {
+      const nc_type other[] = {NC_INT, NC_FLOAT, NC_CHAR, v.text ? NC_DOUBLE : NC_STRING};
+      v.type = other[in.ConsumeIntegralInRange<int>(0, 3)];
+    }
+    std::vector<int> ids;
+    for (const auto& d : v.dims) ids.push_back(dim[d]);
+    if (nc_def_var(nc, v.name, v.type, static_cast<int>(ids.size()), ids.data(), &v.id) !=
+        NC_NOERR) {
+      return false;
+    }
+  }
+  if (nc_enddef(nc) != NC_NOERR) return false;
+  const char* names[] = {"SO2", "O", "O2", "SO", "SO3", "CO2"};
+  for (auto& v : vars) {
+    if (v.kind == 1) continue;
+    std::vector<std::size_t> count;
+    std::size_t total = 1;
+    for (const auto& d : v.dims) {
+      std::size_t len = 0;
+      nc_inq_dimlen(nc, dim[d], &len);
+      if (d == "altitude" && unlimited) len = N;  // records written below
+      count.push_back(len);
+      total *= len;
+    }
+    if (total == 0 || total > 4096) continue;
+    const std::vector<std::size_t> start(count.size(), 0);
+    if (v.type == NC_STRING) {
+      std::vector<std::string> s(total);
+      std::vector<const char*> p(total);
+      for (std::size_t i = 0; i < total; ++i) {
+        switch (in.ConsumeIntegralInRange<int>(0, 3)) {
+          case 0:
+            s[i] = v.name == std::string("species") ? names[i % 6]
+                                                    : std::string(names[i % 6]) + " -> O";
+            break;
+          case 1:
+            s[i] = in.ConsumeRandomLengthString(24);
+            break;
+          case 2:
+            s[i] = names[0];
+            break;
+          default:
+            s[i].clear();
+        }
+        p[i] = s[i].c_str();
+      }
+      if (nc_put_vara_string(nc, v.id, start.data(), count.data(), p.data()) != NC_NOERR) {
+        return false;
+      }
+      continue;
+    }
+    if (v.type == NC_CHAR) {
+      const std::string s = in.ConsumeBytesAsString(total);
+      std::string padded = s + std::string(total - s.size(), 'x');
+      if (nc_put_vara_text(nc, v.id, start.data(), count.data(), padded.data()) != NC_NOERR) {
+        return false;
+      }
+      continue;
+    }
+    std::vector<double> x(total);
+    const std::size_t inner = count.empty() ? 1 : count.back();
+    for (std::size_t i = 0; i < total; ++i) {
+      const double j = static_cast<double>(i % inner);
+      double regular = 1.0;
+      const std::string nm = v.name;
+      if (nm == "altitude")
+        regular = 50.0 + j;
+      else if (nm == "altitude_edge")
+        regular = 49.5 + j;
+      else if (nm == "number_density")
+        regular = 1e6 * (1.0 + static_cast<double>(i));
+      else if (nm == "mole_fraction")
+        regular = 1e-6;
+      else if (nm == "net_stoichiometry")
+        regular = static_cast<double>(i % 3) - 1.0;
+      else if (nm == "reaction_rate")
+        regular = 1e3;
+      switch (in.ConsumeIntegralInRange<int>(0, 7)) {
+        case 0:
+          x[i] = regular;
+          break;
+        case 1:
+          x[i] = std::numeric_limits<double>::quiet_NaN();
+          break;
+        case 2:
+          x[i] = -regular;
+          break;
+        case 3:
+          x[i] = std::numeric_limits<double>::infinity();
+          break;
+        case 4:
+          x[i] = 0.0;
+          break;
+        case 5:
+          x[i] = 1e300;
+          break;
+        case 6:
+          x[i] = -1e-300;
+          break;
+        default:
+          x[i] = in.ConsumeFloatingPoint<double>();
+      }
+    }
+    if (nc_put_vara_double(nc, v.id, start.data(), count.data(), x.data()) != NC_NOERR) {
+      // NC_ERANGE for values outside an integer or float type: the rest is written.
+    }
+  }
+  return true;
+}
+
+}  // namespace
+
+extern "C" int LLVMFuzzerInitialize(int*, char***) {
+  colchem::fuzz::quiet_logs();
+  return 0;
+}
+
+extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
+  FuzzedDataProvider in(data, size);
+  const colchem::fuzz::ScratchDir dir;
+  const std::filesystem::path file = dir.path() / "run.nc";
+  if (!write_file(in, file.string())) return 0;
+  colchem::fuzz::refusals_allowed([&] {
+    const colchem::NcReader nc(file);
+    colchem::fuzz::refusals_allowed([&] {
+      const colchem::ModelColumn m = colchem::read_model_column(nc);
+      // Two observed points of the first species, one inside and one far above the column.
+      colchem::ObservationSet obs;
+      obs.file = "fuzz-observations.csv";
+      obs.points.push_back({m.altitude_cm.front(), m.species.front(), 1e-6, 1e-7, false, 2});
+      obs.points.push_back({1e9, m.species.front(), 1e-6, 0.0, true, 3});
+      (void)colchem::score_column(m.altitude_cm, m.species, m.mole_fraction, obs, 0);
+    });
+    colchem::fuzz::refusals_allowed([&] {
+      const colchem::BudgetInputs in_b = colchem::read_budget_inputs(nc);
+      (void)colchem::species_budget(in_b, in_b.species.front(), {});
+    });
+  });
+  return 0;
+}
