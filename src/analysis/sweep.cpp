@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <set>
 
 namespace colchem {
 
@@ -107,13 +108,14 @@ std::size_t merge_duplicate_variants(
     v.parameters = std::move(kept);
     v.label = variant_label(v);
   }
+  // Same module set, override set and overrides: the same model (a set keeps this linear
+  // in the number of variants, up to the logarithm).
   std::vector<Variant> unique;
+  std::set<std::string> seen;
   for (auto& v : variants) {
-    const bool seen = std::any_of(unique.begin(), unique.end(), [&](const Variant& u) {
-      return u.module_set == v.module_set && u.override_set == v.override_set &&
-             u.overrides == v.overrides;
-    });
-    if (seen) continue;
+    std::string key = std::to_string(v.module_set) + "\n" + std::to_string(v.override_set);
+    for (const auto& a : v.overrides) key += "\n" + a;
+    if (!seen.insert(std::move(key)).second) continue;
     v.index = unique.size();
     unique.push_back(std::move(v));
   }
@@ -123,7 +125,7 @@ std::size_t merge_duplicate_variants(
 }
 
 std::string text_digest(std::string_view text) {
-  std::uint64_t h = 1469598103934665603ULL;  // FNV-1a 64-bit offset basis and prime
+  std::uint64_t h = 14695981039346656037ULL;  // FNV-1a 64-bit offset basis and prime
   for (const unsigned char c : text) {
     h ^= c;
     h *= 1099511628211ULL;
