@@ -3,7 +3,8 @@
 # pieces joined with --merge gives the file of one 2-rank mpirun (every variable; scores and
 # mole fractions to 1e-10 relative, compare_sweep_files.py). The merge refuses (exit 4) an
 # incomplete set of pieces or a variant in two pieces, and (exit 3) a piece of another
-# sweep definition, naming what is missing or differs.
+# sweep definition, naming what is missing or differs. The stages of
+# scripts/slurm_sweep_array.sh, run by hand, give the same file.
 set -eu
 colchem=$1; dir=$2; work=$3
 here=$(cd "$(dirname "$0")" && pwd)
@@ -47,3 +48,15 @@ expect 3 other_def.log "other.nc: '--merge': expected a sweep file of the same s
   "$colchem" sweep "$sweep" --merge p0.nc other.nc -o bad.nc --table bad.csv
 [ ! -e bad.nc ] || { echo "FAIL: a refused merge wrote bad.nc"; exit 1; }
 echo "ok: pieces merged equal one 2-rank mpirun; incomplete, doubled and foreign pieces refused"
+
+# The job-array example's stages run by hand, as its header describes (no Slurm here): two
+# array tasks, then the merge; the result is again the 2-rank file.
+mkdir -p array/pieces; cd array
+count=$("$colchem" sweep "$sweep" --dry-run 2>/dev/null | tail -1 | cut -d' ' -f1)
+for i in 0 1; do
+  COLCHEM=$colchem COLCHEM_SWEEP_STAGE=piece SLURM_ARRAY_TASK_ID=$i SLURM_ARRAY_TASK_COUNT=2 \
+    COLCHEM_SWEEP_COUNT=$count "$here/../../scripts/slurm_sweep_array.sh" "$sweep" > task$i.log 2>&1 || { cat task$i.log; exit 1; }
+done
+COLCHEM=$colchem COLCHEM_SWEEP_STAGE=merge "$here/../../scripts/slurm_sweep_array.sh" "$sweep" > merge.log 2>&1 || { cat merge.log; exit 1; }
+/usr/bin/python3 "$here/compare_sweep_files.py" ../mpi.nc tellin_sweep.nc
+echo "ok: scripts/slurm_sweep_array.sh stages give the 2-rank file"
