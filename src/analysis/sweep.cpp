@@ -4,6 +4,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <set>
 
 namespace colchem {
 
@@ -43,8 +45,6 @@ std::vector<Variant> expand_variants(const SweepSpec& spec) {
           v.overrides.push_back("chemistry.modules=[" + join(v.modules, ", ") + "]");
         }
         std::size_t rest = g;
-        std::vector<std::string> label_parts{v.module_label};
-        if (!v.override_label.empty()) label_parts.push_back(v.override_label);
         // Last axis fastest.
         std::vector<std::size_t> idx(spec.axes.size());
         for (std::size_t a = spec.axes.size(); a-- > 0;) {
@@ -54,16 +54,96 @@ std::vector<Variant> expand_variants(const SweepSpec& spec) {
         for (std::size_t a = 0; a < spec.axes.size(); ++a) {
           const double val = spec.axes[a].values[idx[a]];
           v.parameters.emplace_back(spec.axes[a].name, val);
-          v.overrides.push_back("chemistry.parameters." + spec.axes[a].name + "=" + exact_number(val));
-          label_parts.push_back(fmt::format("{}={:.4g}", spec.axes[a].name, val));
+          v.overrides.push_back("chemistry.parameters." + spec.axes[a].name + "=" +
+                                exact_number(val));
         }
         for (const auto& s : overrides[o].assignments) v.overrides.push_back(s);
-        v.label = join(label_parts, " ");
+        v.label = variant_label(v);
         out.push_back(std::move(v));
       }
     }
   }
   return out;
+}
+
+std::string variant_label(const Variant& v) {
+  std::vector<std::string> parts{v.module_label};
+  if (!v.override_label.empty()) parts.push_back(v.override_label);
+  for (const auto& [name, val] : v.parameters) parts.push_back(fmt::format("{}={:.4g}", name, val));
+  return join(parts, " ");
+}
+
+std::size_t merge_duplicate_variants(
+    std::vector<Variant>& variants,
+    const std::function<bool(const Variant&, const std::string&)>& acts,
+    std::vector<std::string>* dropped) {
+  for (auto& v : variants) {
+    std::vector<std::pair<std::string, double>> kept;
+    for (const auto& p : v.parameters) {
+      if (acts(v, p.first)) {
+        kept.push_back(p);
+        continue;
+      }
+      const std::string assignment = "chemistry.parameters." + p.first + "=";
+      std::erase_if(v.overrides, [&](const std::string& s) { return s.starts_with(assignment); });
+      if (dropped) {
+        const std::string note = v.module_label + ": " + p.first;
+        if (std::find(dropped->begin(), dropped->end(), note) == dropped->end()) {
+          dropped->push_back(note);
+        }
+      }
+    }
+    v.parameters = std::move(kept);
+    v.label = variant_label(v);
+  }
+  // Same module set, override set and overrides: the same model (a set keeps this linear
+  // in the number of variants, up to the logarithm).
+  std::vector<Variant> unique;
+  std::set<std::string> seen;
+  for (auto& v : variants) {
+    std::string key = std::to_string(v.module_set) + "\n" + std::to_string(v.override_set);
+    for (const auto& a : v.overrides) key += "\n" + a;
+    if (!seen.insert(std::move(key)).second) continue;
+    v.index = unique.size();
+    unique.push_back(std::move(v));
+  }
+  const std::size_t merged = variants.size() - unique.size();
+  variants = std::move(unique);
+  return merged;
+}
+
+std::string text_digest(std::string_view text) {
+  std::uint64_t h = 14695981039346656037ULL;  // FNV-1a 64-bit offset basis and prime
+  for (const unsigned char c : text) {
+    h ^= c;
+    h *= 1099511628211ULL;
+  }
+  return fmt::format("{:016x}", h);
+}
+
+std::pair<std::size_t, std::size_t> parse_variant_range(const std::string& text,
+                                                        std::size_t count) {
+  const auto bad = [&](const std::string& why) {
+    return InputError(ExitCode::kUsage, SourceLocation{"command line"}, "--variants",
+                      "A:B with 0 <= A < B <= " + std::to_string(count) +
+                          " (variants A to B-1, 0-based; as listed by --dry-run)",
+                      "'" + text + "'" + (why.empty() ? std::string{} : " (" + why + ")"));
+  };
+  const auto colon = text.find(':');
+  if (colon == std::string::npos) throw bad("no ':'");
+  const auto number = [&](const std::string& part, std::size_t fallback) -> std::size_t {
+    if (part.empty()) return fallback;
+    if (part.find_first_not_of("0123456789") != std::string::npos) throw bad("not a whole number");
+    try {
+      return static_cast<std::size_t>(std::stoull(part));
+    } catch (const std::exception&) {
+      throw bad("out of range");
+    }
+  };
+  const std::size_t a = number(text.substr(0, colon), 0);
+  const std::size_t b = number(text.substr(colon + 1), count);
+  if (!(a < b && b <= count)) throw bad("the sweep has " + std::to_string(count) + " variants");
+  return {a, b};
 }
 
 }  // namespace colchem

@@ -4,7 +4,10 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
 #include <string>
+#include <string_view>
+#include <utility>
 #include <vector>
 
 #include "core/error.hpp"
@@ -60,6 +63,27 @@ struct Variant {
 /// The cross product, in a fixed order (module sets outermost, then override sets, then
 /// parameters with the last axis fastest). The order does not depend on the number of ranks.
 std::vector<Variant> expand_variants(const SweepSpec& spec);
+
+/// Drops, from every variant, the swept parameters that do not act on it (`acts(variant,
+/// parameter)` false: e.g. a parameter whose reactions sit in a switched-off module), then
+/// keeps the first of the variants that have become identical (same module set, override
+/// set and overrides) and renumbers them. Returns how many variants were merged away;
+/// `dropped` (optional) receives "label: parameter" notes of the parameters dropped.
+std::size_t merge_duplicate_variants(
+    std::vector<Variant>& variants,
+    const std::function<bool(const Variant&, const std::string&)>& acts,
+    std::vector<std::string>* dropped = nullptr);
+
+/// The label of a variant from its parts: module label, override label, parameters.
+std::string variant_label(const Variant& v);
+
+/// A 64-bit FNV-1a digest of `text` as 16 hex digits (to tell definitions apart, not a
+/// cryptographic hash).
+std::string text_digest(std::string_view text);
+
+/// A variant range "A:B" (variants A to B-1, 0-based; either end may be left out) checked
+/// against the number of variants; throws InputError (exit 2) naming the option.
+std::pair<std::size_t, std::size_t> parse_variant_range(const std::string& text, std::size_t count);
 
 /// Formats a value for a "--set" override so that it reads back exactly (17 significant
 /// digits).

@@ -14,8 +14,11 @@ class Packer {
  public:
   template <typename T>
   void put(const T& v) {
-    const auto* p = reinterpret_cast<const char*>(&v);
-    buf_.insert(buf_.end(), p, p + sizeof(T));
+    // resize + memcpy (not insert): GCC 12 warns falsely of an overflow on a one-byte insert
+    // followed by an eight-byte one.
+    const std::size_t at = buf_.size();
+    buf_.resize(at + sizeof(T));
+    std::memcpy(buf_.data() + at, &v, sizeof(T));
   }
   void put_doubles(const std::vector<double>& v) {
     put<std::uint64_t>(v.size());
@@ -102,7 +105,8 @@ VariantOutcome unpack(Unpacker& up) {
 
 std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
                                          const VariantRunner& run, const VariantDone& done,
-                                         const std::function<bool()>& stop_requested) {
+                                         const std::function<bool()>& stop_requested,
+                                         const std::vector<std::size_t>* todo) {
   int rank = 0, size = 1;
   MPI_Comm_rank(comm, &rank);
   MPI_Comm_size(comm, &size);
@@ -127,8 +131,12 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
     long next = 0;
     MPI_Fetch_and_op(&one, &next, MPI_LONG, 0, 0, MPI_SUM, win);
     MPI_Win_flush(0, win);
-    if (next < 0 || static_cast<std::size_t>(next) >= variants.size()) break;
-    const Variant& v = variants[static_cast<std::size_t>(next)];
+    const std::size_t to_run = todo ? todo->size() : variants.size();
+    if (next < 0 || static_cast<std::size_t>(next) >= to_run) break;
+    const std::size_t pick =
+        todo ? (*todo)[static_cast<std::size_t>(next)] : static_cast<std::size_t>(next);
+    if (pick >= variants.size()) throw std::runtime_error("sweep: variant index out of range");
+    const Variant& v = variants[pick];
 
     const auto t0 = std::chrono::steady_clock::now();
     VariantOutcome out;
@@ -187,7 +195,16 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
       outcomes[o.index] = std::move(o);
     }
   }
+  std::vector<bool> wanted(variants.size(), todo == nullptr);
+  if (todo) {
+    for (const auto i : *todo) wanted[i] = true;
+  }
   for (std::size_t i = 0; i < seen.size(); ++i) {
+    if (!seen[i] && !wanted[i]) {
+      outcomes[i].index = i;
+      outcomes[i].skipped = true;
+      continue;
+    }
     if (!seen[i] && any_stopped) {
       outcomes[i].index = i;
       outcomes[i].interrupted = true;

@@ -26,6 +26,9 @@ struct VariantOutcome {
   /// Stopped by SIGINT/SIGTERM (while running, or never started): neither converged nor
   /// failed; reason "interrupted" (or "interrupted before it started").
   bool interrupted = false;
+  /// Not run by this call (outside `todo` of run_variants): the caller fills it in (a
+  /// result taken from an earlier file, or "not run" in a piece of a sweep).
+  bool skipped = false;
   std::string reason;          ///< why it failed, or "converged"
   int iterations = 0;
   double residual = 0.0;       ///< scaled coupled residual of the end state
@@ -45,9 +48,12 @@ using VariantDone = std::function<void(const Variant&, const VariantOutcome&)>;
 /// Runs every variant; returns all outcomes in variant order on rank 0, and an empty vector
 /// on the other ranks. Collective over `comm`. When `stop_requested` (optional) turns true on
 /// a rank, that rank starts no further variant; variants no rank started come back with
-/// interrupted = true (the runner marks the one it was running itself).
+/// interrupted = true (the runner marks the one it was running itself). With `todo`
+/// (variant indices, optional) only those variants run; the others come back with
+/// skipped = true.
 std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
                                          const VariantRunner& run, const VariantDone& done,
-                                         const std::function<bool()>& stop_requested = {});
+                                         const std::function<bool()>& stop_requested = {},
+                                         const std::vector<std::size_t>* todo = nullptr);
 
 }  // namespace colchem

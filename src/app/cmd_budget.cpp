@@ -11,6 +11,7 @@
 #include "core/error.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
+#include "io/sweep_output.hpp"
 
 namespace colchem::app {
 
@@ -33,6 +34,9 @@ void add_budget_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandA
   cmd->add_option("--top", o->top, "Reactions listed per table")->capture_default_str();
   out.emplace_back(cmd, [o](Context&) {
     const NcReader nc(o->run);
+    if (const auto why = sweep_file_instead_of_run(nc); !why.empty()) {
+      throw RunError(ExitCode::kUsage, why);
+    }
     const BudgetInputs in = read_budget_inputs(nc);
     std::vector<double> bands;
     for (std::size_t k = 0; k < o->bands_km.size(); ++k) {

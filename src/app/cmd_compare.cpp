@@ -12,6 +12,7 @@
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/score_output.hpp"
+#include "io/sweep_output.hpp"
 
 namespace colchem::app {
 
@@ -57,6 +58,9 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
     ModelColumn model;
     {
       const NcReader nc(o->run);
+      if (const auto why = sweep_file_instead_of_run(nc); !why.empty()) {
+        throw RunError(ExitCode::kUsage, why);
+      }
       model = read_model_column(nc);
       if (nc.has_variable("chi2_log") && !o->dry && o->output.empty()) {
         throw RunError(ExitCode::kOutput, o->run + " already holds scores; write the new ones to "

@@ -1,10 +1,12 @@
 // colchem run CONFIG [-o OUT.nc] [--set key=value ...] [--restart OLD.nc]: solve a scenario's
 // column (coupled steady state or transient) and write its CF NetCDF output.
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include <algorithm>
 #include <iostream>
 #include <optional>
+#include <sstream>
 
 #include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
@@ -19,6 +21,7 @@
 #include "io/run_output.hpp"
 #include "io/scenario.hpp"
 #include "io/score_output.hpp"
+#include "io/sweep_output.hpp"
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
@@ -33,10 +36,49 @@ std::filesystem::path checkpoint_path(const std::filesystem::path& out) {
 }
 
 struct RunCliOptions {
-  std::string config, output, restart;
+  std::string config, output, restart, from_sweep;
   std::vector<std::string> sets;
   double progress_every = 0.2;
+  long variant = -1;
 };
+
+/// --from-sweep FILE --variant N: the base scenario and the overrides of variant N as the
+/// sweep stored them, followed by the command line's own --set values.
+void take_sweep_variant(RunCliOptions& o) {
+  if (o.from_sweep.empty() != (o.variant < 0)) {
+    throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "--from-sweep/--variant",
+                     "both --from-sweep FILE and --variant N, or neither",
+                     o.from_sweep.empty() ? "--variant alone" : "--from-sweep alone");
+  }
+  if (o.from_sweep.empty()) {
+    if (o.config.empty()) {
+      throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "CONFIG",
+                       "a scenario file, or --from-sweep FILE --variant N", "neither");
+    }
+    return;
+  }
+  if (!o.config.empty()) {
+    throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "CONFIG",
+                     "no scenario file with --from-sweep (the sweep file names it)",
+                     "'" + o.config + "'");
+  }
+  const SweepFileRecord rec = read_sweep_file(o.from_sweep);
+  const auto v = static_cast<std::size_t>(o.variant);
+  if (v >= rec.overrides.size()) {
+    throw InputError(
+        ExitCode::kUsage, SourceLocation{"command line"}, "--variant",
+        fmt::format("a variant of {} (0 to {})", o.from_sweep, rec.overrides.size() - 1),
+        std::to_string(o.variant));
+  }
+  o.config = rec.scenario;
+  std::vector<std::string> sets;
+  std::istringstream in(rec.overrides[v]);
+  for (std::string l; std::getline(in, l);) {
+    if (!l.empty()) sets.push_back(l);
+  }
+  sets.insert(sets.end(), o.sets.begin(), o.sets.end());
+  o.sets = std::move(sets);
+}
 
 /// The checkpoint in `restart` when it is one of this column and method (logged); else
 /// none, and `start` notes why the file only gives the initial state.
@@ -63,7 +105,12 @@ std::optional<RunCheckpoint> read_restart(const std::string& restart, const Colu
   return resume;
 }
 
-int run_scenario(const RunCliOptions& o, Context& ctx) {
+int run_scenario(RunCliOptions o, Context& ctx) {
+  take_sweep_variant(o);
+  if (!o.from_sweep.empty()) {
+    ctx.log->info("variant {} of sweep file {}: {} with {}", o.variant, o.from_sweep, o.config,
+                  fmt::join(o.sets, " "));
+  }
   const UnitSystem units;
   Scenario sc = load_scenario(o.config, o.sets, units);
   if (!o.output.empty()) sc.output.file = o.output;
@@ -144,7 +191,16 @@ int run_scenario(const RunCliOptions& o, Context& ctx) {
 void add_run_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand("run", "Solve a scenario's column and write its CF NetCDF output.");
   auto o = std::make_shared<RunCliOptions>();
-  cmd->add_option("CONFIG", o->config, "Scenario file (YAML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("CONFIG", o->config, "Scenario file (YAML; or --from-sweep and --variant)")
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--from-sweep", o->from_sweep,
+                  "Run one variant of a sweep: the sweep's NetCDF file (its base scenario and "
+                  "the variant's stored overrides; --set values apply after them)")
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--variant", o->variant,
+                  "With --from-sweep: the variant's index (0-based, the 'variant' column of "
+                  "the ranked table)")
+      ->check(CLI::NonNegativeNumber);
   cmd->add_option("-o,--output", o->output, "Output NetCDF file (default: output.file of the "
                                             "scenario, else SCENARIO_NAME.nc)");
   cmd->add_option("--set", o->sets, "Override a config value by its dotted key path, e.g. "

@@ -76,3 +76,49 @@ TEST_CASE("sweep-file errors", "[sweep]") {
   CHECK_THAT(error_of("sweep: {name: t, scenario: s.yaml, rank_by: chi}\n"),
              Catch::Contains("expected one of: chi2_log, chi2_linear"));
 }
+
+TEST_CASE("parameters that do not act on a variant do not multiply the variants", "[sweep]") {
+  const auto file = write("sweep_dup.yaml", R"(
+sweep: {name: t, scenario: s.yaml}
+modules: {off: [base], on: [base, m1]}
+parameters:
+  beta: [0.01, 0.02, 0.03]
+  gamma: [1, 2]
+)");
+  auto v = expand_variants(load_sweep(file, {}));
+  REQUIRE(v.size() == 12);  // 2 module sets x 3 x 2 (counted by hand)
+  // 'beta' acts only where module m1 is on; 'gamma' everywhere.
+  std::vector<std::string> dropped;
+  const std::size_t merged = merge_duplicate_variants(
+      v,
+      [](const Variant& x, const std::string& p) { return p == "gamma" || x.module_label == "on"; },
+      &dropped);
+  // off: the 3 beta values collapse, 2 gamma values remain; on: all 6 remain.
+  CHECK(merged == 4);
+  REQUIRE(v.size() == 8);
+  CHECK(dropped == std::vector<std::string>{"off: beta"});
+  for (std::size_t i = 0; i < v.size(); ++i) CHECK(v[i].index == i);
+  CHECK(v[0].label == "off gamma=1");
+  CHECK(v[1].label == "off gamma=2");
+  CHECK(v[0].overrides ==
+        std::vector<std::string>{"chemistry.modules=[base]", "chemistry.parameters.gamma=1"});
+  CHECK(v[2].label == "on beta=0.01 gamma=1");
+  CHECK(v[7].overrides.back() == "chemistry.parameters.gamma=2");
+}
+
+TEST_CASE("variant ranges for job arrays", "[sweep]") {
+  CHECK(parse_variant_range("0:4", 9) == std::pair<std::size_t, std::size_t>{0, 4});
+  CHECK(parse_variant_range("4:", 9) == std::pair<std::size_t, std::size_t>{4, 9});
+  CHECK(parse_variant_range(":3", 9) == std::pair<std::size_t, std::size_t>{0, 3});
+  CHECK_THROWS_WITH(parse_variant_range("4:4", 9), Catch::Contains("the sweep has 9 variants"));
+  CHECK_THROWS_WITH(parse_variant_range("3:10", 9), Catch::Contains("0 <= A < B <= 9"));
+  CHECK_THROWS_WITH(parse_variant_range("3", 9), Catch::Contains("no ':'"));
+  CHECK_THROWS_WITH(parse_variant_range("a:3", 9), Catch::Contains("not a whole number"));
+}
+
+TEST_CASE("text digests tell texts apart (FNV-1a 64 reference values)", "[sweep]") {
+  // FNV-1a 64-bit of "" and "a": the published test vectors of the FNV reference
+  // (Fowler, Noll, Vo; from memory: cbf29ce484222325 and af63dc4c8601ec8c).
+  CHECK(text_digest("") == "cbf29ce484222325");
+  CHECK(text_digest("a") == "af63dc4c8601ec8c");
+}

@@ -117,6 +117,18 @@ add_test(NAME cli.sweep_signal
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_signal_test.sh $<TARGET_FILE:colchem>
           ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_signal_work)
 set_tests_properties(cli.sweep_signal PROPERTIES PROCESSORS 2)
+# Batch-safe sweeps (issue 17): resume after SIGTERM; dry run, stored overrides and
+# duplicates; job-array pieces merged against one 2-rank mpirun.
+add_test(NAME cli.sweep_resume
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_resume_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_resume_work)
+add_test(NAME cli.sweep_tools
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_tools_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CFG} ${CMAKE_CURRENT_BINARY_DIR}/sweep_tools_work)
+add_test(NAME cli.sweep_pieces
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_pieces_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/sweep_pieces_work)
+set_tests_properties(cli.sweep_pieces PROPERTIES PROCESSORS 2)
 add_test(NAME cli.output_safety
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/output_safety_test.sh $<TARGET_FILE:colchem> ${CFG}
           ${CMAKE_CURRENT_LIST_DIR}/sweep ${CMAKE_CURRENT_BINARY_DIR}/output_safety_work)

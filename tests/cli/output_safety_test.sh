@@ -15,7 +15,7 @@ leftovers() { ls ./*.tmp-* ./*.lock 2>/dev/null || true; }
 # 1. Two runs, one output: the second refuses while the first is alive.
 "$colchem" sweep "$sweepdir/tellin_sweep.yaml" -o shared.nc --table shared.csv > first.log 2>&1 &
 pid=$!
-wait_for first.log "variant 1/16"
+wait_for first.log "9 variants on 1 rank"
 code=0
 "$colchem" run "$cfg/tellin.yaml" --set solver.method=steady -o shared.nc > second.log 2>&1 || code=$?
 [ "$code" -eq 6 ] || { echo "FAIL: second writer exited $code"; cat second.log; exit 1; }

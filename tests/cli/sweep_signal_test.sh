@@ -30,7 +30,7 @@ import netCDF4
 name = sys.argv[1]
 rows = list(csv.DictReader(l for l in open(name + ".csv") if not l.startswith("#")))
 status = [r["status"] for r in rows]
-assert len(rows) == 16, len(rows)
+assert len(rows) == 9, len(rows)
 assert not any(s not in ("converged",) and not s.startswith("interrupted") for s in status), status
 n_int = sum(s.startswith("interrupted") for s in status)
 assert n_int >= 1, status
@@ -39,8 +39,8 @@ text = nc.getncattr("colchem_sweep_status")
 assert text.startswith("interrupted: "), text
 assert f"{n_int} interrupted" in text and "0 failed" in text, text
 flags = nc["variant_converged"][:]
-assert int(flags.sum()) == 16 - n_int, (flags, n_int)
-print(f"ok: {name}: {n_int} of 16 variants interrupted, files say '{text}'")
+assert int(flags.sum()) == 9 - n_int, (flags, n_int)
+print(f"ok: {name}: {n_int} of 9 variants interrupted, files say '{text}'")
 PY
 }
 
@@ -49,7 +49,7 @@ for sig in TERM INT; do
   name=one_$sig
   "$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
   pid=$!
-  wait_for $name.log "variant 3/16"
+  wait_for $name.log "variant 3/9"
   kill -$sig $pid
   code=0; wait $pid || code=$?
   check $name 7 $code
@@ -60,7 +60,7 @@ done
 name=mpi_ranks
 mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
 pid=$!
-wait_for $name.log "variant 3/16"
+wait_for $name.log "variant 3/9"
 kill -TERM $(pgrep -P $pid)
 code=0; wait $pid || code=$?
 check $name 7 $code
@@ -88,7 +88,7 @@ name=mpi_mpirun
 mpirun -n 2 --oversubscribe --mca odls_base_sigkill_timeout "$grace" \
   "$colchem" sweep "$dir/tellin_sweep.yaml" --set 'sweep.set=[solver.method=steady, grid.cells=400]' -o $name.nc --table $name.csv > $name.log 2>&1 &
 pid=$!
-wait_for $name.log "16 variants on 2 ranks"
+wait_for $name.log "9 variants on 2 ranks"
 kill -TERM $pid
 code=0; wait $pid || code=$?
 [ "$code" -ne 0 ] || { echo "FAIL: mpirun exited 0 after SIGTERM"; exit 1; }
