@@ -380,8 +380,16 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
   if (!merging && !todo.empty()) {
     BaseStart base_start(spec.scenario.string(), spec.common_overrides);
     base_start.progress = rank == 0;
-    base_solve = solve_steady_base(base_start, base, base_model, units, ctx, interrupt,
-                                   "base state of the sweep");
+    try {
+      base_solve = solve_steady_base(base_start, base, base_model, units, ctx, interrupt,
+                                     "base state of the sweep");
+    } catch (const RunError& e) {
+      // Stopped on a coarser level of the base state: no variant starts (the stop request
+      // is seen first), and the files record every variant as interrupted (exit 7).
+      if (e.code() != ExitCode::kInterrupted) throw;
+      ctx.log->warn("interrupted (signal {}) during the base state of the sweep",
+                    interrupt.signal_number());
+    }
   }
   const bool base_ok = base_solve && base_solve->run.ok();
 

@@ -56,6 +56,19 @@ for sig in TERM INT; do
   grep -q "sweep interrupted (signal" $name.log
 done
 
+# One rank, SIGTERM as the sweep starts: while the base state is solved (at 240 cells it takes
+# a few seconds, the signal comes at once) the files still record every variant not finished
+# as interrupted, and the exit code is 7 (should the base finish first, the signal stops the
+# variants instead: the same assertions hold).
+name=one_base
+"$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
+pid=$!
+wait_for $name.log "variants on 1 rank"
+kill -TERM $pid
+code=0; wait $pid || code=$?
+check $name 7 $code
+grep -q "sweep interrupted (signal" $name.log
+
 # Two ranks under mpirun, the ranks signalled.
 name=mpi_ranks
 mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" "${slow[@]}" -o $name.nc --table $name.csv > $name.log 2>&1 &
