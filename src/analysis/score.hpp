@@ -1,8 +1,8 @@
 // Scoring a model profile against observations.
 //
 // The model mole fraction f_m is interpolated to each observed altitude linearly in
-// altitude and log(f) (science brief section 7). For each point with observed value f_o and
-// one-sigma uncertainty s:
+// altitude and log(f) (mole fractions vary exponentially with altitude; common practice, no
+// source). For each point with observed value f_o and one-sigma uncertainty s:
 //   log space:     r_log = (log10 f_m - log10 f_o) / s_log,  s_log = s / (f_o ln 10)
 //   linear space:  r_lin = (f_m - f_o) / s
 //   chi^2 = sum r^2 over counted points; reduced chi^2 = chi^2 / (N - p)

@@ -5,7 +5,8 @@
 namespace colchem {
 
 double default_diffusion_A(double species_mass_amu, double air_mass_amu) {
-  // b = 1.52e18 [T (1/M_i + 1/M_a)]^(1/2) cm^-1 s^-1 (from memory, science brief).
+  // b = 1.52e18 [T (1/M_i + 1/M_a)]^(1/2) cm^-1 s^-1 (Banks and Kockarts 1973, Aeronomy,
+  // part B; from memory).
   return 1.52e18 * std::sqrt(1.0 / species_mass_amu + 1.0 / air_mass_amu);
 }
 
