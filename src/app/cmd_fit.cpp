@@ -11,9 +11,15 @@
 #include <cmath>
 #include <iostream>
 #include <limits>
+#include <memory>
+#include <sstream>
+
+#include <mpi.h>
 
 #include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
+#include "analysis/sweep.hpp"
+#include "analysis/sweep_runner.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
@@ -177,12 +183,21 @@ struct FitSummary {
   double chi2 = 0.0;
   std::size_t points = 0, parameters = 0;
   bool converged = false;
+};
+
+/// One fit's inputs, loaded and checked (the scenario and the model on the heap: the model
+/// refers to its scenario).
+struct FitSetup {
+  std::unique_ptr<UnitSystem> units = std::make_unique<UnitSystem>();
+  std::vector<std::string> sets;  ///< the --set overrides the scenario was loaded with
+  std::unique_ptr<Scenario> sc;
+  std::unique_ptr<ColumnModel> model;
+  ObservationSet obs;
+  std::vector<FitParameter> params;
   std::filesystem::path file;
 };
 
-int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
-             const std::vector<std::string>& param_texts, const std::string& output,
-             Context& ctx, FitSummary* summary);
+int fit_single(const FitCliOptions& o, Context& ctx);
 int compare_module_sets(const FitCliOptions& o, Context& ctx);
 
 }  // namespace
@@ -234,13 +249,14 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
                   "switched on, chemistry.modules); each set is fitted with the same -p "
                   "parameters plus its own --module-param ones and the sets are ranked by "
                   "minimum chi-square, AIC and BIC; files OUTPUT_STEM.LABEL.nc");
-  cmd->add_option("--module-param", o->module_params,
-                  "A parameter fitted only in one module set (repeatable): LABEL=PATH:MIN:MAX[:log]");
+  cmd->add_option(
+      "--module-param", o->module_params,
+      "A parameter fitted only in one module set (repeatable): LABEL=PATH:MIN:MAX[:log]");
   cmd->add_flag("--benchmark", o->benchmark,
                 "Also time one warm steady solve (K x 1.01 from the fitted state) and print the "
                 "fit's cost in such solves");
   out.emplace_back(cmd, [o](Context& ctx) {
-    if (o->module_sets.empty()) return fit_once(o.get(), o->sets, o->params, o->output, ctx, nullptr);
+    if (o->module_sets.empty()) return fit_single(*o, ctx);
     return compare_module_sets(*o, ctx);
   });
 }
@@ -293,7 +309,7 @@ FiniteDifference chi2_finite_difference(ColumnModel& model, const SolverSpec& so
 /// disagrees, ExitCode::kNotConverged when the steady solve at the start failed.
 int check_gradient(const FitCliOptions& o, ColumnModel& model, const Scenario& sc,
                    const ObservationSet& obs, const std::vector<FitParameter>& params,
-                   const std::vector<double>& x, const FitOptions& fopt) {
+                   const std::vector<double>& x, const FitOptions& fopt, std::ostream& out) {
   int status = 0;
   FitProblem probe(model, sc.solver, obs, params, x, fopt);
   // Tight tolerances: chi2 at u +- h must be accurate far below g h * tolerance.
@@ -308,7 +324,7 @@ int check_gradient(const FitCliOptions& o, ColumnModel& model, const Scenario& s
   }
   const std::vector<double> x_start = probe.state();
   const std::size_t P = params.size();
-  std::cout << fmt::format(
+  out << fmt::format(
       "gradient check at the start (central differences of the full steady solve at steps "
       "h and 2h; 'fd error' = truncation |fd(h) - fd(2h)|/3 + solve noise/h, relative):\n"
       "{:<40} {:>16} {:>16} {:>10} {:>10}\n",
@@ -319,10 +335,9 @@ int check_gradient(const FitCliOptions& o, ColumnModel& model, const Scenario& s
   for (std::size_t k = 0; k < P; ++k) {
     double g = 0.0;
     for (std::size_t i = 0; i < r0.size(); ++i) g += 2.0 * jac[i * P + k] * r0[i];
-    const double h =
-        params[k].log ? o.check_step : o.check_step * std::max(std::abs(u0[k]), 1e-3);
-    const FiniteDifference fd = chi2_finite_difference(model, probe.solver(), obs, params, fopt,
-                                                       x_start, u0, chi0, k, h);
+    const double h = params[k].log ? o.check_step : o.check_step * std::max(std::abs(u0[k]), 1e-3);
+    const FiniteDifference fd =
+        chi2_finite_difference(model, probe.solver(), obs, params, fopt, x_start, u0, chi0, k, h);
     const bool ok = fd.ok;
     const double fdg = fd.value, fd_err = fd.error;
     const double mag = std::max({std::abs(g), std::abs(fdg), 1e-300});
@@ -331,52 +346,53 @@ int check_gradient(const FitCliOptions& o, ColumnModel& model, const Scenario& s
     // allowed beside the tolerance (common practice, no source).
     const bool good = ok && std::abs(g - fdg) <= o.check_tolerance * mag + 2.0 * fd_err;
     worst = std::max(worst, ok ? rel : 1.0);
-    std::cout << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e} {:>10.2e}{}\n",
-                             params[k].path, g, fdg, rel, fd_err / mag,
-                             good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
+    out << fmt::format("{:<40} {:>16.8g} {:>16.8g} {:>10.2e} {:>10.2e}{}\n", params[k].path, g, fdg,
+                       rel, fd_err / mag, good ? "" : (ok ? "  DISAGREES" : "  (solve failed)"));
     if (!good) status = static_cast<int>(ExitCode::kInternal);
   }
-  std::cout << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
-                           o.check_tolerance);
+  out << fmt::format("worst relative difference {:.2e} (tolerance {:.1e})\n\n", worst,
+                     o.check_tolerance);
   return status;
 }
 
 /// The fit's summary, its parameter table and the correlation matrix.
-void print_fit(const std::vector<FitParameter>& params, const FitResult& res, bool log_space) {
+void print_fit(const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
+               std::ostream& out) {
   const std::size_t P = params.size();
-  std::cout << fmt::format(
+  out << fmt::format(
       "fit: {} after {} Gauss-Newton iterations; {} steady solves ({} Newton iterations, "
       "{:.3f} s), {} Jacobians ({:.3f} s); {:.3f} s in all\n",
       res.reason, res.iterations, res.steady_solves, res.newton_iterations, res.steady_s,
       res.jacobians, res.jacobian_s, res.wall_s);
-  std::cout << fmt::format(
+  out << fmt::format(
       "chi2 ({}) {:.6g} (start {:.6g}); N = {} points, p = {}; reduced chi2 = chi2/(N - p) = "
       "{:.4g}\n\n",
       log_space ? "log" : "linear", res.chi2, res.chi2_initial, res.points, P, res.reduced_chi2);
-  std::cout << fmt::format("{:<40} {:>13} {:>13} {:>13} {:>13}  {}\n", "parameter", "start",
-                           "best fit", "1 sigma", "sigma scaled", "bounds");
+  out << fmt::format("{:<40} {:>13} {:>13} {:>13} {:>13}  {}\n", "parameter", "start", "best fit",
+                     "1 sigma", "sigma scaled", "bounds");
   for (std::size_t k = 0; k < P; ++k) {
     const auto& p = params[k];
-    std::cout << fmt::format(
-        "{:<40} {:>13.6g} {:>13.6g} {:>13.4g} {:>13.4g}  [{:.4g}, {:.4g}]{}{}\n", p.path, p.initial,
-        res.value[k], res.sigma[k], res.sigma_scaled[k], p.min, p.max,
-        p.log ? fmt::format(" log (factor {:.4g})", std::exp(res.sigma_u[k])) : "",
-        res.at_bound[k] < 0   ? "  AT LOWER BOUND"
-        : res.at_bound[k] > 0 ? "  AT UPPER BOUND"
-                              : "");
+    out << fmt::format("{:<40} {:>13.6g} {:>13.6g} {:>13.4g} {:>13.4g}  [{:.4g}, {:.4g}]{}{}\n",
+                       p.path, p.initial, res.value[k], res.sigma[k], res.sigma_scaled[k], p.min,
+                       p.max,
+                       p.log ? fmt::format(" log (factor {:.4g})", std::exp(res.sigma_u[k])) : "",
+                       res.at_bound[k] < 0   ? "  AT LOWER BOUND"
+                       : res.at_bound[k] > 0 ? "  AT UPPER BOUND"
+                                             : "");
   }
-  std::cout << "\ncorrelation\n";
+  out << "\ncorrelation\n";
   for (std::size_t k = 0; k < P; ++k) {
     std::string row = fmt::format("{:<40}", params[k].path);
     for (std::size_t l = 0; l < P; ++l) row += fmt::format(" {:>7.3f}", res.correlation[k * P + l]);
-    std::cout << row << "\n";
+    out << row << "\n";
   }
 }
 
 /// One warm steady solve, K x 1.01 from the fitted state (as `sensitivity --benchmark`),
 /// against the fit's time.
 void print_fit_benchmark(ColumnModel& model, const Scenario& sc, const ObservationSet& obs,
-                         const FitResult& res, const FitOptions& fopt, std::size_t P) {
+                         const FitResult& res, const FitOptions& fopt, std::size_t P,
+                         std::ostream& out) {
   FitParameter k;
   k.path = "atmosphere.eddy_diffusion";
   k.kind = FitKind::kEddy;
@@ -391,147 +407,249 @@ void print_fit_benchmark(ColumnModel& model, const Scenario& sc, const Observati
   one.residuals(std::vector<double>{1.01}, r);
   const double warm_s =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-  std::cout << fmt::format(
+  out << fmt::format(
       "\nbenchmark: {} parameters, {} cells; fit {:.3f} s; one warm steady solve (K x 1.01) "
       "{:.3f} s; the fit costs {:.1f} warm steady solves\n",
       P, model.cells(), res.wall_s, warm_s, res.wall_s / warm_s);
 }
 
-int fit_once(const FitCliOptions* o, const std::vector<std::string>& sets,
-             const std::vector<std::string>& param_texts, const std::string& output,
-             Context& ctx, FitSummary* summary) {
-    // 1. The scenario, the observations and the fitted parameters.
-    const UnitSystem units;
-    Scenario sc = load_scenario(o->config, sets, units);
-    ColumnModel model(sc);
-    require_steady_chemistry(sc, model, "fits of a steady state");
-    const std::filesystem::path obs_file = observation_file(o->observations, sc);
-    const ObservationSet obs = read_observations(obs_file, units);
-    std::vector<FitParameter> params;
-    for (const auto& text : param_texts) {
-      params.push_back(parse_parameter(text, model, sc));
-      for (std::size_t k = 0; k + 1 < params.size(); ++k) {
-        if (params[k].path == params.back().path) {
-          throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--param",
-                           "each path once", "'" + params[k].path + "' twice");
-        }
+/// 1. The scenario, the observations and the fitted parameters, checked before any solve
+/// (a comparison of module sets checks every set before it distributes them over ranks).
+FitSetup prepare_fit(const FitCliOptions& o, const std::vector<std::string>& sets,
+                     const std::vector<std::string>& param_texts, const std::string& output) {
+  FitSetup f;
+  f.sets = sets;
+  f.sc = std::make_unique<Scenario>(load_scenario(o.config, sets, *f.units));
+  f.model = std::make_unique<ColumnModel>(*f.sc);
+  require_steady_chemistry(*f.sc, *f.model, "fits of a steady state");
+  const std::filesystem::path obs_file = observation_file(o.observations, *f.sc);
+  f.obs = read_observations(obs_file, *f.units);
+  for (const auto& text : param_texts) {
+    f.params.push_back(parse_parameter(text, *f.model, *f.sc));
+    for (std::size_t k = 0; k + 1 < f.params.size(); ++k) {
+      if (f.params[k].path == f.params.back().path) {
+        throw InputError(ExitCode::kUsage, SourceLocation{f.sc->file.string()}, "--param",
+                         "each path once", "'" + f.params[k].path + "' twice");
       }
     }
-    const std::filesystem::path file = output.empty()
-                                           ? std::filesystem::path(sc.name + ".fit.nc")
-                                           : std::filesystem::path(output);
-    refuse_output_onto_input(file,
-                             {{"the scenario file", sc.file}, {"the observations", obs_file}});
-
-    // 2. The steady state at the starting values.
-    const PetscSession petsc;
-    const InterruptGuard interrupt;
-    const BaseStart start(o->config, sets, o->restart);
-    const BaseSolve base = solve_steady_base(start, sc, model, units, ctx, interrupt,
-                                             "steady state at the starting values");
-    if (base.exit_code != 0) return base.exit_code;
-    const RunOutcome& run = base.run;
-
-    FitOptions fopt;
-    fopt.log_space = !o->linear;
-    fopt.max_iterations = o->max_iterations;
-    fopt.gatol = o->gatol;
-    fopt.log = ctx.log.get();
-    fopt.stop_requested = interrupt.query();
-    int status = 0;
-
-    // 3. The gradient check (before the fit: at the best fit the gradient vanishes).
-    if (o->check) {
-      status = check_gradient(*o, model, sc, obs, params, run.x, fopt);
-      if (status == static_cast<int>(ExitCode::kNotConverged)) return status;
-    }
-
-    // 4. The fit.
-    FitProblem problem(model, sc.solver, obs, params, run.x, fopt);
-    const FitResult res = problem.solve();
-    write_fit_file(file, sc, model, params, res, fopt.log_space, ctx.command_line);
-
-    const std::size_t P = params.size();
-    print_fit(params, res, fopt.log_space);
-    ctx.log->info("wrote {}", file.string());
-
-    if (o->benchmark) print_fit_benchmark(model, sc, obs, res, fopt, P);
-    if (!res.converged) {
-      ctx.log->warn("the fit did not converge: {}", res.reason);
-      if (status == 0) status = static_cast<int>(ExitCode::kNotConverged);
-    }
-    if (summary != nullptr) {
-      summary->chi2 = res.chi2;
-      summary->points = res.points;
-      summary->parameters = P;
-      summary->converged = res.converged;
-      summary->file = file;
-    }
-    return status;
+  }
+  f.file = output.empty() ? std::filesystem::path(f.sc->name + ".fit.nc")
+                          : std::filesystem::path(output);
+  refuse_output_onto_input(f.file,
+                           {{"the scenario file", f.sc->file}, {"the observations", obs_file}});
+  return f;
 }
 
-/// Each module set fitted in turn, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE
-/// Trans. Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6,
-/// 461), k the set's fitted parameters and N the observed points; with Gaussian errors of
-/// known sigma -2 ln L_max = chi2_min + a constant the sets share (the same data).
+int fit_once(const FitCliOptions& o, FitSetup& f, Context& ctx, std::ostream& out,
+             FitSummary* summary) {
+  Scenario& sc = *f.sc;
+  ColumnModel& model = *f.model;
+  const ObservationSet& obs = f.obs;
+  const std::vector<FitParameter>& params = f.params;
+
+  // 2. The steady state at the starting values.
+  const InterruptGuard interrupt;
+  const BaseStart start(o.config, f.sets, o.restart);
+  const BaseSolve base = solve_steady_base(start, sc, model, *f.units, ctx, interrupt,
+                                           "steady state at the starting values");
+  if (base.exit_code != 0) return base.exit_code;
+  const RunOutcome& run = base.run;
+
+  FitOptions fopt;
+  fopt.log_space = !o.linear;
+  fopt.max_iterations = o.max_iterations;
+  fopt.gatol = o.gatol;
+  fopt.log = ctx.log.get();
+  fopt.stop_requested = interrupt.query();
+  int status = 0;
+
+  // 3. The gradient check (before the fit: at the best fit the gradient vanishes).
+  if (o.check) {
+    status = check_gradient(o, model, sc, obs, params, run.x, fopt, out);
+    if (status == static_cast<int>(ExitCode::kNotConverged)) return status;
+  }
+
+  // 4. The fit.
+  FitProblem problem(model, sc.solver, obs, params, run.x, fopt);
+  const FitResult res = problem.solve();
+  write_fit_file(f.file, sc, model, params, res, fopt.log_space, ctx.command_line);
+
+  const std::size_t P = params.size();
+  print_fit(params, res, fopt.log_space, out);
+  ctx.log->info("wrote {}", f.file.string());
+
+  if (o.benchmark) print_fit_benchmark(model, sc, obs, res, fopt, P, out);
+  if (!res.converged) {
+    ctx.log->warn("the fit did not converge: {}", res.reason);
+    if (status == 0) status = static_cast<int>(ExitCode::kNotConverged);
+  }
+  if (summary != nullptr) {
+    summary->chi2 = res.chi2;
+    summary->points = res.points;
+    summary->parameters = P;
+    summary->converged = res.converged;
+  }
+  return status;
+}
+
+int fit_single(const FitCliOptions& o, Context& ctx) {
+  FitSetup f = prepare_fit(o, o.sets, o.params, o.output);
+  const PetscSession petsc;
+  return fit_once(o, f, ctx, std::cout, nullptr);
+}
+
+/// Each module set fitted, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE Trans.
+/// Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6, 461), k
+/// the set's fitted parameters and N the observed points; with Gaussian errors of known
+/// sigma -2 ln L_max = chi2_min + a constant the sets share (the same data). Under mpirun
+/// the sets are distributed over the ranks as a sweep's variants are (run_variants: the next
+/// set goes to the next free rank); each fit starts from its own scenario's steady state,
+/// so its result does not depend on the rank that ran it, and the table is the same on any
+/// number of ranks.
 int compare_module_sets(const FitCliOptions& o, Context& ctx) {
-  struct Row {
-    std::string label;
-    FitSummary fit;
-    int status = 0;
+  struct Set {
+    std::string label, modules;
+    FitSetup setup;
   };
-  std::vector<Row> rows;
+  std::vector<Set> sets;
   const SourceLocation where{o.config};
-  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
   for (const auto& spec : o.module_sets) {
     const auto eq = spec.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size()) {
       throw InputError(ExitCode::kUsage, where, "--module-set", "LABEL=MODULE,MODULE,...",
                        "'" + spec + "'");
     }
-    Row row;
-    row.label = spec.substr(0, eq);
-    for (const auto& r : rows) {
-      if (r.label == row.label) {
+    Set set;
+    set.label = spec.substr(0, eq);
+    for (const auto& r : sets) {
+      if (r.label == set.label) {
         throw InputError(ExitCode::kUsage, where, "--module-set", "each LABEL once",
-                         "'" + row.label + "' twice");
+                         "'" + set.label + "' twice");
       }
     }
-    std::string modules;
-    for (const auto& m : split(spec.substr(eq + 1), ',')) modules += (modules.empty() ? "" : ", ") + m;
-    std::vector<std::string> sets = o.sets;
-    sets.push_back("chemistry.modules=[" + modules + "]");
+    for (const auto& m : split(spec.substr(eq + 1), ',')) {
+      set.modules += (set.modules.empty() ? "" : ", ") + m;
+    }
+    sets.push_back(std::move(set));
+  }
+  for (const auto& m : o.module_params) {
+    const auto e = m.find('=');
+    if (e == std::string::npos) {
+      throw InputError(ExitCode::kUsage, where, "--module-param", "LABEL=PATH:MIN:MAX[:log]",
+                       "'" + m + "'");
+    }
+    const std::string label = m.substr(0, e);
+    if (std::none_of(sets.begin(), sets.end(), [&](const Set& r) { return r.label == label; })) {
+      throw InputError(ExitCode::kUsage, where, "--module-param", "the LABEL of a --module-set",
+                       "'" + label + "'");
+    }
+  }
+  // Every set's scenario, observations and parameters are checked on every rank before any
+  // solve (the same checks everywhere, so every rank stops alike on a bad input).
+  std::vector<Variant> variants;
+  for (auto& set : sets) {
+    std::vector<std::string> overrides = o.sets;
+    overrides.push_back("chemistry.modules=[" + set.modules + "]");
     std::vector<std::string> params = o.params;
     for (const auto& mp : o.module_params) {
       const auto e = mp.find('=');
-      if (e == std::string::npos) {
-        throw InputError(ExitCode::kUsage, where, "--module-param", "LABEL=PATH:MIN:MAX[:log]",
-                         "'" + mp + "'");
-      }
-      if (mp.substr(0, e) == row.label) params.push_back(mp.substr(e + 1));
+      if (mp.substr(0, e) == set.label) params.push_back(mp.substr(e + 1));
     }
-    std::filesystem::path out = o.output.empty() ? std::filesystem::path("fit.nc")
-                                                 : std::filesystem::path(o.output);
+    std::filesystem::path out =
+        o.output.empty() ? std::filesystem::path("fit.nc") : std::filesystem::path(o.output);
     out.replace_extension();
-    out += "." + row.label + ".nc";
-    std::cout << fmt::format("=== module set {} (modules {})\n", row.label, modules);
-    row.status = fit_once(&o, sets, params, out.string(), ctx, &row.fit);
-    std::cout << "\n";
-    rows.push_back(std::move(row));
+    out += "." + set.label + ".nc";
+    set.setup = prepare_fit(o, overrides, params, out.string());
+    Variant v;
+    v.index = variants.size();
+    v.label = set.label;
+    v.module_label = set.label;
+    variants.push_back(v);
   }
-  for (const auto& m : o.module_params) {
-    const std::string label = m.substr(0, m.find('='));
-    if (std::none_of(rows.begin(), rows.end(), [&](const Row& r) { return r.label == label; })) {
-      throw InputError(ExitCode::kUsage, where, "--module-param",
-                       "the LABEL of a --module-set", "'" + label + "'");
+
+  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
+  const InterruptGuard interrupt;
+  int rank = 0, size = 1;
+  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
+  MPI_Comm_size(MPI_COMM_WORLD, &size);
+  if (rank == 0) {
+    ctx.log->info("fit: {} module sets on {} rank{}", sets.size(), size, size == 1 ? "" : "s");
+  }
+  // The outcome's values: chi2_min, N, k, the fit's exit code.
+  const VariantRunner runner = [&](const Variant& v) {
+    Set& set = sets[v.index];
+    std::ostringstream text;
+    text << fmt::format("=== module set {} (modules {}) on rank {}\n", set.label, set.modules,
+                        rank);
+    VariantOutcome result;
+    FitSummary fit;
+    int code = 0;
+    try {
+      code = fit_once(o, set.setup, ctx, text, &fit);
+      result.reason = fit.converged ? "converged" : "fit not converged";
+    } catch (const InputError& e) {
+      code = static_cast<int>(e.code());
+      result.reason = e.what();
+    } catch (const RunError& e) {
+      code = static_cast<int>(e.code());
+      result.reason = e.what();
     }
+    if (code == static_cast<int>(ExitCode::kNotConverged) && fit.points == 0) {
+      result.reason = "no steady state at the starting values";
+    }
+    result.converged = fit.converged && code == 0;
+    result.interrupted = code == static_cast<int>(ExitCode::kInterrupted);
+    result.values = {fit.points > 0 ? fit.chi2 : std::numeric_limits<double>::quiet_NaN(),
+                     static_cast<double>(fit.points), static_cast<double>(fit.parameters),
+                     static_cast<double>(code)};
+    text << "\n";
+    std::cout << text.str() << std::flush;  // one block per set, whatever the rank
+    return result;
+  };
+  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+    ctx.log->info("module set {} ({}/{}) on rank {}: {} ({:.2f} s)", v.label, v.index + 1,
+                  variants.size(), rank, r.converged ? "converged" : r.reason, r.wall_seconds);
+  };
+  const std::vector<VariantOutcome> outcomes =
+      run_variants(MPI_COMM_WORLD, variants, runner, done, interrupt.query());
+  // The other ranks wait for rank 0's exit code (as a sweep's do).
+  if (rank != 0) {
+    int code = 0;
+    MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
+    return code;
+  }
+
+  struct Row {
+    std::string label;
+    double chi2 = 0.0, points = 0.0, k = 0.0;
+    int status = 0;
+    std::string reason;
+    bool converged = false;
+  };
+  std::vector<Row> rows;
+  for (std::size_t i = 0; i < sets.size(); ++i) {
+    const VariantOutcome& r = outcomes[i];
+    Row row;
+    row.label = sets[i].label;
+    row.converged = r.converged;
+    row.reason = r.reason;
+    if (r.values.size() == 4) {
+      row.chi2 = r.values[0];
+      row.points = r.values[1];
+      row.k = r.values[2];
+      row.status = static_cast<int>(r.values[3]);
+    } else {  // never started (interrupted) or failed outside the fit
+      row.chi2 = std::numeric_limits<double>::quiet_NaN();
+      row.status = static_cast<int>(r.interrupted ? ExitCode::kInterrupted : ExitCode::kInternal);
+    }
+    rows.push_back(row);
   }
   double best_aic = std::numeric_limits<double>::infinity(), best_bic = best_aic;
   std::vector<double> aic, bic;
   for (const auto& r : rows) {
-    const double k = static_cast<double>(r.fit.parameters);
-    aic.push_back(r.fit.chi2 + 2.0 * k);
-    bic.push_back(r.fit.chi2 + k * std::log(static_cast<double>(r.fit.points)));
+    const bool ok = std::isfinite(r.chi2) && r.points > 0.0;
+    aic.push_back(ok ? r.chi2 + 2.0 * r.k : std::numeric_limits<double>::infinity());
+    bic.push_back(ok ? r.chi2 + r.k * std::log(r.points) : std::numeric_limits<double>::infinity());
     best_aic = std::min(best_aic, aic.back());
     best_bic = std::min(best_bic, bic.back());
   }
@@ -543,21 +661,27 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
       "module sets ranked by AIC = chi2_min + 2k (Akaike 1974); BIC = chi2_min + k ln N "
       "(Schwarz 1978); Akaike weight exp(-dAIC/2) normalised\n"
       "{:>4}  {:<24} {:>12} {:>3} {:>4} {:>12} {:>8} {:>12} {:>8} {:>8}  {}\n",
-      "rank", "module set", "chi2_min", "k", "N", "AIC", "dAIC", "BIC", "dBIC", "weight",
-      "fit");
+      "rank", "module set", "chi2_min", "k", "N", "AIC", "dAIC", "BIC", "dBIC", "weight", "fit");
   double wsum = 0.0;
   for (double a : aic) wsum += std::exp(-(a - best_aic) / 2.0);
   int status = 0;
   for (std::size_t i = 0; i < order.size(); ++i) {
     const std::size_t r = order[i];
+    const Row& row = rows[r];
     std::cout << fmt::format(
         "{:>4}  {:<24} {:>12.6g} {:>3} {:>4} {:>12.6g} {:>8.3f} {:>12.6g} {:>8.3f} {:>8.4f}  {}\n",
-        i + 1, rows[r].label, rows[r].fit.chi2, rows[r].fit.parameters, rows[r].fit.points,
-        aic[r], aic[r] - best_aic, bic[r], bic[r] - best_bic,
+        i + 1, row.label, row.chi2, static_cast<std::size_t>(row.k),
+        static_cast<std::size_t>(row.points), aic[r], aic[r] - best_aic, bic[r], bic[r] - best_bic,
         std::exp(-(aic[r] - best_aic) / 2.0) / wsum,
-        rows[r].fit.converged ? "converged" : "NOT CONVERGED");
-    if (status == 0) status = rows[r].status;
+        row.converged
+            ? std::string("converged")
+            : (row.status == static_cast<int>(ExitCode::kNotConverged) && std::isfinite(row.chi2)
+                   ? std::string("NOT CONVERGED")
+                   : "FAILED: " + row.reason));
+    if (status == 0) status = row.status;
   }
+  std::cout << std::flush;
+  MPI_Bcast(&status, 1, MPI_INT, 0, MPI_COMM_WORLD);
   return status;
 }
 

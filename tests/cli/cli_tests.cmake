@@ -316,6 +316,12 @@ include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)
 add_test(NAME cli.fit
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/fit_work)
+# The comparison of module sets (fit --module-set) in a twin experiment with two candidate
+# sources of different shape, on one rank and on two (tests/cli/fit_compare_test.sh).
+add_test(NAME cli.fit_compare
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_compare_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+          ${CMAKE_CURRENT_BINARY_DIR}/fit_compare_work)
+set_tests_properties(cli.fit_compare PROPERTIES PROCESSORS 2)
 colchem_cli_test(help_fit 0 "PATH:MIN:MAX:log, PATH one of chemistry.parameters.NAME" $<TARGET_FILE:colchem> fit --help)
 set(LINEAR ${CMAKE_SOURCE_DIR}/tests/cli/ensemble/linear_loss.yaml)
 colchem_cli_test(fit_unknown_path 2
