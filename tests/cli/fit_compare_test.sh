@@ -29,8 +29,11 @@
 # probability P(chi2_1 > 2) = 0.157 when it is not needed (Burnham and Anderson 2002, Model
 # Selection and Multimodel Inference, 2nd ed., section 6.9.6). With the sources resolvable
 # the measured margin is far larger (printed: smallest dAIC of the runner-up), so one miss
-# in ten is what the criterion leaves for chance, not slack for a wrong answer: a wrong
-# shape or a broken penalty (k counted wrongly) fails it.
+# in ten is what the criterion leaves for chance, not slack for a wrong answer: a source of
+# the wrong shape, residuals scored wrongly or sets confused with one another fail it. The
+# printed AIC, BIC and Akaike weights are recomputed from chi2_min, k and N by the
+# definitions above (weight w_i = exp(-dAIC_i/2) / sum_j exp(-dAIC_j/2); Burnham and
+# Anderson 2002, section 2.9), to the printed precision.
 #
 # MPI: realisation 0 of each direction again under `mpirun -n 2` (the sets distributed over
 # the ranks as a sweep's variants): every set's chi2_min and best-fit values equal the
@@ -109,6 +112,17 @@ for gen in ("low", "uniform"):
             assert t[s]["status"] == "converged", (gen, n, s, p.stdout + p.stderr)
         assert t["base"]["k"] == 2 and t["uniform"]["k"] == 3 and t["low"]["k"] == 3, t
         assert all(r["N"] == alt.size for r in t.values()), t
+        # The criteria by their definitions (analytic), to the table's printed precision.
+        a = {s: t[s]["chi2"] + 2 * t[s]["k"] for s in sets}
+        b = {s: t[s]["chi2"] + t[s]["k"] * math.log(t[s]["N"]) for s in sets}
+        wsum = sum(math.exp(-(a[s] - min(a.values())) / 2) for s in sets)
+        for s in sets:
+            assert math.isclose(t[s]["aic"], a[s], rel_tol=2e-6, abs_tol=2e-3), (s, t[s], a[s])
+            assert math.isclose(t[s]["bic"], b[s], rel_tol=2e-6, abs_tol=2e-3), (s, t[s], b[s])
+            assert abs(t[s]["daic"] - (a[s] - min(a.values()))) <= 2e-3 * max(1, a[s]), (s, t[s])
+            assert abs(t[s]["dbic"] - (b[s] - min(b.values()))) <= 2e-3 * max(1, b[s]), (s, t[s])
+            w = math.exp(-(a[s] - min(a.values())) / 2) / wsum
+            assert abs(t[s]["w"] - w) <= 1e-4, (s, t[s]["w"], w)
         best_aic = min(t, key=lambda s: t[s]["aic"]); best_bic = min(t, key=lambda s: t[s]["bic"])
         wins_aic += best_aic == gen; wins_bic += best_bic == gen
         runner_up = min(t[s]["daic"] for s in sets if s != gen) if best_aic == gen else -t[gen]["daic"]
