@@ -244,11 +244,13 @@ void add_fit_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
                   "Step of --check in the fitted variable (ln p for log parameters, else "
                   "relative to |p|)")
       ->capture_default_str();
-  cmd->add_option("--module-set", o->module_sets,
-                  "Compare module sets (repeatable): LABEL=MODULE,MODULE,... (the modules "
-                  "switched on, chemistry.modules); each set is fitted with the same -p "
-                  "parameters plus its own --module-param ones and the sets are ranked by "
-                  "minimum chi-square, AIC and BIC; files OUTPUT_STEM.LABEL.nc");
+  cmd->add_option(
+      "--module-set", o->module_sets,
+      "Compare module sets (repeatable): LABEL=MODULE,MODULE,... (the modules "
+      "switched on, chemistry.modules); each set is fitted with the same -p "
+      "parameters plus its own --module-param ones and the sets are ranked by "
+      "minimum chi-square, AIC and BIC; files OUTPUT_STEM.LABEL.nc; under mpirun the sets "
+      "are distributed over the ranks");
   cmd->add_option(
       "--module-param", o->module_params,
       "A parameter fitted only in one module set (repeatable): LABEL=PATH:MIN:MAX[:log]");

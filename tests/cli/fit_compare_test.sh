@@ -25,15 +25,16 @@
 # 9 of 10, and a selection rule by AIC is not certain even when the truth is among the
 # candidates: a competitor that can mimic the truth (here the uniform set's k is the same,
 # and base is nested in both at a vanishing source) wins whenever noise alone lowers its
-# chi2_min enough, e.g. for nested sets one extra parameter is preferred by AIC with
-# probability P(chi2_1 > 2) = 0.157 when it is not needed (Burnham and Anderson 2002, Model
-# Selection and Multimodel Inference, 2nd ed., section 6.9.6). With the sources resolvable
-# the measured margin is far larger (printed: smallest dAIC of the runner-up), so one miss
+# chi2_min enough: for two nested sets one parameter apart the drop in chi2_min is chi2_1
+# distributed when the smaller set is true (Wilks 1938, Ann. Math. Stat. 9, 60), so AIC
+# prefers the unneeded parameter with probability P(chi2_1 > 2) = 0.157 (analytic). With
+# the sources resolvable the measured margin is far larger (printed: smallest dAIC of the runner-up), so one miss
 # in ten is what the criterion leaves for chance, not slack for a wrong answer: a source of
 # the wrong shape, residuals scored wrongly or sets confused with one another fail it. The
 # printed AIC, BIC and Akaike weights are recomputed from chi2_min, k and N by the
 # definitions above (weight w_i = exp(-dAIC_i/2) / sum_j exp(-dAIC_j/2); Burnham and
-# Anderson 2002, section 2.9), to the printed precision.
+# Anderson 2002, Model Selection and Multimodel Inference, 2nd ed., chapter 2, from
+# memory), to the printed precision.
 #
 # MPI: realisation 0 of each direction again under `mpirun -n 2` (the sets distributed over
 # the ranks as a sweep's variants): every set's chi2_min and best-fit values equal the
