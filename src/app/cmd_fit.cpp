@@ -40,7 +40,8 @@ namespace {
 constexpr const char* kParamSyntax =
     "PATH:MIN:MAX or PATH:MIN:MAX:log, PATH one of chemistry.parameters.NAME, "
     "species.NAME.bottom.KIND, species.NAME.top.KIND (KIND the boundary's kind, e.g. "
-    "mixing_ratio, flux), atmosphere.eddy_diffusion (a multiplier of K) or "
+    "mixing_ratio, flux), species.NAME.hold (a multiplier of the held profile), "
+    "atmosphere.eddy_diffusion (a multiplier of K) or "
     "atmosphere.eddy_diffusion[LO-HI] (a multiplier of K at the edges from LO to HI km)";
 
 std::vector<std::string> split(const std::string& s, char sep) {
@@ -129,6 +130,18 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
                                                : kind + " (no single value to fit)"));
     }
     p.initial = bc.value.value[0];
+  } else if (parts.size() == 3 && parts[0] == "species" && parts[2] == "hold") {
+    const auto& names = model.species();
+    const auto it = std::find(names.begin(), names.end(), parts[1]);
+    const auto s = static_cast<std::size_t>(it - names.begin());
+    if (it == names.end() || !model.has_chemistry() || !model.chemistry().has_held_profile(s)) {
+      throw bad(
+          "a species with a held profile (species.NAME.hold in the scenario) in "
+          "species.NAME.hold");
+    }
+    p.kind = FitKind::kHeld;
+    p.index = s;
+    p.initial = 1.0;
   } else if (p.path.rfind(eddy, 0) == 0) {
     const auto& edges = model.background().grid.edge_cm;
     p.kind = FitKind::kEddy;

@@ -63,6 +63,38 @@ void ChemistryOperator::init(const ChemistrySpec& spec, std::span<const double> 
   cell_first_.assign(N + 1, 0);
   for (const auto& c : cells_x_) ++cell_first_[c.cell + 1];
   for (std::size_t j = 0; j < N; ++j) cell_first_[j + 1] += cell_first_[j];
+  base_n_eq_.clear();
+  for (const auto& c : cells_x_) base_n_eq_.push_back(c.n_eq);
+}
+
+namespace {
+bool is_held_profile(const CondensationExchange& e) {
+  return e.saturation == CondensationExchange::Saturation::kHeldProfile;
+}
+}  // namespace
+
+bool ChemistryOperator::has_held_profile(std::size_t s) const {
+  return std::any_of(exchanges_.begin(), exchanges_.end(), [&](const CondensationExchange& e) {
+    return e.species == s && is_held_profile(e);
+  });
+}
+
+void ChemistryOperator::scale_held_profile(std::size_t s, double factor) {
+  for (std::size_t i = 0; i < cells_x_.size(); ++i) {
+    ExchangeCell& c = cells_x_[i];
+    if (c.species == s && is_held_profile(exchanges_[c.term])) c.n_eq = factor * base_n_eq_[i];
+  }
+}
+
+void ChemistryOperator::add_held_profile_derivative(std::size_t s, std::span<const double> n,
+                                                    std::span<double> out) const {
+  const std::size_t S = species_count();
+  for (std::size_t i = 0; i < cells_x_.size(); ++i) {
+    const ExchangeCell& c = cells_x_[i];
+    if (c.species != s || !is_held_profile(exchanges_[c.term])) continue;
+    const std::size_t at = c.cell * S + c.species;
+    out[at] -= exchange_tendency(c, n[at]).dfdn * base_n_eq_[i];
+  }
 }
 
 void ChemistryOperator::impose_fixed(std::span<double> n) const {
@@ -145,7 +177,8 @@ void ChemistryOperator::reaction_rates(std::span<const double> n, std::span<doub
   const std::size_t S = species_count();
   const std::size_t NR = kin_.reaction_count();
   if (R.size() != cells() * NR) throw std::invalid_argument("reaction_rates: size cells * R");
-  for (std::size_t j = 0; j < cells(); ++j) kin_.reaction_rates(j, n.data() + j * S, R.data() + j * NR);
+  for (std::size_t j = 0; j < cells(); ++j)
+    kin_.reaction_rates(j, n.data() + j * S, R.data() + j * NR);
 }
 
 void ChemistryOperator::condensation_rates(std::span<const double> n, std::span<double> C) const {
@@ -158,7 +191,8 @@ void ChemistryOperator::condensation_rates(std::span<const double> n, std::span<
 
 void ChemistryOperator::exchange_rates(std::span<const double> n, std::span<double> out) const {
   const std::size_t S = species_count(), N = cells();
-  if (out.size() != exchanges_.size() * N) throw std::invalid_argument("exchange_rates: size terms * cells");
+  if (out.size() != exchanges_.size() * N)
+    throw std::invalid_argument("exchange_rates: size terms * cells");
   std::fill(out.begin(), out.end(), 0.0);
   for (const auto& c : cells_x_) {
     out[c.term * N + c.cell] -= exchange_tendency(c, n[c.cell * S + c.species]).f;

@@ -80,6 +80,15 @@ class ChemistryOperator : public ColumnOperator {
   void exchange_rates(std::span<const double> n, std::span<double> out) const;
   /// The exchange cells (for diagnostics: n_eq, k, reservoir per cell).
   [[nodiscard]] const std::vector<ExchangeCell>& exchange_cells() const { return cells_x_; }
+  /// Whether species s has a held profile (species.NAME.hold).
+  [[nodiscard]] bool has_held_profile(std::size_t s) const;
+  /// Holds species s's profiles at `factor` times the scenario's mixing ratio (n_eq of its
+  /// held-profile cells; 1 restores the scenario's). For fits of a held profile's scale.
+  void scale_held_profile(std::size_t s, double factor);
+  /// d f / d factor of scale_held_profile at state n, added to out[j * S + s]: the kernel's
+  /// f depends on n - n_eq, so d f / d n_eq = -d f / d n, times the scenario's n_eq.
+  void add_held_profile_derivative(std::size_t s, std::span<const double> n,
+                                   std::span<double> out) const;
   /// d f_{j,s} / d p_q at state n: out[(q * cells + j) * S + s], through d k / d p.
   void parameter_sensitivities(std::span<const double> n, std::span<double> out) const;
   [[nodiscard]] const StiffStats& integrator_stats() const { return integrator_.stats(); }
@@ -92,7 +101,8 @@ class ChemistryOperator : public ColumnOperator {
 
   Kinetics kin_;
   std::vector<CondensationExchange> exchanges_;
-  std::vector<ExchangeCell> cells_x_;  ///< ordered by cell
+  std::vector<ExchangeCell> cells_x_;    ///< ordered by cell
+  std::vector<double> base_n_eq_;        ///< the scenario's n_eq of each of cells_x_
   std::vector<std::size_t> cell_first_;  ///< cells_x_ of cell j: [cell_first_[j], cell_first_[j+1])
   std::vector<double> fixed_n_;
   std::vector<double> fixed_mask_;

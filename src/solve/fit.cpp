@@ -77,6 +77,9 @@ void FitProblem::apply(std::span<const double> u) {
   transport_apply(values);
   for (std::size_t k = 0; k < params_.size(); ++k) {
     if (params_[k].kind == FitKind::kNamed) model_.set_parameter(params_[k].index, values[k]);
+    if (params_[k].kind == FitKind::kHeld) {
+      model_.chemistry().scale_held_profile(params_[k].index, values[k]);
+    }
   }
 }
 
@@ -161,6 +164,12 @@ bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
     const FitParameter& p = params_[k];
     if (p.kind == FitKind::kNamed) {
       model_.parameter_tendency(p.index, x_, Fp);  // dF/dp
+      if (p.log) {
+        for (double& f : Fp) f *= values[k];
+      }
+    } else if (p.kind == FitKind::kHeld) {
+      std::fill(Fp.begin(), Fp.end(), 0.0);
+      model_.chemistry().add_held_profile_derivative(p.index, x_, Fp);  // dF/dp
       if (p.log) {
         for (double& f : Fp) f *= values[k];
       }

@@ -14,6 +14,7 @@
 // costs p solves where the adjoint would cost m; a fit has few parameters and the
 // observations of a profile are many.
 //   dF/du of a named parameter: ColumnModel::parameter_tendency (exact);
+//   of a held profile's multiplier: ChemistryOperator::add_held_profile_derivative (exact);
 //   of a boundary value or a K scaling: the central difference of the transport tendency at
 //   fixed x with ln p +- kTransportLogStep (as the adjoint does).
 // A parameter with `log` is fitted as u = ln p (quantities spanning decades).
@@ -41,14 +42,15 @@
 
 namespace colchem {
 
-enum class FitKind { kNamed, kBoundary, kEddy };
+/// kHeld: a multiplier of a species' held profile (species.NAME.hold; start 1).
+enum class FitKind { kNamed, kBoundary, kEddy, kHeld };
 
 /// One fitted parameter, resolved against the model (app/cmd_fit.cpp parses the text).
 struct FitParameter {
   std::string path;  ///< as given: "chemistry.parameters.kscale",
                      ///< "species.SO2.bottom.mixing_ratio", "atmosphere.eddy_diffusion[58-68]"
   FitKind kind = FitKind::kNamed;
-  std::size_t index = 0;                 ///< named parameter q, or species s (boundary)
+  std::size_t index = 0;                 ///< named parameter q, or species s (boundary, held)
   bool top = false;                      ///< boundary: top edge
   std::size_t edge_lo = 0, edge_hi = 0;  ///< K: edges [lo, hi] scaled
   double initial = 0.0;                  ///< the scenario's value (1 for a K scaling)

@@ -317,7 +317,8 @@ add_test(NAME cli.fit
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/fit_work)
 # The comparison of module sets (fit --module-set) in a twin experiment with two candidate
-# sources of different shape, on one rank and on two (tests/cli/fit_compare_test.sh).
+# sources of different shape, on one rank and on two; the fit of a held profile's multiplier
+# (tests/cli/fit_compare_test.sh).
 add_test(NAME cli.fit_compare
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_compare_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/fit_compare_work)
@@ -337,5 +338,8 @@ colchem_cli_test(fit_log_negative_min 2 "expected MIN > 0 for a log parameter"
   $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.parameters.kscale:-1:10:log)
 colchem_cli_test(fit_start_outside 2 "expected bounds that hold the starting value 1"
   $<TARGET_FILE:colchem> fit ${LINEAR} --param chemistry.parameters.kscale:2:10)
+colchem_cli_test(fit_no_held_profile 2
+  "'--param': expected a species with a held profile \\(species.NAME.hold in the scenario\\) in species.NAME.hold, found 'species.SO.hold:0.1:10'"
+  $<TARGET_FILE:colchem> fit ${LINEAR} --param species.SO.hold:0.1:10)
 colchem_cli_test(fit_bad_band 2 "expected atmosphere.eddy_diffusion\\[LO-HI\\] \\(km\\) holding at least one cell edge"
   $<TARGET_FILE:colchem> fit ${LINEAR} --param "atmosphere.eddy_diffusion[70-80]:0.1:10")
