@@ -51,10 +51,10 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
 
   std::vector<Field> fields;
   std::vector<TextField> texts;
-  texts.push_back({"species", "species", "species name (colchem notation)", {}});
+  texts.push_back({"species_name", "species", "species name (colchem notation)", {}});
   texts.push_back({"level_status", "level", "solver outcome of the level", {}});
-  Field cells{"level_cells", {"level"}, {"1", "number of cells of the level", "", {}}, {}};
-  Field conv{"level_converged", {"level"}, {"1", "1 where the level converged", "", {}}, {}};
+  Field cells{"level_cells", {"level"}, {"1", "number of cells of the level", "", {}, true}, {}};
+  Field conv{"level_converged", {"level"}, {"", "level converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}}, {}};
   Field its{"level_iterations", {"level"}, {"1", "solver iterations of the level", "", {}}, {}};
   Field res{"level_residual", {"level"}, {"1", "scaled coupled residual of the level", "", {}}, {}};
   for (const auto& l : st.levels) {
@@ -77,7 +77,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
   Field used{
       "compared",
       {"species", "altitude"},
-      {"1", "1 where the altitude enters the norms (f above the floor on every level)", "", {}},
+      {"", "altitude enters the norms (f above the floor on every level)", "", {{"flag_meanings", "excluded included"}}, true, {0, 1}},
       {}};
   Field dmax{"difference_max",
              {"level_pair", "species"},

@@ -19,5 +19,5 @@ assert np.all(np.diff(p) < 0), "pressure must fall with altitude"
 for name, var in ds.data_vars.items():
     assert "units" in var.attrs, f"{name} has no units"
 assert ds.attrs["Conventions"] == "CF-1.10"
-assert "grid:" in ds.attrs["colchem_scenario"]
+assert "grid:" in ds["provenance_scenario"].item()
 print(f"xarray: {len(ds.data_vars)} variables, altitude {alt.values[0]:.2f}-{alt.values[-1]:.2f} km")
