@@ -22,7 +22,7 @@ double status_code(ResolutionStatus s) {
 
 const std::map<std::string, std::string>& status_flags() {
   static const std::map<std::string, std::string> flags = {
-      {"flag_values", "0 1 2 3"}, {"flag_meanings", "asymptotic not_asymptotic resolved failed"}};
+      {"flag_meanings", "asymptotic not_asymptotic resolved failed"}};
   return flags;
 }
 }  // namespace
@@ -113,7 +113,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
              {}};
   Field stat{"resolution_status",
              {"species"},
-             {"1", "asymptotic range of the finest triple", "", status_flags()},
+             {"", "asymptotic range of the finest triple", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
   for (std::size_t l = 0; l < L; ++l) {
     for (const auto& p : st.profiles)
@@ -160,7 +160,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
               {}};
     Field c2s{"chi2_log_status",
               {"scored_species"},
-              {"1", "asymptotic range of chi2_log", "", status_flags()},
+              {"", "asymptotic range of chi2_log", "", status_flags(), true, {0, 1, 2, 3}},
               {}};
     Field oz{"observation_altitude",
              {"observation"},
@@ -180,7 +180,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
              {}};
     Field os{"observation_status",
              {"observation"},
-             {"1", "asymptotic range there", "", status_flags()},
+             {"", "asymptotic range there", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
     for (std::size_t l = 0; l < L; ++l) {
       for (const auto& q : st.scores) {
@@ -225,7 +225,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
         {}};
     Field bs{"boundary_flux_status",
              {"boundary_flux"},
-             {"1", "asymptotic range of the boundary flux", "", status_flags()},
+             {"", "asymptotic range of the boundary flux", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
     Field bg{"boundary_flux_grows",
              {"boundary_flux"},

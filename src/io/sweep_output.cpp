@@ -64,12 +64,14 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
                      "--from-sweep FILE --variant N runs it)");
   nc.variable(
       "variant_state", {"variant"},
-      {"1",
+      {"",
        "what the file holds for the variant",
        "",
-       {{"flag_values", "0 1 2 3"}, {"flag_meanings", "not_run converged failed interrupted"}}});
+       {{"flag_meanings", "not_run converged failed interrupted"}},
+       true,
+       {0, 1, 2, 3}});
   nc.variable("variant_converged", {"variant"}, {"", "variant converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}});
-  nc.variable("variant_iterations", {"variant"}, {"1", "solver iterations", "", {}});
+  nc.variable("variant_iterations", {"variant"}, {"1", "solver iterations", "", {}, true});
   nc.variable("variant_residual", {"variant"}, {"1", "scaled coupled residual of the end state", "", {}});
   nc.variable("variant_wall_time", {"variant"}, {"s", "wall time of the variant", "", {}});
   nc.variable("variant_rank_of_process", {"variant"}, {"1", "MPI rank that ran the variant", "", {}});

@@ -19,7 +19,7 @@ rm -rf "$work"; mkdir -p "$work"; cd "$work"
 
 # A transient run with snapshots: Tellin, cut to its first three outputs.
 "$colchem" run "$src/configs/tellin.yaml" -o run.nc \
-  --set 'solver.end_time=5 day' --set 'output.snapshots.outputs=[1 day, 2 day, 5 day]' \
+  --set 'solver.transient.end=5 day' --set 'solver.transient.outputs=[1 day, 2 day, 5 day]' \
   > run.log 2>&1 || { tail -20 run.log; exit 1; }
 "$colchem" sweep "$src/tests/cli/sweep/tellin_sweep.yaml" -o sweep.nc > sweep.log 2>&1 \
   || { tail -20 sweep.log; exit 1; }
