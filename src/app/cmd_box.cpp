@@ -31,8 +31,11 @@ void write_box(const BoxSpec& box, const BoxResult& res, const std::string& comm
   nc.dimension("time", nt);
   nc.dimension("species", S);
   nc.dimension("reaction", R);
-  nc.variable("time", {"time"}, NcVarAttrs{kModelTimeUnits, "model time", "time",
-                                           {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
+  nc.variable("time", {"time"},
+              NcVarAttrs{kModelTimeUnits,
+                         "model time",
+                         "time",
+                         {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
   nc.string_variable("species_name", "species", "species name");
   nc.string_variable("reaction_equation", "reaction", "reaction equation");
   nc.variable("number_density", {"time", "species"}, NcVarAttrs{"cm-3", "number density", "", {}});

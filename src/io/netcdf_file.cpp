@@ -178,8 +178,8 @@ void NcWriter::write_index_coordinates() {
     std::vector<int> index(n);
     for (std::size_t i = 0; i < n; ++i) index[i] = static_cast<int>(i);
     const std::size_t start = 0;
-    if (n > 0) check(nc_put_vara_int(ncid_, varid(name), &start, &n, index.data()),
-                     "write of " + name);
+    if (n > 0)
+      check(nc_put_vara_int(ncid_, varid(name), &start, &n, index.data()), "write of " + name);
   }
   index_coordinates_.clear();
 }

@@ -89,7 +89,8 @@ class NcWriter {
   void write_index_coordinates();
   OutputClaim claim_;
   std::vector<std::pair<std::string, std::string>> pending_texts_;
-  std::vector<std::string> index_coordinates_;  ///< OUTPUT.lock while this writer lives (io/output_claim.hpp)
+  std::vector<std::string>
+      index_coordinates_;  ///< OUTPUT.lock while this writer lives (io/output_claim.hpp)
   std::filesystem::path final_;
   std::filesystem::path temp_;
   int ncid_ = -1;

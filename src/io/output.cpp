@@ -47,8 +47,8 @@ void write_provenance(NcWriter& nc, const Scenario& sc, const std::string& comma
     inputs += "### " + f.role + ": " + f.path.string() + "\n" + f.text;
     if (!f.text.empty() && f.text.back() != '\n') inputs += "\n";
   }
-  nc.text_variable("provenance_input_files",
-                   "the text of every table and file the scenario read", inputs);
+  nc.text_variable("provenance_input_files", "the text of every table and file the scenario read",
+                   inputs);
 }
 
 void define_background(NcWriter& nc, const Background& bg) {

@@ -54,7 +54,11 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
   texts.push_back({"species_name", "species", "species name (colchem notation)", {}});
   texts.push_back({"level_status", "level", "solver outcome of the level", {}});
   Field cells{"level_cells", {"level"}, {"1", "number of cells of the level", "", {}, true}, {}};
-  Field conv{"level_converged", {"level"}, {"", "level converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}}, {}};
+  Field conv{
+      "level_converged",
+      {"level"},
+      {"", "level converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}},
+      {}};
   Field its{"level_iterations", {"level"}, {"1", "solver iterations of the level", "", {}}, {}};
   Field res{"level_residual", {"level"}, {"1", "scaled coupled residual of the level", "", {}}, {}};
   for (const auto& l : st.levels) {
@@ -74,11 +78,15 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
               "",
               {}},
              {}};
-  Field used{
-      "compared",
-      {"species", "altitude"},
-      {"", "altitude enters the norms (f above the floor on every level)", "", {{"flag_meanings", "excluded included"}}, true, {0, 1}},
-      {}};
+  Field used{"compared",
+             {"species", "altitude"},
+             {"",
+              "altitude enters the norms (f above the floor on every level)",
+              "",
+              {{"flag_meanings", "excluded included"}},
+              true,
+              {0, 1}},
+             {}};
   Field dmax{"difference_max",
              {"level_pair", "species"},
              {"1", "max over altitude of |log10 f_l - log10 f_(l+1)|", "", {}},

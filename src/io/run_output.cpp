@@ -110,8 +110,12 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     define_species(nc, model.species());
     define_reactions(nc, d.equations.size());
     nc.variable("held_fixed", {"species"},
-                {"", "species held at its background mixing ratio", "",
-                 {{"flag_meanings", "transported held_fixed"}}, true, {0, 1}});
+                {"",
+                 "species held at its background mixing ratio",
+                 "",
+                 {{"flag_meanings", "transported held_fixed"}},
+                 true,
+                 {0, 1}});
     for (const char* v : {"flux", "eddy_flux", "molecular_flux"}) {
       nc.variable(v, {"species", "altitude_edge"},
                   {"cm-2 s-1", std::string(v) + " through cell edges, positive upward", "", {}});

@@ -25,8 +25,7 @@ void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool w
   // the per-channel J_<channel> variables stay for readers that pick one channel by name.
   nc.dimension("channel", model.channels().size());
   nc.string_variable("channel_name", "channel", "photolysis channel");
-  nc.variable("J", {"channel", "altitude"},
-              {"s-1", "photolysis rate coefficient", "", {}});
+  nc.variable("J", {"channel", "altitude"}, {"s-1", "photolysis rate coefficient", "", {}});
   for (std::size_t c = 0; c < model.channels().size(); ++c) {
     const std::string& name = model.channels()[c];
     std::string long_name = "photolysis rate coefficient of channel " + name;

@@ -116,7 +116,7 @@ bool write_file(FuzzedDataProvider& in, const std::string& path) {
         switch (in.ConsumeIntegralInRange<int>(0, 3)) {
           case 0:
             s[i] = v.name == std::string("species_name") ? names[i % 6]
-                                                    : std::string(names[i % 6]) + " -> O";
+                                                         : std::string(names[i % 6]) + " -> O";
             break;
           case 1:
             s[i] = in.ConsumeRandomLengthString(24);
