@@ -41,7 +41,7 @@ def percentile_index(ds, q):
 
 
 def species_index(ds, name):
-    names = text_values(ds["species"])
+    names = text_values(ds["species_name"])
     if name not in names:
         raise SystemExit(f"error: {ds.filepath()}: species {name!r} not in the file "
                          f"(expected one of {', '.join(names)})")

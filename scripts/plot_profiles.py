@@ -61,7 +61,7 @@ def obs_from_file(ds):
 
 def plot_profiles(ds, species, obs, outdir):
     alt = ds["altitude"][:]
-    names = text_values(ds["species"])
+    names = text_values(ds["species_name"])
     mf = np.ma.filled(ds["mole_fraction"][:], np.nan)
     if mf.ndim == 2:
         mf = mf[np.newaxis]
@@ -108,7 +108,7 @@ def plot_budgets(ds, species, outdir, top):
     if "reaction_rate" not in ds.variables or "net_stoichiometry" not in ds.variables:
         return []
     alt = ds["altitude"][:]
-    names = text_values(ds["species"])
+    names = text_values(ds["species_name"])
     eqs = text_values(ds["reaction_equation"])
     rate = np.ma.filled(ds["reaction_rate"][:], 0.0)        # (reaction, altitude)
     nu = np.ma.filled(ds["net_stoichiometry"][:], 0.0)       # (reaction, species)

@@ -43,7 +43,7 @@ RANGES = {
 
 def measure(path):
     ds = netCDF4.Dataset(path)
-    species = [str(s) for s in ds["species"][:]]
+    species = [str(s) for s in ds["species_name"][:]]
     to_km = {"cm": 1e-5, "m": 1e-3, "km": 1.0}[ds["altitude"].units]
     z = np.asarray(ds["altitude"][:], dtype=float) * to_km
     dz_cm = np.diff(np.asarray(ds["altitude_edge"][:], dtype=float)) * to_km * 1e5
@@ -71,7 +71,7 @@ def _load(path):
     ds = netCDF4.Dataset(path)
     to_km = {"cm": 1e-5, "m": 1e-3, "km": 1.0}[ds["altitude"].units]
     d = {
-        "species": [str(s) for s in ds["species"][:]],
+        "species": [str(s) for s in ds["species_name"][:]],
         "z": np.asarray(ds["altitude"][:], dtype=float) * to_km,
         "dz": np.diff(np.asarray(ds["altitude_edge"][:], dtype=float)) * to_km * 1e5,
         "n": np.asarray(ds["number_density"][:], dtype=float),
@@ -82,7 +82,7 @@ def _load(path):
         "eqs": [str(e) for e in ds["reaction_equation"][:]],
         "chem": np.asarray(ds["chemical_tendency"][:], dtype=float),
         "transport": np.asarray(ds["transport_tendency"][:], dtype=float),
-        "elements": [str(e) for e in ds["element"][:]],
+        "elements": [str(e) for e in ds["element_name"][:]],
         "element_in": np.asarray(ds["element_boundary_in"][:], dtype=float),
         "element_condensed": np.asarray(ds["element_condensed"][:], dtype=float),
         "J_SO2": np.asarray(ds["J_SO2_SO_O"][:], dtype=float),

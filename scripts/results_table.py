@@ -18,7 +18,7 @@ def main():
     ap.add_argument("--altitudes", type=float, nargs="+", default=[70, 80, 90, 100, 110])
     a = ap.parse_args()
     ds = netCDF4.Dataset(a.sweep_file)
-    species = [str(s) for s in ds["species"][:]]
+    species = [str(s) for s in ds["species_name"][:]]
     k = species.index(a.species)
     z = np.asarray(ds["altitude"][:], dtype=float)
     labels = [str(s) for s in ds["variant_label"][:]]

@@ -8,6 +8,7 @@ COLCHEM_DEBIAN_PACKAGES=(
   libnetcdf-dev netcdf-bin
   libyaml-cpp-dev libspdlog-dev libfmt-dev catch2 libcli11-dev libudunits2-dev
   python3 python3-numpy python3-xarray python3-netcdf4 python3-matplotlib
+  cdo nco
 )
 
 colchem_install_missing() {
@@ -29,6 +30,22 @@ colchem_install_missing() {
   fi
   $sudo apt-get update -qq
   DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "${missing[@]}"
+  colchem_pin_reference_blas "$sudo"
+}
+
+# cdo pulls in OpenBLAS, whose higher alternatives priority would switch libblas/liblapack
+# away from the reference implementation the tests were set up with (issue 10,
+# cli.pyrene_blas); select the reference libraries again when they are installed.
+colchem_pin_reference_blas() {
+  local sudo=$1
+  local arch name lib
+  arch=$(dpkg-architecture -qDEB_HOST_MULTIARCH 2>/dev/null || echo x86_64-linux-gnu)
+  for name in blas lapack; do
+    lib=/usr/lib/$arch/$name/lib$name.so.3
+    if [ -e "$lib" ]; then
+      $sudo update-alternatives --set "lib$name.so.3-$arch" "$lib" >/dev/null
+    fi
+  done
 }
 
 # colchem_build BUILD_DIR [extra cmake args...]

@@ -23,14 +23,19 @@ void write_box(const BoxSpec& box, const BoxResult& res, const std::string& comm
   nc.global_text("title", "colchem box model: " + box.name);
   nc.global_text("history", command_line);
   nc.global_text("mechanism", m.name);
-  nc.global_text("configuration", box.resolved_yaml);
-  nc.global_text("mechanism_text", m.text);
+  nc.text_variable("provenance_configuration", "the box configuration after every --set (YAML)",
+                   box.resolved_yaml);
+  nc.text_variable("provenance_mechanism", "the mechanism file", m.text);
   nc.global_number("temperature_K", box.temperature_K);
   nc.global_number("pressure_Pa", box.pressure_dyn_cm2 * 0.1);
   nc.dimension("time", nt);
   nc.dimension("species", S);
   nc.dimension("reaction", R);
-  nc.variable("time", {"time"}, NcVarAttrs{"s", "time since start", "time", {{"axis", "T"}}});
+  nc.variable("time", {"time"},
+              NcVarAttrs{kModelTimeUnits,
+                         "model time",
+                         "time",
+                         {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
   nc.string_variable("species_name", "species", "species name");
   nc.string_variable("reaction_equation", "reaction", "reaction equation");
   nc.variable("number_density", {"time", "species"}, NcVarAttrs{"cm-3", "number density", "", {}});

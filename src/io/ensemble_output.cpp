@@ -46,7 +46,7 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
 
   std::vector<Field> fields;
   std::vector<TextField> texts;
-  texts.push_back({"species", "species", "species name (colchem notation)", {r.species}});
+  texts.push_back({"species_name", "species", "species name (colchem notation)", {r.species}});
   texts.push_back({"reaction_equation", "reaction", "reaction of the mechanism", {r.equations}});
   texts.push_back({"member_status", "member", "solver outcome of the member", {r.reasons}});
   Field pct{"percentile", {"percentile"}, {"1", "percentile of the members (percent)", "", {}}, {}};
@@ -56,7 +56,12 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
       "reaction_g", {"reaction"}, {"K", "temperature coefficient g of the factor", "", {}}, r.g_K};
   Field st{"reaction_uncertainty_stated",
            {"reaction"},
-           {"1", "1 where the mechanism states the uncertainty, 0 for the default by kind", "", {}},
+           {"",
+            "source of the rate uncertainty",
+            "",
+            {{"flag_meanings", "default_by_kind stated_in_mechanism"}},
+            true,
+            {0, 1}},
            {}};
   for (int v : r.stated) st.data.push_back(v);
   Field base{"base_mole_fraction",
@@ -79,7 +84,11 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
           {"member", "reaction"},
           {"1", "standard normal draw of each reaction in each member", "", {}},
           r.z};
-  Field conv{"member_converged", {"member"}, {"1", "1 where the member converged", "", {}}, {}};
+  Field conv{
+      "member_converged",
+      {"member"},
+      {"", "member converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}},
+      {}};
   Field its{"member_iterations", {"member"}, {"1", "solver iterations of the member", "", {}}, {}};
   for (std::size_t m = 0; m < M; ++m) {
     conv.data.push_back(r.converged[m]);
@@ -125,12 +134,20 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
              r.reach_probability};
     Field rn{"reach_points",
              {"scored_species"},
-             {"1", "detected points counted there", "", {}},
+             {"1", "detected points counted there", "", {}, true},
              r.reach_points};
     texts.push_back({"observation_species", "observation", "species of the observed point", {}});
     Field oz{"observation_altitude", {"observation"}, {"km", "altitude", "altitude", {}}, {}};
     Field ov{"observation_value", {"observation"}, {"1", "observed mole fraction", "", {}}, {}};
-    Field ou{"observation_upper_limit", {"observation"}, {"1", "1 for an upper limit", "", {}}, {}};
+    Field ou{"observation_upper_limit",
+             {"observation"},
+             {"",
+              "observed value is an upper limit",
+              "",
+              {{"flag_meanings", "value upper_limit"}},
+              true,
+              {0, 1}},
+             {}};
     Field os{"observation_uncertainty",
              {"observation"},
              {"1", "1-sigma uncertainty of the observed value (0: upper limit)", "", {}},
@@ -149,7 +166,12 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
              {}};
     Field oi{"observation_inside95",
              {"observation"},
-             {"1", "1 inside the 95 % band, 0 outside, -1 outside the column", "", {}},
+             {"",
+              "observed point against the 95 % band",
+              "",
+              {{"flag_meanings", "outside_column outside_band inside_band"}},
+              true,
+              {-1, 0, 1}},
              {}};
     for (const auto& p : r.points) {
       texts.back().data.push_back(p.point.species);
@@ -197,7 +219,12 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
              {}};
     Field ag{"attribution_agree",
              {"target"},
-             {"1", "1 where the first-order variance is within 20 % of the ensemble's", "", {}},
+             {"",
+              "first-order variance within 20 % of the ensemble's",
+              "",
+              {{"flag_meanings", "no yes"}},
+              true,
+              {0, 1}},
              {}};
     Field as{"attribution_log_sensitivity",
              {"target", "reaction"},

@@ -92,13 +92,96 @@ void NcWriter::variable(const std::string& name, const std::vector<std::string>&
     dimids.push_back(id);
   }
   int id = -1;
-  check(nc_def_var(ncid_, name.c_str(), NC_DOUBLE, static_cast<int>(dimids.size()),
-                   dimids.data(), &id),
+  const bool integer = attrs.integer || !attrs.flag_values.empty();
+  check(nc_def_var(ncid_, name.c_str(), integer ? NC_INT : NC_DOUBLE,
+                   static_cast<int>(dimids.size()), dimids.data(), &id),
         "variable " + name);
   if (!attrs.units.empty()) var_text(name, "units", attrs.units);
   if (!attrs.long_name.empty()) var_text(name, "long_name", attrs.long_name);
   if (!attrs.standard_name.empty()) var_text(name, "standard_name", attrs.standard_name);
+  if (!attrs.flag_values.empty()) {
+    check(nc_put_att_int(ncid_, id, "flag_values", NC_INT, attrs.flag_values.size(),
+                         attrs.flag_values.data()),
+          "attribute " + name + ":flag_values");
+  }
   for (const auto& [k, v] : attrs.extra) var_text(name, k, v);
+}
+
+void NcWriter::text_variable(const std::string& name, const std::string& long_name,
+                             std::string value) {
+  int id = -1;
+  check(nc_def_var(ncid_, name.c_str(), NC_STRING, 0, nullptr, &id), "variable " + name);
+  var_text(name, "long_name", long_name);
+  pending_texts_.emplace_back(name, std::move(value));
+}
+
+void NcWriter::define_coordinates() {
+  int ndims = 0, nvars = 0;
+  check(nc_inq_ndims(ncid_, &ndims), "dimensions");
+  check(nc_inq_nvars(ncid_, &nvars), "variables");
+  // String variables along one dimension: the names of that dimension's entries.
+  std::map<int, std::vector<std::string>> labels;
+  for (int v = 0; v < nvars; ++v) {
+    nc_type type = NC_NAT;
+    int nd = 0;
+    check(nc_inq_vartype(ncid_, v, &type), "variable type");
+    check(nc_inq_varndims(ncid_, v, &nd), "variable shape");
+    if (type != NC_STRING || nd != 1) continue;
+    int dim = -1;
+    char name[NC_MAX_NAME + 1];
+    check(nc_inq_vardimid(ncid_, v, &dim), "variable shape");
+    check(nc_inq_varname(ncid_, v, name), "variable name");
+    labels[dim].emplace_back(name);
+  }
+  for (int d = 0; d < ndims; ++d) {
+    char name[NC_MAX_NAME + 1];
+    check(nc_inq_dimname(ncid_, d, name), "dimension name");
+    int id = -1;
+    // "nv" is the CF bounds dimension (two edges), which takes no coordinate.
+    if (nc_inq_varid(ncid_, name, &id) == NC_NOERR || std::string(name) == "nv") continue;
+    check(nc_def_var(ncid_, name, NC_INT, 1, &d, &id), "variable " + std::string(name));
+    var_text(name, "long_name", std::string(name) + " index (0-based)");
+    if (labels.count(d)) {
+      std::string names;
+      for (const auto& l : labels[d]) names += (names.empty() ? "" : " ") + l;
+      var_text(name, "comment", "entry names in " + names);
+    }
+    index_coordinates_.emplace_back(name);
+  }
+  for (int v = 0; v < nvars; ++v) {
+    nc_type type = NC_NAT;
+    int nd = 0;
+    check(nc_inq_vartype(ncid_, v, &type), "variable type");
+    check(nc_inq_varndims(ncid_, v, &nd), "variable shape");
+    if (type == NC_STRING || nd == 0) continue;
+    std::vector<int> dims(static_cast<std::size_t>(nd));
+    check(nc_inq_vardimid(ncid_, v, dims.data()), "variable shape");
+    std::string coords;
+    for (int dim : dims) {
+      for (const auto& l : labels[dim]) coords += (coords.empty() ? "" : " ") + l;
+    }
+    if (coords.empty()) continue;
+    char name[NC_MAX_NAME + 1];
+    check(nc_inq_varname(ncid_, v, name), "variable name");
+    std::size_t len = 0;
+    if (nc_inq_attlen(ncid_, v, "coordinates", &len) == NC_NOERR) continue;
+    var_text(name, "coordinates", coords);
+  }
+}
+
+void NcWriter::write_index_coordinates() {
+  for (const auto& name : index_coordinates_) {
+    int dim = -1;
+    check(nc_inq_dimid(ncid_, name.c_str(), &dim), "dimension " + name);
+    std::size_t n = 0;
+    check(nc_inq_dimlen(ncid_, dim, &n), "dimension " + name);
+    std::vector<int> index(n);
+    for (std::size_t i = 0; i < n; ++i) index[i] = static_cast<int>(i);
+    const std::size_t start = 0;
+    if (n > 0)
+      check(nc_put_vara_int(ncid_, varid(name), &start, &n, index.data()), "write of " + name);
+  }
+  index_coordinates_.clear();
 }
 
 void NcWriter::string_variable(const std::string& name, const std::string& dim,
@@ -123,8 +206,14 @@ void NcWriter::var_number(const std::string& var, const std::string& att, double
 
 void NcWriter::end_definitions() {
   if (defining_) {
+    define_coordinates();
     check(nc_enddef(ncid_), "end of definitions");
     defining_ = false;
+    for (const auto& [name, value] : pending_texts_) {
+      const char* p = value.c_str();
+      check(nc_put_var_string(ncid_, varid(name), &p), "write of " + name);
+    }
+    pending_texts_.clear();
   }
 }
 
@@ -160,6 +249,7 @@ void NcWriter::put_strings(const std::string& var, const std::vector<std::string
 
 void NcWriter::commit() {
   end_definitions();
+  write_index_coordinates();
   check(nc_close(ncid_), "close");
   ncid_ = -1;
   std::error_code ec;
@@ -256,6 +346,24 @@ std::vector<std::string> NcReader::read_strings(const std::string& var) const {
   std::vector<std::string> out;
   for (char* s : raw) out.emplace_back(s ? s : "");
   nc_free_string(n, raw.data());
+  return out;
+}
+
+std::optional<std::string> NcReader::text_variable(const std::string& name) const {
+  int id = -1;
+  if (nc_inq_varid(ncid_, name.c_str(), &id) != NC_NOERR) return std::nullopt;
+  nc_type type = NC_NAT;
+  int nd = 0;
+  check(nc_inq_vartype(ncid_, id, &type), name);
+  check(nc_inq_varndims(ncid_, id, &nd), name);
+  if (type != NC_STRING || nd != 0) {
+    throw InputError(ExitCode::kInputData, SourceLocation{path_.string()}, name,
+                     "a scalar variable of text (NC_STRING)", "another type or shape");
+  }
+  char* raw = nullptr;
+  check(nc_get_var_string(ncid_, id, &raw), name);
+  std::string out = raw ? raw : "";
+  nc_free_string(1, &raw);
   return out;
 }
 

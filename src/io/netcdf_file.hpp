@@ -4,6 +4,16 @@
 // so an interrupted or failed run never leaves a half-written file under the final name;
 // the destructor of an uncommitted writer deletes the temporary.
 // NcReader reads variables and attributes back (restart, compare, budget, tests).
+//
+// Layout every file gets from the writer (so CDO, NCO and xarray read it without help):
+// every dimension has a numeric coordinate variable of the same name. Dimensions the caller
+// gives no coordinate (species, reaction, channel, variant, ...) get an integer index
+// 0..n-1 at commit(); their names live in string variables along the dimension (e.g.
+// `species_name(species)`), which every numeric variable on that dimension lists in its CF
+// `coordinates` attribute. CDO does not accept string coordinates ("Unsupported
+// x-coordinate type"), which is why names are never the coordinate variable itself.
+// Long texts (the scenario, the input files) are scalar string variables (text_variable),
+// not global attributes, so `ncdump -h` stays short.
 #pragma once
 
 #include <filesystem>
@@ -17,11 +27,21 @@
 
 namespace colchem {
 
+/// CF time units of model time (snapshots, box time series). Model time starts at zero; CF
+/// time needs a date origin, and this one is a convention stated in the file (the worlds are
+/// fictional): "0 s" is printed by xarray as 2000-01-01.
+inline constexpr const char* kModelTimeUnits = "seconds since 2000-01-01 00:00:00";
+inline constexpr const char* kModelTimeCalendar = "proleptic_gregorian";
+
 struct NcVarAttrs {
   std::string units;          ///< UDUNITS-parsable; "1" for dimensionless
   std::string long_name;
   std::string standard_name;  ///< CF standard name where one exists, else empty
   std::map<std::string, std::string> extra;  ///< further text attributes
+  /// Stored as NC_INT (counts, 0/1 flags); put() converts the doubles it is given.
+  bool integer = false;
+  /// CF flag_values (with `flag_meanings` in `extra`); implies `integer`.
+  std::vector<int> flag_values = {};
 };
 
 class NcWriter {
@@ -43,6 +63,8 @@ class NcWriter {
   /// A variable of strings (NC_STRING) along one dimension, e.g. species names.
   void string_variable(const std::string& name, const std::string& dim,
                        const std::string& long_name);
+  /// A scalar string variable holding `value` (provenance texts); written at end_definitions().
+  void text_variable(const std::string& name, const std::string& long_name, std::string value);
   void var_text(const std::string& var, const std::string& att, const std::string& value);
   void var_number(const std::string& var, const std::string& att, double value);
   [[nodiscard]] bool has_variable(const std::string& name) const;
@@ -61,7 +83,14 @@ class NcWriter {
   NcWriter(AmendTag, const std::filesystem::path& source, std::filesystem::path final_path);
   int varid(const std::string& name) const;
   void check(int status, const std::string& what) const;
-  OutputClaim claim_;  ///< OUTPUT.lock while this writer lives (io/output_claim.hpp)
+  /// Index coordinates for dimensions without one, `coordinates` attributes naming the
+  /// string variables along a variable's dimensions (see the layout note above).
+  void define_coordinates();
+  void write_index_coordinates();
+  OutputClaim claim_;
+  std::vector<std::pair<std::string, std::string>> pending_texts_;
+  std::vector<std::string>
+      index_coordinates_;  ///< OUTPUT.lock while this writer lives (io/output_claim.hpp)
   std::filesystem::path final_;
   std::filesystem::path temp_;
   int ncid_ = -1;
@@ -80,6 +109,8 @@ class NcReader {
   [[nodiscard]] std::vector<double> read(const std::string& var) const;
   [[nodiscard]] std::vector<std::size_t> shape(const std::string& var) const;
   [[nodiscard]] std::vector<std::string> read_strings(const std::string& var) const;
+  /// A scalar string variable (NcWriter::text_variable), or nullopt if there is none.
+  [[nodiscard]] std::optional<std::string> text_variable(const std::string& name) const;
   [[nodiscard]] std::optional<std::string> global_text(const std::string& name) const;
   /// A numeric global attribute (its first value), or nullopt if there is none.
   [[nodiscard]] std::optional<double> global_number(const std::string& name) const;

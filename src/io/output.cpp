@@ -35,16 +35,20 @@ void write_provenance(NcWriter& nc, const Scenario& sc, const std::string& comma
   nc.global_text("date_created", utc_timestamp());
   nc.global_text("planet", sc.background.planet.name);
   nc.global_text("colchem_scenario_file", sc.file.string());
-  nc.global_text("colchem_scenario", sc.resolved_yaml);
+  // The long texts are scalar string variables, not global attributes: `ncdump -h` and
+  // every tool's header listing stay short, and the run is still reproducible from the file.
+  nc.text_variable("provenance_scenario", "the scenario after every --set override (YAML)",
+                   sc.resolved_yaml);
   std::string overrides;
   for (const auto& o : sc.overrides) overrides += o + "\n";
-  nc.global_text("colchem_overrides", overrides);
+  nc.text_variable("provenance_overrides", "the --set overrides, one a line", overrides);
   std::string inputs;
   for (const auto& f : sc.inputs) {
     inputs += "### " + f.role + ": " + f.path.string() + "\n" + f.text;
     if (!f.text.empty() && f.text.back() != '\n') inputs += "\n";
   }
-  nc.global_text("colchem_input_files", inputs);
+  nc.text_variable("provenance_input_files", "the text of every table and file the scenario read",
+                   inputs);
 }
 
 void define_background(NcWriter& nc, const Background& bg) {
@@ -117,7 +121,7 @@ namespace colchem {
 
 void define_species(NcWriter& nc, const std::vector<std::string>& species) {
   nc.dimension("species", species.size());
-  nc.string_variable("species", "species", "species name (colchem notation)");
+  nc.string_variable("species_name", "species", "species name (colchem notation)");
   nc.variable("number_density", {"species", "altitude"},
               {"cm-3", "number density at cell centres", "", {}});
   nc.variable("mole_fraction", {"species", "altitude"},
@@ -138,7 +142,7 @@ void write_species_data(NcWriter& nc, const Background& bg, const std::vector<st
       col[s] += n[j * S + s] * bg.grid.width_cm(j);
     }
   }
-  nc.put_strings("species", species);
+  nc.put_strings("species_name", species);
   nc.put("number_density", nd);
   nc.put("mole_fraction", f);
   nc.put("column_density", col);
@@ -243,7 +247,7 @@ void refuse_output_onto_input(
 ModelColumn read_model_column(const NcReader& nc) {
   ModelColumn m;
   read_grid(nc, m.altitude_cm, m.edge_cm, true);
-  m.species = read_names(nc, "species", "species");
+  m.species = read_names(nc, "species_name", "species");
   const std::size_t S = m.species.size(), N = m.cells();
   m.number_density = read_shaped(nc, "number_density", {S, N}, "species, altitude");
   m.mole_fraction = read_shaped(nc, "mole_fraction", {S, N}, "species, altitude");
@@ -303,7 +307,7 @@ BudgetInputs read_budget_inputs(const NcReader& nc) {
   }
   std::vector<double> unused;
   read_grid(nc, unused, in.edge_cm, false);
-  in.species = read_names(nc, "species", "species");
+  in.species = read_names(nc, "species_name", "species");
   in.equations = read_names(nc, "reaction_equation", "reaction");
   const std::size_t S = in.species.size(), N = in.edge_cm.size() - 1, R = in.equations.size();
   in.net_stoichiometry = read_shaped(nc, "net_stoichiometry", {R, S}, "reaction, species");
@@ -318,7 +322,9 @@ void write_fields(NcWriter& nc, const Background& bg, const std::vector<NcTextFi
   for (const auto& t : texts) nc.string_variable(t.name, t.dim, t.long_name);
   for (const auto& f : fields) {
     nc.variable(f.name, f.dims, f.attrs);
-    nc.var_number(f.name, "_FillValue", std::numeric_limits<double>::quiet_NaN());
+    if (!f.attrs.integer && f.attrs.flag_values.empty()) {
+      nc.var_number(f.name, "_FillValue", std::numeric_limits<double>::quiet_NaN());
+    }
   }
   nc.end_definitions();
   write_background_data(nc, bg);

@@ -22,7 +22,7 @@ double status_code(ResolutionStatus s) {
 
 const std::map<std::string, std::string>& status_flags() {
   static const std::map<std::string, std::string> flags = {
-      {"flag_values", "0 1 2 3"}, {"flag_meanings", "asymptotic not_asymptotic resolved failed"}};
+      {"flag_meanings", "asymptotic not_asymptotic resolved failed"}};
   return flags;
 }
 }  // namespace
@@ -51,10 +51,14 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
 
   std::vector<Field> fields;
   std::vector<TextField> texts;
-  texts.push_back({"species", "species", "species name (colchem notation)", {}});
+  texts.push_back({"species_name", "species", "species name (colchem notation)", {}});
   texts.push_back({"level_status", "level", "solver outcome of the level", {}});
-  Field cells{"level_cells", {"level"}, {"1", "number of cells of the level", "", {}}, {}};
-  Field conv{"level_converged", {"level"}, {"1", "1 where the level converged", "", {}}, {}};
+  Field cells{"level_cells", {"level"}, {"1", "number of cells of the level", "", {}, true}, {}};
+  Field conv{
+      "level_converged",
+      {"level"},
+      {"", "level converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}},
+      {}};
   Field its{"level_iterations", {"level"}, {"1", "solver iterations of the level", "", {}}, {}};
   Field res{"level_residual", {"level"}, {"1", "scaled coupled residual of the level", "", {}}, {}};
   for (const auto& l : st.levels) {
@@ -74,11 +78,15 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
               "",
               {}},
              {}};
-  Field used{
-      "compared",
-      {"species", "altitude"},
-      {"1", "1 where the altitude enters the norms (f above the floor on every level)", "", {}},
-      {}};
+  Field used{"compared",
+             {"species", "altitude"},
+             {"",
+              "altitude enters the norms (f above the floor on every level)",
+              "",
+              {{"flag_meanings", "excluded included"}},
+              true,
+              {0, 1}},
+             {}};
   Field dmax{"difference_max",
              {"level_pair", "species"},
              {"1", "max over altitude of |log10 f_l - log10 f_(l+1)|", "", {}},
@@ -113,7 +121,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
              {}};
   Field stat{"resolution_status",
              {"species"},
-             {"1", "asymptotic range of the finest triple", "", status_flags()},
+             {"", "asymptotic range of the finest triple", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
   for (std::size_t l = 0; l < L; ++l) {
     for (const auto& p : st.profiles)
@@ -160,7 +168,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
               {}};
     Field c2s{"chi2_log_status",
               {"scored_species"},
-              {"1", "asymptotic range of chi2_log", "", status_flags()},
+              {"", "asymptotic range of chi2_log", "", status_flags(), true, {0, 1, 2, 3}},
               {}};
     Field oz{"observation_altitude",
              {"observation"},
@@ -180,7 +188,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
              {}};
     Field os{"observation_status",
              {"observation"},
-             {"1", "asymptotic range there", "", status_flags()},
+             {"", "asymptotic range there", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
     for (std::size_t l = 0; l < L; ++l) {
       for (const auto& q : st.scores) {
@@ -225,7 +233,7 @@ void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
         {}};
     Field bs{"boundary_flux_status",
              {"boundary_flux"},
-             {"1", "asymptotic range of the boundary flux", "", status_flags()},
+             {"", "asymptotic range of the boundary flux", "", status_flags(), true, {0, 1, 2, 3}},
              {}};
     Field bg{"boundary_flux_grows",
              {"boundary_flux"},

@@ -27,7 +27,11 @@ BudgetInputs budget_inputs(const ColumnModel& model, const ColumnDiagnostics& d)
 void define_snapshots(NcWriter& nc, std::size_t count) {
   if (count == 0) return;
   nc.dimension("snapshot", count);
-  nc.variable("snapshot_time", {"snapshot"}, {"s", "model time of the snapshot", "time", {}});
+  nc.variable("snapshot", {"snapshot"},
+              {kModelTimeUnits,
+               "model time of the snapshot",
+               "time",
+               {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
   nc.variable("snapshot_number_density", {"snapshot", "species", "altitude"},
               {"cm-3", "number density at the snapshot time", "", {}});
   nc.variable("snapshot_column_density", {"snapshot", "species"},
@@ -39,7 +43,7 @@ void write_snapshots(NcWriter& nc, const Background& bg, std::size_t S,
                      const std::vector<std::vector<double>>& snapshots) {
   if (snapshots.empty()) return;
   const std::size_t N = bg.grid.cells();
-  nc.put("snapshot_time", times);
+  nc.put("snapshot", times);
   std::vector<double> snd, scol;
   for (const auto& x : snapshots) {
     for (std::size_t s = 0; s < S; ++s) {
@@ -105,7 +109,13 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     exchanges = model.exchange_report(o.x);
     define_species(nc, model.species());
     define_reactions(nc, d.equations.size());
-    nc.variable("held_fixed", {"species"}, {"1", "1 where the species is held at its background mixing ratio", "", {}});
+    nc.variable("held_fixed", {"species"},
+                {"",
+                 "species held at its background mixing ratio",
+                 "",
+                 {{"flag_meanings", "transported held_fixed"}},
+                 true,
+                 {0, 1}});
     for (const char* v : {"flux", "eddy_flux", "molecular_flux"}) {
       nc.variable(v, {"species", "altitude_edge"},
                   {"cm-2 s-1", std::string(v) + " through cell edges, positive upward", "", {}});
@@ -113,7 +123,7 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
     nc.variable("bottom_flux", {"species"}, {"cm-2 s-1", "upward flux through the bottom edge", "", {}});
     nc.variable("top_flux", {"species"}, {"cm-2 s-1", "upward flux through the top edge", "", {}});
     nc.dimension("element", budgets.size());
-    nc.string_variable("element", "element", "chemical element");
+    nc.string_variable("element_name", "element", "chemical element");
     for (const auto& [v, what] : std::vector<std::pair<std::string, std::string>>{
              {"element_boundary_in", "atoms entering through the bottom minus leaving through the top"},
              {"element_chemistry", "chemical change of the transported species"},
@@ -143,10 +153,12 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
            "",
            {}});
       nc.variable("exchange_reservoir", {"exchange", "altitude"},
-                  {"1",
-                   "1 where a condensed reservoir (or held profile) allows evaporation or supply",
+                  {"",
+                   "a condensed reservoir (or held profile) allows evaporation or supply",
                    "",
-                   {}});
+                   {{"flag_meanings", "no_reservoir reservoir"}},
+                   true,
+                   {0, 1}});
     }
     if (model.photolysis()) define_photolysis_output(nc, *model.photolysis(), false);
     define_snapshots(nc, o.snapshots.size());
@@ -186,7 +198,7 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
       im.push_back(b.imbalance);
       rel.push_back(b.relative_imbalance);
     }
-    nc.put_strings("element", el);
+    nc.put_strings("element_name", el);
     nc.put("element_boundary_in", bin);
     nc.put("element_chemistry", ch);
     nc.put("element_held_supply", hs);
@@ -294,8 +306,8 @@ RestartFile read_checkpoint(const std::filesystem::path& file, const ColumnModel
   for (std::size_t s = 0; s < S; ++s) {
     for (std::size_t j = 0; j < N; ++j) cp.x[j * S + s] = old.number_density[s * N + j];
   }
-  if (nc.has_variable("snapshot_time")) {
-    cp.snapshot_times_s = nc.read("snapshot_time");
+  if (nc.has_variable("snapshot")) {
+    cp.snapshot_times_s = nc.read("snapshot");  // seconds since the stated origin = model time
     const std::vector<double> snd = nc.read("snapshot_number_density");
     if (snd.size() != cp.snapshot_times_s.size() * S * N) {
       throw InputError(ExitCode::kInputData, SourceLocation{file.string()},

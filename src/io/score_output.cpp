@@ -21,7 +21,13 @@ void define_scores(NcWriter& nc, const std::vector<SpeciesScore>& scores) {
   nc.variable("observation_altitude", {"observation"}, {"km", "altitude of the observed point", "altitude", {}});
   nc.variable("observation_value", {"observation"}, {"1", "observed mole fraction (or upper limit)", "", {}});
   nc.variable("observation_uncertainty", {"observation"}, {"1", "one-sigma uncertainty of the observed mole fraction", "", {}});
-  nc.variable("observation_upper_limit", {"observation"}, {"1", "1 where the value is an upper limit", "", {{"flag_values", "0 1"}}});
+  nc.variable("observation_upper_limit", {"observation"},
+              {"",
+               "observed value is an upper limit",
+               "",
+               {{"flag_meanings", "value upper_limit"}},
+               true,
+               {0, 1}});
   nc.variable("model_at_observation", {"observation"}, {"1", "model mole fraction interpolated in altitude and log mole fraction", "", {}});
   nc.variable("residual_log", {"observation"}, {"1", "(log10 model - log10 observed)/sigma_log; 0 where not counted", "", {}});
   nc.variable("residual_linear", {"observation"}, {"1", "(model - observed)/sigma; 0 where not counted", "", {}});

@@ -56,26 +56,33 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
   define_background(nc, bg);
   nc.dimension("variant", V);
   nc.dimension("species", S);
-  nc.string_variable("species", "species", "species name (colchem notation)");
+  nc.string_variable("species_name", "species", "species name (colchem notation)");
   nc.string_variable("variant_label", "variant", "variant: modules, overrides, parameters");
   nc.string_variable("variant_status", "variant", "converged, or the reason the variant failed");
   nc.string_variable("variant_overrides", "variant",
                      "every --set override of the variant, one per line (colchem run "
                      "--from-sweep FILE --variant N runs it)");
+  nc.variable("variant_state", {"variant"},
+              {"",
+               "what the file holds for the variant",
+               "",
+               {{"flag_meanings", "not_run converged failed interrupted"}},
+               true,
+               {0, 1, 2, 3}});
   nc.variable(
-      "variant_state", {"variant"},
-      {"1",
-       "what the file holds for the variant",
-       "",
-       {{"flag_values", "0 1 2 3"}, {"flag_meanings", "not_run converged failed interrupted"}}});
-  nc.variable("variant_converged", {"variant"}, {"1", "1 where the variant converged", "", {{"flag_values", "0 1"}}});
-  nc.variable("variant_iterations", {"variant"}, {"1", "solver iterations", "", {}});
+      "variant_converged", {"variant"},
+      {"", "variant converged", "", {{"flag_meanings", "not_converged converged"}}, true, {0, 1}});
+  nc.variable("variant_iterations", {"variant"}, {"1", "solver iterations", "", {}, true});
   nc.variable("variant_residual", {"variant"}, {"1", "scaled coupled residual of the end state", "", {}});
   nc.variable("variant_wall_time", {"variant"}, {"s", "wall time of the variant", "", {}});
   nc.variable("variant_rank_of_process", {"variant"}, {"1", "MPI rank that ran the variant", "", {}});
-  nc.variable(
-      "variant_warm_started", {"variant"},
-      {"1", "1 where started from the base state, 0 where from its own cold start", "", {}});
+  nc.variable("variant_warm_started", {"variant"},
+              {"",
+               "start of the variant",
+               "",
+               {{"flag_meanings", "own_cold_start base_state"}},
+               true,
+               {0, 1}});
   nc.variable("variant_ranking", {"variant"}, {"1", "position in the ranked table (1 = best)", "", {}});
   nc.variable("mole_fraction", {"variant", "species", "altitude"},
               {"1", "mole fraction (NaN where the variant failed)", "", {}});
@@ -88,7 +95,8 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
   if (!r.module_names.empty()) {
     nc.dimension("module", r.module_names.size());
     nc.string_variable("module_name", "module", "mechanism module");
-    nc.variable("module_on", {"variant", "module"}, {"1", "1 where the module is switched on", "", {}});
+    nc.variable("module_on", {"variant", "module"},
+                {"", "module switched on", "", {{"flag_meanings", "off on"}}, true, {0, 1}});
   }
   const bool scored = !r.scores.empty() && !r.scores.front().empty();
   std::size_t P = 0, Q = 0;
@@ -101,7 +109,13 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
     nc.variable("observation_altitude", {"observation"}, {"km", "altitude of the observed point", "altitude", {}});
     nc.variable("observation_value", {"observation"}, {"1", "observed mole fraction (or upper limit)", "", {}});
     nc.variable("observation_uncertainty", {"observation"}, {"1", "one-sigma uncertainty", "", {}});
-    nc.variable("observation_upper_limit", {"observation"}, {"1", "1 where the value is an upper limit", "", {}});
+    nc.variable("observation_upper_limit", {"observation"},
+                {"",
+                 "observed value is an upper limit",
+                 "",
+                 {{"flag_meanings", "value upper_limit"}},
+                 true,
+                 {0, 1}});
     nc.string_variable("observation_species", "observation", "species of the observed point");
     nc.variable("model_at_observation", {"variant", "observation"}, {"1", "model mole fraction at the observed altitude", "", {}});
     for (const char* v : {"chi2_log", "chi2_linear", "reduced_chi2_log", "reduced_chi2_linear"}) {
@@ -110,7 +124,7 @@ void write_sweep_netcdf(NcWriter& nc, const Background& bg, const SweepResults& 
   }
   nc.end_definitions();
   write_background_data(nc, bg);
-  nc.put_strings("species", r.species);
+  nc.put_strings("species_name", r.species);
   std::vector<std::string> labels, status, overrides;
   std::vector<double> state, conv, its, res, wall, rank, warm, pos(V), mf;
   for (std::size_t v = 0; v < V; ++v) {

@@ -21,6 +21,11 @@ void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool w
   nc.variable(
       "stellar_photon_flux", {"wavelength"},
       {"cm-2 s-1 nm-1", "stellar photon flux at the top of the atmosphere (bin average)", "", {}});
+  // All channels in one J(channel, altitude) for tools that plot a field by its dimensions;
+  // the per-channel J_<channel> variables stay for readers that pick one channel by name.
+  nc.dimension("channel", model.channels().size());
+  nc.string_variable("channel_name", "channel", "photolysis channel");
+  nc.variable("J", {"channel", "altitude"}, {"s-1", "photolysis rate coefficient", "", {}});
   for (std::size_t c = 0; c < model.channels().size(); ++c) {
     const std::string& name = model.channels()[c];
     std::string long_name = "photolysis rate coefficient of channel " + name;
@@ -82,6 +87,8 @@ void write_photolysis_output(NcWriter& nc, const PhotolysisModel& model, std::sp
   nc.put("wavelength", centre);
   nc.put("wavelength_bounds", bounds);
   nc.put("stellar_photon_flux", flux);
+  nc.put_strings("channel_name", model.channels());
+  nc.put("J", J);
   for (std::size_t c = 0; c < model.channels().size(); ++c) {
     nc.put("J_" + model.channels()[c], J.subspan(c * N, N));
   }

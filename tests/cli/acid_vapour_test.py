@@ -40,7 +40,7 @@ def main():
     run, csv = sys.argv[1], sys.argv[2]
     check_deck = "--no-deck" not in sys.argv[3:]
     ds = netCDF4.Dataset(run)
-    species = [str(s) for s in ds["species"][:]]
+    species = [str(s) for s in ds["species_name"][:]]
     eqs = [str(e) for e in ds["reaction_equation"][:]]
     xeqs = [str(e) for e in ds["exchange_equation"][:]]
     h = species.index("H2SO4")

@@ -117,10 +117,10 @@ colchem_nc_test(bad.nc_budget_stoichiometry_shape 4
   "stoich_shape.nc: 'net_stoichiometry': expected a \\(reaction, species\\) variable of shape \\(([0-9]+), 3\\), found shape \\(\\1, [0-9]+\\)"
   $<TARGET_FILE:colchem> budget ${NCW}/stoich_shape.nc -s SO2)
 colchem_nc_test(bad.nc_budget_species_type 4
-  "species_double.nc: 'species': expected a one-dimensional variable of strings \\(NC_STRING\\), found another type"
+  "species_double.nc: 'species_name': expected a one-dimensional variable of strings \\(NC_STRING\\), found another type"
   $<TARGET_FILE:colchem> budget ${NCW}/species_double.nc -s SO2)
 colchem_nc_test(bad.nc_compare_species_type 4
-  "species_double.nc: 'species': expected a one-dimensional variable of strings"
+  "species_double.nc: 'species_name': expected a one-dimensional variable of strings"
   $<TARGET_FILE:colchem> compare ${NCW}/species_double.nc ${OBS} --no-write)
 # The unaltered file passes the same readers (so the refusals above are the defects').
 colchem_nc_test(bad.nc_budget_good 0 "SO2: column production"

@@ -82,6 +82,10 @@ colchem_cli_test(check_chemistry_no_photolysis 3
 add_test(NAME cli.output_clients
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/output_clients.sh $<TARGET_FILE:colchem> ${CFG}/pyrene.yaml)
 set_tests_properties(cli.output_clients PROPERTIES WORKING_DIRECTORY ${CMAKE_CURRENT_BINARY_DIR})
+# The run, sweep, box and photo files read by ncdump, ncks (nco), cdo and xarray.
+add_test(NAME cli.ecosystem_read
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/ecosystem_read_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/ecosystem_read)
 
 # Validation cases rerun as tests (validation/*/*/run.sh take the colchem executable).
 add_test(NAME validation.background.ussa76

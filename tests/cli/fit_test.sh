@@ -85,7 +85,7 @@ import numpy as np
 import netCDF4
 colchem, cfg, f0spec, ksspec = sys.argv[1:5]
 ds = netCDF4.Dataset("truth.nc")
-names = [str(s) for s in ds["species"][:]]
+names = [str(s) for s in ds["species_name"][:]]
 z = np.asarray(ds["altitude"][:], dtype=float)
 if ds["altitude"].units == "m": z = z / 1e3
 f = np.asarray(ds["mole_fraction"][names.index("SO"), :], dtype=float)

@@ -10,7 +10,7 @@ rm -f "$out"
 header=$(ncdump -h "$out")
 for needle in ':Conventions = "CF-1.10"' 'altitude:units = "km"' 'altitude:positive = "up"' \
               'pressure:standard_name = "air_pressure"' 'temperature:units = "K"' \
-              ':colchem_scenario = '; do
+              'string provenance_scenario ;'; do
   printf '%s\n' "$header" | grep -F -q -- "$needle" || { echo "ncdump lacks: $needle"; exit 1; }
 done
 /usr/bin/python3 "$(dirname "$0")/check_output.py" "$out"

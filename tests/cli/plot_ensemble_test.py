@@ -38,7 +38,7 @@ spec = importlib.util.spec_from_file_location("plot_ensemble", script)
 pe = importlib.util.module_from_spec(spec)
 spec.loader.exec_module(pe)
 ds = netCDF4.Dataset("small.nc")
-names = [str(s) for s in ds["species"][:]]
+names = [str(s) for s in ds["species_name"][:]]
 pct = list(np.asarray(ds["percentile"][:], dtype=float))
 for sp in ("SO2", "SO"):
     s = names.index(sp)

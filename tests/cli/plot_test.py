@@ -20,7 +20,8 @@ def base(ds, species):
     ds.createDimension("species", len(species))
     ds.createVariable("altitude", "f8", ("altitude",))[:] = alt
     ds.createVariable("altitude_edge", "f8", ("altitude_edge",))[:] = edges
-    v = ds.createVariable("species", str, ("species",))
+    ds.createVariable("species", "i4", ("species",))[:] = np.arange(len(species))
+    v = ds.createVariable("species_name", str, ("species",))
     for i, s in enumerate(species):
         v[i] = s
 
@@ -36,7 +37,7 @@ with netCDF4.Dataset(sweep, "w") as ds:
     lab = ds.createVariable("variant_label", str, ("variant",))
     for v, l in enumerate(["base", "base+overtone", "base+reservoir"]):
         lab[v] = l
-    ds.createVariable("variant_converged", "f8", ("variant",))[:] = [1, 1, 0]
+    ds.createVariable("variant_converged", "i4", ("variant",))[:] = [1, 1, 0]
     ds.createDimension("observation", 3)
     sp = ds.createVariable("observation_species", str, ("observation",))
     for i in range(3):
@@ -44,7 +45,7 @@ with netCDF4.Dataset(sweep, "w") as ds:
     ds.createVariable("observation_altitude", "f8", ("observation",))[:] = [65, 80, 95]
     ds.createVariable("observation_value", "f8", ("observation",))[:] = [5e-8, 3e-9, 1e-8]
     ds.createVariable("observation_uncertainty", "f8", ("observation",))[:] = [1e-8, 1e-9, 0]
-    ds.createVariable("observation_upper_limit", "f8", ("observation",))[:] = [0, 0, 1]
+    ds.createVariable("observation_upper_limit", "i4", ("observation",))[:] = [0, 0, 1]
 
 run = os.path.join(work, "plot_run.nc")
 with netCDF4.Dataset(run, "w") as ds:

@@ -39,7 +39,7 @@ for n in (54, 108, 216):
     assert np.all(rel < 1e-10), (n, rel)
 def so2(n):
     d = netCDF4.Dataset(f"e{n}.nc")
-    sp = [str(s) for s in d["species"][:]]
+    sp = [str(s) for s in d["species_name"][:]]
     return np.asarray(d["altitude"][:]), np.asarray(d["mole_fraction"][:])[sp.index("SO2")]
 z1, a = so2(108); z2, b = so2(216)
 zz = np.linspace(60.0, 110.0, 101)
@@ -55,7 +55,7 @@ import numpy as np
 K_B, N_A = 1.380649e-16, 6.02214076e23                  # CODATA 2018 / SI exact
 M = (2 * 1.008 + 32.06 + 4 * 15.999) / N_A              # g per H2SO4 molecule
 d = netCDF4.Dataset("e108.nc")
-sp = [str(s) for s in d["species"][:]]
+sp = [str(s) for s in d["species_name"][:]]
 h = sp.index("H2SO4")
 t = [str(e) for e in d["exchange_equation"][:]].index("H2SO4 -> (condensed phase)")
 r = [str(e) for e in d["reaction_equation"][:]].index("H2SO4 -> (condensed phase)")

@@ -38,7 +38,7 @@ w, xw = state("whole.nc"); c, xc = state("cont.nc")
 assert c.getncattr("colchem_model_time_s") == 2 * 86400
 d = rel(xw, xc)
 assert d < 1e-4, d
-assert np.allclose(c["snapshot_time"][:], w["snapshot_time"][:])
+assert np.allclose(c["snapshot"][:], w["snapshot"][:])
 snap_w, snap_c = np.asarray(w["snapshot_number_density"][:]), np.asarray(c["snapshot_number_density"][:])
 assert np.array_equal(snap_w[0], snap_c[0])        # taken before the checkpoint: carried over
 assert rel(snap_w[1:], snap_c[1:]) < 1e-4

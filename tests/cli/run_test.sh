@@ -18,7 +18,7 @@ ds = netCDF4.Dataset("steady.nc")
 assert ds.getncattr("colchem_solver_status") == "converged"
 assert ds.getncattr("colchem_residual_norm") < 1e-8
 rel = ds["element_relative_imbalance"][:]
-els = [str(e) for e in ds["element"][:]]
+els = [str(e) for e in ds["element_name"][:]]
 assert np.all(rel < 1e-8), dict(zip(els, rel))
 for v, u in (("mole_fraction", "1"), ("reaction_rate", "cm-3 s-1"), ("flux", "cm-2 s-1"),
              ("J_O3_O2_O1D", "s-1")):

@@ -56,11 +56,11 @@ PY
 /usr/bin/python3 - <<'PY'
 import netCDF4, numpy as np
 s, r = netCDF4.Dataset("sweep.nc"), netCDF4.Dataset("v5.nc")
-assert list(s["species"][:]) == list(r["species"][:])
+assert list(s["species_name"][:]) == list(r["species_name"][:])
 x, y = np.asarray(s["mole_fraction"][5]), np.asarray(r["mole_fraction"][:])
 rel = np.max(np.abs(x - y) / np.abs(x))
 assert rel <= 1e-10, rel
-ov = r.getncattr("colchem_overrides").split("\n")
+ov = r["provenance_overrides"].getValue().split("\n")
 assert "chemistry.parameters.sulfate_condensation_scale=1.9999999999999998" in ov, ov
 print(f"ok: run --from-sweep variant 5 matches the sweep to {rel:.1e} relative")
 PY

@@ -64,7 +64,7 @@ bool write_file(FuzzedDataProvider& in, const std::string& path) {
   };
   std::vector<Var> vars = {{"altitude", {"altitude"}, false},
                            {"altitude_edge", {"altitude_edge"}, false},
-                           {"species", {"species"}, true},
+                           {"species_name", {"species"}, true},
                            {"number_density", {"species", "altitude"}, false},
                            {"mole_fraction", {"species", "altitude"}, false},
                            {"reaction_equation", {"reaction"}, true},
@@ -115,8 +115,8 @@ bool write_file(FuzzedDataProvider& in, const std::string& path) {
       for (std::size_t i = 0; i < total; ++i) {
         switch (in.ConsumeIntegralInRange<int>(0, 3)) {
           case 0:
-            s[i] = v.name == std::string("species") ? names[i % 6]
-                                                    : std::string(names[i % 6]) + " -> O";
+            s[i] = v.name == std::string("species_name") ? names[i % 6]
+                                                         : std::string(names[i % 6]) + " -> O";
             break;
           case 1:
             s[i] = in.ConsumeRandomLengthString(24);

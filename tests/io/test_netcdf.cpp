@@ -44,11 +44,13 @@ TEST_CASE("a scenario's background round-trips through NetCDF", "[netcdf]") {
   CHECK(r.var_text("altitude", "positive") == std::optional<std::string>("up"));
   CHECK(r.var_text("temperature", "standard_name") == std::optional<std::string>("air_temperature"));
   CHECK(r.global_text("Conventions") == std::optional<std::string>("CF-1.10"));
-  // The resolved configuration is embedded and parses back to the same scenario name.
-  const auto yaml = r.global_text("colchem_scenario");
+  // The resolved configuration is embedded (a variable, not a global attribute, so the
+  // header stays short) and parses back to the same scenario name.
+  CHECK_FALSE(r.global_text("colchem_scenario").has_value());
+  const auto yaml = r.text_variable("provenance_scenario");
   REQUIRE(yaml.has_value());
   CHECK_THAT(*yaml, Catch::Contains("name: pyrene"));
-  CHECK_THAT(*r.global_text("colchem_input_files"), Catch::Contains("temperature table"));
+  CHECK_THAT(*r.text_variable("provenance_input_files"), Catch::Contains("temperature table"));
 }
 
 TEST_CASE("an uncommitted writer leaves no file behind", "[netcdf]") {
@@ -69,4 +71,40 @@ TEST_CASE("an uncommitted writer leaves no file behind", "[netcdf]") {
 TEST_CASE("reading a file that is not NetCDF is an input error", "[netcdf]") {
   auto open = [] { const NcReader r{COLCHEM_SOURCE_DIR "/configs/pyrene.yaml"}; };
   CHECK_THROWS_AS(open(), colchem::InputError);
+}
+
+TEST_CASE("every dimension gets a numeric coordinate; names become auxiliary coordinates",
+          "[netcdf]") {
+  // CF-1.10 section 1.3 (a coordinate variable: one-dimensional, named as its dimension,
+  // numeric) and section 5 (the `coordinates` attribute names auxiliary coordinates such as
+  // labels); section 3.5 (flag_values of the variable's type, with flag_meanings).
+  const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "coordinates.nc";
+  fs::remove(out);
+  {
+    NcWriter nc(out);
+    nc.dimension("species", 3);
+    nc.dimension("nv", 2);
+    nc.string_variable("species_name", "species", "species name");
+    nc.variable("column", {"species"}, {"cm-2", "column", "", {}});
+    nc.variable("held", {"species"},
+                {"", "held", "", {{"flag_meanings", "transported held"}}, true, {0, 1}});
+    nc.variable("bounds", {"species", "nv"}, {"1", "pairs", "", {}});
+    nc.text_variable("provenance_note", "a long text", "line 1\nline 2\n");
+    nc.put_strings("species_name", {"SO2", "O2", "SO"});
+    const std::vector<double> col{1.0, 2.0, 3.0}, held{0.0, 1.0, 0.0}, pairs(6, 0.5);
+    nc.put("column", col);
+    nc.put("held", held);
+    nc.put("bounds", pairs);
+    nc.commit();
+  }
+  const NcReader r(out);
+  REQUIRE(r.has_variable("species"));
+  CHECK(r.read("species") == std::vector<double>{0.0, 1.0, 2.0});
+  CHECK_FALSE(r.has_variable("nv"));  // the CF bounds dimension takes no coordinate
+  CHECK(r.read_strings("species_name") == std::vector<std::string>{"SO2", "O2", "SO"});
+  CHECK(r.var_text("column", "coordinates") == std::optional<std::string>("species_name"));
+  CHECK(r.var_text("held", "flag_meanings") == std::optional<std::string>("transported held"));
+  CHECK(r.read("held") == std::vector<double>{0.0, 1.0, 0.0});
+  CHECK(r.text_variable("provenance_note") == std::optional<std::string>("line 1\nline 2\n"));
+  CHECK_FALSE(r.text_variable("absent").has_value());
 }

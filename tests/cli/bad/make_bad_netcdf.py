@@ -11,7 +11,7 @@ with one defect, each of which colchem must refuse with exit code 4 (README "Exi
   negative.nc       every number density negative
   rate_shape.nc     reaction_rate on a dimension one cell shorter than altitude
   stoich_shape.nc   net_stoichiometry on (reaction, reaction) instead of (reaction, species)
-  species_double.nc species stored as numbers instead of strings
+  species_double.nc species_name stored as numbers instead of strings
 """
 import sys
 
@@ -38,7 +38,7 @@ def copy(name, edit=None, dims=None, skip_dims=()):
                 dst.createDimension(d, extra[d])
     for v, var in src.variables.items():
         vdims = dims.get(v, var.dimensions)
-        if v == "species" and name == "species_double.nc":
+        if v == "species_name" and name == "species_double.nc":
             nv = dst.createVariable(v, "f8", vdims)
             nv[:] = np.arange(len(src.dimensions[vdims[0]]), dtype=float)
             continue

@@ -17,7 +17,7 @@ import numpy as np
 import xarray as xr
 
 ds = xr.open_dataset(sys.argv[1] if len(sys.argv) > 1 else "condensed_exchange.nc")
-names = [str(s) for s in ds["species"].values]
+names = [str(s) for s in ds["species_name"].values]
 s = names.index("H2SO4")
 z = ds["altitude"].values  # km
 T = ds["temperature"].values

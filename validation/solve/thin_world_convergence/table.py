@@ -17,7 +17,7 @@ import xarray as xr
 
 def value_at(path, species, z_km):
     with xr.open_dataset(path) as ds:
-        names = [str(s) for s in ds["species"].values]
+        names = [str(s) for s in ds["species_name"].values]
         z = ds["altitude"].values
         x = ds["mole_fraction"].values[names.index(species), :]
         cells = len(z)

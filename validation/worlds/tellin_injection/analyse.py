@@ -13,8 +13,8 @@ import numpy as np
 
 ds = netCDF4.Dataset(sys.argv[1])
 lo, hi = (float(sys.argv[2]), float(sys.argv[3])) if len(sys.argv) > 3 else (20.0, 60.0)
-names = [str(s) for s in ds["species"][:]]
-t = ds["snapshot_time"][:] / 86400.0
+names = [str(s) for s in ds["species_name"][:]]
+t = ds["snapshot"][:] / 86400.0
 col = ds["snapshot_column_density"][:]          # (snapshot, species)
 so2 = col[:, names.index("SO2")]
 inj = float(ds.getncattr("colchem_injection_time_s")) / 86400.0 if "colchem_injection_time_s" in ds.ncattrs() else 10.0
