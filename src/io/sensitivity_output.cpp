@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "core/column_state.hpp"
 #include "core/constants.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
@@ -19,7 +20,7 @@ std::vector<double> reaction_shares(const SensitivityResult& res) {
 namespace {
 
 /// The adjoint lambda, species-major (res.lambda is cell-major, [j*S + s]).
-NcField adjoint_field(const SensitivityResult& res, std::size_t S, std::size_t N,
+NcField adjoint_field(const SensitivityResult& res, std::size_t S,
                       const std::string& lambda_units) {
   NcField lam{"adjoint",
               {"species", "altitude"},
@@ -28,10 +29,7 @@ NcField adjoint_field(const SensitivityResult& res, std::size_t S, std::size_t N
                "s-1); 0 for held species",
                "",
                {}},
-              std::vector<double>(S * N)};
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) lam.data[s * N + j] = res.lambda[j * S + s];
-  }
+              species_major(res.lambda, S)};
   return lam;
 }
 
@@ -97,7 +95,7 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
     pdG.data.push_back(p.dG);
     pls.data.push_back(p.log_sensitivity);
   }
-  const NcField lam = adjoint_field(res, S, N, lambda_units);
+  const NcField lam = adjoint_field(res, S, lambda_units);
   NcStateFile f;
   f.dimensions = {{"reaction", R}, {"parameter", P}};
   f.texts = {

@@ -7,6 +7,7 @@
 #include <cstdio>
 
 #include "core/error.hpp"
+#include "core/step_control.hpp"
 
 namespace colchem {
 
@@ -113,11 +114,9 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
       ok = strang_step(x1, t, dt, cb) && strang_step(x2, t, 0.5 * dt, cb) &&
            strang_step(x2, t + 0.5 * dt, 0.5 * dt, cb);
       if (ok) {
-        for (std::size_t i = 0; i < x.size(); ++i) {
-          const double e = std::abs(x2[i] - x1[i]) /
-                           (o.relative_tolerance * (std::abs(x2[i]) + o.scale.absolute(i % S)));
-          err = std::max(err, e);
-        }
+        err = StepController::doubling_error(x2.data(), x1.data(), x.size(), [&](std::size_t i) {
+          return o.relative_tolerance * (std::abs(x2[i]) + o.scale.absolute(i % S));
+        });
         ok = err <= 1.0;
         if (ok) std::swap(x1, x2);  // keep the more accurate two half steps
       }
@@ -141,8 +140,8 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
     res.time_s = t_new;
     ++res.steps;
     if (o.adaptive) {
-      const double grow = err > 0.0 ? 0.9 * std::pow(err, -1.0 / 3.0) : 5.0;
-      const double next = dt * std::clamp(grow, 0.2, 5.0);
+      // Strang splitting is second order: the local error is O(dt^3).
+      const double next = dt * StepController{3, 0.9, 0.2, 5.0}.factor(err);
       // A step shortened to hit a stop says nothing about the step the error allows.
       dt_want = std::min(hits_stop ? std::max(next, dt_want) : next, o.max_step_s);
     }
