@@ -57,7 +57,7 @@ Kinetics::Kinetics(std::shared_ptr<const Mechanism> mech, std::span<const std::s
         jt_dense_.push_back(touched[a][t] * S_ + occ_species_[o]);
         jt_coeff_.push_back(net[a][t]);
       }
-      jt_start_.push_back(jt_pos_.size());
+      jt_start_.push_back(jt_dense_.size());
     }
   }
   for (auto r : reactions_) laws_.push_back(m.reactions[r].rate);

@@ -130,7 +130,6 @@ void define_species(NcWriter& nc, const std::vector<std::string>& species) {
 void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
                         std::span<const double> n) {
   const std::size_t S = species.size();
-  const std::size_t N = bg.grid.cells();
   const std::vector<double> nd = species_major(n, S);
   const std::vector<double> f = mole_fractions(n, bg.air_density_cm3);
   const std::vector<double> col = column_densities(n, S, bg.grid);

@@ -39,7 +39,7 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
                             const ColumnModel& model, std::span<const double> x,
                             const Objective& obj, const SensitivityResult& res,
                             const std::string& command_line) {
-  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t S = model.species_count();
   const std::size_t R = res.reactions.size(), P = res.parameters.size();
   const std::string g_units = obj.units.empty() ? "1" : obj.units;
   const std::string lambda_units = g_units == "1" ? "cm3 s" : g_units + " cm3 s";

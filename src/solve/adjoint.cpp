@@ -98,7 +98,7 @@ double log_sensitivity(double dG, double G, double p, bool log_parameter) {
 std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
                                                        const ObservationSet& obs, bool log_space,
                                                        std::span<const double> x) {
-  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t S = model.species_count();
   const Background& bg = model.background();
   const std::vector<double> f = mole_fractions(x, bg.air_density_cm3);
   const auto scores = score_column(bg.grid.center_cm, model.species(), f, obs, 0);
