@@ -207,7 +207,9 @@ double Kinetics::mass_action(std::size_t r, double k, const double* n, std::size
 
 void Kinetics::reaction_rates(std::size_t cell, const double* n, double* R) const {
   const std::size_t N = levels_;
-  for (std::size_t a = 0; a < reactions_.size(); ++a) R[a] = mass_action(a, k_[a * N + cell], n);
+  // k (prod n), the product formed by the kernel with k = 1 (the rates as reported since the
+  // first version; the tendency multiplies k in first, a difference of round-off only).
+  for (std::size_t a = 0; a < reactions_.size(); ++a) R[a] = k_[a * N + cell] * rate_product(a, n);
 }
 
 void Kinetics::production_loss(std::size_t cell, const double* n, double* P, double* L,

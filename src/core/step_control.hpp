@@ -37,7 +37,10 @@ struct StepController {
 
   /// h_new / h for the error estimate err.
   [[nodiscard]] double factor(double err) const {
-    const double grow = err > 0.0 ? safety * std::pow(err, -1.0 / local_order) : max_factor;
+    if (!(err > 0.0)) return max_factor;
+    // err^(-1/2) through the correctly rounded square root rather than pow.
+    const double grow = local_order == 2 ? safety / std::sqrt(err)
+                                         : safety * std::pow(err, -1.0 / local_order);
     return std::clamp(grow, min_factor, max_factor);
   }
 };
