@@ -7,6 +7,7 @@
 #include <limits>
 #include <optional>
 
+#include "core/column_state.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/interp.hpp"
@@ -138,12 +139,7 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
   const ColumnDiagnostics diag = model.diagnostics(out.x, out.time_s);
   r.bottom_flux = diag.bottom_flux;
   r.top_flux = diag.top_flux;
-  r.mole_fraction.resize(S * N);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) {
-      r.mole_fraction[s * N + j] = out.x[j * S + s] / r.background.air_density_cm3[j];
-    }
-  }
+  r.mole_fraction = mole_fractions(out.x, r.background.air_density_cm3);
   if (req.observations != nullptr && !req.observations->points.empty()) {
     r.scores =
         score_column(r.background.grid.center_cm, r.species, r.mole_fraction, *req.observations, 0);

@@ -22,6 +22,7 @@
 #include "core/background.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "core/ideal_gas.hpp"
 #include "core/units.hpp"
 #include "io/mechanism_loader.hpp"
 #include "io/output.hpp"
@@ -55,7 +56,7 @@ struct Condition {
 
 /// p = n k T of a condition, in Pa.
 double pressure_pa(const Condition& c) {
-  return c.air * constants::kBoltzmann * c.T * constants::kPaPerBarye;
+  return ideal_gas_pressure(c.air, c.T) * constants::kPaPerBarye;
 }
 
 /// Where each condition's numbers are evaluated: the chemistry and the bulk gases.
@@ -136,7 +137,7 @@ std::vector<Condition> product_conditions(const RatesOptions& o, const UnitSyste
     const std::vector<std::string> ps =
         o.pressure.empty() ? std::vector<std::string>{"1 atm"} : o.pressure;
     for (const auto& p : ps) {
-      out.push_back({T, pressure_dyn_cm2(p, units) / (constants::kBoltzmann * T), std::nullopt});
+      out.push_back({T, ideal_gas_density(pressure_dyn_cm2(p, units), T), std::nullopt});
     }
   }
   return out;

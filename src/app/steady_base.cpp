@@ -3,6 +3,7 @@
 
 #include <algorithm>
 
+#include "core/column_state.hpp"
 #include "core/error.hpp"
 
 namespace colchem::app {
@@ -110,14 +111,7 @@ BaseSolve solve_steady_base(const BaseStart& start, const Scenario& sc, ColumnMo
 }
 
 std::vector<double> mole_fractions(const ColumnModel& model, std::span<const double> x) {
-  const std::size_t S = model.species_count(), N = model.cells();
-  std::vector<double> f(S * N);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) {
-      f[s * N + j] = x[j * S + s] / model.background().air_density_cm3[j];
-    }
-  }
-  return f;
+  return colchem::mole_fractions(x, model.background().air_density_cm3);
 }
 
 }  // namespace colchem::app

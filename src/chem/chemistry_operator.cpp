@@ -1,3 +1,6 @@
+// The column's chemistry operator, f = P - L - C per cell (cm^-3 s^-1): equations, units and
+// sources in chem/chemistry_operator.hpp; the mass-action kernel is Kinetics::mass_action
+// (chem/kinetics.hpp), the exchange kernel exchange_tendency (chem/condensation.hpp).
 #include "chem/chemistry_operator.hpp"
 
 #include <algorithm>
@@ -201,34 +204,19 @@ void ChemistryOperator::exchange_rates(std::span<const double> n, std::span<doub
 
 void ChemistryOperator::parameter_sensitivities(std::span<const double> n,
                                                 std::span<double> out) const {
-  const Mechanism& m = kin_.mechanism();
   const std::size_t S = species_count();
   const std::size_t N = cells();
   const std::size_t NR = kin_.reaction_count();
-  const std::size_t P = m.parameters.size();
+  const std::size_t P = kin_.mechanism().parameters.size();
   if (out.size() != P * N * S) throw std::invalid_argument("parameter_sensitivities: size P*N*S");
   std::fill(out.begin(), out.end(), 0.0);
-  std::vector<double> dk(P * NR * N);
+  std::vector<double> dk(P * NR * N), dk_cell(NR);
   kin_.rate_constant_sensitivities(dk);
   for (std::size_t q = 0; q < P; ++q) {
-    for (std::size_t r = 0; r < NR; ++r) {
-      const Reaction& rx = m.reactions[kin_.mechanism_reaction(r)];
-      for (std::size_t j = 0; j < N; ++j) {
-        const double d = dk[(q * NR + r) * N + j];
-        if (d == 0.0) continue;
-        // d R / d p = (d k / d p) prod n, then stoichiometry as in the tendency.
-        double prod = d;
-        for (const auto& e : rx.reactants) {
-          for (int c = 0; c < e.count; ++c) prod *= n[j * S + e.species];
-        }
-        double* o = out.data() + (q * N + j) * S;
-        for (const auto& e : rx.reactants) {
-          if (!m.species[e.species].fixed) o[e.species] -= e.count * prod;
-        }
-        for (const auto& e : rx.products) {
-          if (!m.species[e.species].fixed) o[e.species] += e.count * prod;
-        }
-      }
+    for (std::size_t j = 0; j < N; ++j) {
+      // d f / d p = sum_r nu_r (d k_r / d p) prod n: the mass-action kernel with d k / d p.
+      for (std::size_t r = 0; r < NR; ++r) dk_cell[r] = dk[(q * NR + r) * N + j];
+      kin_.add_mass_action(n.data() + j * S, dk_cell, out.data() + (q * N + j) * S);
     }
   }
 }

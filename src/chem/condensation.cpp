@@ -1,3 +1,5 @@
+// Saturation laws and exchange cells, f = -k (n - n_eq) (cm^-3 s^-1): equations, units and
+// published sources in chem/condensation.hpp.
 #include "chem/condensation.hpp"
 
 #include <array>
@@ -5,6 +7,7 @@
 #include <stdexcept>
 
 #include "core/constants.hpp"
+#include "core/ideal_gas.hpp"
 #include "core/interp.hpp"
 
 namespace colchem {
@@ -65,7 +68,7 @@ double CondensationExchange::saturation_density(double T, double w) const {
     case Saturation::kHeldProfile:
       throw std::logic_error("saturation_density: a held profile has no saturation");
   }
-  return p_dyn_cm2 / (constants::kBoltzmann * T);
+  return ideal_gas_density(p_dyn_cm2, T);
 }
 
 std::string exchange_equation(const std::string& species, const CondensationExchange& x) {

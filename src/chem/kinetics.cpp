@@ -1,3 +1,5 @@
+// Mass-action kinetics R_r = k_r prod n (cm^-3 s^-1) and its analytic Jacobian: equations
+// and units in chem/kinetics.hpp.
 #include "chem/kinetics.hpp"
 
 #include <algorithm>
@@ -30,55 +32,32 @@ Kinetics::Kinetics(std::shared_ptr<const Mechanism> mech, std::span<const std::s
   std::vector<std::vector<std::size_t>> touched(R);
   for (std::size_t a = 0; a < R; ++a) {
     const Reaction& rx = m.reactions[reactions_[a]];
-    std::map<std::size_t, int> delta;
     for (const auto& e : rx.reactants) {
       for (int c = 0; c < e.count; ++c) {
         occ_species_.push_back(e.species);
         occ_reaction_.push_back(a);
       }
-      delta[e.species] -= e.count;
     }
-    for (const auto& e : rx.products) {
-      prod_.push_back(e);
-      delta[e.species] += e.count;
-    }
+    for (const auto& e : rx.products) prod_.push_back(e);
     occ_start_.push_back(occ_species_.size());
     prod_start_.push_back(prod_.size());
-    for (auto [s, d] : delta) {
-      if (d != 0 && fixed_[s] == 0) {
+    const std::vector<double> delta = net_stoichiometry(rx, S_);
+    for (std::size_t s = 0; s < S_; ++s) {
+      if (delta[s] != 0.0 && fixed_[s] == 0) {
         touched[a].push_back(s);
-        net[a].push_back(static_cast<double>(d));
+        net[a].push_back(delta[s]);
       }
     }
   }
 
-  // Pattern: every (s, q) with s changed by a reaction whose rate depends on q, plus the
-  // diagonal of every free species (so sinks and transport have a place).
-  std::vector<std::vector<std::size_t>> rows(S_);
-  for (std::size_t s = 0; s < S_; ++s) {
-    if (fixed_[s] == 0) rows[s].push_back(s);
-  }
-  for (std::size_t a = 0; a < R; ++a) {
-    for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
-      for (auto s : touched[a]) rows[s].push_back(occ_species_[o]);
-    }
-  }
-  row_ptr_.assign(1, 0);
-  for (auto& row : rows) {
-    std::sort(row.begin(), row.end());
-    row.erase(std::unique(row.begin(), row.end()), row.end());
-    cols_.insert(cols_.end(), row.begin(), row.end());
-    row_ptr_.push_back(cols_.size());
-  }
   jt_start_.assign(1, 0);
   for (std::size_t a = 0; a < R; ++a) {
     for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
       for (std::size_t t = 0; t < touched[a].size(); ++t) {
-        jt_pos_.push_back(jacobian_position(touched[a][t], occ_species_[o]));
         jt_dense_.push_back(touched[a][t] * S_ + occ_species_[o]);
         jt_coeff_.push_back(net[a][t]);
       }
-      jt_start_.push_back(jt_pos_.size());
+      jt_start_.push_back(jt_dense_.size());
     }
   }
   for (auto r : reactions_) laws_.push_back(m.reactions[r].rate);
@@ -106,14 +85,6 @@ std::size_t Kinetics::channel_index(const std::string& name) const {
   return npos;
 }
 
-std::size_t Kinetics::jacobian_position(std::size_t row, std::size_t col) const {
-  const auto b = cols_.begin() + static_cast<std::ptrdiff_t>(row_ptr_[row]);
-  const auto e = cols_.begin() + static_cast<std::ptrdiff_t>(row_ptr_[row + 1]);
-  const auto it = std::lower_bound(b, e, col);
-  if (it == e || *it != col) return npos;
-  return static_cast<std::size_t>(it - cols_.begin());
-}
-
 void Kinetics::set_conditions(std::span<const double> temperature_K,
                               std::span<const double> air_cm3,
                               const std::map<std::string, double>& bulk) {
@@ -130,14 +101,7 @@ void Kinetics::set_conditions(std::span<const double> temperature_K,
   for (std::size_t a = 0; a < R; ++a) {
     const Reaction& rx = m.reactions[reactions_[a]];
     // [M] = n_air sum_j eps_j x_j over the bulk gases (eps = 1 unless given).
-    double eff = 0.0;
-    for (const auto& [name, x] : bulk) {
-      double eps = 1.0;
-      for (const auto& e : rx.efficiencies) {
-        if (m.species[e.species].name == name) eps = e.eps;
-      }
-      eff += eps * x;
-    }
+    const double eff = third_body_weight(m, rx, bulk);
     for (std::size_t j = 0; j < N; ++j) M[a * N + j] = eff * air_cm3[j];
   }
   std::vector<double> old = resized ? std::vector<double>{} : k_base_;
@@ -233,14 +197,18 @@ void Kinetics::rate_constant_sensitivities(std::span<double> out) const {
   }
 }
 
-double Kinetics::rate_product(std::size_t r, const double* n) const {
-  double p = 1.0;
-  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) p *= n[occ_species_[o]];
+double Kinetics::mass_action(std::size_t r, double k, const double* n, std::size_t skip) const {
+  double p = k;
+  for (std::size_t o = occ_start_[r]; o < occ_start_[r + 1]; ++o) {
+    if (o != skip) p *= n[occ_species_[o]];
+  }
   return p;
 }
 
 void Kinetics::reaction_rates(std::size_t cell, const double* n, double* R) const {
   const std::size_t N = levels_;
+  // k (prod n), the product formed by the kernel with k = 1 (the rates as reported since the
+  // first version; the tendency multiplies k in first, a difference of round-off only).
   for (std::size_t a = 0; a < reactions_.size(); ++a) R[a] = k_[a * N + cell] * rate_product(a, n);
 }
 
@@ -263,9 +231,9 @@ void Kinetics::production_loss(std::size_t cell, const double* n, double* P, dou
 template <class RateConstant>
 void Kinetics::accumulate(const double* n, RateConstant k_of, double* tendency) const {
   for (std::size_t a = 0; a < reactions_.size(); ++a) {
-    double r = k_of(a);
-    if (r == 0.0) continue;
-    for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) r *= n[occ_species_[o]];
+    const double k = k_of(a);
+    if (k == 0.0) continue;
+    const double r = mass_action(a, k, n);
     for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
       const std::size_t s = occ_species_[o];
       if (fixed_[s] == 0) tendency[s] -= r;
@@ -280,6 +248,11 @@ void Kinetics::accumulate(const double* n, RateConstant k_of, double* tendency) 
 void Kinetics::add_tendency(std::size_t cell, const double* n, double* tendency) const {
   const std::size_t N = levels_;
   accumulate(n, [&](std::size_t a) { return k_[a * N + cell]; }, tendency);
+}
+
+void Kinetics::add_mass_action(const double* n, std::span<const double> k, double* tendency) const {
+  accumulate(
+      n, [&](std::size_t a) { return k[a]; }, tendency);
 }
 
 void Kinetics::add_photolysis_tendency(const double* n, const double* dJ,
@@ -302,21 +275,8 @@ void Kinetics::rate_gradient(std::size_t cell, std::size_t r, const double* n, d
 }
 
 double Kinetics::partial(std::size_t occurrence, double k, const double* n) const {
-  const std::size_t a = occ_reaction_[occurrence];
-  double d = k;
-  for (std::size_t o = occ_start_[a]; o < occ_start_[a + 1]; ++o) {
-    if (o != occurrence) d *= n[occ_species_[o]];
-  }
-  return d;
-}
-
-void Kinetics::jacobian(std::size_t cell, const double* n, double* values) const {
-  std::fill(values, values + cols_.size(), 0.0);
-  const std::size_t N = levels_;
-  for (std::size_t o = 0; o < occ_species_.size(); ++o) {
-    const double d = partial(o, k_[occ_reaction_[o] * N + cell], n);
-    for (std::size_t t = jt_start_[o]; t < jt_start_[o + 1]; ++t) values[jt_pos_[t]] += jt_coeff_[t] * d;
-  }
+  // d(k prod n)/dn_o: the product over the other occurrences (the product rule).
+  return mass_action(occ_reaction_[occurrence], k, n, occurrence);
 }
 
 void Kinetics::add_jacobian_dense(std::size_t cell, const double* n, double* block) const {

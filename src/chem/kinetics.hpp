@@ -70,8 +70,15 @@ class Kinetics {
   void rate_constant_sensitivities(std::span<double> out) const;
 
   // --- Evaluation in one cell (n points at the cell's S densities) -------------------
+  /// The mass-action kernel, the one place k prod n is formed: k prod_s n_s^nu_rs of active
+  /// reaction r (left to right, k first), leaving out reactant occurrence `skip` (an index
+  /// into the expanded reactant list; npos: none), which gives dR_r/dn for that occurrence.
+  [[nodiscard]] double mass_action(std::size_t r, double k, const double* n,
+                                   std::size_t skip = npos) const;
   /// prod_s n_s^nu_rs of active reaction r (R_r = k_r times this).
-  [[nodiscard]] double rate_product(std::size_t r, const double* n) const;
+  [[nodiscard]] double rate_product(std::size_t r, const double* n) const {
+    return mass_action(r, 1.0, n);
+  }
   /// The chemistry channel of active reaction r (a photolysis reaction), or npos.
   [[nodiscard]] std::size_t reaction_channel(std::size_t r) const { return reaction_channel_[r]; }
   /// The scale of active reaction r at `level` (named parameters times its rate factor):
@@ -89,18 +96,14 @@ class Kinetics {
                        double* R) const;
   /// tendency[s] += P_s - L_s (fixed species: nothing).
   void add_tendency(std::size_t cell, const double* n, double* tendency) const;
+  /// tendency[s] += sum_r nu_rs k[r] prod n: the tendency with rate constants k (one per
+  /// active reaction; 0 skips it), e.g. d k / d p for parameter sensitivities.
+  void add_mass_action(const double* n, std::span<const double> k, double* tendency) const;
   /// tendency[s] += d(P_s - L_s)/dJ . dJ: the photolysis reactions alone with their J
   /// replaced by dJ[channel] (the tendency is linear in J, so this is exact).
   void add_photolysis_tendency(const double* n, const double* dJ, double* tendency) const;
 
-  // --- Jacobian: a sparse per-cell pattern computed once ------------------------------
-  [[nodiscard]] const std::vector<std::size_t>& jacobian_row_start() const { return row_ptr_; }
-  [[nodiscard]] const std::vector<std::size_t>& jacobian_columns() const { return cols_; }
-  [[nodiscard]] std::size_t jacobian_nonzeros() const { return cols_.size(); }
-  /// Index of (row, col) in the pattern, or npos.
-  [[nodiscard]] std::size_t jacobian_position(std::size_t row, std::size_t col) const;
-  /// CSR values (size jacobian_nonzeros()) of d(P - L)/dn in `cell`, overwritten.
-  void jacobian(std::size_t cell, const double* n, double* values) const;
+  // --- Jacobian -----------------------------------------------------------------------
   /// Adds d(P - L)/dn into a dense row-major S x S block.
   void add_jacobian_dense(std::size_t cell, const double* n, double* block) const;
 
@@ -123,11 +126,10 @@ class Kinetics {
   // Gross products: (species, count) of reaction r in prod_[prod_start_[r] ..).
   std::vector<std::size_t> prod_start_;
   std::vector<StoichEntry> prod_;
-  // Jacobian terms: values[jt_pos_[t]] (dense: block[jt_dense_[t]]) += jt_coeff_[t] dR/dn_o.
+  // Jacobian terms: block[jt_dense_[t]] += jt_coeff_[t] dR/dn_o.
   // Terms are grouped by occurrence: those of occurrence o are [jt_start_[o], jt_start_[o+1]).
-  std::vector<std::size_t> jt_pos_, jt_dense_, jt_start_;
+  std::vector<std::size_t> jt_dense_, jt_start_;
   std::vector<double> jt_coeff_;
-  std::vector<std::size_t> row_ptr_, cols_;
   // Rate constants.
   std::vector<std::string> channels_;
   std::vector<std::size_t> reaction_channel_;  // npos for thermal reactions

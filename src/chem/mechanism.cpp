@@ -1,3 +1,4 @@
+// Mechanism data, [M] = n_air sum_j eps_j x_j and net stoichiometry: see chem/mechanism.hpp.
 #include "chem/mechanism.hpp"
 
 #include <cmath>
@@ -39,6 +40,26 @@ RateUncertainty default_uncertainty(const Reaction& rx) {
   u.f298 = termolecular ? 1.5 : 1.3;
   u.g_K = 100.0;
   return u;
+}
+
+double third_body_weight(const Mechanism& mech, const Reaction& rx,
+                         const std::map<std::string, double>& bulk) {
+  double eff = 0.0;
+  for (const auto& [name, x] : bulk) {
+    double eps = 1.0;
+    for (const auto& e : rx.efficiencies) {
+      if (mech.species[e.species].name == name) eps = e.eps;
+    }
+    eff += eps * x;
+  }
+  return eff;
+}
+
+std::vector<double> net_stoichiometry(const Reaction& rx, std::size_t species_count) {
+  std::vector<double> nu(species_count, 0.0);
+  for (const auto& e : rx.reactants) nu[e.species] -= e.count;
+  for (const auto& e : rx.products) nu[e.species] += e.count;
+  return nu;
 }
 
 int Reaction::molecularity() const {

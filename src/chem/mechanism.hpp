@@ -10,6 +10,7 @@
 
 #include <cstddef>
 #include <filesystem>
+#include <map>
 #include <memory>
 #include <optional>
 #include <string>
@@ -87,6 +88,18 @@ struct Reaction {
     return molecularity() + (multiplies_third_body() ? 1 : 0);
   }
 };
+
+struct Mechanism;
+
+/// The third-body weight sum_j eps_j x_j of reaction rx over the bulk gases (mole fractions
+/// by species name; eps = 1 for a gas the reaction gives no efficiency): [M] = n_air times
+/// this. The one place [M] is formed (kinetics and the loader's rate checks use it).
+double third_body_weight(const Mechanism& mech, const Reaction& rx,
+                         const std::map<std::string, double>& bulk_mole_fraction);
+
+/// Net stoichiometry nu'_s - nu_s of reaction rx over `species_count` species (dense; M and
+/// hv excluded; held-fixed species included). The one place it is formed.
+std::vector<double> net_stoichiometry(const Reaction& rx, std::size_t species_count);
 
 /// The uncertainty of a reaction whose mechanism states none (common practice, no source;
 /// README.md, "Rate-uncertainty ensembles"): a reaction whose source calls it invented or

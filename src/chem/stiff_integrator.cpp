@@ -1,7 +1,11 @@
+// Backward Euler with step doubling for one cell: method and sources in
+// chem/stiff_integrator.hpp; the step-size rule in core/step_control.hpp.
 #include "chem/stiff_integrator.hpp"
 
 #include <algorithm>
 #include <cmath>
+
+#include "core/step_control.hpp"
 
 namespace colchem {
 
@@ -112,13 +116,13 @@ bool StiffIntegrator::integrate(std::span<double> n, double t0, double t1, const
       h = 0.5 * hs;
       continue;
     }
-    double err = 0.0;
-    for (std::size_t s = 0; s < S_; ++s) {
-      const double w = opt_.atol + opt_.rtol * std::max(std::abs(y2_[s]), std::abs(n[s]));
-      err = std::max(err, std::abs(y2_[s] - y1_[s]) / w);
-    }
+    const double err =
+        StepController::doubling_error(y2_.data(), y1_.data(), S_, [&](std::size_t s) {
+          return opt_.atol + opt_.rtol * std::max(std::abs(y2_[s]), std::abs(n[s]));
+        });
     // Backward Euler's local error is O(h^2): the step scales with err^(-1/2).
-    const double factor = std::clamp(0.9 / std::sqrt(std::max(err, 1e-10)), 0.2, 4.0);
+    const StepController control{2, 0.9, 0.2, 4.0};
+    const double factor = control.factor(err);
     if (err > 1.0) {
       ++stats_.rejected;
       h = hs * std::max(factor, 0.2);

@@ -1,3 +1,5 @@
+// The background column (hydrostatic p, n_a = p/(k_B T), H_a = k_B T/(m g), g(z)): equations,
+// units and sources in core/background.hpp and core/ideal_gas.hpp.
 #include "core/background.hpp"
 
 #include <algorithm>
@@ -6,6 +8,7 @@
 #include <stdexcept>
 
 #include "core/constants.hpp"
+#include "core/ideal_gas.hpp"
 #include "core/interp.hpp"
 
 namespace colchem {
@@ -13,6 +16,15 @@ namespace colchem {
 double AltitudeValue::at(double altitude_cm) const {
   if (!from_table()) return constant;
   return interp_linear_hold(table.altitude_cm, table.value, altitude_cm);
+}
+
+double surface_gravity_from_mass(double mass_g, double radius_cm) {
+  return constants::kGravitational * mass_g / (radius_cm * radius_cm);
+}
+
+double planet_mass_g(const PlanetSpec& planet) {
+  return planet.surface_gravity_cm_s2 * planet.radius_cm * planet.radius_cm /
+         constants::kGravitational;
 }
 
 double gravity_at(const PlanetSpec& p, double z_cm) {
@@ -112,14 +124,14 @@ Background build_background(const BackgroundSpec& spec) {
   bg.air_density_cm3.resize(n);
   bg.scale_height_cm.resize(n);
   for (std::size_t j = 0; j < n; ++j) {
-    bg.air_density_cm3[j] = bg.pressure_dyn_cm2[j] / (constants::kBoltzmann * bg.temperature_K[j]);
+    bg.air_density_cm3[j] = ideal_gas_density(bg.pressure_dyn_cm2[j], bg.temperature_K[j]);
     bg.scale_height_cm[j] =
-        constants::kBoltzmann * bg.temperature_K[j] / (bg.molecule_mass_g * bg.gravity_cm_s2[j]);
+        scale_height(bg.temperature_K[j], bg.molecule_mass_g, bg.gravity_cm_s2[j]);
   }
   bg.edge_air_density_cm3.resize(ze.size());
   for (std::size_t j = 0; j < ze.size(); ++j) {
     bg.edge_air_density_cm3[j] =
-        bg.edge_pressure_dyn_cm2[j] / (constants::kBoltzmann * bg.edge_temperature_K[j]);
+        ideal_gas_density(bg.edge_pressure_dyn_cm2[j], bg.edge_temperature_K[j]);
   }
 
   auto eddy = [&](const std::vector<double>& z, const std::vector<double>& na) {

@@ -77,8 +77,12 @@ struct Background {
       edge_air_density_cm3, edge_eddy_cm2_s;  ///< edges
 };
 
-/// Gravity at altitude z above the reference radius.
+/// Gravity at altitude z above the reference radius, g = g_s (R/(R + z))^2.
 double gravity_at(const PlanetSpec& p, double z_cm);
+/// Surface gravity g_s = G M / R^2 (cm s^-2) of a planet of mass M (g) and radius R (cm).
+double surface_gravity_from_mass(double mass_g, double radius_cm);
+/// The planet's mass M = g_s R^2 / G (g) from its surface gravity and radius (the inverse).
+double planet_mass_g(const PlanetSpec& planet);
 
 /// ln(p(z_to)/p(z_from)) for a hydrostatic column with piecewise-linear T through
 /// (t_alt_cm, t_K) (end values held outside), molecule mass m_g and gravity g(z).

@@ -9,6 +9,7 @@
 
 #include "core/background.hpp"
 #include "core/constants.hpp"
+#include "core/ideal_gas.hpp"
 #include "io/config_node.hpp"
 #include "io/mechanism_loader.hpp"
 #include "io/physical_bounds.hpp"
@@ -268,7 +269,7 @@ BoxSpec load_box_config(const std::filesystem::path& file,
   if (!(box.pressure_dyn_cm2 <= bounds::kMaxPressureDynCm2)) {
     pn.fail("a pressure of at most 1e5 bar (common practice, no source)");
   }
-  box.air_cm3 = box.pressure_dyn_cm2 / (constants::kBoltzmann * box.temperature_K);
+  box.air_cm3 = ideal_gas_density(box.pressure_dyn_cm2, box.temperature_K);
   const auto dn = b.child("duration");
   box.duration_s = dn.quantity(units, "s", "1 h");
   if (!(box.duration_s > 0.0)) dn.fail("a positive duration");

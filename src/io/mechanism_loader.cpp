@@ -533,14 +533,7 @@ void check_rates(const Mechanism& mech, std::span<const double> T, std::span<con
                  const std::map<std::string, double>& bulk, const RateLimits& lim) {
   for (const auto& rx : mech.reactions) {
     if (rx.rate.form == RateForm::kPhotolysis) continue;
-    double eff = 0.0;
-    for (const auto& [name, x] : bulk) {
-      double eps = 1.0;
-      for (const auto& e : rx.efficiencies) {
-        if (mech.species[e.species].name == name) eps = e.eps;
-      }
-      eff += eps * x;
-    }
+    const double eff = third_body_weight(mech, rx, bulk);
     const int order = rx.rate_order();
     for (std::size_t j = 0; j < T.size(); ++j) {
       const double M = eff * air[j];

@@ -10,6 +10,7 @@
 
 #include "analysis/budget.hpp"
 #include "colchem/version.hpp"
+#include "core/column_state.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
 
@@ -133,15 +134,9 @@ void define_species(NcWriter& nc, const std::vector<std::string>& species) {
 void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
                         std::span<const double> n) {
   const std::size_t S = species.size();
-  const std::size_t N = bg.grid.cells();
-  std::vector<double> nd(S * N), f(S * N), col(S, 0.0);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) {
-      nd[s * N + j] = n[j * S + s];
-      f[s * N + j] = n[j * S + s] / bg.air_density_cm3[j];
-      col[s] += n[j * S + s] * bg.grid.width_cm(j);
-    }
-  }
+  const std::vector<double> nd = species_major(n, S);
+  const std::vector<double> f = mole_fractions(n, bg.air_density_cm3);
+  const std::vector<double> col = column_densities(n, S, bg.grid);
   nc.put_strings("species_name", species);
   nc.put("number_density", nd);
   nc.put("mole_fraction", f);

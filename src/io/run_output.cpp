@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "core/column_state.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/netcdf_file.hpp"
@@ -42,18 +43,13 @@ void write_snapshots(NcWriter& nc, const Background& bg, std::size_t S,
                      const std::vector<double>& times,
                      const std::vector<std::vector<double>>& snapshots) {
   if (snapshots.empty()) return;
-  const std::size_t N = bg.grid.cells();
   nc.put("snapshot", times);
   std::vector<double> snd, scol;
   for (const auto& x : snapshots) {
-    for (std::size_t s = 0; s < S; ++s) {
-      double col = 0.0;
-      for (std::size_t j = 0; j < N; ++j) {
-        snd.push_back(x[j * S + s]);
-        col += x[j * S + s] * bg.grid.width_cm(j);
-      }
-      scol.push_back(col);
-    }
+    const std::vector<double> nd = species_major(x, S);
+    const std::vector<double> col = column_densities(x, S, bg.grid);
+    snd.insert(snd.end(), nd.begin(), nd.end());
+    scol.insert(scol.end(), col.begin(), col.end());
   }
   nc.put("snapshot_number_density", snd);
   nc.put("snapshot_column_density", scol);

@@ -37,7 +37,7 @@ void load_planet(const ConfigNode& n, LoadContext& ctx) {
   } else if (mass) {
     const double m_g = mass->quantity(ctx.units, "g", "4.87e24 kg");
     if (m_g <= 0.0) mass->fail("a positive mass");
-    p.surface_gravity_cm_s2 = constants::kGravitational * m_g / (p.radius_cm * p.radius_cm);
+    p.surface_gravity_cm_s2 = surface_gravity_from_mass(m_g, p.radius_cm);
   } else {
     n.fail("'surface_gravity' or 'mass'", "neither");
   }

@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "core/column_state.hpp"
 #include "core/constants.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
@@ -19,7 +20,7 @@ std::vector<double> reaction_shares(const SensitivityResult& res) {
 namespace {
 
 /// The adjoint lambda, species-major (res.lambda is cell-major, [j*S + s]).
-NcField adjoint_field(const SensitivityResult& res, std::size_t S, std::size_t N,
+NcField adjoint_field(const SensitivityResult& res, std::size_t S,
                       const std::string& lambda_units) {
   NcField lam{"adjoint",
               {"species", "altitude"},
@@ -28,10 +29,7 @@ NcField adjoint_field(const SensitivityResult& res, std::size_t S, std::size_t N
                "s-1); 0 for held species",
                "",
                {}},
-              std::vector<double>(S * N)};
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) lam.data[s * N + j] = res.lambda[j * S + s];
-  }
+              species_major(res.lambda, S)};
   return lam;
 }
 
@@ -41,7 +39,7 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
                             const ColumnModel& model, std::span<const double> x,
                             const Objective& obj, const SensitivityResult& res,
                             const std::string& command_line) {
-  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t S = model.species_count();
   const std::size_t R = res.reactions.size(), P = res.parameters.size();
   const std::string g_units = obj.units.empty() ? "1" : obj.units;
   const std::string lambda_units = g_units == "1" ? "cm3 s" : g_units + " cm3 s";
@@ -97,7 +95,7 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
     pdG.data.push_back(p.dG);
     pls.data.push_back(p.log_sensitivity);
   }
-  const NcField lam = adjoint_field(res, S, N, lambda_units);
+  const NcField lam = adjoint_field(res, S, lambda_units);
   NcStateFile f;
   f.dimensions = {{"reaction", R}, {"parameter", P}};
   f.texts = {

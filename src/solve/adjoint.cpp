@@ -7,6 +7,7 @@
 #include <cmath>
 
 #include "analysis/score.hpp"
+#include "core/column_state.hpp"
 #include "core/error.hpp"
 #include "solve/ptc_linear_solver.hpp"
 
@@ -32,9 +33,9 @@ double evaluate(ColumnModel& model, const Objective& obj, std::span<const double
   double G = 0.0;
   switch (obj.kind) {
     case ObjectiveKind::kColumn:
-      for (std::size_t j = 0; j < N; ++j) {
-        G += x[j * S + obj.species] * bg.grid.width_cm(j);
-        if (want) grad[j * S + obj.species] = bg.grid.width_cm(j);
+      G = column_density(x, S, obj.species, bg.grid);
+      if (want) {
+        for (std::size_t j = 0; j < N; ++j) grad[j * S + obj.species] = bg.grid.width_cm(j);
       }
       return G;
     case ObjectiveKind::kMoleFraction: {
@@ -84,12 +85,7 @@ double evaluate(ColumnModel& model, const Objective& obj, std::span<const double
 }
 
 std::vector<double> net_stoichiometry(const Kinetics& kin, std::size_t r, std::size_t S) {
-  const Mechanism& mech = kin.mechanism();
-  const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
-  std::vector<double> nu(S, 0.0);
-  for (const auto& e : rx.reactants) nu[e.species] -= e.count;
-  for (const auto& e : rx.products) nu[e.species] += e.count;
-  return nu;
+  return colchem::net_stoichiometry(kin.mechanism().reactions[kin.mechanism_reaction(r)], S);
 }
 
 double log_sensitivity(double dG, double G, double p, bool log_parameter) {
@@ -102,12 +98,9 @@ double log_sensitivity(double dG, double G, double p, bool log_parameter) {
 std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
                                                        const ObservationSet& obs, bool log_space,
                                                        std::span<const double> x) {
-  const std::size_t S = model.species_count(), N = model.cells();
+  const std::size_t S = model.species_count();
   const Background& bg = model.background();
-  std::vector<double> f(S * N);
-  for (std::size_t s = 0; s < S; ++s) {
-    for (std::size_t j = 0; j < N; ++j) f[s * N + j] = x[j * S + s] / bg.air_density_cm3[j];
-  }
+  const std::vector<double> f = mole_fractions(x, bg.air_density_cm3);
   const auto scores = score_column(bg.grid.center_cm, model.species(), f, obs, 0);
   const auto& names = model.species();
   std::vector<ObservationResidual> out;

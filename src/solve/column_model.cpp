@@ -1,3 +1,4 @@
+// The column model, dn/dt = f_transport(n) + f_chemistry(n; J(n)): see solve/column_model.hpp.
 #include "solve/column_model.hpp"
 
 #include <algorithm>
@@ -383,8 +384,9 @@ ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) 
   for (std::size_t r = 0; r < R; ++r) {
     const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
     d.equations.push_back(rx.equation);
-    for (const auto& e : rx.reactants) d.net_stoichiometry[r * S + e.species] -= e.count;
-    for (const auto& e : rx.products) d.net_stoichiometry[r * S + e.species] += e.count;
+    const std::vector<double> nu = net_stoichiometry(rx, S);
+    std::copy(nu.begin(), nu.end(),
+              d.net_stoichiometry.begin() + static_cast<std::ptrdiff_t>(r * S));
   }
   for (std::size_t k = 0; k < terms.size(); ++k) {
     d.equations.push_back(exchange_equation(names_[terms[k].species], terms[k]));

@@ -7,6 +7,7 @@
 #include <cstdio>
 
 #include "core/error.hpp"
+#include "core/step_control.hpp"
 
 namespace colchem {
 
@@ -19,6 +20,16 @@ std::string sci(double v) {
   char buf[32];
   std::snprintf(buf, sizeof buf, "%.4g", v);
   return buf;
+}
+/// Times to land on exactly, in order, within (start, end].
+std::vector<double> stop_times(const SplitOptions& o) {
+  std::vector<double> stops;
+  for (double s : o.output_times_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  for (double s : o.breakpoints_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  stops.push_back(o.end_s);
+  std::sort(stops.begin(), stops.end());
+  stops.erase(std::unique(stops.begin(), stops.end()), stops.end());
+  return stops;
 }
 }  // namespace
 
@@ -47,10 +58,29 @@ bool SplitIntegrator::strang_step(std::vector<double>& x, double t, double dt,
   return true;
 }
 
+bool SplitIntegrator::try_step(const std::vector<double>& x, double t, double dt,
+                               const SplitCallbacks& cb, std::vector<double>& x1,
+                               std::vector<double>& x2, double& err) const {
+  const SplitOptions& o = options_;
+  const std::size_t S = system_.species;
+  x1 = x;
+  if (!o.adaptive) return strang_step(x1, t, dt, cb);
+  x2 = x;
+  if (!(strang_step(x1, t, dt, cb) && strang_step(x2, t, 0.5 * dt, cb) &&
+        strang_step(x2, t + 0.5 * dt, 0.5 * dt, cb))) {
+    return false;
+  }
+  err = StepController::doubling_error(x2.data(), x1.data(), x.size(), [&](std::size_t i) {
+    return o.relative_tolerance * (std::abs(x2[i]) + o.scale.absolute(i % S));
+  });
+  if (err > 1.0) return false;
+  std::swap(x1, x2);  // keep the more accurate two half steps
+  return true;
+}
+
 SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& cb) const {
   const auto t_start = Clock::now();
   const SplitOptions& o = options_;
-  const std::size_t S = system_.species;
   SplitResult res;
   if (x0.size() != system_.size()) {
     throw RunError(ExitCode::kInternal, "split integrator: state of wrong size");
@@ -61,13 +91,7 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
   res.steps = o.steps_before;
   res.snapshots = o.snapshots_before;
 
-  // Times to land on exactly, in order, within (start, end].
-  std::vector<double> stops;
-  for (double s : o.output_times_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
-  for (double s : o.breakpoints_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
-  stops.push_back(o.end_s);
-  std::sort(stops.begin(), stops.end());
-  stops.erase(std::unique(stops.begin(), stops.end()), stops.end());
+  const std::vector<double> stops = stop_times(o);
   auto is_output = [&](double t) {
     return std::find(o.output_times_s.begin(), o.output_times_s.end(), t) !=
            o.output_times_s.end();
@@ -104,24 +128,7 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
     if (hits_stop) dt = stop - t;
 
     double err = 0.0;
-    bool ok = false;
-    x1 = x;
-    if (!o.adaptive) {
-      ok = strang_step(x1, t, dt, cb);
-    } else {
-      x2 = x;
-      ok = strang_step(x1, t, dt, cb) && strang_step(x2, t, 0.5 * dt, cb) &&
-           strang_step(x2, t + 0.5 * dt, 0.5 * dt, cb);
-      if (ok) {
-        for (std::size_t i = 0; i < x.size(); ++i) {
-          const double e = std::abs(x2[i] - x1[i]) /
-                           (o.relative_tolerance * (std::abs(x2[i]) + o.scale.absolute(i % S)));
-          err = std::max(err, e);
-        }
-        ok = err <= 1.0;
-        if (ok) std::swap(x1, x2);  // keep the more accurate two half steps
-      }
-    }
+    const bool ok = try_step(x, t, dt, cb, x1, x2, err);
     if (!ok) {
       ++res.rejected_steps;
       dt_want = 0.5 * dt;
@@ -141,8 +148,8 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
     res.time_s = t_new;
     ++res.steps;
     if (o.adaptive) {
-      const double grow = err > 0.0 ? 0.9 * std::pow(err, -1.0 / 3.0) : 5.0;
-      const double next = dt * std::clamp(grow, 0.2, 5.0);
+      // Strang splitting is second order: the local error is O(dt^3).
+      const double next = dt * StepController{3, 0.9, 0.2, 5.0}.factor(err);
       // A step shortened to hit a stop says nothing about the step the error allows.
       dt_want = std::min(hits_stop ? std::max(next, dt_want) : next, o.max_step_s);
     }

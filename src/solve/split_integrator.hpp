@@ -106,6 +106,11 @@ class SplitIntegrator {
   [[nodiscard]] const ColumnSystem& system() const { return system_; }
 
  private:
+  /// One attempt at a step of dt from x: x1 gets the result; with adaptive steps x2 the
+  /// two half steps, err the step-doubling estimate, and the attempt fails where err > 1
+  /// (on success x1 holds the two half steps).
+  bool try_step(const std::vector<double>& x, double t, double dt, const SplitCallbacks& cb,
+                std::vector<double>& x1, std::vector<double>& x2, double& err) const;
   ColumnOperator& transport_;
   ColumnOperator& chemistry_;
   ColumnSystem system_;

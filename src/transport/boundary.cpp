@@ -1,3 +1,5 @@
+// Boundary conditions and the Jeans escape velocity: equations, units and sources in
+// transport/boundary.hpp.
 #include "transport/boundary.hpp"
 
 #include <algorithm>
@@ -40,11 +42,6 @@ double jeans_velocity(double m_g, double T_K, double r_cm, double planet_mass_g)
   const double U = std::sqrt(2.0 * kT / m_g);  // most probable speed
   const double lambda = constants::kGravitational * planet_mass_g * m_g / (kT * r_cm);
   return U / (2.0 * std::sqrt(constants::kPi)) * (1.0 + lambda) * std::exp(-lambda);
-}
-
-double planet_mass_g(const PlanetSpec& planet) {
-  return planet.surface_gravity_cm_s2 * planet.radius_cm * planet.radius_cm /
-         constants::kGravitational;
 }
 
 }  // namespace colchem

@@ -67,7 +67,4 @@ struct SpeciesBoundaries {
 /// radius r_cm from the centre of a planet of mass planet_mass_g.
 double jeans_velocity(double m_g, double T_K, double r_cm, double planet_mass_g);
 
-/// The planet's mass from its surface gravity and radius (M = g_s R^2 / G).
-double planet_mass_g(const PlanetSpec& planet);
-
 }  // namespace colchem

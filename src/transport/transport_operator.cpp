@@ -1,3 +1,5 @@
+// Eddy and molecular diffusion, boundary terms and the TR-BDF2 step: equations, units and
+// published sources in transport/transport_operator.hpp.
 #include "transport/transport_operator.hpp"
 
 #include <algorithm>
@@ -6,6 +8,7 @@
 #include <string>
 
 #include "core/constants.hpp"
+#include "core/ideal_gas.hpp"
 
 namespace colchem {
 
@@ -170,7 +173,7 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
     } else if (b.top.kind == BoundaryKind::kDiffusionLimited) {
       // Phi = b f / H_a = [b / (H_a n_a)] n on the top edge.
       const double T = bg.edge_temperature_K[N_];
-      const double H_a = k_B * T / (bg.molecule_mass_g * bg.edge_gravity_cm_s2[N_]);
+      const double H_a = scale_height(T, bg.molecule_mass_g, bg.edge_gravity_cm_s2[N_]);
       top_velocity_[s] = sp.binary_diffusion(T) / (H_a * edge_n_air_[N_]);
     }
 
@@ -231,6 +234,10 @@ double TransportOperator::boundary_velocity(std::size_t s, bool top, double t) c
   return v * h.cell / (v - h.edge);
 }
 
+TransportOperator::BoundaryTerms TransportOperator::boundary_terms(std::size_t s, double t) const {
+  return {boundary_velocity(s, false, t) / dz_[0], -boundary_velocity(s, true, t) / dz_[N_ - 1]};
+}
+
 double TransportOperator::boundary_edge_density(std::span<const double> n, double t, std::size_t s,
                                                 bool top) const {
   const BoundaryCondition& b = top ? bc_[s].top : bc_[s].bottom;
@@ -287,7 +294,7 @@ void TransportOperator::flux_of(std::span<const double> n, double t, std::size_t
       k += c.ghost_K * g;
       d += c.ghost_D * g;
       const double v = boundary_velocity(s, top, t);
-      other = imposed_flux(s, top, t) + v * at(top ? N_ - 1 : 0);
+      other = imposed_flux(s, top, t) + v * at(top ? N_ - 1 : 0);  // Phi = v_eff n_cell
     }
     total[e] = k + d + other;
     if (have_parts) {
@@ -302,6 +309,8 @@ void TransportOperator::add_tendency(std::span<const double> n, double t,
   for (std::size_t s = 0; s < S_; ++s) {
     if (species_[s].fixed) continue;
     flux_of(n, t, s, f_, {}, {});
+    // The velocity boundary terms enter through flux_of's Phi = v_eff n_cell: divided by dz
+    // here they are boundary_terms(s, t) times n_cell.
     for (std::size_t j = 0; j < N_; ++j) tendency[j * S_ + s] += (f_[j] - f_[j + 1]) / dz_[j];
   }
 }
@@ -315,8 +324,9 @@ void TransportOperator::add_jacobian(std::span<const double> /*n*/, double t,
       if (j > 0) jac.l(j, s) += lo_[s * N_ + j];
       if (j + 1 < N_) jac.u(j, s) += up_[s * N_ + j];
     }
-    jac.d(0, s, s) += boundary_velocity(s, false, t) / dz_[0];
-    jac.d(N_ - 1, s, s) -= boundary_velocity(s, true, t) / dz_[N_ - 1];
+    const BoundaryTerms bt = boundary_terms(s, t);
+    jac.d(0, s, s) += bt.bottom;
+    jac.d(N_ - 1, s, s) += bt.top;
   }
 }
 
@@ -394,13 +404,12 @@ bool TransportOperator::step_species(std::size_t s, std::span<double> n, double 
   const double* up = &up_[s * N];
   // Solves (I - c A(tau)) y = rhs in place.
   const auto solve = [&](double c, double tau, std::span<double> rhs) {
-    const double vb = boundary_velocity(s, false, tau) / dz_[0];
-    const double vt = -boundary_velocity(s, true, tau) / dz_[N - 1];
+    const BoundaryTerms bt = boundary_terms(s, tau);
     return thomas(
         N, [&](std::size_t j) { return -c * lo[j]; },
         [&](std::size_t j) {
-          double d = di[j] + (j == 0 ? vb : 0.0);
-          if (j == N - 1) d += vt;
+          double d = di[j] + (j == 0 ? bt.bottom : 0.0);
+          if (j == N - 1) d += bt.top;
           return 1.0 - c * d;
         },
         [&](std::size_t j) { return -c * up[j]; }, rhs, std::span<double>(cp_));
@@ -409,8 +418,9 @@ bool TransportOperator::step_species(std::size_t s, std::span<double> n, double 
 
   // Stage 1, trapezoidal rule over gamma dt.
   apply_A(s, y0_, yg_);
-  yg_[0] += boundary_velocity(s, false, t) / dz_[0] * y0_[0];
-  yg_[N - 1] -= boundary_velocity(s, true, t) / dz_[N - 1] * y0_[N - 1];
+  const BoundaryTerms bt0 = boundary_terms(s, t);
+  yg_[0] += bt0.bottom * y0_[0];
+  yg_[N - 1] += bt0.top * y0_[N - 1];
   source(s, t, r_);
   for (std::size_t j = 0; j < N; ++j) yg_[j] = y0_[j] + kD * dt * (yg_[j] + r_[j]);
   source(s, t + kGamma * dt, r_);
@@ -461,8 +471,7 @@ bool TransportOperator::steady_state(std::span<double> n, double t,
     const double* lo = &lo_[s * N_];
     const double* di = &di_[s * N_];
     const double* up = &up_[s * N_];
-    const double vb = boundary_velocity(s, false, t) / dz_[0];
-    const double vt = -boundary_velocity(s, true, t) / dz_[N_ - 1];
+    const BoundaryTerms bt = boundary_terms(s, t);
     source(s, t, r);
     for (std::size_t j = 0; j < N_; ++j) {
       rhs[j] = -r[j] - (production.empty() ? 0.0 : production[j * S_ + s]);
@@ -471,8 +480,8 @@ bool TransportOperator::steady_state(std::span<double> n, double t,
         N_, [&](std::size_t j) { return lo[j]; },
         [&](std::size_t j) {
           double d = di[j] - (first_order_loss.empty() ? 0.0 : first_order_loss[j * S_ + s]);
-          if (j == 0) d += vb;
-          if (j == N_ - 1) d += vt;
+          if (j == 0) d += bt.bottom;
+          if (j == N_ - 1) d += bt.top;
           return d;
         },
         [&](std::size_t j) { return up[j]; }, rhs, cp);

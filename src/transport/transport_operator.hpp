@@ -120,6 +120,14 @@ class TransportOperator final : public ColumnOperator {
   [[nodiscard]] double edge_velocity(std::size_t s, bool top, double t) const;
   /// The velocity that multiplies the boundary cell's density: Phi = v_eff n_cell.
   [[nodiscard]] double boundary_velocity(std::size_t s, bool top, double t) const;
+  /// The velocity boundary terms of A's diagonal at time t, the one place v_eff/dz is
+  /// formed (tendency, Jacobian, implicit step and steady solve all take it from here):
+  /// d(dn_0/dt)/dn_0 += bottom = v_eff,bottom/dz_0 and
+  /// d(dn_{N-1}/dt)/dn_{N-1} += top = -v_eff,top/dz_{N-1}.
+  struct BoundaryTerms {
+    double bottom = 0.0, top = 0.0;
+  };
+  [[nodiscard]] BoundaryTerms boundary_terms(std::size_t s, double t) const;
   /// The boundary-value part r of f = A n + r for species s at time t.
   void source(std::size_t s, double t, std::span<double> r) const;
   void flux_of(std::span<const double> n, double t, std::size_t s, std::span<double> total,

@@ -2,6 +2,7 @@
 // chemistry for 120 levels x 40 species x 150 reactions of a synthetic mechanism (random
 // uni- and bimolecular reactions with Arrhenius, JPL fall-off, Troe and photolysis laws).
 // Prints the time per column evaluation. Run: build/tests/bench/bench_chem
+#include <algorithm>
 #include <chrono>
 #include <cstdio>
 #include <memory>
@@ -108,8 +109,13 @@ int main() {
   }, 1000);
   const double t_r = seconds_per_call([&] { op.reaction_rates(n, rates); }, 2000);
   const double t_zero = seconds_per_call([&] { jac.zero(); }, 1000);
-  std::printf("synthetic mechanism: %zu levels x %zu species x %zu reactions, %zu Jacobian "
-              "non-zeros per cell\n", N, S, R, op.kinetics().jacobian_nonzeros());
+  const auto nonzeros = static_cast<std::size_t>(
+      std::count_if(jac.diag.begin(), jac.diag.begin() + static_cast<std::ptrdiff_t>(S * S),
+                    [](double v) { return v != 0.0; }));
+  std::printf(
+      "synthetic mechanism: %zu levels x %zu species x %zu reactions, %zu Jacobian "
+      "non-zeros in the first cell\n",
+      N, S, R, nonzeros);
   std::printf("rate constants (all reactions, all levels): %9.1f us\n", 1e6 * t_k);
   std::printf("tendencies P - L (column):                  %9.1f us  (%.1f ns per reaction-level)\n",
               1e6 * t_f, 1e9 * t_f / (N * R));
