@@ -342,7 +342,17 @@ BoxSpec load_box_config(const std::filesystem::path& file,
       box.photolysis.emplace_back(channel, J);
     }
   }
-  if (auto rep = b.find("report")) box.report = rep->text_list();
+  if (auto rep = b.find("report")) {
+    const std::vector<ConfigNode> items = rep->is_sequence() ? rep->items() : std::vector<ConfigNode>{*rep};
+    for (const auto& item : items) {
+      const std::string ref = item.text();
+      std::string why;
+      const auto r = m.find_reaction(ref, &why);
+      if (!r) item.fail("a reaction of the mechanism: its id (or its equation, when no other "
+                        "reaction has that equation)", why);
+      box.report.push_back(m.reactions[*r].id);
+    }
+  }
   b.done();
 
   if (auto s = root.find("solver")) {

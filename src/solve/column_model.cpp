@@ -383,11 +383,14 @@ ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) 
   for (std::size_t r = 0; r < R; ++r) {
     const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
     d.equations.push_back(rx.equation);
+    d.reaction_ids.push_back(rx.id);
     for (const auto& e : rx.reactants) d.net_stoichiometry[r * S + e.species] -= e.count;
     for (const auto& e : rx.products) d.net_stoichiometry[r * S + e.species] += e.count;
   }
   for (std::size_t k = 0; k < terms.size(); ++k) {
     d.equations.push_back(exchange_equation(names_[terms[k].species], terms[k]));
+    const bool held = terms[k].saturation == CondensationExchange::Saturation::kHeldProfile;
+    d.reaction_ids.push_back((held ? "held_" : "exchange_") + names_[terms[k].species]);
     d.net_stoichiometry[(R + k) * S + terms[k].species] = -1.0;
   }
   std::vector<double> rates(N * R);
