@@ -385,10 +385,11 @@ void add_rates_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     std::size_t skipped = 0;
     const auto rows = evaluate(pb, o->match, skipped);
     if (!o->match.empty() && rows.empty()) {
-      throw usage_error("--reaction",
-                        "the id of an active thermal reaction (as in the mechanism file) or part of its "
-                        "equation",
-                        fmt::format("no match for {}", fmt::join(o->match, ", ")));
+      throw usage_error(
+          "--reaction",
+          "the id of an active thermal reaction (as in the mechanism file) or part of its "
+          "equation",
+          fmt::format("no match for {}", fmt::join(o->match, ", ")));
     }
     if (o->csv == "-") {
       std::cout << csv_text(pb, rows);

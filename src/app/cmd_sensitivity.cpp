@@ -152,13 +152,13 @@ void print_sensitivities(const SensitivityCliOptions& o, const Objective& obj,
   const auto shares = reaction_shares(res);
   std::size_t id_w = 2;
   for (const auto& r : res.reactions) id_w = std::max(id_w, r.parameter.name.size());
-  std::cout << fmt::format("\n{:>4}  {:<{}} {:<40} {:>14} {:>8}\n", "rank", "id", id_w,
-                           "equation", "dlnG/dlnk", "share");
+  std::cout << fmt::format("\n{:>4}  {:<{}} {:<40} {:>14} {:>8}\n", "rank", "id", id_w, "equation",
+                           "dlnG/dlnk", "share");
   const auto order = ranked(res.reactions);
   for (std::size_t i = 0; i < std::min(o.top, order.size()); ++i) {
     const auto& r = res.reactions[order[i]];
-    std::cout << fmt::format("{:>4}  {:<{}} {:<40} {:>14.6g} {:>7.1f}%\n", i + 1,
-                             r.parameter.name, id_w, r.equation, r.log_sensitivity, 100.0 * shares[order[i]]);
+    std::cout << fmt::format("{:>4}  {:<{}} {:<40} {:>14.6g} {:>7.1f}%\n", i + 1, r.parameter.name,
+                             id_w, r.equation, r.log_sensitivity, 100.0 * shares[order[i]]);
   }
   std::cout << fmt::format("\n{:<34} {:>12} {:>14} {:>14}\n", "parameter", "value", "dG/dp",
                            "dlnG/dlnp");

@@ -67,7 +67,8 @@ std::optional<std::size_t> Mechanism::module_index(const std::string& n) const {
   return find_named(modules, n);
 }
 
-std::optional<std::size_t> Mechanism::find_reaction(const std::string& ref, std::string* why) const {
+std::optional<std::size_t> Mechanism::find_reaction(const std::string& ref,
+                                                    std::string* why) const {
   std::vector<std::size_t> same_equation;
   for (std::size_t r = 0; r < reactions.size(); ++r) {
     if (reactions[r].id == ref) return r;

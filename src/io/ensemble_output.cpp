@@ -310,8 +310,9 @@ std::string ensemble_summary_text(const EnsembleResults& r) {
     for (std::size_t k = 0; k < std::min<std::size_t>(3, order.size()); ++k) {
       const std::size_t i = order[k];
       if (!(a.share[i] > 0.0)) break;
-      out += fmt::format("      {:5.1f} %  S {:+.3g}  S sigma {:+.3g}  {}  {}\n", 100.0 * a.share[i],
-                         a.log_sensitivity[i], a.scaled[i], r.ids[i], r.equations[i]);
+      out +=
+          fmt::format("      {:5.1f} %  S {:+.3g}  S sigma {:+.3g}  {}  {}\n", 100.0 * a.share[i],
+                      a.log_sensitivity[i], a.scaled[i], r.ids[i], r.equations[i]);
     }
   }
   return out;

@@ -306,9 +306,10 @@ std::string read_id(const ConfigNode& node) {
                   std::isalpha(static_cast<unsigned char>(id[0])) != 0 &&
                   std::all_of(id.begin(), id.end(), allowed);
   if (!ok) {
-    node.fail(fmt::format("a reaction id: a letter, then at most {} letters, digits, '_', '.' or '-'",
-                          kMaxIdLength - 1),
-              "'" + id + "'");
+    node.fail(
+        fmt::format("a reaction id: a letter, then at most {} letters, digits, '_', '.' or '-'",
+                    kMaxIdLength - 1),
+        "'" + id + "'");
   }
   return id;
 }
@@ -399,7 +400,8 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   if (auto eff = item.find("third_body_weights")) {
     for (const auto& [name, v] : eff->entries()) {
       const auto s = m.species_index(name);
-      if (!s) v.fail("a declared species as a third-body weight key", "'" + name + "' in " + quoted(rx));
+      if (!s)
+        v.fail("a declared species as a third-body weight key", "'" + name + "' in " + quoted(rx));
       const double e = v.number();
       if (!(e >= 0.0)) v.fail("a non-negative third-body weight");
       rx.efficiencies.push_back(Efficiency{*s, e});
