@@ -365,9 +365,9 @@ void add_rates_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                   "altitudes (km); default five cells bottom to top");
   cmd->add_flag("--all-cells", o->all_cells, "Scenario column: every cell (best with --csv)");
   cmd->add_option("--bulk", o->bulk,
-                  "Bulk mole fractions weighting third-body efficiencies, "
+                  "Bulk mole fractions weighting the third-body weights, "
                   "NAME=x (default: the scenario's; with --mechanism every "
-                  "efficiency counts the whole air)");
+                  "weight counts the whole air)");
   cmd->add_option("--reaction", o->match,
                   "Only reactions whose id (as in the mechanism file) is this or whose "
                   "equation contains this text (repeatable)");

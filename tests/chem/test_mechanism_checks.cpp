@@ -123,7 +123,7 @@ TEST_CASE("reaction ids are required, short words and unique", "[chem][checks]")
   }
   // The longest id allowed (32 characters) and every allowed character.
   const auto longest =
-      load(with_reaction("      - id: abcdefghijklmnopqrstuvwxyz01234.-_\n"
+      load(with_reaction("      - id: abcdefghijklmnopqrstuvwxyz012.-_\n"
                          "        equation: O3 + O -> O2 + O2\n"
                          "        rate: {arrhenius: {A: 1e-12}}\n"));
   CHECK(longest.message == "no error");

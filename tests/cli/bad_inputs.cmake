@@ -212,7 +212,7 @@ colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_r
 # 122), is 3.9e-41 exp(6830.6/160) = 1.354e-22 cm6 s-1 at 160 K: above the default
 # termolecular limit of 1e-22 (common practice, no source), below a widened 1e-21.
 set(COLD "--set=atmosphere.temperature={isothermal: 160 K}")
-set(TERMO_REFUSED "tellin.yaml:122:9: 'rate': expected a termolecular rate constant below 1e-22 cm6 s-1 for reaction 'SO3 \\+ 2 H2O -> H2SO4 \\+ H2O', found 1.354e-22 cm6 s-1 at T = 160.0 K, n_air = [0-9.e+]+ cm-3; limits are common practice, no source; a world that needs more sets chemistry.rate_limits.termolecular")
+set(TERMO_REFUSED "tellin.yaml:129:9: 'rate': expected a termolecular rate constant below 1e-22 cm6 s-1 for reaction 'SO3 \\+ 2 H2O -> H2SO4 \\+ H2O', found 1.354e-22 cm6 s-1 at T = 160.0 K, n_air = [0-9.e+]+ cm-3; limits are common practice, no source; a world that needs more sets chemistry.rate_limits.termolecular")
 colchem_cli_test(bad.rate_limit_cold_world 4 "${TERMO_REFUSED}"
   $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml ${COLD})
 colchem_cli_test(bad.rate_limit_cold_world_widened 0 "46 of 47 active reactions balanced"

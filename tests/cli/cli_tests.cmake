@@ -63,7 +63,7 @@ colchem_cli_test(box_equilibrium 0 "ClO +1\\.20177e\\+09"
 colchem_cli_test(box_ncdump 0 "number_density:units = \"cm-3\".*reaction_rate:units = \"cm-3 s-1\""
   sh -c "$<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml -o box_nc.nc >/dev/null 2>&1 && ncdump -h box_nc.nc | tr '\\n' ' '")
 colchem_cli_test(box_bad_mechanism 4
-  "unbalanced.yaml:12:19: 'modules.0.reactions.1.equation': expected a reaction balanced in every element.*'ClONO2 -> ClO' changing N -1, O -2"
+  "unbalanced.yaml:14:19: 'modules.0.reactions.1.equation': expected a reaction balanced in every element.*'ClONO2 -> ClO' changing N -1, O -2"
   $<TARGET_FILE:colchem> box ${CMAKE_SOURCE_DIR}/tests/chem/bad/box_unbalanced.yaml)
 colchem_cli_test(box_bad_parameter 3 "chemistry.modules.0': expected a module of mechanism 'clo-dimer', found unknown module 'dimmer'; did you mean 'dimer'"
   $<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml --set chemistry.modules=[dimmer])
