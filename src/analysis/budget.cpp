@@ -56,6 +56,7 @@ SpeciesBudget species_budget(const BudgetInputs& in, const std::string& species,
     BudgetTerm t;
     t.reaction = r;
     t.equation = in.equations[r];
+    if (r < in.reaction_ids.size()) t.id = in.reaction_ids[r];
     t.column = band_integral(in.edge_cm, contrib, lo, hi);
     for (std::size_t k = 0; k < nb; ++k) {
       t.bands.push_back(band_integral(in.edge_cm, contrib, band_edges_cm[k], band_edges_cm[k + 1]));
@@ -176,7 +177,7 @@ std::string format_species_budget(const SpeciesBudget& b, std::size_t top) {
       const auto& t = terms[i];
       r += fmt::format("  {:<5} {:6.1f}% {:12.4e}", i + 1, 100.0 * t.share, std::abs(t.column));
       for (double v : t.bands) r += fmt::format(" {:11.3e}", sense * v);
-      r += "  " + t.equation + "\n";
+      r += "  " + (t.id.empty() ? std::string() : t.id + "  ") + t.equation + "\n";
     }
     if (terms.size() > top) r += fmt::format("  ({} more)\n", terms.size() - top);
     return r;

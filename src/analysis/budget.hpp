@@ -27,6 +27,7 @@ namespace colchem {
 /// One reaction's contribution to a species' budget.
 struct BudgetTerm {
   std::size_t reaction = 0;
+  std::string id;
   std::string equation;
   double column = 0.0;               ///< nu <R> (cm^-2 s^-1), signed
   std::vector<double> bands;         ///< the same over each altitude band
@@ -53,6 +54,7 @@ struct BudgetInputs {
   std::vector<double> edge_cm;                  ///< N+1 cell edges
   std::vector<std::string> species;             ///< S
   std::vector<std::string> equations;           ///< R
+  std::vector<std::string> reaction_ids;        ///< R (may be empty: then no ids are shown)
   std::vector<double> net_stoichiometry;        ///< [r][s] products minus reactants
   std::vector<double> reaction_rate;            ///< [r][j] cm^-3 s^-1
   std::vector<double> transport_tendency;       ///< [s][j] cm^-3 s^-1

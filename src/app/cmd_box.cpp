@@ -37,6 +37,7 @@ void write_box(const BoxSpec& box, const BoxResult& res, const std::string& comm
                          "time",
                          {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
   nc.string_variable("species_name", "species", "species name");
+  nc.string_variable("reaction_id", "reaction", "reaction id as in the mechanism");
   nc.string_variable("reaction_equation", "reaction", "reaction equation");
   nc.variable("number_density", {"time", "species"}, NcVarAttrs{"cm-3", "number density", "", {}});
   nc.variable("mole_fraction", {"time", "species"}, NcVarAttrs{"1", "mole fraction", "", {}});
@@ -48,10 +49,12 @@ void write_box(const BoxSpec& box, const BoxResult& res, const std::string& comm
                                      "of its reactants, per unit coefficient)", "", {}});
   nc.end_definitions();
   nc.put("time", res.times_s);
-  std::vector<std::string> names, eqs;
+  std::vector<std::string> names, ids, eqs;
   for (const auto& sp : m.species) names.push_back(sp.name);
+  for (auto r : res.reaction_index) ids.push_back(m.reactions[r].id);
   for (auto r : res.reaction_index) eqs.push_back(m.reactions[r].equation);
   nc.put_strings("species_name", names);
+  nc.put_strings("reaction_id", ids);
   nc.put_strings("reaction_equation", eqs);
   nc.put("number_density", res.n_cm3);
   std::vector<double> x(res.n_cm3);
@@ -98,14 +101,16 @@ void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
       std::cout << fmt::format("  {:<14} {:12.5e} {:12.5e}\n", m.species[s].name, v, v / box.air_cm3);
     }
     if (!box.report.empty()) std::cout << "reaction rates at the end (cm-3 s-1):\n";
-    for (const auto& eq : box.report) {
+    for (const auto& id : box.report) {
+      const std::size_t mi = *m.find_reaction(id);  // checked by the loader
+      const std::string label = id + "  " + m.reactions[mi].equation;
       bool found = false;
       for (std::size_t r = 0; r < R; ++r) {
-        if (m.reactions[res.reaction_index[r]].equation != eq) continue;
+        if (res.reaction_index[r] != mi) continue;
         found = true;
-        std::cout << fmt::format("  {:<36} {:12.5e}\n", eq, res.rates[last * R + r]);
+        std::cout << fmt::format("  {:<48} {:12.5e}\n", label, res.rates[last * R + r]);
       }
-      if (!found) std::cout << fmt::format("  {:<36} (not an active reaction)\n", eq);
+      if (!found) std::cout << fmt::format("  {:<48} (not an active reaction)\n", label);
     }
     ctx.log->info("wrote {}", box.output_file.string());
     return 0;

@@ -234,6 +234,7 @@ EnsembleResults ensemble_results(const EnsembleCliOptions& o, const ColumnModel&
   res.above_km = o.above_km;
   res.z = z;
   for (const auto& rx : mech.reactions) {
+    res.ids.push_back(rx.id);
     res.equations.push_back(rx.equation);
     res.f298.push_back(rx.uncertainty.f298);
     res.g_K.push_back(rx.uncertainty.g_K);

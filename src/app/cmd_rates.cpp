@@ -272,7 +272,7 @@ std::vector<RateRow> evaluate(const RatesProblem& pb, const std::vector<std::str
       continue;
     }
     RateRow row;
-    row.id = fmt::format("k{}", mi + 1);
+    row.id = rx.id;
     row.equation = rx.equation;
     if (!match.empty() && std::none_of(match.begin(), match.end(), [&](const std::string& m) {
           return row.id == m || row.equation.find(m) != std::string::npos;
@@ -310,11 +310,12 @@ std::string csv_text(const RatesProblem& pb, const std::vector<RateRow>& rows) {
 }
 
 std::string table_text(const RatesProblem& pb, const std::vector<RateRow>& rows) {
-  std::size_t eq_w = 8;
+  std::size_t eq_w = 8, id_w = 2;
   for (const auto& r : rows) eq_w = std::max(eq_w, std::min<std::size_t>(r.equation.size(), 44));
+  for (const auto& r : rows) id_w = std::max(id_w, r.id.size());
   std::string head1 =
-      fmt::format("{:<6} {:<{}} {:<19} {:<8}", "id", "equation", eq_w, "form", "units");
-  std::string head2 = fmt::format("{:<{}}", "", 6 + 1 + eq_w + 1 + 19 + 1 + 8);
+      fmt::format("{:<{}} {:<{}} {:<19} {:<8}", "id", id_w, "equation", eq_w, "form", "units");
+  std::string head2 = fmt::format("{:<{}}", "", id_w + 1 + eq_w + 1 + 19 + 1 + 8);
   std::string head3 = head2;
   for (const auto& c : pb.conditions) {
     const double p_pa = pressure_pa(c);
@@ -327,7 +328,7 @@ std::string table_text(const RatesProblem& pb, const std::vector<RateRow>& rows)
   std::string out = head1 + "\n" + head2 + "\n" + head3 + "  (air, cm-3)\n";
   for (const auto& r : rows) {
     std::string eq = r.equation.size() > eq_w ? r.equation.substr(0, eq_w - 1) + "~" : r.equation;
-    out += fmt::format("{:<6} {:<{}} {:<19} {:<8}", r.id, eq, eq_w, r.form, r.units);
+    out += fmt::format("{:<{}} {:<{}} {:<19} {:<8}", r.id, id_w, eq, eq_w, r.form, r.units);
     for (double v : r.k) out += fmt::format(" {:>12.4e}", v);
     out += "\n";
   }
@@ -365,11 +366,11 @@ void add_rates_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                   "altitudes (km); default five cells bottom to top");
   cmd->add_flag("--all-cells", o->all_cells, "Scenario column: every cell (best with --csv)");
   cmd->add_option("--bulk", o->bulk,
-                  "Bulk mole fractions weighting third-body efficiencies, "
+                  "Bulk mole fractions weighting the third-body weights, "
                   "NAME=x (default: the scenario's; with --mechanism every "
-                  "efficiency counts the whole air)");
+                  "weight counts the whole air)");
   cmd->add_option("--reaction", o->match,
-                  "Only reactions whose id (k12) is this or whose "
+                  "Only reactions whose id (as in the mechanism file) is this or whose "
                   "equation contains this text (repeatable)");
   cmd->add_option("--csv", o->csv,
                   "Write CSV (one row per reaction and condition) to this file; "
@@ -385,10 +386,11 @@ void add_rates_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
     std::size_t skipped = 0;
     const auto rows = evaluate(pb, o->match, skipped);
     if (!o->match.empty() && rows.empty()) {
-      throw usage_error("--reaction",
-                        "an id (k1, k2, ...) or part of an active thermal reaction's "
-                        "equation",
-                        fmt::format("no match for {}", fmt::join(o->match, ", ")));
+      throw usage_error(
+          "--reaction",
+          "the id of an active thermal reaction (as in the mechanism file) or part of its "
+          "equation",
+          fmt::format("no match for {}", fmt::join(o->match, ", ")));
     }
     if (o->csv == "-") {
       std::cout << csv_text(pb, rows);

@@ -54,18 +54,22 @@ std::size_t species_of(const ColumnModel& model, const std::string& name, const 
   return static_cast<std::size_t>(it - names.begin());
 }
 
-/// The reaction given as "k12" (12th reaction of the mechanism file) or as its equation.
+/// The reaction given by its id, or by its equation when no other reaction has that equation.
 std::size_t reaction_of(const ColumnModel& model, const std::string& text, const Scenario& sc) {
   const Kinetics& kin = model.chemistry().kinetics();
-  for (std::size_t r = 0; r < kin.reaction_count(); ++r) {
-    const std::size_t m = kin.mechanism_reaction(r);
-    if (text == fmt::format("k{}", m + 1) || text == kin.mechanism().reactions[m].equation)
-      return r;
+  std::string why = "none";
+  if (!text.empty()) {
+    if (const auto m = kin.mechanism().find_reaction(text, &why)) {
+      for (std::size_t r = 0; r < kin.reaction_count(); ++r) {
+        if (kin.mechanism_reaction(r) == *m) return r;
+      }
+      why = "'" + text + "', a reaction of a module that is off";
+    }
   }
   throw InputError(ExitCode::kUsage, SourceLocation{sc.file.string()}, "--reaction",
-                   "an active reaction as kN (N its 1-based number in the mechanism file) or "
-                   "its equation as written there",
-                   text.empty() ? std::string("none") : "'" + text + "'");
+                   "an active reaction: its id in the mechanism file (or its equation, when no "
+                   "other reaction has that equation)",
+                   why);
 }
 
 std::vector<std::size_t> ranked(const std::vector<SensitivityRow>& rows) {
@@ -146,13 +150,15 @@ void print_sensitivities(const SensitivityCliOptions& o, const Objective& obj,
                                : fmt::format("assembled over {} columns", res.absorber_columns),
       res.photolysis_jacobian_s, res.solve_s, res.krylov_iterations, res.parameters_s);
   const auto shares = reaction_shares(res);
-  std::cout << fmt::format("\n{:>4}  {:<7} {:<40} {:>14} {:>8}\n", "rank", "id", "equation",
+  std::size_t id_w = 2;
+  for (const auto& r : res.reactions) id_w = std::max(id_w, r.parameter.name.size());
+  std::cout << fmt::format("\n{:>4}  {:<{}} {:<40} {:>14} {:>8}\n", "rank", "id", id_w, "equation",
                            "dlnG/dlnk", "share");
   const auto order = ranked(res.reactions);
   for (std::size_t i = 0; i < std::min(o.top, order.size()); ++i) {
     const auto& r = res.reactions[order[i]];
-    std::cout << fmt::format("{:>4}  {:<7} {:<40} {:>14.6g} {:>7.1f}%\n", i + 1, r.parameter.name,
-                             r.equation, r.log_sensitivity, 100.0 * shares[order[i]]);
+    std::cout << fmt::format("{:>4}  {:<{}} {:<40} {:>14.6g} {:>7.1f}%\n", i + 1, r.parameter.name,
+                             id_w, r.equation, r.log_sensitivity, 100.0 * shares[order[i]]);
   }
   std::cout << fmt::format("\n{:<34} {:>12} {:>14} {:>14}\n", "parameter", "value", "dG/dp",
                            "dlnG/dlnp");
@@ -312,8 +318,8 @@ void add_sensitivity_command(CLI::App& app, std::vector<std::pair<CLI::App*, Com
   cmd->add_option("--altitude", o->altitude_km,
                   "Altitude in km of a mole_fraction objective (inside the cell centres)");
   cmd->add_option("--reaction", o->reaction,
-                  "Reaction of a rate objective: kN (its number in the mechanism file) or "
-                  "its equation");
+                  "Reaction of a rate objective: its id in the mechanism file (or its "
+                  "equation when no other reaction has it)");
   cmd->add_option("--observations", o->observations,
                   "Observation file of a chi2 objective (default: the scenario's "
                   "`observations`)")

@@ -88,6 +88,27 @@ std::optional<std::size_t> Mechanism::module_index(const std::string& n) const {
   return find_named(modules, n);
 }
 
+std::optional<std::size_t> Mechanism::find_reaction(const std::string& ref,
+                                                    std::string* why) const {
+  std::vector<std::size_t> same_equation;
+  for (std::size_t r = 0; r < reactions.size(); ++r) {
+    if (reactions[r].id == ref) return r;
+    if (reactions[r].equation == ref) same_equation.push_back(r);
+  }
+  if (same_equation.size() == 1) return same_equation.front();
+  if (why != nullptr) {
+    if (same_equation.empty()) {
+      *why = "no reaction with id or equation '" + ref + "'";
+    } else {
+      std::string ids;
+      for (const auto r : same_equation) ids += (ids.empty() ? "'" : ", '") + reactions[r].id + "'";
+      *why = "'" + ref + "', the equation of " + std::to_string(same_equation.size()) +
+             " reactions: give one of the ids " + ids;
+    }
+  }
+  return std::nullopt;
+}
+
 std::vector<double> Mechanism::default_parameters() const {
   std::vector<double> v;
   v.reserve(parameters.size());

@@ -63,7 +63,8 @@ struct RateUncertainty {
 };
 
 struct Reaction {
-  std::string equation;                          ///< as written in the file
+  std::string id;        ///< short, unique in the mechanism; names the reaction to the user
+  std::string equation;  ///< as written in the file
   std::vector<StoichEntry> reactants, products;  ///< without M and hv
   bool third_body = false;                       ///< "+ M" on both sides
   bool photon = false;                           ///< "hv" among the reactants
@@ -72,7 +73,6 @@ struct Reaction {
   std::vector<ScaleFactor> scale;
   std::string source;
   RateUncertainty uncertainty;  ///< stated, or default_uncertainty() after loading
-  bool duplicate = false;
   bool sink = false;  ///< no products; exempt from element balance
   std::size_t module = 0;
   SourceLocation where;
@@ -129,6 +129,11 @@ struct Mechanism {
   [[nodiscard]] std::optional<std::size_t> species_index(const std::string& name) const;
   [[nodiscard]] std::optional<std::size_t> parameter_index(const std::string& name) const;
   [[nodiscard]] std::optional<std::size_t> module_index(const std::string& name) const;
+  /// The reaction a user names: its id, or its equation as written in the file when exactly
+  /// one reaction has that equation. Otherwise nullopt, and `why` (if given) says what was
+  /// found: the ids to choose from for an equation several reactions share.
+  [[nodiscard]] std::optional<std::size_t> find_reaction(const std::string& ref,
+                                                         std::string* why = nullptr) const;
   [[nodiscard]] std::vector<double> default_parameters() const;
   /// The reaction as "A + B -> C" rebuilt from the typed data (for summaries).
   [[nodiscard]] std::string equation_text(std::size_t reaction) const;

@@ -343,7 +343,21 @@ BoxSpec load_box_config(const std::filesystem::path& file,
       box.photolysis.emplace_back(channel, J);
     }
   }
-  if (auto rep = b.find("report")) box.report = rep->text_list();
+  if (auto rep = b.find("report")) {
+    const std::vector<ConfigNode> items =
+        rep->is_sequence() ? rep->items() : std::vector<ConfigNode>{*rep};
+    for (const auto& item : items) {
+      const std::string ref = item.text();
+      std::string why;
+      const auto r = m.find_reaction(ref, &why);
+      if (!r)
+        item.fail(
+            "a reaction of the mechanism: its id (or its equation, when no other "
+            "reaction has that equation)",
+            why);
+      box.report.push_back(m.reactions[*r].id);
+    }
+  }
   b.done();
 
   if (auto s = root.find("solver")) {
@@ -402,7 +416,8 @@ std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec
     if (verbose) {
       for (auto r : md.reactions) {
         const Reaction& rx = mech.reactions[r];
-        out += fmt::format("      {:<40} {}{}\n", rx.equation, rate_form_name(rx.rate.form),
+        out += fmt::format("      {:<20} {:<40} {}{}\n", rx.id, rx.equation,
+                           rate_form_name(rx.rate.form),
                            rx.source.empty() ? "" : "  [" + rx.source + "]");
       }
     }

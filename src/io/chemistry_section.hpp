@@ -56,7 +56,7 @@ struct BoxSpec {
   std::map<std::string, double> bulk_mole_fraction;
   std::vector<double> initial_cm3;  ///< per species (mechanism order)
   std::vector<std::pair<std::string, double>> photolysis;  ///< channel, J (s^-1)
-  std::vector<std::string> report;  ///< reactions (equations) whose rates the summary prints
+  std::vector<std::string> report;  ///< reactions (ids) whose rates the summary prints
   ChemistrySpec chemistry;
   StiffOptions solver;
   std::filesystem::path output_file;

@@ -47,6 +47,7 @@ void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleRes
   std::vector<Field> fields;
   std::vector<TextField> texts;
   texts.push_back({"species_name", "species", "species name (colchem notation)", {r.species}});
+  texts.push_back({"reaction_id", "reaction", "reaction id as in the mechanism", {r.ids}});
   texts.push_back({"reaction_equation", "reaction", "reaction of the mechanism", {r.equations}});
   texts.push_back({"member_status", "member", "solver outcome of the member", {r.reasons}});
   Field pct{"percentile", {"percentile"}, {"1", "percentile of the members (percent)", "", {}}, {}};
@@ -336,8 +337,9 @@ std::string ensemble_summary_text(const EnsembleResults& r) {
     for (std::size_t k = 0; k < std::min<std::size_t>(3, order.size()); ++k) {
       const std::size_t i = order[k];
       if (!(a.share[i] > 0.0)) break;
-      out += fmt::format("      {:5.1f} %  S {:+.3g}  S sigma {:+.3g}  {}\n", 100.0 * a.share[i],
-                         a.log_sensitivity[i], a.scaled[i], r.equations[i]);
+      out +=
+          fmt::format("      {:5.1f} %  S {:+.3g}  S sigma {:+.3g}  {}  {}\n", 100.0 * a.share[i],
+                      a.log_sensitivity[i], a.scaled[i], r.ids[i], r.equations[i]);
     }
   }
   return out;

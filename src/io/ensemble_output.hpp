@@ -45,7 +45,7 @@ struct EnsembleResults {
   double sigmas = 1.0;
   double above_km = 90.0;
   // Reactions of the mechanism (all modules), with their uncertainty.
-  std::vector<std::string> equations;
+  std::vector<std::string> ids, equations;
   std::vector<double> f298, g_K;
   std::vector<int> stated;
   std::vector<double> z;  ///< [member][reaction] standard normal draws

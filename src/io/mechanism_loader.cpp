@@ -271,15 +271,6 @@ void read_units(const ConfigNode& u, Reaction& rx, const UnitSystem& units) {
   convert_law(law, *f, f3);
 }
 
-std::string multiset_key(const std::vector<StoichEntry>& v) {
-  std::vector<std::pair<std::size_t, int>> s;
-  for (const auto& e : v) s.emplace_back(e.species, e.count);
-  std::sort(s.begin(), s.end());
-  std::string k;
-  for (auto [sp, c] : s) k += std::to_string(c) + "*" + std::to_string(sp) + ";";
-  return k;
-}
-
 void merge(std::vector<StoichEntry>& v, std::size_t s, int count) {
   for (auto& e : v) {
     if (e.species == s) {
@@ -290,11 +281,52 @@ void merge(std::vector<StoichEntry>& v, std::size_t s, int count) {
   v.push_back(StoichEntry{s, count});
 }
 
+// Keys of earlier versions of the schema, each refused with what replaces it.
+void refuse_renamed_keys(const ConfigNode& item) {
+  if (auto d = item.find("duplicate")) {
+    d->fail("no `duplicate` key: reactions with one equation are told apart by their `id`s",
+            "`duplicate`", "remove it and give each reaction its own `id`");
+  }
+  if (auto e = item.find("efficiencies")) {
+    e->fail("`third_body_weights` (`efficiencies` was renamed `third_body_weights`)",
+            "`efficiencies`", "rename the key; the map (species -> weight) is unchanged");
+  }
+}
+
+// A reaction id: a letter, then up to 31 letters, digits, '_', '.' or '-' (short enough for
+// a table column; common practice, no source).
+constexpr std::size_t kMaxIdLength = 32;
+
+std::string read_id(const ConfigNode& node) {
+  const std::string id = node.text();
+  const auto allowed = [](char ch) {
+    return std::isalnum(static_cast<unsigned char>(ch)) != 0 || ch == '_' || ch == '.' || ch == '-';
+  };
+  const bool ok = !id.empty() && id.size() <= kMaxIdLength &&
+                  std::isalpha(static_cast<unsigned char>(id[0])) != 0 &&
+                  std::all_of(id.begin(), id.end(), allowed);
+  if (!ok) {
+    node.fail(
+        fmt::format("a reaction id: a letter, then at most {} letters, digits, '_', '.' or '-'",
+                    kMaxIdLength - 1),
+        "'" + id + "'");
+  }
+  return id;
+}
+
 Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
                        const UnitSystem& units) {
   Reaction rx;
   rx.where = item.location();
   rx.module = module;
+  refuse_renamed_keys(item);
+  const auto id = item.find("id");
+  if (!id) {
+    const auto eq = item.find("equation");
+    item.fail("an `id` for every reaction (short and unique in the file, e.g. 'o_o3')",
+              eq ? "none for '" + trim(eq->text()) + "'" : std::string("none"));
+  }
+  rx.id = read_id(*id);
   const auto eqn = item.child("equation");
   rx.equation = trim(eqn.text());
   const auto arrow = rx.equation.find("->");
@@ -326,7 +358,6 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   const auto rate = item.child("rate");
   rx.rate = read_law(rate, false);
   if (auto s = item.find("source")) rx.source = s->text();
-  if (auto d = item.find("duplicate")) rx.duplicate = d->boolean();
   if (auto s = item.find("sink")) rx.sink = s->boolean();
   if (auto u = item.find("uncertainty")) {
     const auto f = u->child("f298");
@@ -366,12 +397,13 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   rate.done();
   if (!rx.uncertainty.stated) rx.uncertainty = default_uncertainty(rx);
 
-  if (auto eff = item.find("efficiencies")) {
+  if (auto eff = item.find("third_body_weights")) {
     for (const auto& [name, v] : eff->entries()) {
       const auto s = m.species_index(name);
-      if (!s) v.fail("a declared species as an efficiency key", "'" + name + "' in " + quoted(rx));
+      if (!s)
+        v.fail("a declared species as a third-body weight key", "'" + name + "' in " + quoted(rx));
       const double e = v.number();
-      if (!(e >= 0.0)) v.fail("a non-negative efficiency");
+      if (!(e >= 0.0)) v.fail("a non-negative third-body weight");
       rx.efficiencies.push_back(Efficiency{*s, e});
     }
   }
@@ -452,16 +484,14 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
     m->modules.push_back(mod);
     for (const auto& ri : item.child("reactions").items()) {
       Reaction rx = read_reaction(ri, *m, index, units);
-      const std::string key = multiset_key(rx.reactants) + ">" + multiset_key(rx.products);
       m->modules[index].reactions.push_back(m->reactions.size());
-      if (auto it = seen.find(key);
-          it != seen.end() && !rx.duplicate && !m->reactions[it->second].duplicate) {
+      if (const auto it = seen.find(rx.id); it != seen.end()) {
         const Reaction& first = m->reactions[it->second];
-        ri.child("equation").fail("a reaction listed once (or `duplicate: true`)",
-                                  quoted(rx) + ", already at line " + std::to_string(first.where.line) +
-                                      " as '" + first.equation + "'");
+        ri.child("id").fail("a reaction id used once",
+                            "'" + rx.id + "' for " + quoted(rx) + ", already at line " +
+                                std::to_string(first.where.line) + " for '" + first.equation + "'");
       }
-      seen[key] = m->reactions.size();
+      seen[rx.id] = m->reactions.size();
       m->reactions.push_back(std::move(rx));
     }
     item.done();

@@ -3,9 +3,10 @@
 //
 // Every check raises an InputError (ExitCode::kInputData) naming the file, the line and the
 // reaction's equation: element balance (sinks exempt; hv and M ignored), undeclared
-// species, duplicate reactions without `duplicate: true`, rate units against the order,
+// species, reaction ids (required, a short word, unique), rate units against the order,
 // unknown parameter names in `scale`, parameter defaults outside [min, max], photolysis
-// without hv, unknown keys. check_rates() adds the checks that need a column: negative,
+// without hv, unknown keys and the renamed keys of earlier schemas (`duplicate`,
+// `efficiencies`). check_rates() adds the checks that need a column: negative,
 // NaN or absurd rate constants at its temperatures and densities (limits: RateLimits,
 // chem/mechanism.hpp, widened in a scenario's or box's `chemistry.rate_limits`).
 #pragma once

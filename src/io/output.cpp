@@ -269,6 +269,8 @@ namespace colchem {
 
 void define_reactions(NcWriter& nc, std::size_t reactions) {
   nc.dimension("reaction", reactions);
+  nc.string_variable("reaction_id", "reaction",
+                     "reaction id as in the mechanism (exchange terms: exchange_X, held_X)");
   nc.string_variable("reaction_equation", "reaction", "reaction as written in the mechanism");
   nc.variable("net_stoichiometry", {"reaction", "species"},
               {"1", "net stoichiometric coefficient (products minus reactants)", "", {}});
@@ -283,6 +285,7 @@ void define_reactions(NcWriter& nc, std::size_t reactions) {
 }
 
 void write_reaction_data(NcWriter& nc, const ReactionData& d) {
+  nc.put_strings("reaction_id", d.ids);
   nc.put_strings("reaction_equation", d.equations);
   nc.put("net_stoichiometry", d.net_stoichiometry);
   nc.put("reaction_rate", d.rate);
@@ -304,6 +307,10 @@ BudgetInputs read_budget_inputs(const NcReader& nc) {
   read_grid(nc, unused, in.edge_cm, false);
   in.species = read_names(nc, "species_name", "species");
   in.equations = read_names(nc, "reaction_equation", "reaction");
+  // Run files written before reactions had ids have no reaction_id: the tables then show
+  // the equations alone.
+  if (nc.has_variable("reaction_id")) in.reaction_ids = read_names(nc, "reaction_id", "reaction");
+  in.reaction_ids.resize(in.equations.size());
   const std::size_t S = in.species.size(), N = in.edge_cm.size() - 1, R = in.equations.size();
   in.net_stoichiometry = read_shaped(nc, "net_stoichiometry", {R, S}, "reaction, species");
   in.reaction_rate = read_shaped(nc, "reaction_rate", {R, N}, "reaction, altitude");

@@ -84,12 +84,14 @@ struct ModelColumn {
 };
 ModelColumn read_model_column(const NcReader& nc);
 
-/// Reaction diagnostics: `reaction_equation(reaction)`, `net_stoichiometry(reaction, species)`
-/// (products minus reactants), `reaction_rate(reaction, altitude)` (cm-3 s-1) and the
-/// tendencies `chemical_tendency`, `transport_tendency`, `net_tendency` (species, altitude)
-/// in cm-3 s-1. Arrays: rates [r][j], stoichiometry [r][s], tendencies [s][j].
+/// Reaction diagnostics: `reaction_id(reaction)`, `reaction_equation(reaction)`,
+/// `net_stoichiometry(reaction, species)` (products minus reactants), `reaction_rate(reaction,
+/// altitude)` (cm-3 s-1) and the tendencies `chemical_tendency`, `transport_tendency`,
+/// `net_tendency` (species, altitude) in cm-3 s-1. Arrays: rates [r][j], stoichiometry [r][s],
+/// tendencies [s][j].
 void define_reactions(NcWriter& nc, std::size_t reactions);
 struct ReactionData {
+  std::vector<std::string> ids;
   std::vector<std::string> equations;
   std::vector<double> net_stoichiometry;
   std::vector<double> rate;

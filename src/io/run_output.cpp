@@ -18,6 +18,7 @@ BudgetInputs budget_inputs(const ColumnModel& model, const ColumnDiagnostics& d)
   in.edge_cm = model.background().grid.edge_cm;
   in.species = model.species();
   in.equations = d.equations;
+  in.reaction_ids = d.reaction_ids;
   in.net_stoichiometry = d.net_stoichiometry;
   in.reaction_rate = d.reaction_rate;
   in.transport_tendency = d.transport_tendency;
@@ -171,8 +172,8 @@ void write_run_file(const std::filesystem::path& file, const Scenario& sc, Colum
   write_background_data(nc, bg);
   if (chem) {
     write_species_data(nc, bg, model.species(), o.x);
-    write_reaction_data(nc, {d.equations, d.net_stoichiometry, d.reaction_rate, d.chemical_tendency,
-                             d.transport_tendency, d.net_tendency});
+    write_reaction_data(nc, {d.reaction_ids, d.equations, d.net_stoichiometry, d.reaction_rate,
+                             d.chemical_tendency, d.transport_tendency, d.net_tendency});
     std::vector<double> heldv;
     for (std::size_t s = 0; s < S; ++s) heldv.push_back(model.held(s) ? 1.0 : 0.0);
     nc.put("held_fixed", heldv);

@@ -99,8 +99,7 @@ void write_sensitivity_file(const std::filesystem::path& file, const Scenario& s
   NcStateFile f;
   f.dimensions = {{"reaction", R}, {"parameter", P}};
   f.texts = {
-      {"reaction_id", "reaction",
-       "reaction identifier (k and its 1-based number in the mechanism file)", ids},
+      {"reaction_id", "reaction", "reaction id, as in the mechanism file", ids},
       {"reaction_equation", "reaction", "reaction equation as written in the mechanism", eqs},
       {"parameter_name", "parameter", "parameter", pn},
       {"parameter_description", "parameter", "what the parameter is", pd}};

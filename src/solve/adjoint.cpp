@@ -275,7 +275,7 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
     row.parameter.kind = ParameterKind::kReaction;
     row.parameter.index = r;
     row.parameter.value = 1.0;
-    row.parameter.name = fmt::format("k{}", kin.mechanism_reaction(r) + 1);
+    row.parameter.name = mech.reactions[kin.mechanism_reaction(r)].id;
     row.equation = mech.reactions[kin.mechanism_reaction(r)].equation;
     for (std::size_t j = 0; j < N; ++j) {
       const double Rj = rates[j * R + r];

@@ -384,12 +384,15 @@ ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) 
   for (std::size_t r = 0; r < R; ++r) {
     const Reaction& rx = mech.reactions[kin.mechanism_reaction(r)];
     d.equations.push_back(rx.equation);
+    d.reaction_ids.push_back(rx.id);
     const std::vector<double> nu = net_stoichiometry(rx, S);
     std::copy(nu.begin(), nu.end(),
               d.net_stoichiometry.begin() + static_cast<std::ptrdiff_t>(r * S));
   }
   for (std::size_t k = 0; k < terms.size(); ++k) {
     d.equations.push_back(exchange_equation(names_[terms[k].species], terms[k]));
+    const bool held = terms[k].saturation == CondensationExchange::Saturation::kHeldProfile;
+    d.reaction_ids.push_back((held ? "held_" : "exchange_") + names_[terms[k].species]);
     d.net_stoichiometry[(R + k) * S + terms[k].species] = -1.0;
   }
   std::vector<double> rates(N * R);

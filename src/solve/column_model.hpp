@@ -32,6 +32,7 @@ namespace colchem {
 /// Reaction-level diagnostics of one state (arrays as in io/output.hpp ReactionData).
 struct ColumnDiagnostics {
   std::vector<std::string> equations;       ///< active reactions, then exchange terms
+  std::vector<std::string> reaction_ids;    ///< the same by id (exchange terms: exchange_X, held_X)
   std::vector<double> net_stoichiometry;    ///< [r][s]
   std::vector<double> reaction_rate;        ///< [r][j]
   std::vector<double> chemical_tendency;    ///< [s][j]

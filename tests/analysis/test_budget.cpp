@@ -16,6 +16,7 @@ BudgetInputs column() {
   in.edge_cm = {0.0, 1e5, 2e5};
   in.species = {"O3", "O", "O2"};
   in.equations = {"O2 + hv -> 2 O", "O + O2 + M -> O3 + M", "O + O3 -> 2 O2"};
+  in.reaction_ids = {"o2_photo", "o_o2_m", "o_o3"};
   in.net_stoichiometry = {0, 2, -1, /**/ 1, -1, -1, /**/ -1, -1, 2};
   in.reaction_rate = {2, 4, /**/ 1, 3, /**/ 0.5, 0.5};
   // Transport: O3 [-0.5, -2.5] so that O3 is at steady state in both cells (by hand:
@@ -44,7 +45,9 @@ TEST_CASE("a species budget lists its reactions with shares and closes", "[budge
   CHECK(o.loss[0].reaction == 1);
   CHECK(o.loss[0].share == Approx(0.8));
   CHECK(o.loss[1].share == Approx(0.2));
-  CHECK(format_species_budget(o, 5).find("O + O2 + M -> O3 + M") != std::string::npos);
+  // Rows name the reaction by id, then equation (the id of r1, as set above).
+  CHECK(o.loss[0].id == "o_o2_m");
+  CHECK(format_species_budget(o, 5).find("o_o2_m  O + O2 + M -> O3 + M") != std::string::npos);
 }
 
 TEST_CASE("a budget that does not add up reports its closure error", "[budget]") {

@@ -80,11 +80,11 @@ species: [{name: O}, {name: O2}, {name: O3}, {name: N2, fixed: true}]
 modules:
   - name: base
     reactions:
-      - {equation: O + O2 + M -> O3 + M, rate: {arrhenius: {A: 6e-34, b: -2.4}}, source: JPL}
-      - {equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8e-12, E: 2060}}, source: JPL)" +
+      - {id: o_o2_m, equation: O + O2 + M -> O3 + M, rate: {arrhenius: {A: 6e-34, b: -2.4}}, source: JPL}
+      - {id: o_o3, equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8e-12, E: 2060}}, source: JPL)" +
                                    extra + R"(}
-      - {equation: O3 + hv -> O2 + O, rate: {photolysis: {channel: O3}}, source: JPL}
-      - {equation: O2 -> 2 O, rate: {first_order: {k: 1e-9}}, source: invented}
+      - {id: o3_photo, equation: O3 + hv -> O2 + O, rate: {photolysis: {channel: O3}}, source: JPL}
+      - {id: o2, equation: O2 -> 2 O, rate: {first_order: {k: 1e-9}}, source: invented}
 )",
                                "u.yaml", units);
   };

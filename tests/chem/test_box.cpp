@@ -40,7 +40,7 @@ species: [{name: O(1D)}, {name: O}]
 modules:
   - name: m
     reactions:
-      - {equation: O(1D) -> O, rate: {first_order: {k: 0.01}}}
+      - {id: o1d, equation: O(1D) -> O, rate: {first_order: {k: 0.01}}}
 )", units, 250.0, 1e18);
   pb.initial_cm3[idx(pb, "O(1D)")] = 1e10;
   pb.times_s = box_output_times(500.0, 20, false, 0.0);
@@ -62,8 +62,9 @@ species: [{name: ClO}, {name: NO2}, {name: ClONO2}]
 modules:
   - name: m
     reactions:
-      - {equation: ClO + NO2 -> ClONO2, rate: {constant: {k: 1.0e-13}}}
-      - equation: ClONO2 -> ClO + NO2
+      - {id: clo_no2, equation: ClO + NO2 -> ClONO2, rate: {constant: {k: 1.0e-13}}}
+      - id: clono2
+        equation: ClONO2 -> ClO + NO2
         rate: {equilibrium_reverse: {forward: {constant: {k: 1.0e-13}}, A: 1.0e-20, B: 2000}}
 )", units, 250.0, 1e18);
   const double a0 = 2e12, b0 = 1e12;
@@ -92,9 +93,9 @@ species: [{name: O3(a)}, {name: O3(b)}, {name: O3(c)}, {name: O3}]
 modules:
   - name: m
     reactions:
-      - {equation: O3(a) -> O3(b), rate: {first_order: {k: 1.0}}}
-      - {equation: O3(b) -> O3(c), rate: {first_order: {k: 0.1}}}
-      - {equation: O3(c) -> O3, rate: {first_order: {k: 0.01}}}
+      - {id: o3a, equation: O3(a) -> O3(b), rate: {first_order: {k: 1.0}}}
+      - {id: o3b, equation: O3(b) -> O3(c), rate: {first_order: {k: 0.1}}}
+      - {id: o3c, equation: O3(c) -> O3, rate: {first_order: {k: 0.01}}}
 )", units, 250.0, 1e18);
   const double A0 = 1e12, k1 = 1.0, k2 = 0.1, k3 = 0.01;
   pb.initial_cm3[idx(pb, "O3(a)")] = A0;
@@ -130,13 +131,13 @@ species: [{name: O}, {name: O(1D)}, {name: O2}, {name: O3}, {name: N2, fixed: tr
 modules:
   - name: m
     reactions:
-      - {equation: O3 + hv -> O(1D) + O2, rate: {photolysis: {channel: O3}}}
-      - {equation: O2 + hv -> 2 O, rate: {photolysis: {channel: O2}}}
-      - {equation: O(1D) -> O, rate: {first_order: {k: 1.0e9}}}
-      - {equation: O(1D) + N2 -> O + N2, rate: {arrhenius: {A: 2.15e-11, E: -110}}}
-      - {equation: O + O2 + M -> O3 + M, rate: {falloff: {k0_300: 6.1e-34, n: 2.4, kinf_300: 0, m: 0}}}
-      - {equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8.0e-12, E: 2060}}}
-      - {equation: O + O + M -> O2 + M, rate: {arrhenius: {A: 4.8e-33, b: -2}}}
+      - {id: o3_photo, equation: O3 + hv -> O(1D) + O2, rate: {photolysis: {channel: O3}}}
+      - {id: o2_photo, equation: O2 + hv -> 2 O, rate: {photolysis: {channel: O2}}}
+      - {id: o1d_2, equation: O(1D) -> O, rate: {first_order: {k: 1.0e9}}}
+      - {id: o1d_n2, equation: O(1D) + N2 -> O + N2, rate: {arrhenius: {A: 2.15e-11, E: -110}}}
+      - {id: o_o2_m, equation: O + O2 + M -> O3 + M, rate: {falloff: {k0_300: 6.1e-34, n: 2.4, kinf_300: 0, m: 0}}}
+      - {id: o_o3, equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8.0e-12, E: 2060}}}
+      - {id: o_o_m, equation: O + O + M -> O2 + M, rate: {arrhenius: {A: 4.8e-33, b: -2}}}
 )", units, 250.0, 2.9e19);
   pb.bulk_mole_fraction = {{"N2", 0.79}, {"O2", 0.21}};
   pb.initial_cm3[idx(pb, "O2")] = 0.21 * 2.9e19;
@@ -171,7 +172,7 @@ species: [{name: O(1D)}, {name: O}]
 modules:
   - name: m
     reactions:
-      - {equation: O(1D) -> O, rate: {arrhenius: {A: 1.0, E: 300}}}
+      - {id: o1d_3, equation: O(1D) -> O, rate: {arrhenius: {A: 1.0, E: 300}}}
 )", "column.yaml", units);
   spec.modules = {0};
   const std::vector<double> T{150.0, 300.0, 600.0}, air{1e18, 1e17, 1e16};

@@ -27,9 +27,9 @@ parameters: [{name: beta, default: 0.1, min: 0, max: 1}]
 modules:
   - name: base
     reactions:
-      - {equation: SO2 + hv -> SO2(a3B1), rate: {photolysis: {channel: SO2_excite}}}
-      - {equation: SO2(a3B1) + H2O -> H2SO3, rate: {arrhenius: {A: 1e-12}}, scale: beta}
-      - {equation: SO2(a3B1) -> SO2, rate: {first_order: {k: 1e3}}}
+      - {id: so2_photo, equation: SO2 + hv -> SO2(a3B1), rate: {photolysis: {channel: SO2_excite}}}
+      - {id: so2t_h2o, equation: SO2(a3B1) + H2O -> H2SO3, rate: {arrhenius: {A: 1e-12}}, scale: beta}
+      - {id: so2t, equation: SO2(a3B1) -> SO2, rate: {first_order: {k: 1e3}}}
 )";
 
 }  // namespace

@@ -41,23 +41,25 @@ species:
 modules:
   - name: all
     reactions:
-      - {equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8.0e-12, E: 2060}}}
-      - {equation: OH + O3 -> HO2 + O2, rate: {arrhenius: {A: 1.7e-12, E: 940}}}
-      - {equation: O(1D) + N2 -> O + N2, rate: {arrhenius: {A: 2.15e-11, E: -110}}}
-      - {equation: Cl + O3 -> ClO + O2, rate: {arrhenius: {A: 2.3e-11, E: 200}}}
-      - {equation: OH + CH4 -> CH3 + H2O, rate: {arrhenius: {A: 2.45e-12, E: 1775}}}
-      - {equation: O + O2 + M -> O3 + M, rate: {falloff: {k0_300: 6.1e-34, n: 2.4, kinf_300: 0, m: 0}}}
-      - {equation: OH + SO2 + M -> HSO3 + M, rate: {falloff: {k0_300: 2.9e-31, n: 4.1, kinf_300: 1.7e-12, m: -0.2}}}
-      - {equation: O + SO2 + M -> SO3 + M, rate: {falloff: {k0_300: 1.8e-33, n: -2.0, kinf_300: 4.2e-14, m: -1.8}}}
-      - {equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
-      - {equation: ClO + ClO + M -> Cl2O2 + M, rate: {falloff: {k0_300: 1.9e-32, n: 3.6, kinf_300: 3.7e-12, m: 1.6}}}
-      - equation: Cl2O2 + M -> ClO + ClO + M
+      - {id: o_o3, equation: O + O3 -> 2 O2, rate: {arrhenius: {A: 8.0e-12, E: 2060}}}
+      - {id: oh_o3, equation: OH + O3 -> HO2 + O2, rate: {arrhenius: {A: 1.7e-12, E: 940}}}
+      - {id: o1d_n2, equation: O(1D) + N2 -> O + N2, rate: {arrhenius: {A: 2.15e-11, E: -110}}}
+      - {id: cl_o3, equation: Cl + O3 -> ClO + O2, rate: {arrhenius: {A: 2.3e-11, E: 200}}}
+      - {id: oh_ch4, equation: OH + CH4 -> CH3 + H2O, rate: {arrhenius: {A: 2.45e-12, E: 1775}}}
+      - {id: o_o2_m, equation: O + O2 + M -> O3 + M, rate: {falloff: {k0_300: 6.1e-34, n: 2.4, kinf_300: 0, m: 0}}}
+      - {id: oh_so2_m, equation: OH + SO2 + M -> HSO3 + M, rate: {falloff: {k0_300: 2.9e-31, n: 4.1, kinf_300: 1.7e-12, m: -0.2}}}
+      - {id: o_so2_m, equation: O + SO2 + M -> SO3 + M, rate: {falloff: {k0_300: 1.8e-33, n: -2.0, kinf_300: 4.2e-14, m: -1.8}}}
+      - {id: oh_co, equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
+      - {id: clo_clo_m, equation: ClO + ClO + M -> Cl2O2 + M, rate: {falloff: {k0_300: 1.9e-32, n: 3.6, kinf_300: 3.7e-12, m: 1.6}}}
+      - id: cl2o2_m
+        equation: Cl2O2 + M -> ClO + ClO + M
         rate:
           equilibrium_reverse:
             forward: {falloff: {k0_300: 1.9e-32, n: 3.6, kinf_300: 3.7e-12, m: 1.6}}
             A: 2.16e-27
             B: 8537
-      - equation: HO2NO2 + M -> HO2 + NO2 + M
+      - id: ho2no2_m
+        equation: HO2NO2 + M -> HO2 + NO2 + M
         rate:
           equilibrium_reverse:
             forward: {falloff: {k0_300: 1.9e-31, n: 3.4, kinf_300: 4.0e-12, m: 0.3}}
@@ -245,10 +247,10 @@ species: [{name: OH}, {name: CO}, {name: H}, {name: CO2}]
 modules:
   - name: m
     reactions:
-      - {equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
-      - equation: OH + CO + M -> H + CO2 + M
+      - {id: oh_co_2, equation: OH + CO -> H + CO2, rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}}
+      - id: oh_co_m
+        equation: OH + CO + M -> H + CO2 + M
         rate: {chemical_activation: {k0_300: 1.5e-13, n: -0.6, kinf_300: 2.1e9, m: -6.1}}
-        duplicate: true
 )", "ca.yaml", units);
   Kinetics kin(m, std::vector<std::size_t>{0}, {});
   kin.set_conditions(std::vector<double>{298.0}, std::vector<double>{2.43053e19}, {{"N2", 1.0}});

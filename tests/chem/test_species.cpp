@@ -45,7 +45,7 @@ species:
 modules:
   - name: m
     reactions:
-      - {equation: SO3 + H2O -> aerosol_S, rate: {constant: {k: 1e-15}}}
+      - {id: so3_h2o, equation: SO3 + H2O -> aerosol_S, rate: {constant: {k: 1e-15}}}
 )", "f.yaml", units);
   // Balanced only because aerosol_S has the composition of H2SO4 (analytic).
   CHECK(m->species[0].composition.atoms.at("S") == 1);

@@ -21,18 +21,18 @@ colchem_cli_test(bad.mechanism_map_key 4
   "mech_map_key.yaml:7:8: 'species.3': expected a key that is a single word or value, found a map used as a key"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_map_key.yaml)
 colchem_cli_test(bad.mechanism_duplicate_key 4
-  "mech_duplicate_key.yaml:13:9: 'modules.0.reactions.0.rate': expected each key once in a map, found 'rate' again \\(first at line 12\\)"
+  "mech_duplicate_key.yaml:14:9: 'modules.0.reactions.0.rate': expected each key once in a map, found 'rate' again \\(first at line 13\\)"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_duplicate_key.yaml)
 colchem_cli_test(bad.mechanism_duplicate_key_check 4
-  "mech_duplicate_key.yaml:13:9: 'modules.0.reactions.0.rate': expected each key once"
+  "mech_duplicate_key.yaml:14:9: 'modules.0.reactions.0.rate': expected each key once"
   $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD}/mech_duplicate_key.yaml)
 
 # --- Numbers that would overflow (mechanism, exit 4) -------------------------------------
 colchem_cli_test(bad.coefficient_digits 4
-  "mech_huge_coefficient.yaml:13:19: 'modules.0.reactions.1.equation': expected a stoichiometric coefficient from 1 to 999, found '12345678901' in '12345678901 ClONO2 -> ClO \\+ NO2'"
+  "mech_huge_coefficient.yaml:15:19: 'modules.0.reactions.1.equation': expected a stoichiometric coefficient from 1 to 999, found '12345678901' in '12345678901 ClONO2 -> ClO \\+ NO2'"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_huge_coefficient.yaml)
 colchem_cli_test(bad.coefficient_overflow 4
-  "mech_overflow.yaml:13:19: 'modules.0.reactions.0.equation': expected a stoichiometric coefficient from 1 to 999, found '2147483647'"
+  "mech_overflow.yaml:14:19: 'modules.0.reactions.0.equation': expected a stoichiometric coefficient from 1 to 999, found '2147483647'"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_overflow.yaml)
 colchem_cli_test(bad.formula_count 4
   "mech_formula_count.yaml:7:26: 'species.2.formula': expected a chemical formula, found 'O99999999999' \\(a count above 9999\\)"
@@ -212,7 +212,7 @@ colchem_cli_test(bad.cli_missing_run_file 2 "RUN: File does not exist: no_such_r
 # 122), is 3.9e-41 exp(6830.6/160) = 1.354e-22 cm6 s-1 at 160 K: above the default
 # termolecular limit of 1e-22 (common practice, no source), below a widened 1e-21.
 set(COLD "--set=atmosphere.temperature={isothermal: 160 K}")
-set(TERMO_REFUSED "tellin.yaml:122:9: 'rate': expected a termolecular rate constant below 1e-22 cm6 s-1 for reaction 'SO3 \\+ 2 H2O -> H2SO4 \\+ H2O', found 1.354e-22 cm6 s-1 at T = 160.0 K, n_air = [0-9.e+]+ cm-3; limits are common practice, no source; a world that needs more sets chemistry.rate_limits.termolecular")
+set(TERMO_REFUSED "tellin.yaml:129:9: 'rate': expected a termolecular rate constant below 1e-22 cm6 s-1 for reaction 'SO3 \\+ 2 H2O -> H2SO4 \\+ H2O', found 1.354e-22 cm6 s-1 at T = 160.0 K, n_air = [0-9.e+]+ cm-3; limits are common practice, no source; a world that needs more sets chemistry.rate_limits.termolecular")
 colchem_cli_test(bad.rate_limit_cold_world 4 "${TERMO_REFUSED}"
   $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml ${COLD})
 colchem_cli_test(bad.rate_limit_cold_world_widened 0 "46 of 47 active reactions balanced"
@@ -289,22 +289,34 @@ colchem_cli_test(bad.box_unknown_channel 3 "'box.photolysis.NOPE': expected a ph
 
 # --- Mechanism files (exit 4), one defect each, through a box and through check --------
 colchem_cli_test(bad.mechanism_undeclared 4
-  "mech_undeclared.yaml:12:19: 'modules.0.reactions.0.equation': expected species declared under 'species', found undeclared 'Cl' in reaction 'O3 \\+ Cl -> ClO \\+ O2'; did you mean 'ClO'\\?"
+  "mech_undeclared.yaml:13:19: 'modules.0.reactions.0.equation': expected species declared under 'species', found undeclared 'Cl' in reaction 'O3 \\+ Cl -> ClO \\+ O2'; did you mean 'ClO'\\?"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_undeclared.yaml)
 colchem_cli_test(bad.mechanism_negative_rate 4
   "mech_negative_rate.yaml:12:9: 'rate': expected a finite, non-negative rate constant for reaction 'O \\+ O3 -> O2 \\+ O2', found -2.111e-15 at T = 250.0 K"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_negative_rate.yaml)
 colchem_cli_test(bad.mechanism_rate_units 4
-  "mech_rate_units.yaml:13:57: 'modules.0.reactions.0.rate.units': expected 'cm3 s-1' \\(or a unit convertible to it\\) for the order-2 reaction 'O \\+ O3 -> O2 \\+ O2', found 'cm6 s-1'"
+  "mech_rate_units.yaml:14:57: 'modules.0.reactions.0.rate.units': expected 'cm3 s-1' \\(or a unit convertible to it\\) for the order-2 reaction 'O \\+ O3 -> O2 \\+ O2', found 'cm6 s-1'"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_rate_units.yaml)
 colchem_cli_test(bad.mechanism_photolysis_no_hv 4
-  "mech_photolysis_no_hv.yaml:13:15: 'modules.0.reactions.0.rate': expected 'hv' among the reactants of a photolysis reaction, found reaction 'O3 -> O2 \\+ O'"
+  "mech_photolysis_no_hv.yaml:14:15: 'modules.0.reactions.0.rate': expected 'hv' among the reactants of a photolysis reaction, found reaction 'O3 -> O2 \\+ O'"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_photolysis_no_hv.yaml)
-colchem_cli_test(bad.mechanism_duplicate_reaction 4
-  "mech_duplicate_reaction.yaml:14:19: 'modules.0.reactions.1.equation': expected a reaction listed once \\(or `duplicate: true`\\), found reaction 'O \\+ O3 -> O2 \\+ O2', already at line 12"
-  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD}/mech_duplicate_reaction.yaml)
+colchem_cli_test(bad.mechanism_duplicate_id 4
+  "mech_duplicate_id.yaml:15:13: 'modules.0.reactions.1.id': expected a reaction id used once, found 'o_o3' for reaction 'O \\+ O3 -> O2 \\+ O2', already at line 12 for 'O \\+ O3 -> O2 \\+ O2'"
+  $<TARGET_FILE:colchem> check ${CFG}/tellin.yaml --set chemistry.mechanism=${BAD}/mech_duplicate_id.yaml)
+colchem_cli_test(bad.mechanism_missing_id 4
+  "mech_missing_id.yaml:12:9: 'modules.0.reactions.0': expected an `id` for every reaction \\(short and unique in the file, e.g. 'o_o3'\\), found none for 'O \\+ O3 -> O2 \\+ O2'"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_missing_id.yaml)
+colchem_cli_test(bad.mechanism_bad_id 4
+  "mech_bad_id.yaml:12:13: 'modules.0.reactions.0.id': expected a reaction id: a letter, then at most 31 letters, digits, '_', '.' or '-', found 'O \\+ O3'"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_bad_id.yaml)
+colchem_cli_test(bad.mechanism_old_duplicate 4
+  "mech_old_duplicate.yaml:18:20: 'modules.0.reactions.1.duplicate': expected no `duplicate` key: reactions with one equation are told apart by their `id`s, found `duplicate`; remove it and give each reaction its own `id`"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_old_duplicate.yaml)
+colchem_cli_test(bad.mechanism_old_efficiencies 4
+  "mech_old_efficiencies.yaml:15:23: 'modules.0.reactions.0.efficiencies': expected `third_body_weights` \\(`efficiencies` was renamed `third_body_weights`\\), found `efficiencies`"
+  $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_old_efficiencies.yaml)
 colchem_cli_test(bad.mechanism_unknown_key 4
-  "mech_unknown_key.yaml:14:9: 'modules.0.reactions.0.sorce': expected a known key in 'modules.0.reactions.0', found unknown key 'sorce'; did you mean 'source'\\?"
+  "mech_unknown_key.yaml:15:9: 'modules.0.reactions.0.sorce': expected a known key in 'modules.0.reactions.0', found unknown key 'sorce'; did you mean 'source'\\?"
   $<TARGET_FILE:colchem> box ${BOX_BAD} --set chemistry.mechanism=${BAD}/mech_unknown_key.yaml)
 colchem_cli_test(bad.mechanism_parameter_range 4
   "mech_parameter_range.yaml:11:31: 'parameters.0.default': expected a default within \\[0.1, 10\\] for parameter 'o3_scale', found 20"

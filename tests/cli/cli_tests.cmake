@@ -63,7 +63,7 @@ colchem_cli_test(box_equilibrium 0 "ClO +1\\.20177e\\+09"
 colchem_cli_test(box_ncdump 0 "number_density:units = \"cm-3\".*reaction_rate:units = \"cm-3 s-1\""
   sh -c "$<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml -o box_nc.nc >/dev/null 2>&1 && ncdump -h box_nc.nc | tr '\\n' ' '")
 colchem_cli_test(box_bad_mechanism 4
-  "unbalanced.yaml:12:19: 'modules.0.reactions.1.equation': expected a reaction balanced in every element.*'ClONO2 -> ClO' changing N -1, O -2"
+  "unbalanced.yaml:14:19: 'modules.0.reactions.1.equation': expected a reaction balanced in every element.*'ClONO2 -> ClO' changing N -1, O -2"
   $<TARGET_FILE:colchem> box ${CMAKE_SOURCE_DIR}/tests/chem/bad/box_unbalanced.yaml)
 colchem_cli_test(box_bad_parameter 3 "chemistry.modules.0': expected a module of mechanism 'clo-dimer', found unknown module 'dimmer'; did you mean 'dimer'"
   $<TARGET_FILE:colchem> box ${CHEMV}/box_equilibrium/box.yaml --set chemistry.modules=[dimmer])
@@ -71,7 +71,7 @@ colchem_cli_test(box_bad_parameter 3 "chemistry.modules.0': expected a module of
 # prints its chemistry summary and then refuses it (exit 3), as run does.
 colchem_cli_test(check_chemistry 3 "50 of 52 active reactions balanced in every element; 2 sinks"
   $<TARGET_FILE:colchem> check ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
-colchem_cli_test(check_chemistry_verbose 3 "HSO3 \\+ M -> OH \\+ SO2 \\+ M +equilibrium_reverse"
+colchem_cli_test(check_chemistry_verbose 3 "hso3_m +HSO3 \\+ M -> OH \\+ SO2 \\+ M +equilibrium_reverse"
   $<TARGET_FILE:colchem> check -v ${CMAKE_SOURCE_DIR}/tests/chem/scenario_soh.yaml)
 colchem_cli_test(check_chemistry_no_photolysis 3
   "'photolysis': expected a photolysis section \\(the mechanism has photolysis channel 'O2'\\), found none"
@@ -299,7 +299,7 @@ colchem_cli_test(sensitivity_altitude_outside 2
   "'--altitude': expected an altitude within the cell centres, 58.5-111.5 km, found '150 km'"
   $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective mole_fraction --species SO2 --altitude 150)
 colchem_cli_test(sensitivity_unknown_reaction 2
-  "'--reaction': expected an active reaction as kN .*found 'k9999'"
+  "'--reaction': expected an active reaction: its id in the mechanism file .*found no reaction with id or equation 'k9999'"
   $<TARGET_FILE:colchem> sensitivity ${CFG}/pyrene_full.yaml --objective rate --reaction k9999)
 colchem_cli_test(sensitivity_no_observations 2
   "'--observations': expected an observation file .*found none"

@@ -40,7 +40,7 @@ dlnK = (column(k, K + 1e-20j * K).imag / 1e-20) / G
 Gm = float(ds.getncattr("colchem_objective_value"))
 ids = [str(s) for s in ds["reaction_id"][:]]
 names = [str(s) for s in ds["parameter_name"][:]]
-sk = float(ds["log_sensitivity"][ids.index("k1")])
+sk = float(ds["log_sensitivity"][ids.index("so2_loss")])
 sK = float(ds["parameter_log_sensitivity"][names.index("K (whole profile)")])
 sb = float(ds["parameter_log_sensitivity"][names.index("SO2 bottom mixing_ratio")])
 print(f"column:          model {Gm:.6e}  closed form {G:.6e}  rel. diff. {abs(Gm / G - 1):.2e}")
