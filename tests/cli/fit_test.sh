@@ -3,8 +3,8 @@
 # trace gas, first-order loss k, fixed bottom mixing ratio f0; K f'' - (K/H) f' - k f = 0).
 # 1. The chi-square gradient of the fit's Jacobian, 2 J^T r (forward sensitivities), against
 #    central finite differences of the full nonlinear steady solve, for the two fitted
-#    parameters (ln f0, ln kscale) and for a K scaling in a band: 1e-4 relative (the brief's
-#    acceptance, the same as the adjoint's).
+#    parameters (ln f0, ln kscale) and for a K scaling in a band: 1e-4 relative (common
+#    practice, no source; the same as the adjoint's).
 #    The same on Pyrene (configs/pyrene_full.yaml, 54 cells; photolysis couples every cell
 #    to the absorbers above) for the SO2 bottom mixing ratio and K in three bands.
 # 2. A twin experiment (issue 14): observations made by the model itself at known values
@@ -13,7 +13,7 @@
 #    (ln f_m - ln f_o)/0.1, Gaussian of unit variance at the truth. Every parameter within 2
 #    reported sigma of its true value in >= 9 of the first 10 realisations, and the reported
 #    sigma (in ln p) within 30 % of the scatter (sample standard deviation) of the
-#    estimates. The brief asks for that over 20 realisations; the sample standard deviation
+#    estimates. Issue 14 asked for that over 20 realisations; the sample standard deviation
 #    of 20 has a relative standard error of 1/sqrt(2 x 19) = 16 %, so a correct sigma fails
 #    a 30 % band by chance about one time in ten (the first seed tried, 20261203, gave 1.325
 #    for ln f0 over 20, while 150 realisations of another seed gave 1.09 and 1.08). The

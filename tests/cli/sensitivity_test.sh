@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # `colchem sensitivity` on the shipped worlds: adjoint gradients against central finite
 # differences of the full nonlinear steady solve (--check: ln k +- 1e-3, tight steady
-# tolerance; the brief's acceptance 1e-4 relative) for the 20 (first objective of each
+# tolerance; 1e-4 relative, common practice, no source) for the 20 (first objective of each
 # world) or 5 most influential rate constants plus the most influential named parameter,
 # boundary value and the whole eddy profile, for three kinds of objective: Pyrene (54 cells, its shipped grid) with the
 # chi-square against the invented SO2 observation and the column of SO2, Tellin (50 cells,
