@@ -21,15 +21,19 @@
 #    first 20 is printed beside it. ln f_m is exactly linear in ln f0 (f is proportional to f0), and the
 #    Gauss-Newton covariance (J^T J)^-1 is then that of a linear least-squares estimate
 #    (Press et al., Numerical Recipes, 3rd ed., section 15.4); for ln kscale to first order.
+# The fourth argument picks one part (linear_check, pyrene_check, twin; CTest runs each as its
+# own test, in parallel); without it every part runs.
 set -eu
-colchem=$1; root=$2; work=$3
+colchem=$1; root=$2; work=$3; only=${4:-}
 mkdir -p "$work"; cd "$work"
+part() { [ -z "$only" ] || [ "$only" = "$1" ]; }
 cfg=$root/tests/cli/ensemble/linear_loss.yaml
 cp "$root/tests/cli/ensemble/linear_loss_mechanism.yaml" .
 f0=species.SO.bottom.mixing_ratio:1e-8:1e-4:log
 ks=chemistry.parameters.kscale:0.01:100:log
 
 # 1. Gradient checks.
+if part linear_check; then
 "$colchem" --log-level warn fit "$cfg" -p "$f0" -p "$ks" -p "atmosphere.eddy_diffusion[0-6]:0.1:10:log" \
   --check --max-iterations 1 -o check.nc > check.log 2>&1 || true
 cat check.log
@@ -44,6 +48,8 @@ for l in rows:
     assert rel <= 1e-4, l
 print("ok: gradient of chi2 from the forward-sensitivity Jacobian within 1e-4 of finite differences")
 PY
+fi
+if part pyrene_check; then
 "$colchem" --log-level warn fit "$root/configs/pyrene_full.yaml" \
   --observations "$root/profiles/observed/pyrene_so2_invented.csv" \
   -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log -p "atmosphere.eddy_diffusion[58-71.9]:0.1:10:log" \
@@ -75,8 +81,10 @@ for l, a, b, e in zip(rows, g, fd, err):
     assert abs(a - b) <= 1e-4 * mag + 2.0 * e * mag, l
 print("ok: Pyrene gradient of chi2 within 1e-4 of finite differences plus their error estimates")
 PY
+fi
 
 # 2. The twin experiment.
+part twin || exit 0
 "$colchem" --log-level warn run "$cfg" --set species.SO.bottom.mixing_ratio=2e-6 \
   --set chemistry.parameters.kscale=0.5 -o truth.nc
 /usr/bin/python3 - "$colchem" "$cfg" "$f0" "$ks" <<'PY'
