@@ -13,8 +13,10 @@ and the last Newton step changed no density by more than solver.step_tolerance (
 default) relative to |n| + a_s (a_s = solver.absolute_density, 1 cm-3 by default); in
 Newton's quadratic end phase the remaining error is far below that last change, so two
 runs of one model agree to within 1e-6 (|n| + a_s) (common practice, no source: the solver's
-own convergence test as the yardstick). Rerunning with solver.tolerance 1e-10 moves no
-density by more than the figure printed by --measure.
+own convergence test as the yardstick). The window is not tight for the solve itself:
+--measure reruns with solver.tolerance 1e-10 and prints the largest change (0 when made: the
+Newton end phase already ends at round-off), so any change of the physics that moves a
+density by more than 1e-6 of itself fails.
 
 Usage:
   demo_reference.py COLCHEM ROOT WORKDIR            compare with the stored reference
