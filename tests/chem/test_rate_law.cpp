@@ -214,8 +214,7 @@ TroeProbe troe_probe(double alpha, double T3, double T1) {
 }
 }  // namespace
 
-TEST_CASE("Troe form without broadening is the Lindemann-Hinshelwood expression",
-          "[chem][rate]") {
+TEST_CASE("Troe form without broadening is the Lindemann-Hinshelwood expression", "[chem][rate]") {
   // alpha = 0, T3 huge: Fc = exp(-T/T3) = 1, so log10 F = 0 at every pressure and
   // k = kinf Pr/(1 + Pr) (Lindemann-Hinshelwood, analytic).
   const TroeProbe p = troe_probe(0.0, 1e30, 1.0);
@@ -225,8 +224,7 @@ TEST_CASE("Troe form without broadening is the Lindemann-Hinshelwood expression"
   }
 }
 
-TEST_CASE("Troe form: limits, minimum F = Fc at its centre, half-width points",
-          "[chem][rate]") {
+TEST_CASE("Troe form: limits, minimum F = Fc at its centre, half-width points", "[chem][rate]") {
   // Fc = 0.6 exp(-T/200) + 0.4 exp(-T/1500) = 0.4613 at 300 K (Troe 1983's Fcent with
   // alpha = 0.4, T3 = 200 K, T1 = 1500 K).
   const TroeProbe p = troe_probe(0.4, 200.0, 1500.0);

@@ -124,7 +124,8 @@ TEST_CASE("overtone bands photolyse only short of the threshold but always absor
   PhotolysisModel m(s, bg, {"B", "C"});
   std::vector<double> n(6, 0.0), J(9);
   m.compute(n, J);
-  CHECK(J[0] == 0.0);  // energy conservation: the photon must carry the dissociation energy (analytic)
+  // Energy conservation: the photon must carry the dissociation energy (analytic).
+  CHECK(J[0] == 0.0);
   // Short of the threshold the band photolyses with its whole strength:
   // J = sum_b sigma_b F dlambda_b ~ F S lambda0^2 (S in wavenumber space, lambda0 in cm; the
   // bins are 10 nm wide, so the wavenumber-to-wavelength Jacobian varies ~3 % across a bin).

@@ -60,7 +60,7 @@ TEST_CASE("an overtone band's integrated cross section round-trips from f", "[ph
         shape == BandShape::kGaussian
             ? 1.0
             : (std::atan((25000.0 - nu0) / 60.0) + std::atan((nu0 - 10000.0) / 60.0)) / constants::kPi;
-    CHECK(integral == Approx(8.853e-13 * f * inside).epsilon(2e-3));  // Hilborn 1982 (above)
+    CHECK(integral == Approx(8.853e-13 * f * inside).epsilon(2e-3));     // Hilborn 1982 (above)
     CHECK(integral == Approx(band.strength_cm * inside).epsilon(1e-9));  // analytic
     // Peak value of a Gaussian: S / (sigma sqrt(2 pi)), sigma = FWHM / 2.3548 (analytic).
     if (shape == BandShape::kGaussian) {

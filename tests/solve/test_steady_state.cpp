@@ -308,8 +308,10 @@ TEST_CASE("PTC with a nonlocal coupling: the photolysis rates converge with the 
   CHECK(scaled_residual_norm(col.sys, r.x).value < 1e-8);
 }
 
-TEST_CASE("Newton-Krylov with the coupling's Jacobian product converges quadratically, "
-          "without it (lagged J) only linearly", "[solve][steady]") {
+TEST_CASE(
+    "Newton-Krylov with the coupling's Jacobian product converges quadratically, "
+    "without it (lagged J) only linearly",
+    "[solve][steady]") {
   // Newton's method converges quadratically near a root with a Lipschitz Jacobian (Kelley
   // 1995, Iterative Methods for Linear and Nonlinear Equations, Theorem 5.1.2); with a
   // Jacobian that omits a term of order one the iteration is a chord-like method and
