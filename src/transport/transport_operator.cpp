@@ -462,33 +462,4 @@ bool TransportOperator::implicit_step(std::span<double> n, double t, double dt) 
   return true;
 }
 
-bool TransportOperator::steady_state(std::span<double> n, double t,
-                                     std::span<const double> first_order_loss,
-                                     std::span<const double> production) const {
-  std::vector<double> rhs(N_), cp(N_), r(N_);
-  for (std::size_t s = 0; s < S_; ++s) {
-    if (species_[s].fixed) continue;
-    const double* lo = &lo_[s * N_];
-    const double* di = &di_[s * N_];
-    const double* up = &up_[s * N_];
-    const BoundaryTerms bt = boundary_terms(s, t);
-    source(s, t, r);
-    for (std::size_t j = 0; j < N_; ++j) {
-      rhs[j] = -r[j] - (production.empty() ? 0.0 : production[j * S_ + s]);
-    }
-    const bool ok = thomas(
-        N_, [&](std::size_t j) { return lo[j]; },
-        [&](std::size_t j) {
-          double d = di[j] - (first_order_loss.empty() ? 0.0 : first_order_loss[j * S_ + s]);
-          if (j == 0) d += bt.bottom;
-          if (j == N_ - 1) d += bt.top;
-          return d;
-        },
-        [&](std::size_t j) { return up[j]; }, rhs, cp);
-    if (!ok) return false;
-    for (std::size_t j = 0; j < N_; ++j) n[j * S_ + s] = rhs[j];
-  }
-  return true;
-}
-
 }  // namespace colchem

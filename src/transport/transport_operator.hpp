@@ -77,13 +77,6 @@ class TransportOperator final : public ColumnOperator {
   [[nodiscard]] std::vector<BoundaryFluxes> boundary_fluxes(std::span<const double> n,
                                                             double t) const;
 
-  /// The steady state of transport plus an optional first-order loss L (s^-1) and production
-  /// P (cm^-3 s^-1), both n[j*S+s]-ordered (empty = none): solves A n + r - L n + P = 0 per
-  /// species (fixed species are left as they are in n). Returns false if a species' system is
-  /// singular (e.g. zero-flux boundaries and no loss).
-  bool steady_state(std::span<double> n, double t, std::span<const double> first_order_loss = {},
-                    std::span<const double> production = {}) const;
-
   /// The molecular drift x_e over interior edge e (1..N-1) for species s: the discrete
   /// diffusive equilibrium is n_e/n_{e-1} = exp(-x_e).
   [[nodiscard]] double molecular_drift(std::size_t s, std::size_t e) const;

@@ -181,44 +181,118 @@ TEST_CASE("equilibrium constants give JPL 19-5 reverse rates", "[chem][rate]") {
   CHECK(k_of(*m, kHO2NO2, 200, 1e5) == Approx(2.8801e-9).epsilon(1e-4));
 }
 
-TEST_CASE("Troe form without broadening and at the centre of the fall-off",
-          "[chem][rate]") {
-  RateLaw troe;
-  troe.form = RateForm::kTroe;
-  troe.k0 = {2.9e-31, -4.1, 0.0};
-  troe.kinf = {1.7e-12, 0.2, 0.0};
-  // alpha = 0, T3 huge: Fcent = exp(-T/T3) -> 1 (no broadening): k = kinf Pr/(1+Pr) (analytic).
-  troe.alpha = 0.0;
-  troe.T3 = 1e30;
-  troe.T1 = 1.0;
-  const double T = 298.0;
-  const double M = 2.43053e19;
-  const double k0 = 2.9e-31 * std::pow(T / 300.0, -4.1);
-  const double kinf = 1.7e-12 * std::pow(T / 300.0, 0.2);
-  const double pr = k0 * M / kinf;
-  CHECK(rate_constant(troe, T, M) == Approx(kinf * pr / (1 + pr)).epsilon(1e-12));  // analytic
-  troe.alpha = 0.4;
-  troe.T3 = 200.0;
-  troe.T1 = 1500.0;
-  // Centre of the fall-off (Pr = 1): log10 F = log10 Fcent / (1 + (c/(N - 0.14 c))^2) (Troe 1983).
-  const double fc = 0.6 * std::exp(-T / 200.0) + 0.4 * std::exp(-T / 1500.0);
+// The Troe fall-off form (Troe 1983, Ber. Bunsenges. Phys. Chem. 87, 161; Gilbert, Luther
+// and Troe 1983, ibid. 87, 169): k = kinf Pr/(1 + Pr) F with Pr = k0[M]/kinf and
+// log10 F = log10 Fc / (1 + y^2), y = u/(N - d u), u = log10 Pr + c, c = -0.4 - 0.67 log10 Fc,
+// N = 0.75 - 1.27 log10 Fc, d = 0.14 (the published constants, from memory). The checks below
+// do not evaluate that expression: they test properties the published form has. F is read
+// back from k as F = k (1 + Pr)/(kinf Pr).
+namespace {
+struct TroeProbe {
+  RateLaw law;
+  double T = 300.0;
+  [[nodiscard]] double k0() const { return law.k0.at(T); }
+  [[nodiscard]] double kinf() const { return law.kinf.at(T); }
+  /// k at the reduced pressure Pr = 10^log_pr.
+  [[nodiscard]] double k_at(double log_pr) const {
+    return rate_constant(law, T, std::pow(10.0, log_pr) * kinf() / k0());
+  }
+  /// The broadening factor F at Pr = 10^log_pr, from k.
+  [[nodiscard]] double F(double log_pr) const {
+    const double pr = std::pow(10.0, log_pr);
+    return k_at(log_pr) * (1.0 + pr) / (kinf() * pr);
+  }
+};
+
+TroeProbe troe_probe(double alpha, double T3, double T1) {
+  TroeProbe p;
+  p.law.form = RateForm::kTroe;
+  p.law.k0 = {2.9e-31, -4.1, 0.0};
+  p.law.kinf = {1.7e-12, 0.2, 0.0};
+  p.law.alpha = alpha;
+  p.law.T3 = T3;
+  p.law.T1 = T1;
+  return p;
+}
+}  // namespace
+
+TEST_CASE("Troe form without broadening is the Lindemann-Hinshelwood expression", "[chem][rate]") {
+  // alpha = 0, T3 huge: Fc = exp(-T/T3) = 1, so log10 F = 0 at every pressure and
+  // k = kinf Pr/(1 + Pr) (Lindemann-Hinshelwood, analytic).
+  const TroeProbe p = troe_probe(0.0, 1e30, 1.0);
+  for (double lp : {-6.0, -1.0, 0.0, 0.7, 4.0}) {
+    const double pr = std::pow(10.0, lp);
+    CHECK(p.k_at(lp) == Approx(p.kinf() * pr / (1.0 + pr)).epsilon(1e-12));
+  }
+}
+
+TEST_CASE("Troe form: limits, minimum F = Fc at its centre, half-width points", "[chem][rate]") {
+  // Fc = 0.6 exp(-T/200) + 0.4 exp(-T/1500) = 0.4613 at 300 K (Troe 1983's Fcent with
+  // alpha = 0.4, T3 = 200 K, T1 = 1500 K).
+  const TroeProbe p = troe_probe(0.4, 200.0, 1500.0);
+  const double fc = 0.6 * std::exp(-300.0 / 200.0) + 0.4 * std::exp(-300.0 / 1500.0);
   const double lf = std::log10(fc);
-  const double c = -0.4 - 0.67 * lf;
-  const double N = 0.75 - 1.27 * lf;
-  const double y = c / (N - 0.14 * c);
-  const double Mc = kinf / k0;
-  CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, lf / (1 + y * y))).epsilon(1e-10));
-  // The optional T2 term adds exp(-T2/T) to Fcent (Troe 1983): with alpha = 0, T3 -> 0 and
-  // T2 = T ln 2, Fcent = 0.5; at Pr = 1, c = -0.4 + 0.67 log10 2, N = 0.75 + 1.27 log10 2.
-  troe.alpha = 0.0;
-  troe.T3 = 1e-30;
-  troe.has_T2 = true;
-  troe.T2 = T * std::log(2.0);
-  const double l2 = std::log10(0.5);
-  const double c2 = -0.4 - 0.67 * l2;
-  const double N2 = 0.75 - 1.27 * l2;
-  const double y2 = c2 / (N2 - 0.14 * c2);
-  CHECK(rate_constant(troe, T, Mc) == Approx(0.5 * kinf * std::pow(10.0, l2 / (1 + y2 * y2))).epsilon(1e-10));
+  const double c = -0.4 - 0.67 * lf, N = 0.75 - 1.27 * lf, d = 0.14;
+  // High-pressure limit: k -> kinf, independent of [M] (analytic: Pr/(1 + Pr) -> 1 and y grows
+  // without bound as u -> N/d = 8.4, so F -> 1; F = 0.99992 at Pr = 1e8, 0.99919 at 1e7).
+  CHECK(p.k_at(8.0) == Approx(p.kinf()).epsilon(1e-3));
+  CHECK(p.k_at(8.0) / p.k_at(7.0) == Approx(1.0).epsilon(1e-3));
+  // Low-pressure limit: k proportional to [M] (per decade within 5e-3: F still drifts by
+  // Fc^(1/(1 + y^2)), y ~ -4.3 there) and k/(k0[M]) = F between Fc and 1, tending slowly to
+  // Fc^(d^2/(1 + d^2)) = 0.985 (y -> -1/d); 0.960 at Pr = 1e-12 (analytic from the form).
+  CHECK(p.k_at(-12.0) / p.k_at(-13.0) == Approx(10.0).epsilon(5e-3));
+  const double f_low = p.F(-12.0);
+  CHECK(f_low < std::pow(fc, d * d / (1.0 + d * d)));
+  CHECK(f_low > 0.95);
+  // Fc is the smallest F, reached at the centre of the fall-off, u = 0 (log10 Pr = -c);
+  // F > Fc on either side (analytic: 1/(1 + y^2) <= 1 with equality only at y = 0).
+  CHECK(p.F(-c) == Approx(fc).epsilon(1e-12));
+  CHECK(p.F(-c - 0.1) > fc);
+  CHECK(p.F(-c + 0.1) > fc);
+  double f_min = 1.0;
+  for (int i = -80; i <= 80; ++i) f_min = std::min(f_min, p.F(0.1 * i));
+  CHECK(f_min >= fc);
+  CHECK(f_min == Approx(fc).epsilon(2e-3));
+  // Half-width points: log10 F = log10 Fc / 2 where y = +-1, at u = N/(1 + d) and
+  // u = -N/(1 - d) (analytic from the published form; N is the width in decades).
+  CHECK(p.F(-c + N / (1.0 + d)) == Approx(std::sqrt(fc)).epsilon(1e-12));
+  CHECK(p.F(-c - N / (1.0 - d)) == Approx(std::sqrt(fc)).epsilon(1e-12));
+}
+
+TEST_CASE("Troe form: the optional T2 term adds exp(-T2/T) to Fc", "[chem][rate]") {
+  // alpha = 0 and T3 -> 0 remove the first two terms; T2 = T ln 2 leaves Fc = 0.5 (Troe
+  // 1983), so the smallest F is 0.5, at log10 Pr = -c = 0.4 + 0.67 log10 0.5.
+  TroeProbe p = troe_probe(0.0, 1e-30, 1.0);
+  p.law.has_T2 = true;
+  p.law.T2 = p.T * std::log(2.0);
+  const double c = -0.4 - 0.67 * std::log10(0.5);
+  CHECK(p.F(-c) == Approx(0.5).epsilon(1e-12));
+  CHECK(p.F(-c + 0.2) > 0.5);
+  CHECK(p.F(-c - 0.2) > 0.5);
+}
+
+TEST_CASE("JPL fall-off form: F = Fc where k0[M] = kinf, half-width at one decade, limits",
+          "[chem][rate]") {
+  // JPL 19-5 (Burkholder et al. 2019, section 2): k = k0[M]/(1 + k0[M]/kinf)
+  // Fc^(1/(1 + log10(k0[M]/kinf)^2)), Fc = 0.6: F = Fc exactly at k0[M] = kinf, F = sqrt(Fc)
+  // one decade either side, and the limits k0[M] and kinf.
+  RateLaw law;
+  law.form = RateForm::kFalloff;
+  law.k0_300 = 2.5e-31;
+  law.n = 1.8;
+  law.kinf_300 = 2.2e-11;
+  law.m = 0.7;
+  const double T = 300.0, k0 = 2.5e-31, kinf = 2.2e-11;
+  const auto F = [&](double log_ratio) {
+    const double r = std::pow(10.0, log_ratio);
+    return rate_constant(law, T, r * kinf / k0) * (1.0 + r) / (kinf * r);
+  };
+  CHECK(F(0.0) == Approx(0.6).epsilon(1e-12));
+  CHECK(F(1.0) == Approx(std::sqrt(0.6)).epsilon(1e-12));
+  CHECK(F(-1.0) == Approx(std::sqrt(0.6)).epsilon(1e-12));
+  // Limits: F = Fc^(1/(1 + x^2)) -> 1 slowly (0.99943 at x = +-30, analytic).
+  CHECK(rate_constant(law, T, 1e-30 * kinf / k0) == Approx(1e-30 * kinf).epsilon(1e-3));
+  CHECK(rate_constant(law, T, 1e30 * kinf / k0) == Approx(kinf).epsilon(1e-3));
 }
 
 TEST_CASE("rate_constants evaluates every reaction at every level in one call", "[chem][rate]") {

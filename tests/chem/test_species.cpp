@@ -16,7 +16,7 @@ TEST_CASE("species: composition, labels and per-species diffusion data", "[chem]
   // M(SO2) = 32.06 + 2 x 15.999 = 64.058 g/mol (IUPAC weights, from memory, as in core).
   CHECK(so2.molar_mass_g_mol == Approx(64.058).epsilon(1e-6));
   // Default b = 1.52e18 sqrt(1/64.058 + 1/43.449) = 1.52e18 * 0.196536 = 2.98734e17
-  // (coefficient from memory, science brief), s = 0.5.
+  // (Banks and Kockarts 1973, Aeronomy Part B, ch. 15; coefficient from memory), s = 0.5.
   const DiffusionParams d = so2.diffusion_params(43.449);
   CHECK(d.A == Approx(2.98734e17).epsilon(1e-5));
   CHECK(d.s == 0.5);

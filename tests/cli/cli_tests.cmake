@@ -173,7 +173,13 @@ add_test(NAME cli.labcell
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/labcell_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
           ${CMAKE_CURRENT_BINARY_DIR}/labcell_work)
 
-# The Tellin SO2 injection (a 130-day transient; several minutes).
+# The Tellin SO2 injection: the reduced case (25 cells, 70 days; about a minute) against the
+# recorded converged e-folding time, and (label slow) the full 130-day case, which also shows
+# the reduced case within 5 % of the full one (validation/worlds/tellin_injection/README.md).
+add_test(NAME validation.worlds.tellin_injection_reduced
+  COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/reduced.sh $<TARGET_FILE:colchem>)
+set_tests_properties(validation.worlds.tellin_injection_reduced PROPERTIES
+  ENVIRONMENT "OUT=${CMAKE_CURRENT_BINARY_DIR}/validation_tellin_injection_reduced.nc")
 add_test(NAME validation.worlds.tellin_injection
   COMMAND ${CMAKE_SOURCE_DIR}/validation/worlds/tellin_injection/run.sh $<TARGET_FILE:colchem>)
 set_tests_properties(validation.worlds.tellin_injection PROPERTIES TIMEOUT 2400 LABELS slow
@@ -283,10 +289,13 @@ add_test(NAME cli.published_ranges
 # Adjoint sensitivities (README.md, section Sensitivities): finite-difference checks on
 # Pyrene and Tellin for three kinds of objective, the file's consistency, --help and bad
 # inputs.
-add_test(NAME cli.sensitivity
-  COMMAND ${CMAKE_CURRENT_LIST_DIR}/sensitivity_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
-          ${CMAKE_CURRENT_BINARY_DIR}/sensitivity_work)
-set_tests_properties(cli.sensitivity PROPERTIES TIMEOUT 900)
+# One CTest test per case (they are independent; CTest runs them in parallel).
+foreach(case pyrene_chi2 pyrene_column pyrene_photo_parameters tellin_aerosol tellin_so2 tellin_rate)
+  add_test(NAME cli.sensitivity.${case}
+    COMMAND ${CMAKE_CURRENT_LIST_DIR}/sensitivity_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+            ${CMAKE_CURRENT_BINARY_DIR}/sensitivity_work/${case} ${case})
+  set_tests_properties(cli.sensitivity.${case} PROPERTIES TIMEOUT 900)
+endforeach()
 colchem_cli_test(help_sensitivity 0 "--objective.*--check"
   sh -c "$<TARGET_FILE:colchem> sensitivity --help | tr '\\n' ' '")
 colchem_cli_test(sensitivity_unknown_species 2
@@ -317,9 +326,12 @@ include(${CMAKE_CURRENT_LIST_DIR}/bad_inputs.cmake)
 # Fits (README.md, section Fits): the chi-square gradient of the forward-sensitivity
 # Jacobian against finite differences of the full steady solve, and a seeded twin
 # experiment on the closed-form linear column (tests/cli/fit_test.sh); --help; bad specs.
-add_test(NAME cli.fit
-  COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
-          ${CMAKE_CURRENT_BINARY_DIR}/fit_work)
+# One CTest test per part (independent; CTest runs them in parallel).
+foreach(part linear_check pyrene_check twin)
+  add_test(NAME cli.fit.${part}
+    COMMAND ${CMAKE_CURRENT_LIST_DIR}/fit_test.sh $<TARGET_FILE:colchem> ${CMAKE_SOURCE_DIR}
+            ${CMAKE_CURRENT_BINARY_DIR}/fit_work/${part} ${part})
+endforeach()
 # The comparison of module sets (fit --module-set) in a twin experiment with two candidate
 # sources of different shape, on one rank and on two; the fit of a held profile's multiplier
 # (tests/cli/fit_compare_test.sh).
@@ -347,3 +359,10 @@ colchem_cli_test(fit_no_held_profile 2
   $<TARGET_FILE:colchem> fit ${LINEAR} --param species.SO.hold:0.1:10)
 colchem_cli_test(fit_bad_band 2 "expected atmosphere.eddy_diffusion\\[LO-HI\\] \\(km\\) holding at least one cell edge"
   $<TARGET_FILE:colchem> fit ${LINEAR} --param "atmosphere.eddy_diffusion[70-80]:0.1:10")
+
+# The demo's scenario (configs/pyrene_extended.yaml on its 54-cell grid, base network and all
+# candidate modules) against the stored reference run tests/cli/reference/pyrene_demo_54.csv,
+# to the solver's step tolerance (tests/cli/demo_reference.py says why).
+add_test(NAME cli.demo_reference
+  COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/demo_reference.py $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/demo_reference_work)

@@ -3,8 +3,8 @@
 # trace gas, first-order loss k, fixed bottom mixing ratio f0; K f'' - (K/H) f' - k f = 0).
 # 1. The chi-square gradient of the fit's Jacobian, 2 J^T r (forward sensitivities), against
 #    central finite differences of the full nonlinear steady solve, for the two fitted
-#    parameters (ln f0, ln kscale) and for a K scaling in a band: 1e-4 relative (the brief's
-#    acceptance, the same as the adjoint's).
+#    parameters (ln f0, ln kscale) and for a K scaling in a band: 1e-4 relative (common
+#    practice, no source; the same as the adjoint's).
 #    The same on Pyrene (configs/pyrene_full.yaml, 54 cells; photolysis couples every cell
 #    to the absorbers above) for the SO2 bottom mixing ratio and K in three bands.
 # 2. A twin experiment (issue 14): observations made by the model itself at known values
@@ -13,7 +13,7 @@
 #    (ln f_m - ln f_o)/0.1, Gaussian of unit variance at the truth. Every parameter within 2
 #    reported sigma of its true value in >= 9 of the first 10 realisations, and the reported
 #    sigma (in ln p) within 30 % of the scatter (sample standard deviation) of the
-#    estimates. The brief asks for that over 20 realisations; the sample standard deviation
+#    estimates. Issue 14 asked for that over 20 realisations; the sample standard deviation
 #    of 20 has a relative standard error of 1/sqrt(2 x 19) = 16 %, so a correct sigma fails
 #    a 30 % band by chance about one time in ten (the first seed tried, 20261203, gave 1.325
 #    for ln f0 over 20, while 150 realisations of another seed gave 1.09 and 1.08). The
@@ -21,15 +21,19 @@
 #    first 20 is printed beside it. ln f_m is exactly linear in ln f0 (f is proportional to f0), and the
 #    Gauss-Newton covariance (J^T J)^-1 is then that of a linear least-squares estimate
 #    (Press et al., Numerical Recipes, 3rd ed., section 15.4); for ln kscale to first order.
+# The fourth argument picks one part (linear_check, pyrene_check, twin; CTest runs each as its
+# own test, in parallel); without it every part runs.
 set -eu
-colchem=$1; root=$2; work=$3
+colchem=$1; root=$2; work=$3; only=${4:-}
 mkdir -p "$work"; cd "$work"
+part() { [ -z "$only" ] || [ "$only" = "$1" ]; }
 cfg=$root/tests/cli/ensemble/linear_loss.yaml
 cp "$root/tests/cli/ensemble/linear_loss_mechanism.yaml" .
 f0=species.SO.bottom.mixing_ratio:1e-8:1e-4:log
 ks=chemistry.parameters.kscale:0.01:100:log
 
 # 1. Gradient checks.
+if part linear_check; then
 "$colchem" --log-level warn fit "$cfg" -p "$f0" -p "$ks" -p "atmosphere.eddy_diffusion[0-6]:0.1:10:log" \
   --check --max-iterations 1 -o check.nc > check.log 2>&1 || true
 cat check.log
@@ -44,6 +48,8 @@ for l in rows:
     assert rel <= 1e-4, l
 print("ok: gradient of chi2 from the forward-sensitivity Jacobian within 1e-4 of finite differences")
 PY
+fi
+if part pyrene_check; then
 "$colchem" --log-level warn fit "$root/configs/pyrene_full.yaml" \
   --observations "$root/profiles/observed/pyrene_so2_invented.csv" \
   -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log -p "atmosphere.eddy_diffusion[58-71.9]:0.1:10:log" \
@@ -59,11 +65,10 @@ assert len(rows) == 4, rows
 # Each component within 1e-4 of finite differences plus twice the finite difference's own
 # error estimate (Richardson truncation |fd(h) - fd(2h)|/3 plus the steady solves' noise / h,
 # printed as "fd error"; the command's own rule). The estimate must be small enough for the
-# comparison to mean something: below 1e-3 for every component, below 3e-5 (so that twice
-# it stays under the 1e-4 tolerance) for the three large ones (K at 72-90 km is 1/500 of
-# the largest; its finite difference is the noisy one). The estimate follows the re-solves'
-# noise, which depends on the base state's last digits: 3.3e-6 and 1.2e-5 for K at
-# 90-112 km with two grid-sequencing settings that give the same gradient to 1e-8.
+# comparison to mean something: below 1e-3 for every component, below 1e-5 for the three
+# large ones (K at 72-90 km is 1/500 of the largest; its finite difference is the noisy one).
+# --check re-solves to a scaled residual of 1e-14, where the solves' noise is below the
+# truncation term.
 g = [float(l.split()[1]) for l in rows]
 fd = [float(l.split()[2]) for l in rows]
 err = [float(l.split()[4]) for l in rows]
@@ -71,12 +76,14 @@ biggest = max(abs(v) for v in g)
 for l, a, b, e in zip(rows, g, fd, err):
     mag = max(abs(a), abs(b))
     assert e <= 1e-3, l
-    assert abs(a) < 1e-2 * biggest or e <= 3e-5, l
+    assert abs(a) < 1e-2 * biggest or e <= 1e-5, l
     assert abs(a - b) <= 1e-4 * mag + 2.0 * e * mag, l
 print("ok: Pyrene gradient of chi2 within 1e-4 of finite differences plus their error estimates")
 PY
+fi
 
 # 2. The twin experiment.
+part twin || exit 0
 "$colchem" --log-level warn run "$cfg" --set species.SO.bottom.mixing_ratio=2e-6 \
   --set chemistry.parameters.kscale=0.5 -o truth.nc
 /usr/bin/python3 - "$colchem" "$cfg" "$f0" "$ks" <<'PY'

@@ -45,10 +45,15 @@ print('ok: restart converged in', int(it), 'iterations')"
 grep -q "SO2: N = 3" compare.log
 /usr/bin/python3 -c "
 import netCDF4; ds = netCDF4.Dataset('scored.nc'); assert ds['chi2_log'][:].size == 1; print('ok: scores written')"
-# Interrupt a long transient.
+# Interrupt a long transient once its log shows an integration step (the progress line
+# "step N  t ..."; at most 600 s: sanitizer builds under load are slow to start).
 rm -f long.nc long.checkpoint.nc
 "$colchem" run "$cfg" -o long.nc > long.log 2>&1 & pid=$!
-sleep 3
+step_logged() {
+  for _ in $(seq 6000); do grep -q "$1" long.log 2>/dev/null && return 0; sleep 0.1; done
+  echo "FAIL: '$1' never appeared in long.log"; cat long.log; kill $pid; return 1
+}
+step_logged "step [0-9][0-9]*  t "
 kill -INT $pid
 set +e; wait $pid; code=$?; set -e
 [ "$code" -eq 7 ] || { echo "interrupted run exited $code, expected 7"; cat long.log; exit 1; }

@@ -79,7 +79,8 @@ TEST_CASE("Planck spectra, listed bins, bands and yields load", "[photo][io]") {
   // 2 nm at 740 nm is 2e-7 / (740e-7)^2 = 36.5 cm-1 (analytic).
   CHECK(b[0].fwhm_cm1 == Approx(2e-7 / std::pow(740e-7, 2)));
   CHECK(b[0].shape == BandShape::kLorentzian);
-  CHECK(b[0].strength_cm == Approx(8.853e-13 * 1e-9).epsilon(1e-3));  // science brief
+  // S = pi e^2/(m_e c^2) f (Hilborn 1982, Am. J. Phys. 50, 982; from memory).
+  CHECK(b[0].strength_cm == Approx(8.853e-13 * 1e-9).epsilon(1e-3));
   CHECK(b[1].strength_cm == Approx(1e-20));
   CHECK(spec.channels[0].quantum_yield.form == YieldForm::kTable);
   CHECK(spec.channels[0].threshold_nm == Approx(800.0));

@@ -124,7 +124,8 @@ TEST_CASE("overtone bands photolyse only short of the threshold but always absor
   PhotolysisModel m(s, bg, {"B", "C"});
   std::vector<double> n(6, 0.0), J(9);
   m.compute(n, J);
-  CHECK(J[0] == 0.0);  // the threshold rule (science brief, section 5)
+  // Energy conservation: the photon must carry the dissociation energy (analytic).
+  CHECK(J[0] == 0.0);
   // Short of the threshold the band photolyses with its whole strength:
   // J = sum_b sigma_b F dlambda_b ~ F S lambda0^2 (S in wavenumber space, lambda0 in cm; the
   // bins are 10 nm wide, so the wavenumber-to-wavelength Jacobian varies ~3 % across a bin).
@@ -137,7 +138,7 @@ TEST_CASE("overtone bands photolyse only short of the threshold but always absor
   CHECK(J2[2 * 3 + 0] < 0.95 * J[2 * 3 + 0]);
 }
 
-TEST_CASE("bulk gases absorb by mole fraction; other missing absorbers are errors", "[photo]") {
+TEST_CASE("bulk gases absorb by mole fraction, other missing absorbers are errors", "[photo]") {
   const Background bg = test::flat_isothermal(5, 50.0);  // bulk: N2 = 1
   PhotolysisSpec s = small_spec();
   s.absorbers[0].species = std::string("N2");

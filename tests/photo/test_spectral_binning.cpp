@@ -41,8 +41,8 @@ TEST_CASE("energy fluxes become photon fluxes with E = h c / lambda", "[photo]")
 }
 
 TEST_CASE("an overtone band's integrated cross section round-trips from f", "[photo]") {
-  // S = pi e^2 / (m_e c^2) f = 8.85e-13 f cm (science brief; classical electron radius
-  // times pi: 2.818e-13 cm * pi = 8.853e-13 cm, CODATA 2018).
+  // S = pi e^2 / (m_e c^2) f = 8.85e-13 f cm (Hilborn 1982, Am. J. Phys. 50, 982, from
+  // memory; classical electron radius times pi: 2.818e-13 cm * pi = 8.853e-13 cm, CODATA 2018).
   CHECK(band_strength_from_oscillator(1.0) == Approx(8.853e-13).epsilon(1e-3));
   const double f = 3.0e-9;
   for (BandShape shape : {BandShape::kGaussian, BandShape::kLorentzian}) {
@@ -60,7 +60,7 @@ TEST_CASE("an overtone band's integrated cross section round-trips from f", "[ph
         shape == BandShape::kGaussian
             ? 1.0
             : (std::atan((25000.0 - nu0) / 60.0) + std::atan((nu0 - 10000.0) / 60.0)) / constants::kPi;
-    CHECK(integral == Approx(8.853e-13 * f * inside).epsilon(2e-3));  // from the science brief
+    CHECK(integral == Approx(8.853e-13 * f * inside).epsilon(2e-3));     // Hilborn 1982 (above)
     CHECK(integral == Approx(band.strength_cm * inside).epsilon(1e-9));  // analytic
     // Peak value of a Gaussian: S / (sigma sqrt(2 pi)), sigma = FWHM / 2.3548 (analytic).
     if (shape == BandShape::kGaussian) {

@@ -76,7 +76,7 @@ const SensitivityRow& row_named(const SensitivityResult& res, const std::string&
 }
 
 /// Adjoint against a central difference (step 1e-3 in ln p, 1e-3 p for named parameters)
-/// of the full steady solve: agreement to 1e-4 relative (the brief's acceptance).
+/// of the full steady solve: agreement to 1e-4 relative (common practice, no source).
 void check_fd(Solved& s, const Objective& obj, const SensitivityRow& row) {
   const bool logp = row.parameter.kind != ParameterKind::kNamed;
   const double h = logp ? 1e-4 : 1e-3 * std::max(std::abs(row.parameter.value), 1e-3);

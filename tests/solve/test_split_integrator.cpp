@@ -110,8 +110,10 @@ TEST_CASE("Split integrator: adaptive steps track the exact solution", "[solve][
   CHECK(r.x[0] == Approx(1e6 * std::exp(-3.0)).epsilon(1e-12));
 }
 
-TEST_CASE("Split integrator: to_steady_state stops on the coupled residual; a failing "
-          "sub-step and an interrupt are reported", "[solve][split]") {
+TEST_CASE(
+    "Split integrator: to_steady_state stops on the coupled residual, a failing "
+    "sub-step and an interrupt are reported",
+    "[solve][split]") {
   Problem p;
   SECTION("not reached: the splitting error remains above a tight tolerance") {
     SplitOptions o;
@@ -166,8 +168,10 @@ TEST_CASE("Split integrator: to_steady_state stops on the coupled residual; a fa
   }
 }
 
-TEST_CASE("Split integrator: a too-long first step is rejected and halved; the adaptive "
-          "result matches a fine fixed-step run", "[solve][split]") {
+TEST_CASE(
+    "Split integrator: a too-long first step is rejected and halved, the adaptive "
+    "result matches a fine fixed-step run",
+    "[solve][split]") {
   Problem p;
   SplitOptions o;
   o.end_s = 3000.0;

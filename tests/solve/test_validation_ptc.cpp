@@ -43,6 +43,4 @@ TEST_CASE("PTC convergence history: stiff oxygen-like cycle with diffusion",
   CHECK(r.history[n - 1].residual_norm < 1e-8);
   CHECK(r.history[n - 3].pseudo_step_s == SteadyStateOptions{}.max_pseudo_step_s);
   CHECK(r.history[n - 2].residual_norm < 1e-4 * r.history[n - 3].residual_norm);
-  // Positivity of the final state (the damping keeps every iterate positive).
-  for (double v : r.x) CHECK(v >= 0.0);
 }

@@ -1,4 +1,5 @@
-// Steady states of the transport operator against analytic solutions.
+// Steady states of the transport operator against analytic solutions, solved by the coupled
+// steady-state solver that `colchem run` uses (test::solve_steady, transport_fixtures.hpp).
 #include <catch2/catch.hpp>
 
 #include <array>
@@ -55,7 +56,7 @@ TEST_CASE("molecular diffusion relaxes each species to its own scale height",
   for (auto& b : bc) b.bottom = BoundaryCondition::of(BoundaryKind::kDensity, 1e8);
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(60 * 2, 0.0);
-  REQUIRE(op.steady_state(n, 0.0));
+  REQUIRE(test::solve_steady(op, n));
   const double dz = bg.grid.width_cm(0);
   for (std::size_t s = 0; s < 2; ++s) {
     const double H = kB * T / (sp[s].mass_g * g);
@@ -142,7 +143,7 @@ TEST_CASE("eddy mixing with a fixed bottom mixing ratio gives a uniform mixing r
   bc[0].bottom = BoundaryCondition::of(BoundaryKind::kMixingRatio, 3e-6);
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(50, 0.0);
-  REQUIRE(op.steady_state(n, 0.0));
+  REQUIRE(test::solve_steady(op, n));
   for (std::size_t j = 0; j < 50; ++j) {
     CHECK(n[j] / bg.air_density_cm3[j] == Approx(3e-6).epsilon(1e-12));  // analytic
   }
@@ -158,7 +159,7 @@ double loss_column_error(std::size_t cells, const LossColumn& ex, double T, doub
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(cells, 0.0);
   const std::vector<double> loss(cells, ex.k);
-  if (!op.steady_state(n, 0.0, loss)) return 1.0;
+  if (!test::solve_steady(op, n, 0.0, loss)) return 1.0;
   if (csv) {
     csv->precision(16);
     for (std::size_t j = 0; j < cells; ++j) {
@@ -269,7 +270,7 @@ TEST_CASE("velocity boundaries on the edge converge at second order to the close
     TransportOperator op(bg, sp, bc);
     std::vector<double> n(cells, 0.0);
     const std::vector<double> loss(cells, k);
-    REQUIRE(op.steady_state(n, 0.0, loss));
+    REQUIRE(test::solve_steady(op, n, 0.0, loss));
     const TwoRoots& ex = deposition ? dep : esc;
     const auto fl = op.boundary_fluxes(n, 0.0)[0];
     const double phi = deposition ? fl.bottom : fl.top;
@@ -314,7 +315,7 @@ TEST_CASE("a constant flux through an inert column matches its closed form", "[t
     bc[0].top = BoundaryCondition::of(BoundaryKind::kDensity, n_top);
     TransportOperator op(bg, sp, bc);
     std::vector<double> n(N, 0.0);
-    REQUIRE(op.steady_state(n, 0.0));
+    REQUIRE(test::solve_steady(op, n));
     std::vector<double> flux(N + 1);
     op.edge_fluxes(n, 0.0, flux);
     for (double f : flux) CHECK(f == Approx(F).epsilon(1e-10));  // analytic
@@ -333,7 +334,7 @@ TEST_CASE("a constant flux through an inert column matches its closed form", "[t
     bc[0].top = BoundaryCondition::of(BoundaryKind::kEscapeVelocity, v_e);
     TransportOperator op(bg, sp, bc);
     std::vector<double> n(N, 0.0);
-    REQUIRE(op.steady_state(n, 0.0));
+    REQUIRE(test::solve_steady(op, n));
     CHECK(op.boundary_edge_density(n, 0.0, 0, true) == Approx(F / v_e).epsilon(1e-10));
     CHECK(op.boundary_fluxes(n, 0.0)[0].top == Approx(F).epsilon(1e-10));  // analytic
     const double f_top = F / v_e / (n0 * std::exp(-L / H));
@@ -357,7 +358,7 @@ TEST_CASE("a deposition velocity balances a flux from above", "[transport]") {
   bc[0].top = BoundaryCondition::of(BoundaryKind::kFlux, -F);
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(N, 0.0);
-  REQUIRE(op.steady_state(n, 0.0));
+  REQUIRE(test::solve_steady(op, n));
   CHECK(op.boundary_edge_density(n, 0.0, 0, false) == Approx(F / v_d).epsilon(1e-10));
   const auto b = op.boundary_fluxes(n, 0.0);
   CHECK(b[0].bottom == Approx(-F).epsilon(1e-10));  // analytic
@@ -403,7 +404,7 @@ TEST_CASE("diffusion-limited escape flux is b f / H_a at the top", "[transport]"
   bc[0].top.kind = BoundaryKind::kDiffusionLimited;
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(20, 0.0);
-  REQUIRE(op.steady_state(n, 0.0));
+  REQUIRE(test::solve_steady(op, n));
   const double Ha = kB * T / (28.0 * kAmu * g);
   CHECK(op.boundary_fluxes(n, 0.0)[0].top == Approx(F).epsilon(1e-10));  // analytic
   const double f_edge = op.boundary_edge_density(n, 0.0, 0, true) / bg.edge_air_density_cm3[20];
@@ -455,7 +456,7 @@ TEST_CASE("eddy plus molecular diffusion converges at second order on a smooth c
     TransportOperator op(bg, sp, bc);
     std::vector<double> n(cells * 2, 0.0);
     const std::vector<double> loss(cells * 2, 1e-4);
-    REQUIRE(op.steady_state(n, 0.0, loss));
+    REQUIRE(test::solve_steady(op, n, 0.0, loss));
     column_H.push_back(test::column_total(bg.grid, n, 2, 0));
     column_O.push_back(test::column_total(bg.grid, n, 2, 1));
     flux_H.push_back(op.boundary_fluxes(n, 0.0)[0].bottom);
@@ -483,7 +484,7 @@ TEST_CASE("a fixed top density anchors diffusive equilibrium from above", "[tran
   bc[0].top = BoundaryCondition::of(BoundaryKind::kDensity, 1e5);
   TransportOperator op(bg, sp, bc);
   std::vector<double> n(N, 0.0);
-  REQUIRE(op.steady_state(n, 0.0));
+  REQUIRE(test::solve_steady(op, n));
   const double H = kB * T / (sp[0].mass_g * g);
   const double dz = bg.grid.width_cm(0);
   CHECK(n[N - 1] == Approx(1e5 * std::exp(0.5 * dz / H)).epsilon(1e-10));  // analytic

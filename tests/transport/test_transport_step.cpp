@@ -310,10 +310,7 @@ TEST_CASE("fixed species and misplaced boundary kinds", "[transport]") {
   CHECK_THROWS_AS(TransportOperator(bg, sp, bc), std::invalid_argument);
   CHECK_THROWS_AS(TransportOperator(bg, sp, std::vector<SpeciesBoundaries>(3)),
                   std::invalid_argument);
-  // Zero flux at both ends and no loss: the steady problem is singular and says so.
   TransportOperator op(bg, sp, std::vector<SpeciesBoundaries>(4));
-  std::vector<double> n(5 * 4, 1.0);
-  CHECK_FALSE(op.steady_state(n, 0.0));
   // The fixed species (N2) is left alone by a step.
   std::vector<double> m(5 * 4, 1e8);
   m[2 * 4 + 3] = 5e8;

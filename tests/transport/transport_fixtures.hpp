@@ -8,6 +8,9 @@
 
 #include "core/background.hpp"
 #include "core/constants.hpp"
+#include "solve/column_operator.hpp"
+#include "solve/column_system.hpp"
+#include "solve/steady_state.hpp"
 #include "transport/transport_operator.hpp"
 
 namespace colchem::test {
@@ -82,6 +85,48 @@ struct LossColumn {
     return a * std::exp(rp * z) + b * std::exp(rm * z);
   }
 };
+
+/// A first-order loss L (s^-1) and a production P (cm^-3 s^-1), both n[j*S+s]-ordered (empty:
+/// none), as a column operator: f = P - L n, its diagonal Jacobian and its exact implicit step.
+class LinearSource final : public ColumnOperator {
+ public:
+  LinearSource(std::span<const double> loss, std::span<const double> production, std::size_t S)
+      : loss_(loss.begin(), loss.end()), production_(production.begin(), production.end()), S_(S) {}
+  void add_tendency(std::span<const double> n, double, std::span<double> tendency) override {
+    for (std::size_t i = 0; i < n.size(); ++i) tendency[i] += p(i) - l(i) * n[i];
+  }
+  void add_jacobian(std::span<const double> n, double, BlockTridiagonal& jac) override {
+    for (std::size_t i = 0; i < n.size(); ++i) jac.d(i / S_, i % S_, i % S_) -= l(i);
+  }
+  bool implicit_step(std::span<double> n, double, double dt) override {
+    for (std::size_t i = 0; i < n.size(); ++i) n[i] = (n[i] + dt * p(i)) / (1.0 + dt * l(i));
+    return true;
+  }
+
+ private:
+  [[nodiscard]] double l(std::size_t i) const { return loss_.empty() ? 0.0 : loss_[i]; }
+  [[nodiscard]] double p(std::size_t i) const { return production_.empty() ? 0.0 : production_[i]; }
+  std::vector<double> loss_, production_;
+  std::size_t S_;
+};
+
+/// The steady state of transport plus a first-order loss and a production, solved by the
+/// coupled steady-state solver that `colchem run` uses (SteadyStateSolver: pseudo-transient
+/// continuation ending in Newton's method) from n as the start, at time t. True when it
+/// converged; n then holds the state.
+inline bool solve_steady(TransportOperator& op, std::vector<double>& n, double t = 0.0,
+                         std::span<const double> loss = {},
+                         std::span<const double> production = {}) {
+  const std::size_t S = op.species_count();
+  LinearSource source(loss, production, S);
+  ColumnSystem sys{{&op, &source}, n.size() / S, S};
+  SteadyStateOptions o;
+  o.time_s = t;
+  const SteadyStateResult r = SteadyStateSolver(sys, o).solve(n);
+  if (!r.converged()) return false;
+  n = r.x;
+  return true;
+}
 
 inline double column_total(const Grid& g, std::span<const double> n, std::size_t S, std::size_t s) {
   double sum = 0.0;
