@@ -191,8 +191,14 @@ std::vector<double> Table::column(const std::string& col, const UnitSystem& unit
     throw InputError(code_, SourceLocation{file_, header_line_}, col,
                      "a unit convertible to '" + target_unit + "'",
                      from.empty() ? std::string("no unit") : "'" + from + "'",
-                     "write the unit in brackets after the column name, e.g. '" + col + " [" +
-                         target_unit + "]'");
+                     [&] {
+                       if (auto cand = units.case_respelling(from, target_unit)) {
+                         return "did you mean '" + *cand +
+                                "'? (unit symbols are case-sensitive)";
+                       }
+                       return "write the unit in brackets after the column name, e.g. '" + col +
+                              " [" + target_unit + "]'";
+                     }());
   }
   std::vector<double> out(data_[i].size());
   const double scale = *factor - *offset;
@@ -205,7 +211,7 @@ void Table::require_increasing(const std::string& col) const {
   for (std::size_t r = 1; r < v.size(); ++r) {
     if (!(v[r] > v[r - 1])) {
       fail_row(r, col, "values increasing down the column",
-               std::to_string(v[r]) + " after " + std::to_string(v[r - 1]));
+               message_number(v[r]) + " after " + message_number(v[r - 1]));
     }
   }
 }
