@@ -60,7 +60,8 @@ AveragingKernel read_kernel(const Table& obs, std::size_t r, const std::string& 
   }
   const Table& t = it->second;
   if (!t.has(column)) {
-    obs.fail_row(r, "kernel", "a weight column of " + path.string() + " (" + joined(t.names()) + ")",
+    obs.fail_row(r, "kernel",
+                 "a weight column of " + path.string() + " (" + joined(t.names()) + ")",
                  "'" + column + "'");
   }
   AveragingKernel k;
@@ -89,7 +90,9 @@ AveragingKernel read_kernel(const Table& obs, std::size_t r, const std::string& 
 }  // namespace
 
 ObservationSet read_observations(const std::filesystem::path& file, const UnitSystem& units) {
-  const Table t = Table::read(file, ExitCode::kInputData, {"species", "kernel"});
+  static const std::vector<std::string> kNumeric{"altitude", "value", "uncertainty", "upper_limit",
+                                                 "altitude_uncertainty"};
+  const Table t = Table::read(file, ExitCode::kInputData, {"species", "kernel"}, &kNumeric);
   ObservationSet set;
   set.file = file;
   set.text = t.text();

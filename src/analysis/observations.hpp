@@ -39,8 +39,8 @@ struct AveragingKernel {
   std::string source;  ///< "file#column" as named in the observation file
   std::vector<double> altitude_cm;
   std::vector<double> weight;
-  std::vector<double> a_priori;        ///< mole fractions at altitude_cm; empty: no a-priori term
-  double a_priori_at_point = 0.0;      ///< x_a at the observed altitude (linear interpolation)
+  std::vector<double> a_priori;    ///< mole fractions at altitude_cm; empty: no a-priori term
+  double a_priori_at_point = 0.0;  ///< x_a at the observed altitude (linear interpolation)
 };
 
 struct ObservationPoint {

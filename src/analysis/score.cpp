@@ -101,8 +101,8 @@ ModelledObservation modelled_observation(std::span<const double> z, std::span<co
   return out;
 }
 
-double observation_residual(const ModelledObservation& m, const ObservationPoint& o,
-                            bool log_space, std::vector<std::pair<std::size_t, double>>* dr) {
+double observation_residual(const ModelledObservation& m, const ObservationPoint& o, bool log_space,
+                            std::vector<std::pair<std::size_t, double>>* dr) {
   const double ln10 = std::log(10.0);
   const double value = log_space ? std::max(m.value, std::numeric_limits<double>::min()) : m.value;
   const double num = log_space ? std::log10(value) - std::log10(o.value) : value - o.value;

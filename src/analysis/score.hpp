@@ -83,8 +83,8 @@ ModelledObservation modelled_observation(std::span<const double> altitude_cm,
 /// Residual of a modelled observation: (log10 m - log10 f_o) / (s / (f_o ln 10)) in log
 /// space, (m - f_o) / s in linear space; with dr/df_j when `dr` is not null (the sum over
 /// value and sigma dependences).
-double observation_residual(const ModelledObservation& m, const ObservationPoint& o,
-                            bool log_space, std::vector<std::pair<std::size_t, double>>* dr);
+double observation_residual(const ModelledObservation& m, const ObservationPoint& o, bool log_space,
+                            std::vector<std::pair<std::size_t, double>>* dr);
 
 /// Model f(z) at altitude z, interpolated in altitude and log f; z outside
 /// [altitude.front(), altitude.back()] returns NaN.

@@ -7,7 +7,9 @@
 
 namespace colchem {
 
-std::string message_number(double v) { return fmt::format("{:.6g}", v); }
+std::string message_number(double v) {
+  return fmt::format("{:.6g}", v);
+}
 
 std::string SourceLocation::str() const {
   // Built with append(): GCC 12 warns falsely (-Wrestrict, GCC bug 105329) on the

@@ -482,7 +482,8 @@ void load_prescribed(const ConfigNode& list, Ctx& ctx, PhotolysisSpec& spec) {
     }
     p.channel_index = static_cast<std::size_t>(it - names.begin());
     for (const auto& q : spec.prescribed) {
-      if (q.channel == p.channel) channel.fail("each channel prescribed once", "a repeat of '" + p.channel + "'");
+      if (q.channel == p.channel)
+        channel.fail("each channel prescribed once", "a repeat of '" + p.channel + "'");
     }
     if ((table ? 1 : 0) + (value ? 1 : 0) != 1) {
       n.fail("exactly one of 'table' (a J profile) and 'value' (a J held at every altitude)",

@@ -502,7 +502,9 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
 void PhotolysisModel::apply_prescribed(std::span<double> J) const {
   const std::size_t N = levels_;
   for (std::size_t c = 0; c < prescribed_.size(); ++c) {
-    if (!prescribed_[c].empty()) std::copy(prescribed_[c].begin(), prescribed_[c].end(), J.begin() + static_cast<std::ptrdiff_t>(c * N));
+    if (!prescribed_[c].empty())
+      std::copy(prescribed_[c].begin(), prescribed_[c].end(),
+                J.begin() + static_cast<std::ptrdiff_t>(c * N));
   }
 }
 

@@ -196,9 +196,9 @@ struct RadiativeTransferSpec {
 /// day fraction) and does not depend on the state.
 struct PrescribedJSpec {
   std::string channel;
-  std::size_t channel_index = 0;  ///< into PhotolysisSpec::channels (resolved at load)
-  bool held = false;              ///< one value at every altitude
-  double value_s1 = 0.0;          ///< held
+  std::size_t channel_index = 0;    ///< into PhotolysisSpec::channels (resolved at load)
+  bool held = false;                ///< one value at every altitude
+  double value_s1 = 0.0;            ///< held
   std::vector<double> altitude_cm;  ///< table: increasing
   std::vector<double> j_s1;         ///< table
   std::string source;               ///< the table file, for messages

@@ -119,9 +119,8 @@ std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
       r.species = s;
       r.point = p;
       if (p.counted) {
-        const ModelledObservation m =
-            modelled_observation(bg.grid.center_cm, std::span<const double>(f).subspan(s * N, N),
-                                 p.obs);
+        const ModelledObservation m = modelled_observation(
+            bg.grid.center_cm, std::span<const double>(f).subspan(s * N, N), p.obs);
         std::vector<std::pair<std::size_t, double>> dr_df;
         r.r = observation_residual(m, p.obs, log_space, &dr_df);
         // dr/dx = dr/df_j / n_air_j at x[j*S + s].

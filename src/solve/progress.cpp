@@ -113,8 +113,7 @@ std::string BatchProgress::format(std::size_t done, std::size_t total, double el
   }
   s += "  elapsed " + fmt_num("%.3g", elapsed_s) + " s";
   if (done > 0 && done < total) {
-    const double left =
-        elapsed_s * static_cast<double>(total - done) / static_cast<double>(done);
+    const double left = elapsed_s * static_cast<double>(total - done) / static_cast<double>(done);
     s += "  left ~" + fmt_num("%.2g", left) + " s";
   }
   return s;

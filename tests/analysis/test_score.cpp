@@ -102,8 +102,9 @@ TEST_CASE("observation files: format and errors", "[score][observations]") {
     return std::string("no error");
   };
   const std::string hdr = "altitude [km], species, value [1], uncertainty [1], upper_limit\n";
-  CHECK_THAT(error_of(hdr + "64, SO2, -1e-7, 1e-8, 0\n"),
-             Catch::EndsWith("obs_bad.csv:2: 'value': expected a positive mole fraction, found -1e-07"));
+  CHECK_THAT(
+      error_of(hdr + "64, SO2, -1e-7, 1e-8, 0\n"),
+      Catch::EndsWith("obs_bad.csv:2: 'value': expected a positive mole fraction, found -1e-07"));
   CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 0, 0\n"),
              Catch::Contains(":2: 'uncertainty': expected a positive uncertainty for a detection"));
   CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 2\n"),
@@ -219,13 +220,13 @@ TEST_CASE("observation files: kernels, altitude uncertainty and unknown columns"
   write("obs_kernels.csv",
         "# invented\naltitude [km], a_priori [ppm], k64, k70\n60, 0.1, 0.2, 0\n64, 0.2, 0.6, "
         "0.1\n70, 0.4, 0.2, 0.9\n");
-  const auto file = write(
-      "obs_with_kernels.csv",
-      "# invented\naltitude [km], species, value [ppm], uncertainty [ppm], upper_limit, "
-      "altitude_uncertainty [km], kernel, instrument\n"
-      "62, SO2, 0.2, 0.05, 0, 0, obs_kernels.csv#k64, A\n"
-      "70, SO2, 0.3, 0.05, 0, 0, obs_kernels.csv#k70, A\n"
-      "80, SO2, 0.1, 0.02, 0, 2.5, -, B\n");
+  const auto file =
+      write("obs_with_kernels.csv",
+            "# invented\naltitude [km], species, value [ppm], uncertainty [ppm], upper_limit, "
+            "altitude_uncertainty [km], kernel, instrument\n"
+            "62, SO2, 0.2, 0.05, 0, 0, obs_kernels.csv#k64, A\n"
+            "70, SO2, 0.3, 0.05, 0, 0, obs_kernels.csv#k70, A\n"
+            "80, SO2, 0.1, 0.02, 0, 2.5, -, B\n");
   const ObservationSet set = read_observations(file, units);
   REQUIRE(set.points.size() == 3);
   REQUIRE(set.points[0].kernel);

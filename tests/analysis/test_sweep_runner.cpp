@@ -29,12 +29,12 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
   };
   std::size_t calls = 0;
   std::vector<std::size_t> finished;
-  const auto out = run_variants(MPI_COMM_SELF, variants, runner,
-                                [&](const Variant&, const VariantOutcome& r) {
-                                  ++calls;
-                                  finished.push_back(r.finished);
-                                  CHECK(r.to_run == 5);
-                                });
+  const auto out =
+      run_variants(MPI_COMM_SELF, variants, runner, [&](const Variant&, const VariantOutcome& r) {
+        ++calls;
+        finished.push_back(r.finished);
+        CHECK(r.to_run == 5);
+      });
   REQUIRE(out.size() == 5);
   CHECK(calls == 5);
   // The shared count of finished variants (for progress lines) on one rank: 1, 2, ..., 5.

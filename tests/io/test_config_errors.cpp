@@ -178,9 +178,10 @@ TEST_CASE("wrong-case units get the spelling UDUNITS-2 converts", "[config][unit
   const UnitSystem units;
   CHECK(units.case_respelling("AU", "cm") == std::optional<std::string>("au"));
   CHECK(units.case_respelling("KM", "cm") == std::optional<std::string>("km"));
-  CHECK(units.case_respelling("PA", "Pa") == std::optional<std::string>("Pa"));  // PA parses (petaampere)
+  CHECK(units.case_respelling("PA", "Pa") ==
+        std::optional<std::string>("Pa"));  // PA parses (petaampere)
   CHECK(units.case_respelling("hPA", "Pa") == std::optional<std::string>("hPa"));
-  CHECK(units.case_respelling("K", "K") == std::nullopt);        // already right
+  CHECK(units.case_respelling("K", "K") == std::nullopt);          // already right
   CHECK(units.case_respelling("furlongz", "cm") == std::nullopt);  // nothing close
   const auto doc = ConfigDocument::from_text(
       "d: 1.3 AU\np: 920 PA\nl: {values: [1, 2], unit: KM}\nq: 1 hPA\n", "c.yaml");

@@ -226,7 +226,8 @@ TEST_CASE("prescribed J replaces the computed channel and has no state derivativ
     PhotolysisModel bad(pspec, bg, {"A"});
     FAIL("no error");
   } catch (const InputError& e) {
-    CHECK_THAT(std::string(e.what()), Catch::StartsWith("j.csv: 'altitude': expected altitudes "
-                                                        "covering the model's cell centres (5 to 35 km)"));
+    CHECK_THAT(std::string(e.what()),
+               Catch::StartsWith("j.csv: 'altitude': expected altitudes "
+                                 "covering the model's cell centres (5 to 35 km)"));
   }
 }
