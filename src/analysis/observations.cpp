@@ -35,16 +35,16 @@ std::string joined(const std::vector<std::string>& v) {
   return out;
 }
 
-// Reads the kernel row named in row r's `kernel` field ("PATH" or "PATH#COLUMN"); tables are
+// Reads the kernel row named in row r's `kernel` field ("PATH" or "PATH:COLUMN"); tables are
 // read once per file.
 AveragingKernel read_kernel(const Table& obs, std::size_t r, const std::string& field,
                             double altitude_cm, const UnitSystem& units,
                             std::map<std::string, Table>& tables, ObservationSet& set) {
-  const auto hash = field.find('#');
-  const std::string rel = field.substr(0, hash);
-  const std::string column = hash == std::string::npos ? "weight" : field.substr(hash + 1);
+  const auto colon = field.rfind(':');  // '#' would start a comment in a table
+  const std::string rel = field.substr(0, colon);
+  const std::string column = colon == std::string::npos ? "weight" : field.substr(colon + 1);
   if (rel.empty() || column.empty()) {
-    obs.fail_row(r, "kernel", "'-', PATH or PATH#COLUMN", "'" + field + "'");
+    obs.fail_row(r, "kernel", "'-', PATH or PATH:COLUMN", "'" + field + "'");
   }
   const std::filesystem::path path = set.file.parent_path() / rel;
   auto it = tables.find(path.string());
@@ -65,7 +65,7 @@ AveragingKernel read_kernel(const Table& obs, std::size_t r, const std::string& 
                  "'" + column + "'");
   }
   AveragingKernel k;
-  k.source = rel + "#" + column;
+  k.source = rel + ":" + column;
   k.altitude_cm = t.column("altitude", units, "cm");
   k.weight = t.column(column, units, "1");
   for (std::size_t i = 0; i < t.rows(); ++i) {

@@ -13,7 +13,7 @@
 //   altitude_uncertainty [km]  one standard deviation of the altitude the point belongs to;
 //                              the score widens the point's sigma by the model's local slope
 //                              (analysis/score.hpp).
-//   kernel                     "-" for none, or PATH or PATH#COLUMN: the point's averaging
+//   kernel                     "-" for none, or PATH or PATH:COLUMN: the point's averaging
 //                              kernel row, a table (path relative to the observation file)
 //                              with columns altitude [km], the weight column (named COLUMN,
 //                              else "weight", dimensionless) and optionally a_priori (a mole
@@ -36,7 +36,7 @@ namespace colchem {
 /// Sounding", ch. 2-3): weights a_ik at altitudes z_k and, when given, the a-priori profile
 /// x_a(z_k) and its value at the observed altitude.
 struct AveragingKernel {
-  std::string source;  ///< "file#column" as named in the observation file
+  std::string source;  ///< "file:column" as named in the observation file
   std::vector<double> altitude_cm;
   std::vector<double> weight;
   std::vector<double> a_priori;    ///< mole fractions at altitude_cm; empty: no a-priori term

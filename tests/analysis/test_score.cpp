@@ -224,8 +224,8 @@ TEST_CASE("observation files: kernels, altitude uncertainty and unknown columns"
       write("obs_with_kernels.csv",
             "# invented\naltitude [km], species, value [ppm], uncertainty [ppm], upper_limit, "
             "altitude_uncertainty [km], kernel, instrument\n"
-            "62, SO2, 0.2, 0.05, 0, 0, obs_kernels.csv#k64, A\n"
-            "70, SO2, 0.3, 0.05, 0, 0, obs_kernels.csv#k70, A\n"
+            "62, SO2, 0.2, 0.05, 0, 0, obs_kernels.csv:k64, A\n"
+            "70, SO2, 0.3, 0.05, 0, 0, obs_kernels.csv:k70, A\n"
             "80, SO2, 0.1, 0.02, 0, 2.5, -, B\n");
   const ObservationSet set = read_observations(file, units);
   REQUIRE(set.points.size() == 3);
@@ -253,14 +253,14 @@ TEST_CASE("observation files: kernels, altitude uncertainty and unknown columns"
   const std::string hdr =
       "altitude [km], species, value [1], uncertainty [1], upper_limit, altitude_uncertainty "
       "[km], kernel\n";
-  CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, 0, obs_kernels.csv#k99\n"),
+  CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, 0, obs_kernels.csv:k99\n"),
              Catch::Contains(":2: 'kernel': expected a weight column of"));
   CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, 0, missing.csv\n"),
              Catch::Contains("which does not exist"));
-  CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, 1, obs_kernels.csv#k64\n"),
+  CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, 1, obs_kernels.csv:k64\n"),
              Catch::Contains(":2: 'altitude_uncertainty': expected 0 for a point with a kernel"));
   CHECK_THAT(error_of(hdr + "64, SO2, 1e-7, 1e-8, 0, -1, -\n"),
              Catch::Contains("expected a non-negative altitude uncertainty, found -1 km"));
-  CHECK_THAT(error_of(hdr + "75, SO2, 1e-7, 1e-8, 0, 0, obs_kernels.csv#k64\n"),
+  CHECK_THAT(error_of(hdr + "75, SO2, 1e-7, 1e-8, 0, 0, obs_kernels.csv:k64\n"),
              Catch::Contains("found 75 km"));
 }
