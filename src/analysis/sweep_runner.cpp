@@ -111,12 +111,13 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
   MPI_Comm_rank(comm, &rank);
   MPI_Comm_size(comm, &size);
 
-  // The shared counter of the next variant to start, on rank 0.
+  // The shared counters on rank 0: the next variant to start, and the variants finished (for
+  // progress lines).
   long* counter = nullptr;
   MPI_Win win;
-  MPI_Win_allocate(rank == 0 ? static_cast<MPI_Aint>(sizeof(long)) : 0, sizeof(long),
+  MPI_Win_allocate(rank == 0 ? static_cast<MPI_Aint>(2 * sizeof(long)) : 0, sizeof(long),
                    MPI_INFO_NULL, comm, &counter, &win);
-  if (rank == 0) *counter = 0;
+  if (rank == 0) counter[0] = counter[1] = 0;
   MPI_Barrier(comm);
   MPI_Win_lock_all(0, win);
 
@@ -151,6 +152,11 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
     out.rank = rank;
     out.wall_seconds =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    long finished = 0;
+    MPI_Fetch_and_op(&one, &finished, MPI_LONG, 0, 1, MPI_SUM, win);
+    MPI_Win_flush(0, win);
+    out.finished = static_cast<std::size_t>(finished) + 1;
+    out.to_run = to_run;
     if (done) done(v, out);
     mine.push_back(std::move(out));
   }

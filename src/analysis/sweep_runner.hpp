@@ -36,6 +36,10 @@ struct VariantOutcome {
   int rank = 0;
   bool warm_started = false;   ///< started from a converged state (not the initial guess)
   std::vector<double> values;  ///< variant-specific numbers the caller packs (profiles, scores)
+  /// For progress lines, set before `done` is called (not gathered): variants finished on
+  /// every rank so far, this one included, and how many this call runs.
+  std::size_t finished = 0;
+  std::size_t to_run = 0;
 };
 
 /// Runs one variant. Must not throw for a variant that fails: return converged = false with

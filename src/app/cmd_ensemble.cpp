@@ -33,6 +33,7 @@
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
+#include "solve/progress.hpp"
 #include "solve/solver_options.hpp"
 
 namespace colchem::app {
@@ -193,6 +194,7 @@ struct EnsembleCliOptions {
   double above_km = 90.0;
   bool attribution = false;
   std::vector<std::string> attribute;
+  double progress_every = 0.2;
 };
 
 /// One member: the scenario with the member's rate factors, warm-started from the base
@@ -321,7 +323,7 @@ std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<do
                                         std::size_t M, std::size_t R, double sigmas,
                                         const std::vector<double>& x0,
                                         const InterruptGuard& interrupt, spdlog::logger& log,
-                                        int rank) {
+                                        int rank, double progress_every) {
   std::vector<Variant> members(M);
   for (std::size_t m = 0; m < members.size(); ++m) {
     members[m].index = m;
@@ -331,7 +333,9 @@ std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<do
     return solve_member(sc, std::span<const double>(z).subspan(v.index * R, R), sigmas, x0,
                         interrupt);
   };
+  BatchProgress batch(log, "ensemble members", progress_every);
   const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+    batch.finished(r.finished, r.to_run);
     log.debug("{} on rank {}: {} ({} iterations, {:.2f} s)", v.label, rank,
               r.converged ? "converged" : "FAILED: " + r.reason, r.iterations, r.wall_seconds);
   };
@@ -396,7 +400,7 @@ int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
 
   // 3. The members.
   const std::vector<VariantOutcome> outcomes =
-      run_members(sc, z, M, R, o.sigmas, base.x, interrupt, *ctx.log, rank);
+      run_members(sc, z, M, R, o.sigmas, base.x, interrupt, *ctx.log, rank, o.progress_every);
   if (interrupt.query()()) {
     if (rank == 0) ctx.log->warn("interrupted: nothing written");
     return static_cast<int>(ExitCode::kInterrupted);
@@ -468,6 +472,11 @@ void add_ensemble_command(CLI::App& app, std::vector<std::pair<CLI::App*, Comman
   cmd->add_option("--attribute", o->attribute,
                   "An attribution target SPECIES@KM, e.g. SO2@90 (repeatable; implies "
                   "--attribution, adds to the observed points)");
+  cmd->add_option("--progress-every", o->progress_every,
+                  "At most one progress line (members done/total, time left) per this many "
+                  "seconds (0: one per member)")
+      ->check(CLI::NonNegativeNumber)
+      ->capture_default_str();
   out.emplace_back(cmd, [o](Context& ctx) { return run_ensemble(*o, ctx); });
 }
 

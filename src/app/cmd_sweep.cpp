@@ -33,6 +33,7 @@
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
+#include "solve/progress.hpp"
 
 namespace colchem::app {
 
@@ -44,6 +45,7 @@ struct SweepCliOptions {
   std::string output, table, variants;
   std::vector<std::string> resume, merge;
   bool dry_run = false, retry_failed = false;
+  double progress_every = 0.2;
 };
 
 std::string file_text(const std::filesystem::path& file) {
@@ -269,7 +271,8 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
       std::cout << "variant\tmodules\tparameters\toverrides\n";
       for (const auto& v : variants) {
         std::vector<std::string> params;
-        for (const auto& [n, x] : v.parameters) params.push_back(n + "=" + exact_number(x));
+        // Readable here; the overrides column carries the exact values.
+        for (const auto& [n, x] : v.parameters) params.push_back(fmt::format("{}={:.6g}", n, x));
         std::cout << fmt::format(
             "{}\t{}\t{}\t{}\n", v.index,
             v.modules.empty() ? v.module_label : fmt::format("{}", fmt::join(v.modules, "+")),
@@ -439,7 +442,9 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
     result.values = mole_fractions(model, r.x);
     return result;
   };
+  BatchProgress batch(*ctx.log, "sweep", o.progress_every);
   const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+    batch.finished(r.finished, r.to_run);
     ctx.log->info("variant {}/{} [{}] {} on rank {}: {} ({} iterations, {:.2f} s)", v.index + 1, V,
                   v.label, r.warm_started ? "from the base" : "cold", rank,
                   r.converged ? "converged" : (r.interrupted ? r.reason : "FAILED: " + r.reason),
@@ -590,6 +595,11 @@ void add_sweep_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                   "without solving; refuses pieces of another sweep definition or a variant "
                   "left unfinished")
       ->check(CLI::ExistingFile);
+  cmd->add_option("--progress-every", o->progress_every,
+                  "At most one progress line (variants done/total, time left; and each "
+                  "variant's solve) per this many seconds (0: every line)")
+      ->check(CLI::NonNegativeNumber)
+      ->capture_default_str();
   out.emplace_back(cmd, [o](Context& ctx) { return run_sweep(*o, ctx); });
 }
 

@@ -54,8 +54,8 @@ BoxResult run_box(const BoxProblem& pb) {
     const double t0 = pb.times_s[i - 1];
     if (!op.implicit_step(n, t0, pb.times_s[i] - t0)) {
       throw RunError(ExitCode::kNotConverged,
-                     "box integration failed between t = " + std::to_string(t0) + " s and " +
-                         std::to_string(pb.times_s[i]) + " s (step size below the minimum)");
+                     "box integration failed between t = " + message_number(t0) + " s and " +
+                         message_number(pb.times_s[i]) + " s (step size below the minimum)");
     }
     record(i);
   }

@@ -1,9 +1,15 @@
 #include "core/error.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <vector>
 
 namespace colchem {
+
+std::string message_number(double v) {
+  return fmt::format("{:.6g}", v);
+}
 
 std::string SourceLocation::str() const {
   // Built with append(): GCC 12 warns falsely (-Wrestrict, GCC bug 105329) on the

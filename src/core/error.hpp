@@ -66,6 +66,10 @@ class RunError : public std::runtime_error {
 /// "... (N characters in all)" (a 10 MB value is not echoed whole).
 std::string clip_for_message(const std::string& text);
 
+/// A number as it appears in a message: six significant digits ("1e-07", "262.5"), never
+/// std::to_string's fixed six decimals ("0.000000") nor a 17-digit round trip.
+std::string message_number(double v);
+
 /// Levenshtein distance, for "did you mean" suggestions.
 std::size_t edit_distance(const std::string& a, const std::string& b);
 

@@ -5,6 +5,7 @@
 #include <cctype>
 #include <cstdlib>
 #include <stdexcept>
+#include <vector>
 
 #include "core/error.hpp"
 
@@ -50,6 +51,39 @@ bool UnitSystem::convertible(const std::string& a, const std::string& b) const {
   auto ua = parse(impl_->system, a);
   auto ub = parse(impl_->system, b);
   return ua && ub && ut_are_convertible(ua.get(), ub.get()) != 0;
+}
+
+std::optional<std::string> UnitSystem::case_respelling(const std::string& unit,
+                                                       const std::string& target) const {
+  if (convertible(unit, target)) return std::nullopt;
+  std::vector<std::size_t> letters;
+  for (std::size_t i = 0; i < unit.size(); ++i) {
+    if (std::isalpha(static_cast<unsigned char>(unit[i]))) letters.push_back(i);
+  }
+  // Every case pattern of up to 8 letters (256 parses at most); longer units try all-lower
+  // and all-upper only.
+  const bool all_patterns = letters.size() <= 8;
+  const std::size_t patterns = all_patterns ? (std::size_t{1} << letters.size()) : 2;
+  std::optional<std::string> best;
+  int best_changes = 0;
+  for (std::size_t m = 0; m < patterns; ++m) {
+    std::string cand = unit;
+    int changes = 0;
+    for (std::size_t b = 0; b < letters.size(); ++b) {
+      const bool upper = all_patterns ? ((m >> b) & 1U) != 0 : m == 1;
+      char& c = cand[letters[b]];
+      const char to = static_cast<char>(upper ? std::toupper(static_cast<unsigned char>(c))
+                                              : std::tolower(static_cast<unsigned char>(c)));
+      changes += to != c ? 1 : 0;
+      c = to;
+    }
+    if (changes == 0 || (best && changes >= best_changes)) continue;
+    if (convertible(cand, target)) {
+      best = cand;
+      best_changes = changes;
+    }
+  }
+  return best;
 }
 
 std::optional<double> UnitSystem::convert(double value, const std::string& from_unit,

@@ -28,6 +28,13 @@ class UnitSystem {
   /// True when both parse and are convertible.
   [[nodiscard]] bool convertible(const std::string& a, const std::string& b) const;
 
+  /// A respelling of `unit` in other letter cases that UDUNITS-2 parses and converts to
+  /// `target` ("AU" -> "au", "KM" -> "km", "PA" -> "Pa", "hPA" -> "hPa"), the one with the
+  /// fewest changed letters; nullopt when `unit` already converts or no respelling does.
+  /// Candidates are tested against the unit database itself (no table of spellings).
+  [[nodiscard]] std::optional<std::string> case_respelling(const std::string& unit,
+                                                           const std::string& target) const;
+
  private:
   struct Impl;
   std::unique_ptr<Impl> impl_;

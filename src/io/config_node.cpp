@@ -414,17 +414,12 @@ std::string ConfigNode::choice(const std::vector<std::string>& choices) const {
 
 namespace {
 
-/// A spelling of `unit` that UDUNITS-2 parses and converts to `target` when the user's does
-/// not parse: the same letters in another case ("AU" -> "au", "KM" -> "km"), "" if none.
+/// A spelling of `unit` in other letter cases that UDUNITS-2 converts to `target` ("AU" ->
+/// "au", "PA" -> "Pa"), as a hint; "" if none.
 std::string unit_spelling_hint(const UnitSystem& units, const std::string& unit,
                                const std::string& target) {
-  std::string lower = unit, upper = unit;
-  for (auto& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  for (auto& c : upper) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
-  for (const auto& cand : {lower, upper}) {
-    if (cand != unit && units.parses(cand) && units.convertible(cand, target)) {
-      return "did you mean '" + cand + "'? (unit symbols are case-sensitive)";
-    }
+  if (auto cand = units.case_respelling(unit, target)) {
+    return "did you mean '" + *cand + "'? (unit symbols are case-sensitive)";
   }
   return {};
 }
@@ -447,7 +442,7 @@ double ConfigNode::quantity(const UnitSystem& units, const std::string& target_u
            "'" + q->unit + "'", unit_spelling_hint(units, q->unit, target_unit));
     }
     fail("a unit convertible to '" + target_unit + "', such as '" + example + "'",
-         "'" + q->unit + "'");
+         "'" + q->unit + "'", unit_spelling_hint(units, q->unit, target_unit));
   }
   if (!std::isfinite(*v)) fail("a finite value");
   return *v;
@@ -468,8 +463,7 @@ std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
       auto v = units.convert(item.number(), unit, target_unit);
       if (!v) {
         child("unit").fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
-                           units.parses(unit) ? std::string()
-                                              : unit_spelling_hint(units, unit, target_unit));
+                           unit_spelling_hint(units, unit, target_unit));
       }
       out.push_back(*v);
     }
@@ -492,7 +486,10 @@ std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
     auto q = split_quantity(item);
     if (!q || !q->unit.empty()) fail("plain numbers inside '[...] " + unit + "'", "'" + item + "'");
     auto v = units.convert(q->value, unit, target_unit);
-    if (!v) fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'");
+    if (!v) {
+      fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
+           unit_spelling_hint(units, unit, target_unit));
+    }
     out.push_back(*v);
   }
   return out;

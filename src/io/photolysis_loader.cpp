@@ -183,7 +183,7 @@ TabulatedSpectrum read_spectrum_table(const ConfigNode& n, Ctx& ctx, const std::
   s.value = t.column(column, ctx.units, target_unit);
   for (std::size_t r = 0; r < s.value.size(); ++r) {
     if (!(s.value[r] >= 0.0))
-      t.fail_row(r, column, "a value >= 0", std::to_string(t.raw(column)[r]));
+      t.fail_row(r, column, "a value >= 0", message_number(t.raw(column)[r]));
   }
   if (s.wavelength_nm.front() <= 0.0) t.fail_row(0, wl_column, "a positive wavelength", "<= 0");
   s.source = table_label(t);
@@ -290,7 +290,7 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   s.table.value = t.column(column, ctx.units, target);
   for (std::size_t r = 0; r < s.table.value.size(); ++r) {
     if (!(s.table.value[r] >= 0.0))
-      t.fail_row(r, column, "a flux >= 0", std::to_string(t.raw(column)[r]));
+      t.fail_row(r, column, "a flux >= 0", message_number(t.raw(column)[r]));
   }
   s.table.source = table_label(t);
   if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", file, t.text()});
@@ -375,8 +375,8 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
     const auto x = t.column(wl, ctx.units, "nm");
     const auto v = t.column(column, ctx.units, "1");
     for (std::size_t r = 0; r < t.rows(); ++r) {
-      if (!check(v[r])) t.fail_row(r, column, "a " + range, std::to_string(t.raw(column)[r]));
-      if (!(x[r] > 0.0)) t.fail_row(r, wl, "a positive wavelength", std::to_string(t.raw(wl)[r]));
+      if (!check(v[r])) t.fail_row(r, column, "a " + range, message_number(t.raw(column)[r]));
+      if (!(x[r] > 0.0)) t.fail_row(r, wl, "a positive wavelength", message_number(t.raw(wl)[r]));
       const bool new_block = r == 0 || z[r] != z[r - 1];
       if (new_block) {
         if (r > 0 && !(z[r] > z[r - 1])) {
@@ -387,7 +387,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
         p.spectra.push_back(TabulatedSpectrum{{}, {}, table_label(t)});
       } else if (!(x[r] > x[r - 1])) {
         t.fail_row(r, wl, "wavelengths increasing within an altitude",
-                   std::to_string(t.raw(wl)[r]));
+                   message_number(t.raw(wl)[r]));
       }
       p.spectra.back().wavelength_nm.push_back(x[r]);
       p.spectra.back().value.push_back(v[r]);
@@ -405,7 +405,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
     p.by_wavelength = read_spectrum_table(n, ctx, "aerosol " + what, "value", "1", &t);
     for (std::size_t r = 0; r < p.by_wavelength.value.size(); ++r) {
       if (!check(p.by_wavelength.value[r])) {
-        t.fail_row(r, "value", "a " + range, std::to_string(p.by_wavelength.value[r]));
+        t.fail_row(r, "value", "a " + range, message_number(p.by_wavelength.value[r]));
       }
     }
     return p;
@@ -416,7 +416,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
   p.by_altitude = aerosol.column(c.text(), ctx.units, "1");
   for (std::size_t r = 0; r < p.by_altitude.size(); ++r) {
     if (!check(p.by_altitude[r])) {
-      aerosol.fail_row(r, c.text(), "a " + range, std::to_string(p.by_altitude[r]));
+      aerosol.fail_row(r, c.text(), "a " + range, message_number(p.by_altitude[r]));
     }
   }
   return p;
@@ -443,7 +443,7 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   a.extinction_cm1 = t.column(column, ctx.units, "cm-1");
   for (std::size_t r = 0; r < a.extinction_cm1.size(); ++r) {
     if (!(a.extinction_cm1[r] >= 0.0))
-      t.fail_row(r, column, "an extinction >= 0", std::to_string(t.raw(column)[r]));
+      t.fail_row(r, column, "an extinction >= 0", message_number(t.raw(column)[r]));
   }
   if ((ssa ? 1 : 0) + (asym ? 1 : 0) == 1) {
     n.fail("both 'single_scattering_albedo' and 'asymmetry' (or neither)", "only one of them");
@@ -457,6 +457,61 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   a.source = table_label(t);
   a.present = true;
   if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol extinction table", file, t.text()});
+}
+
+// photolysis.prescribed: a list of {channel, table[, column, altitude_column]} or
+// {channel, value}.
+void load_prescribed(const ConfigNode& list, Ctx& ctx, PhotolysisSpec& spec) {
+  std::vector<std::string> names;
+  for (const auto& c : spec.channels) names.push_back(c.name);
+  for (const auto& n : list.items()) {
+    PrescribedJSpec p;
+    const auto channel = n.child("channel");
+    const auto table = n.find("table");
+    const auto value = n.find("value");
+    const auto column = n.find("column");
+    const auto alt = n.find("altitude_column");
+    n.done();
+    p.channel = channel.text();
+    const auto it = std::find(names.begin(), names.end(), p.channel);
+    if (it == names.end()) {
+      std::string hint;
+      if (auto near = nearest_word(p.channel, names)) hint = "did you mean '" + *near + "'?";
+      channel.fail(fmt::format("a channel of the photolysis data ({})", fmt::join(names, ", ")),
+                   "'" + p.channel + "'", hint);
+    }
+    p.channel_index = static_cast<std::size_t>(it - names.begin());
+    for (const auto& q : spec.prescribed) {
+      if (q.channel == p.channel)
+        channel.fail("each channel prescribed once", "a repeat of '" + p.channel + "'");
+    }
+    if ((table ? 1 : 0) + (value ? 1 : 0) != 1) {
+      n.fail("exactly one of 'table' (a J profile) and 'value' (a J held at every altitude)",
+             table ? "both" : "neither");
+    }
+    if (value) {
+      if (column || alt) n.fail("'column' and 'altitude_column' only with 'table'", "'value'");
+      p.held = true;
+      p.value_s1 = value->quantity(ctx.units, "s-1", "2e-6 s-1");
+      if (!(p.value_s1 >= 0.0)) value->fail("a J >= 0", value->describe());
+    } else {
+      const std::filesystem::path file = table->path();
+      const std::string col = column ? column->text() : "J";
+      const std::string zcol = alt ? alt->text() : "altitude";
+      const Table t = Table::read(file);
+      t.require_increasing(zcol);
+      p.altitude_cm = t.column(zcol, ctx.units, "cm");
+      p.j_s1 = t.column(col, ctx.units, "s-1");
+      for (std::size_t r = 0; r < p.j_s1.size(); ++r) {
+        if (!(p.j_s1[r] >= 0.0) || !std::isfinite(p.j_s1[r])) {
+          t.fail_row(r, col, "a finite J >= 0", message_number(t.raw(col)[r]));
+        }
+      }
+      p.source = file.string();
+      if (ctx.inputs) ctx.inputs->push_back(InputFile{"prescribed J table", file, t.text()});
+    }
+    spec.prescribed.push_back(std::move(p));
+  }
 }
 
 void load_radiative_transfer(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
@@ -780,8 +835,15 @@ PhotolysisSpec load_photolysis(const ConfigNode& n, const UnitSystem& units,
   const auto slant = n.find("slant_path");
   const auto aerosol = n.find("aerosol");
   const auto rt = n.find("radiative_transfer");
+  const auto prescribed = n.find("prescribed");
   n.done();
   load_photolysis_data(data.path(), units, spec, inputs);
+  if (prescribed) {
+    if (!prescribed->is_sequence()) {
+      prescribed->fail("a list of {channel, table} or {channel, value}", prescribed->describe());
+    }
+    load_prescribed(*prescribed, ctx, spec);
+  }
   load_spectrum(spectrum, ctx, spec);
   if (bins) load_bins(*bins, ctx, spec);
   if (illum) {

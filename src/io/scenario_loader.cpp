@@ -161,7 +161,7 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
   }
   if (bg.bulk_mole_fraction.empty()) comp.fail("at least one bulk gas with its mole fraction");
   if (std::abs(sum - 1.0) > 1e-3) {
-    comp.fail("mole fractions summing to 1 (within 0.001)", "a sum of " + std::to_string(sum));
+    comp.fail("mole fractions summing to 1 (within 0.001)", "a sum of " + message_number(sum));
   }
   if (auto m = n.find("mean_molecular_mass")) {
     bg.mean_molecular_mass_amu = m->quantity(ctx.units, "g mol-1", "43.4 g/mol");

@@ -56,7 +56,7 @@ InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
     const double v = p.table.value[i];
     // Log-linear interpolation needs positive values.
     if (!(v > 0.0 && v <= 1.0))
-      t.fail_row(i, column, "a mixing ratio in (0, 1]", std::to_string(v));
+      t.fail_row(i, column, "a mixing ratio in (0, 1]", message_number(v));
   }
   if (inputs) inputs->push_back(InputFile{"initial profile of " + species, file, t.text()});
   return p;
@@ -106,7 +106,7 @@ Schedule load_value(const ConfigNode& n, const UnitSystem& units, const ValueKin
     }
   }
   for (double v : s.value) {
-    if (non_negative && v < 0.0) values.fail("non-negative values", std::to_string(v));
+    if (non_negative && v < 0.0) values.fail("non-negative values", message_number(v));
   }
   return s;
 }

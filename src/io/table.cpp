@@ -41,7 +41,8 @@ std::vector<std::string> split_fields(const std::string& line, bool comma) {
 }  // namespace
 
 Table Table::read(const std::filesystem::path& file, ExitCode code,
-                  const std::vector<std::string>& text_columns) {
+                  const std::vector<std::string>& text_columns,
+                  const std::vector<std::string>* numeric_columns) {
   std::error_code ec;
   if (std::filesystem::is_directory(file, ec)) {
     throw InputError(code, SourceLocation{file.string()}, "", "a table file", "a directory");
@@ -53,11 +54,12 @@ Table Table::read(const std::filesystem::path& file, ExitCode code,
   }
   std::stringstream buf;
   buf << in.rdbuf();
-  return parse(buf.str(), file.string(), code, text_columns);
+  return parse(buf.str(), file.string(), code, text_columns, numeric_columns);
 }
 
 Table Table::parse(const std::string& text, const std::string& name, ExitCode code,
-                   const std::vector<std::string>& text_columns) {
+                   const std::vector<std::string>& text_columns,
+                   const std::vector<std::string>* numeric_columns) {
   Table t;
   t.file_ = name;
   t.text_ = text;
@@ -111,7 +113,11 @@ Table Table::parse(const std::string& text, const std::string& name, ExitCode co
                        std::to_string(fields.size()) + " fields");
     }
     for (std::size_t c = 0; c < fields.size(); ++c) {
-      if (std::find(text_columns.begin(), text_columns.end(), t.names_[c]) != text_columns.end()) {
+      const bool as_text =
+          std::find(text_columns.begin(), text_columns.end(), t.names_[c]) != text_columns.end() ||
+          (numeric_columns != nullptr && std::find(numeric_columns->begin(), numeric_columns->end(),
+                                                   t.names_[c]) == numeric_columns->end());
+      if (as_text) {
         t.cells_[c].push_back(fields[c]);
         continue;
       }
@@ -190,9 +196,13 @@ std::vector<double> Table::column(const std::string& col, const UnitSystem& unit
   if (!factor || !offset) {
     throw InputError(code_, SourceLocation{file_, header_line_}, col,
                      "a unit convertible to '" + target_unit + "'",
-                     from.empty() ? std::string("no unit") : "'" + from + "'",
-                     "write the unit in brackets after the column name, e.g. '" + col + " [" +
-                         target_unit + "]'");
+                     from.empty() ? std::string("no unit") : "'" + from + "'", [&] {
+                       if (auto cand = units.case_respelling(from, target_unit)) {
+                         return "did you mean '" + *cand + "'? (unit symbols are case-sensitive)";
+                       }
+                       return "write the unit in brackets after the column name, e.g. '" + col +
+                              " [" + target_unit + "]'";
+                     }());
   }
   std::vector<double> out(data_[i].size());
   const double scale = *factor - *offset;
@@ -205,7 +215,7 @@ void Table::require_increasing(const std::string& col) const {
   for (std::size_t r = 1; r < v.size(); ++r) {
     if (!(v[r] > v[r - 1])) {
       fail_row(r, col, "values increasing down the column",
-               std::to_string(v[r]) + " after " + std::to_string(v[r - 1]));
+               message_number(v[r]) + " after " + message_number(v[r - 1]));
     }
   }
 }

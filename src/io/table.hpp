@@ -23,11 +23,15 @@ class Table {
  public:
   /// Reads and checks the file: every row has every column, every field is a number.
   /// `text_columns` are kept as text (e.g. a species name); all others must be numbers.
+  /// With `numeric_columns` (not null), every column not named there is kept as text (the
+  /// observation file's unknown columns, which are only warned about).
   static Table read(const std::filesystem::path& file, ExitCode code = ExitCode::kInputData,
-                    const std::vector<std::string>& text_columns = {});
+                    const std::vector<std::string>& text_columns = {},
+                    const std::vector<std::string>* numeric_columns = nullptr);
   static Table parse(const std::string& text, const std::string& name,
                      ExitCode code = ExitCode::kInputData,
-                     const std::vector<std::string>& text_columns = {});
+                     const std::vector<std::string>& text_columns = {},
+                     const std::vector<std::string>* numeric_columns = nullptr);
 
   [[nodiscard]] bool has(const std::string& column) const;
   /// The column converted to `target_unit`; errors name the file, the header line and the

@@ -1,11 +1,14 @@
 #include "photo/photolysis_model.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <stdexcept>
 
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "core/interp.hpp"
 #include "photo/spectral_binning.hpp"
 
 namespace colchem {
@@ -390,6 +393,35 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     two_stream_fluxes(ly, optics_, TwoStreamSun{1.0, ones, {}}, ts_ws_,
                       TwoStreamFluxes{up_, down_, upm_, downm_, act_});
   }
+
+  // Prescribed channels: J at the cell centres, fixed for the run.
+  prescribed_.assign(chans_.size(), {});
+  for (const PrescribedJSpec& p : spec.prescribed) {
+    if (p.channel_index >= chans_.size()) {
+      throw std::invalid_argument("photolysis: prescribed channel index out of range");
+    }
+    auto& J = prescribed_[p.channel_index];
+    if (p.held) {
+      J.assign(N, p.value_s1);
+      continue;
+    }
+    std::size_t bad = 0;
+    auto at = interpolate(p.altitude_cm, p.j_s1, bg.grid.center_cm, InterpScale::kLinear,
+                          Extrapolation::kForbid, &bad);
+    if (!at) {
+      throw InputError(
+          ExitCode::kInputData, SourceLocation{p.source}, "altitude",
+          fmt::format("altitudes covering the model's cell centres ({:.6g} to {:.6g} km) for "
+                      "the prescribed J of channel '{}'",
+                      bg.grid.center_cm.front() / constants::kCmPerKm,
+                      bg.grid.center_cm.back() / constants::kCmPerKm, p.channel),
+          fmt::format("{:.6g} to {:.6g} km (cell centre {:.6g} km outside)",
+                      p.altitude_cm.front() / constants::kCmPerKm,
+                      p.altitude_cm.back() / constants::kCmPerKm,
+                      bg.grid.center_cm[bad] / constants::kCmPerKm));
+    }
+    J = std::move(*at);
+  }
 }
 
 std::vector<std::size_t> PhotolysisModel::absorber_species() const {
@@ -464,6 +496,20 @@ void PhotolysisModel::compute(std::span<const double> n, std::span<double> J,
       }
     }
   }
+  apply_prescribed(J);
+}
+
+void PhotolysisModel::apply_prescribed(std::span<double> J) const {
+  const std::size_t N = levels_;
+  for (std::size_t c = 0; c < prescribed_.size(); ++c) {
+    if (!prescribed_[c].empty())
+      std::copy(prescribed_[c].begin(), prescribed_[c].end(),
+                J.begin() + static_cast<std::ptrdiff_t>(c * N));
+  }
+}
+
+bool PhotolysisModel::prescribed(std::size_t channel) const {
+  return channel < prescribed_.size() && !prescribed_[channel].empty();
 }
 
 void PhotolysisModel::add_transpose_product(std::span<const double> n, std::span<const double> u,
@@ -487,7 +533,7 @@ void PhotolysisModel::add_transpose_product(std::span<const double> n, std::span
       std::fill(g_slant.begin(), g_slant.end(), 0.0);
       for (std::size_t c = 0; c < chans_.size(); ++c) {
         const double uc = u[c * N + i];
-        if (uc == 0.0) continue;
+        if (uc == 0.0 || prescribed(c)) continue;  // a prescribed J does not depend on n
         const Channel& ch = chans_[c];
         const double* sp = ch.sigma_phi.data() + (ch.per_level ? i * B : 0);
         for (std::size_t b = ch.lo; b < ch.hi; ++b) g_slant[b] += uc * sp[b];
@@ -614,6 +660,17 @@ bool PhotolysisModel::acts_on(std::size_t parameter) const {
 
 void PhotolysisModel::parameter_derivative(std::size_t parameter, std::span<const double> n,
                                            std::span<double> dJ) {
+  computed_parameter_derivative(parameter, n, dJ);
+  // A prescribed J does not depend on the photolysis data's parameters.
+  const std::size_t N = levels_;
+  for (std::size_t c = 0; c < prescribed_.size(); ++c) {
+    if (prescribed(c)) std::fill_n(dJ.begin() + static_cast<std::ptrdiff_t>(c * N), N, 0.0);
+  }
+}
+
+void PhotolysisModel::computed_parameter_derivative(std::size_t parameter,
+                                                    std::span<const double> n,
+                                                    std::span<double> dJ) {
   const std::size_t N = levels_;
   const std::size_t B = bins_;
   if (dJ.size() != chans_.size() * N) {

@@ -62,6 +62,9 @@ class PhotolysisModel {
   [[nodiscard]] const std::vector<double>& top_photons_per_bin() const { return top_flux_; }
   /// Index of a channel, or -1.
   [[nodiscard]] int channel_index(const std::string& name) const;
+  /// Whether the channel's J is prescribed (photolysis.prescribed): compute() returns the
+  /// prescribed profile for it, and its derivatives (transpose product, parameters) are 0.
+  [[nodiscard]] bool prescribed(std::size_t channel) const;
 
   /// J[c * N + j] (s^-1) for densities n[j * S + s] (cm^-3; S = species count given at
   /// construction). When `actinic_flux` is not empty it receives the illumination-averaged
@@ -101,6 +104,10 @@ class PhotolysisModel {
   [[nodiscard]] const std::vector<double>& diffuse_down() const { return diag_down_; }
 
  private:
+  void apply_prescribed(std::span<double> J) const;
+  void computed_parameter_derivative(std::size_t parameter, std::span<const double> n,
+                                     std::span<double> dJ);
+
   struct Attenuator {            // an absorber's or a Rayleigh gas's extinction
     int species = -1;            ///< index into n, or -1 for a bulk gas
     double bulk_fraction = 0.0;  ///< used when species < 0
@@ -153,6 +160,7 @@ class PhotolysisModel {
   std::vector<double> top_flux_;  ///< photons cm^-2 s^-1 per bin at the planet
   std::vector<Attenuator> attenuators_;
   std::vector<Channel> chans_;
+  std::vector<std::vector<double>> prescribed_;  ///< per channel: J at the cells, or empty
   std::vector<ParameterDerivative> derivs_;
   std::vector<std::string> channel_names_, products_;
   std::vector<double> air_density_, dz_, top_column_factor_;

@@ -189,6 +189,21 @@ struct RadiativeTransferSpec {
   TabulatedSpectrum surface_albedo_table;
 };
 
+/// A channel whose J is prescribed instead of computed (`photolysis.prescribed`): a profile
+/// J(z) from a table (e.g. from another radiative-transfer code), interpolated linearly in
+/// altitude onto the cell centres (the table must cover them), or one value held at every
+/// altitude. The value is the J the chemistry sees (s^-1, not multiplied by the illumination's
+/// day fraction) and does not depend on the state.
+struct PrescribedJSpec {
+  std::string channel;
+  std::size_t channel_index = 0;    ///< into PhotolysisSpec::channels (resolved at load)
+  bool held = false;                ///< one value at every altitude
+  double value_s1 = 0.0;            ///< held
+  std::vector<double> altitude_cm;  ///< table: increasing
+  std::vector<double> j_s1;         ///< table
+  std::string source;               ///< the table file, for messages
+};
+
 struct PhotolysisSpec {
   std::vector<double> bin_edges_nm;  ///< strictly increasing; empty = default_bin_edges()
   StellarSpectrumSpec spectrum;
@@ -204,6 +219,8 @@ struct PhotolysisSpec {
   std::string data_source;  ///< the data file, for provenance
   /// Named parameters the data refer to (resolved against the mechanism at scenario load).
   std::vector<ParameterUse> parameter_uses;
+  /// Channels with prescribed J (each channel at most once).
+  std::vector<PrescribedJSpec> prescribed;
 };
 
 /// Writes the values of the parameters the spec refers to into its fields (parameters:

@@ -76,8 +76,7 @@ double evaluate(ColumnModel& model, const Objective& obj, std::span<const double
            observation_residuals(model, *obj.observations, obj.log_space, x)) {
         G += r.r * r.r;
         if (!want) continue;
-        grad[r.lo] += 2.0 * r.r * r.d_lo;
-        grad[r.hi] += 2.0 * r.r * r.d_hi;
+        for (const auto& [i, d] : r.d) grad[i] += 2.0 * r.r * d;
       }
       return G;
   }
@@ -112,22 +111,13 @@ std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
       ObservationResidual r;
       r.species = s;
       r.point = p;
-      const InterpolationWeights iw = interpolation_weights(bg.grid.center_cm, p.obs.altitude_cm);
-      r.lo = iw.lo * S + s;
-      r.hi = iw.hi * S + s;
       if (p.counted) {
-        const double sigma = observation_sigma(p.obs);
-        r.r = log_space ? p.residual_log : p.residual_linear;
-        // dr/df_m, then df_m/dn through the log-linear interpolation.
-        const double dr_df =
-            log_space ? 1.0 / (sigma / (p.obs.value * std::log(10.0))) / (p.model * std::log(10.0))
-                      : 1.0 / sigma;
-        r.d_lo = dr_df * p.model * (1.0 - iw.w) / x[r.lo];
-        r.d_hi = dr_df * p.model * iw.w / x[r.hi];
-        if (r.lo == r.hi) {  // one grid point: both weights land on it
-          r.d_lo += r.d_hi;
-          r.d_hi = 0.0;
-        }
+        const ModelledObservation m = modelled_observation(
+            bg.grid.center_cm, std::span<const double>(f).subspan(s * N, N), p.obs);
+        std::vector<std::pair<std::size_t, double>> dr_df;
+        r.r = observation_residual(m, p.obs, log_space, &dr_df);
+        // dr/dx = dr/df_j / n_air_j at x[j*S + s].
+        for (const auto& [j, d] : dr_df) r.d.emplace_back(j * S + s, d / bg.air_density_cm3[j]);
       }
       out.push_back(r);
     }

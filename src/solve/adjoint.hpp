@@ -54,16 +54,16 @@ struct Objective {
 };
 
 /// One observed point inside the model's altitude range as a residual of the chi-square
-/// (analysis/score.hpp): r = (log10 f_m - log10 f_o) / s_log (log space) or (f_m - f_o) / s,
-/// 0 for an upper limit the model does not exceed, and its derivative with respect to the
-/// two densities f_m is interpolated from: dr/dx[lo] = d_lo, dr/dx[hi] = d_hi (x[j*S + s]).
-/// chi2 = sum r^2. Every observed species must be a model species (InputError otherwise).
+/// (analysis/score.hpp: observation_residual, through the point's kernel and altitude
+/// uncertainty when it has them), 0 for an upper limit the model does not exceed, and its
+/// derivative with respect to the densities it depends on: dr/dx[i] for each (i, dr/dx[i])
+/// in `d` (x[j*S + s]; an index may appear more than once, the terms add). chi2 = sum r^2.
+/// Every observed species must be a model species (InputError otherwise).
 struct ObservationResidual {
   PointScore point;
   std::size_t species = 0;
   double r = 0.0;
-  std::size_t lo = 0, hi = 0;
-  double d_lo = 0.0, d_hi = 0.0;
+  std::vector<std::pair<std::size_t, double>> d;
 };
 std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
                                                        const ObservationSet& obs, bool log_space,

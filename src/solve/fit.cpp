@@ -203,7 +203,9 @@ bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
                      "fit: forward sensitivity of " + p.path + " failed: " + reason);
     }
     for (std::size_t i = 0; i < res.size(); ++i) {
-      jac[i * P + k] = res[i].d_lo * dx[res[i].lo] + res[i].d_hi * dx[res[i].hi];
+      double sum = 0.0;
+      for (const auto& [idx, d] : res[i].d) sum += d * dx[idx];
+      jac[i * P + k] = sum;
     }
   }
   stats_.jacobian_s += seconds_since(t0);

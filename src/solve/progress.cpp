@@ -99,4 +99,37 @@ void Progress::show(const std::string& text, bool force) {
   }
 }
 
+BatchProgress::BatchProgress(spdlog::logger& log, std::string label, double min_interval_s)
+    : log_(log),
+      label_(std::move(label)),
+      min_interval_s_(min_interval_s),
+      start_(std::chrono::steady_clock::now()) {}
+
+std::string BatchProgress::format(std::size_t done, std::size_t total, double elapsed_s) {
+  std::string s = std::to_string(done) + "/" + std::to_string(total) + " done";
+  if (total > 0) {
+    s += " (" + fmt_num("%.1f", 100.0 * static_cast<double>(done) / static_cast<double>(total)) +
+         " %)";
+  }
+  s += "  elapsed " + fmt_num("%.3g", elapsed_s) + " s";
+  if (done > 0 && done < total) {
+    const double left = elapsed_s * static_cast<double>(total - done) / static_cast<double>(done);
+    s += "  left ~" + fmt_num("%.2g", left) + " s";
+  }
+  return s;
+}
+
+void BatchProgress::finished(std::size_t done, std::size_t total) {
+  const auto now = std::chrono::steady_clock::now();
+  if (any_ && done < total &&
+      std::chrono::duration<double>(now - last_).count() < min_interval_s_) {
+    return;
+  }
+  any_ = true;
+  last_ = now;
+  ++shown_;
+  log_.info("{} {}", label_,
+            format(done, total, std::chrono::duration<double>(now - start_).count()));
+}
+
 }  // namespace colchem

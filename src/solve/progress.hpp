@@ -70,4 +70,27 @@ class Progress {
   bool any_ = false;
 };
 
+/// Progress of a batch of runs (sweep variants, ensemble members), one info line through the
+/// logger per finished run, rate-limited to one per min_interval_s (the last run is always
+/// shown):
+///   sweep 3/8 done (37.5 %)  elapsed 12.3 s  left ~20 s
+/// The time left extrapolates the mean wall time per finished run:
+/// elapsed (total - done) / done.
+class BatchProgress {
+ public:
+  BatchProgress(spdlog::logger& log, std::string label, double min_interval_s);
+  /// `done` runs of `total` have finished.
+  void finished(std::size_t done, std::size_t total);
+  [[nodiscard]] long lines_shown() const { return shown_; }
+  static std::string format(std::size_t done, std::size_t total, double elapsed_s);
+
+ private:
+  spdlog::logger& log_;
+  std::string label_;
+  double min_interval_s_;
+  std::chrono::steady_clock::time_point start_, last_;
+  bool any_ = false;
+  long shown_ = 0;
+};
+
 }  // namespace colchem

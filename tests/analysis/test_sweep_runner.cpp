@@ -28,10 +28,17 @@ TEST_CASE("every variant runs once and outcomes return in order", "[sweep][mpi]"
     return o;
   };
   std::size_t calls = 0;
-  const auto out = run_variants(MPI_COMM_SELF, variants, runner,
-                                [&](const Variant&, const VariantOutcome&) { ++calls; });
+  std::vector<std::size_t> finished;
+  const auto out =
+      run_variants(MPI_COMM_SELF, variants, runner, [&](const Variant&, const VariantOutcome& r) {
+        ++calls;
+        finished.push_back(r.finished);
+        CHECK(r.to_run == 5);
+      });
   REQUIRE(out.size() == 5);
   CHECK(calls == 5);
+  // The shared count of finished variants (for progress lines) on one rank: 1, 2, ..., 5.
+  CHECK(finished == std::vector<std::size_t>{1, 2, 3, 4, 5});
   for (std::size_t i = 0; i < 5; ++i) CHECK(out[i].index == i);
   CHECK(out[2].converged == false);
   CHECK(out[2].reason == "absurd parameter");

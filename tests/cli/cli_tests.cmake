@@ -112,6 +112,12 @@ add_test(NAME cli.molecular_switch
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/molecular_switch_test.sh $<TARGET_FILE:colchem>
           ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/molecular_switch)
 
+# Prescribed photolysis rates: a computed profile prescribed gives the same state; a held
+# value appears exactly in the J output; the steady progress line shows the ceiling; an
+# unknown observation column is warned about.
+add_test(NAME cli.prescribed_j
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/prescribed_j_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/prescribed_j)
 # Sweeps on one and two MPI ranks; a failing variant.
 add_test(NAME cli.sweep
   COMMAND ${CMAKE_CURRENT_LIST_DIR}/sweep_test.sh $<TARGET_FILE:colchem>

@@ -8,8 +8,26 @@ colchem=$1; dir=$2; work=$3
 mkdir -p "$work"; cd "$work"
 export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 "$colchem" sweep "$dir/tellin_sweep.yaml" -o one.nc --table one.csv > one.log 2>&1 || { cat one.log; exit 1; }
-mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" -o two.nc --table two.csv > two.log 2>&1 || { cat two.log; exit 1; }
+mpirun -n 2 --oversubscribe "$colchem" sweep "$dir/tellin_sweep.yaml" -o two.nc --table two.csv \
+  --progress-every 0 > two.log 2>&1 || { cat two.log; exit 1; }
 grep -q "on rank 1" two.log || { echo "rank 1 ran no variant"; cat two.log; exit 1; }
+# Progress lines at interval 0: the count of variants finished on both ranks, so each of
+# 1..9 appears exactly once, well formed (README "A tour of the commands").
+/usr/bin/python3 - <<'PY' || { cat two.log; exit 1; }
+import re
+lines = [l for l in open("two.log") if re.search(r"\] info sweep \d+/9 done", l)]
+pat = re.compile(r"sweep (\d+)/9 done \((\d+\.\d) %\)  elapsed [0-9.e+]+ s(  left ~[0-9.e+]+ s)?$")
+done = []
+for l in lines:
+    m = pat.search(l.rstrip("\n"))
+    assert m, l
+    k = int(m.group(1))
+    assert abs(float(m.group(2)) - 100.0 * k / 9) < 0.051, l
+    assert (m.group(3) is not None) == (k < 9), l
+    done.append(k)
+assert sorted(done) == list(range(1, 10)), done
+print("ok: progress lines 1/9 .. 9/9 over both ranks")
+PY
 /usr/bin/python3 - <<'PY'
 import csv, math
 def rows(f):

@@ -212,8 +212,18 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
       // Two observed points of the first species, one inside and one far above the column.
       colchem::ObservationSet obs;
       obs.file = "fuzz-observations.csv";
-      obs.points.push_back({m.altitude_cm.front(), m.species.front(), 1e-6, 1e-7, false, 2});
-      obs.points.push_back({1e9, m.species.front(), 1e-6, 0.0, true, 3});
+      colchem::ObservationPoint o;
+      o.altitude_cm = m.altitude_cm.front();
+      o.species = m.species.front();
+      o.value = 1e-6;
+      o.uncertainty = 1e-7;
+      o.line = 2;
+      obs.points.push_back(o);
+      o.altitude_cm = 1e9;
+      o.uncertainty = 0.0;
+      o.upper_limit = true;
+      o.line = 3;
+      obs.points.push_back(o);
       (void)colchem::score_column(m.altitude_cm, m.species, m.mole_fraction, obs, 0);
     });
     colchem::fuzz::refusals_allowed([&] {

@@ -4,6 +4,8 @@
 
 #include "../test_support.hpp"
 
+#include <optional>
+
 #include "io/config_node.hpp"
 
 using namespace colchem;
@@ -167,4 +169,31 @@ TEST_CASE("override paths that cannot be followed are usage errors, not crashes"
   CHECK(code_of("grid={a: 1, a: 2}") == 2);
   CHECK(code_of("list.1=c") == 0);
   CHECK(doc.root().child("list").text_list() == std::vector<std::string>{"a", "c"});
+}
+
+TEST_CASE("wrong-case units get the spelling UDUNITS-2 converts", "[config][units]") {
+  // Candidates are checked against UDUNITS-2's database itself; the expected spellings are
+  // the SI and IAU symbols (BIPM SI Brochure, 9th ed. 2019, tables 2, 4, 8; IAU 2012
+  // resolution B2 for "au").
+  const UnitSystem units;
+  CHECK(units.case_respelling("AU", "cm") == std::optional<std::string>("au"));
+  CHECK(units.case_respelling("KM", "cm") == std::optional<std::string>("km"));
+  CHECK(units.case_respelling("PA", "Pa") ==
+        std::optional<std::string>("Pa"));  // PA parses (petaampere)
+  CHECK(units.case_respelling("hPA", "Pa") == std::optional<std::string>("hPa"));
+  CHECK(units.case_respelling("K", "K") == std::nullopt);          // already right
+  CHECK(units.case_respelling("furlongz", "cm") == std::nullopt);  // nothing close
+  const auto doc = ConfigDocument::from_text(
+      "d: 1.3 AU\np: 920 PA\nl: {values: [1, 2], unit: KM}\nq: 1 hPA\n", "c.yaml");
+  const auto r = doc.root();
+  CHECK(error_of([&] { (void)r.child("d").quantity(units, "cm", "1 au"); }) ==
+        "c.yaml:1:4: 'd': expected a unit that UDUNITS-2 knows (convertible to 'cm'), found "
+        "'AU'; did you mean 'au'? (unit symbols are case-sensitive)");
+  CHECK(error_of([&] { (void)r.child("p").quantity(units, "Pa", "1 bar"); }) ==
+        "c.yaml:2:4: 'p': expected a unit convertible to 'Pa', such as '1 bar', found 'PA'; did "
+        "you mean 'Pa'? (unit symbols are case-sensitive)");
+  CHECK_THAT(error_of([&] { (void)r.child("l").quantity_list(units, "cm", "1 km"); }),
+             Catch::Contains("found 'KM'; did you mean 'km'?"));
+  CHECK_THAT(error_of([&] { (void)r.child("q").quantity(units, "Pa", "1 bar"); }),
+             Catch::Contains("found 'hPA'; did you mean 'hPa'?"));
 }

@@ -176,3 +176,59 @@ TEST_CASE("Rayleigh extinction scales as lambda^-4", "[photo]") {
   const double t800 = -std::log(F[2] / 1.0e14);
   CHECK(t400 / t800 == Approx(16.0).epsilon(1e-4));  // analytic: (800/400)^4
 }
+
+TEST_CASE("prescribed J replaces the computed channel and has no state derivative",
+          "[photo][prescribed]") {
+  const Background bg = test::flat_isothermal(4, 40.0);
+  auto spec = small_spec();
+  spec.channels.push_back(test::make_channel("A_other", "A", 204.5));
+  PhotolysisModel computed(spec, bg, {"A"});
+  std::vector<double> n{1e13, 5e12, 2e12, 1e12}, J(8);
+  computed.compute(n, J);
+
+  // Channel 0 held at a value; channel 1 prescribed from a table that is linear in altitude
+  // and covers the cells: linear interpolation reproduces it exactly (analytic).
+  PrescribedJSpec held;
+  held.channel = "A_products";
+  held.channel_index = 0;
+  held.held = true;
+  held.value_s1 = 3.25e-6;
+  PrescribedJSpec table;
+  table.channel = "A_other";
+  table.channel_index = 1;
+  table.altitude_cm = {0.0, 100e5};
+  table.j_s1 = {1e-6, 3e-6};
+  table.source = "j.csv";
+  auto pspec = spec;
+  pspec.prescribed = {held, table};
+  PhotolysisModel pm(pspec, bg, {"A"});
+  CHECK(pm.prescribed(0));
+  CHECK(pm.prescribed(1));
+  std::vector<double> Jp(8);
+  pm.compute(n, Jp);
+  for (std::size_t j = 0; j < 4; ++j) {
+    CHECK(Jp[j] == 3.25e-6);  // exactly the held value
+    const double z = bg.grid.center_cm[j];
+    CHECK(Jp[4 + j] == Approx(1e-6 + 2e-6 * z / 100e5).epsilon(1e-14));
+  }
+  // A prescribed J does not depend on the densities: the transposed Jacobian's product is 0.
+  std::vector<double> u(8, 1.0), out(4, 0.0);
+  pm.add_transpose_product(n, u, out);
+  for (double v : out) CHECK(v == 0.0);
+  // ... while the computed one does depend on them (the check can fail).
+  std::vector<double> out_c(4, 0.0);
+  computed.add_transpose_product(n, u, out_c);
+  CHECK(out_c[3] != 0.0);
+
+  // A table that does not cover the cell centres is an input error naming the file.
+  table.altitude_cm = {0.0, 20e5};
+  pspec.prescribed = {table};
+  try {
+    PhotolysisModel bad(pspec, bg, {"A"});
+    FAIL("no error");
+  } catch (const InputError& e) {
+    CHECK_THAT(std::string(e.what()),
+               Catch::StartsWith("j.csv: 'altitude': expected altitudes "
+                                 "covering the model's cell centres (5 to 35 km)"));
+  }
+}

@@ -105,3 +105,34 @@ TEST_CASE("Progress: iteration ceiling, share of model time and time left", "[so
   CHECK(n.find('%') == std::string::npos);
   CHECK(n.find("left") == std::string::npos);
 }
+
+TEST_CASE("BatchProgress: done/total, share and time left", "[solve][progress]") {
+  // Time left extrapolates the mean time per finished run: 12 s for 3 runs, 5 to go ->
+  // 12 * 5 / 3 = 20 s (analytic; the format is the one documented in progress.hpp).
+  CHECK(BatchProgress::format(3, 8, 12.0) == "3/8 done (37.5 %)  elapsed 12 s  left ~20 s");
+  CHECK(BatchProgress::format(8, 8, 30.5) == "8/8 done (100.0 %)  elapsed 30.5 s");
+  std::ostringstream out;
+  auto sink = std::make_shared<spdlog::sinks::ostream_sink_mt>(out);
+  spdlog::logger log("test", sink);
+  log.set_pattern("%v");
+  {
+    BatchProgress every(log, "sweep", 0.0);  // interval 0: one line per finished run
+    for (std::size_t k = 1; k <= 4; ++k) every.finished(k, 4);
+    CHECK(every.lines_shown() == 4);
+  }
+  std::istringstream lines(out.str());
+  std::string line;
+  std::size_t k = 0;
+  while (std::getline(lines, line)) {
+    ++k;
+    INFO(line);
+    CHECK_THAT(line, Catch::StartsWith("sweep " + std::to_string(k) + "/4 done ("));
+    CHECK_THAT(line, Catch::Contains(" %)  elapsed "));
+    CHECK((line.find("  left ~") != std::string::npos) == (k < 4));
+  }
+  CHECK(k == 4);
+  // A long interval shows the first and the last line only.
+  BatchProgress rare(log, "sweep", 1e9);
+  for (std::size_t j = 1; j <= 5; ++j) rare.finished(j, 5);
+  CHECK(rare.lines_shown() == 2);
+}
