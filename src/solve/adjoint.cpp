@@ -99,6 +99,7 @@ std::vector<ObservationResidual> observation_residuals(const ColumnModel& model,
                                                        std::span<const double> x) {
   const std::size_t S = model.species_count();
   const Background& bg = model.background();
+  const std::size_t N = bg.grid.cells();
   const std::vector<double> f = mole_fractions(x, bg.air_density_cm3);
   const auto scores = score_column(bg.grid.center_cm, model.species(), f, obs, 0);
   const auto& names = model.species();
