@@ -1,8 +1,8 @@
 #include "solve/column_run.hpp"
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
 #include <memory>
 
 #include "core/error.hpp"
@@ -23,7 +23,6 @@ std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool wit
   }
   return out;
 }
-
 
 double coupled_residual(ColumnModel& model, const SolverSpec& solver, std::span<const double> x,
                         double t) {
@@ -60,8 +59,8 @@ std::string balance_defect(ColumnModel& model, const SolverSpec& solver,
                        model.background().grid.center_cm[b.max_cell] * 1e-5);
   }
   if (!(b.worst <= solver.balance_tolerance)) {
-    return fmt::format("column balance of {} is {:.3g} > {:.3g}", names[b.worst_species],
-                       b.worst, solver.balance_tolerance);
+    return fmt::format("column balance of {} is {:.3g} > {:.3g}", names[b.worst_species], b.worst,
+                       solver.balance_tolerance);
   }
   return "";
 }
@@ -92,6 +91,11 @@ RunOutcome run_steady(ColumnModel& model, const SolverSpec& solver, std::vector<
   SteadyStateCallbacks cb;
   cb.stop_requested = c.stop_requested;
   cb.reject_reason = [&](const std::vector<double>& x) { return balance_defect(model, solver, x); };
+  if (c.give_up) {
+    cb.give_up = [&](const SteadyIteration& it) {
+      return c.give_up(before + it.iteration, it.residual_norm);
+    };
+  }
   cb.on_iteration = [&](const SteadyIteration& it) {
     if (progress) progress->update(it);
     // Where a solve spends its iterations: the entry that sets the residual and the one whose
@@ -216,8 +220,8 @@ RunOutcome run_any(ColumnModel& model, const SolverSpec& solver, std::vector<dou
   // Every end state is scored by the same coupled residual (a split "steady state" keeps its
   // splitting error; this number shows how far it is from the true one).
   out.residual_norm = coupled_residual(model, solver, out.x, out.time_s);
-  out.balance = model.column_balance(out.x, out.time_s, solver.absolute_density_cm3,
-                                     solver.reference_time_s);
+  out.balance =
+      model.column_balance(out.x, out.time_s, solver.absolute_density_cm3, solver.reference_time_s);
   return out;
 }
 

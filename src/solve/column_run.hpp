@@ -3,8 +3,8 @@
 // refreshed from the state, injections applied, progress shown, interrupts honoured.
 #pragma once
 
-#include <functional>
 #include <spdlog/logger.h>
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -30,13 +30,17 @@ struct RunCheckpoint {
 };
 
 struct RunControls {
-  spdlog::logger* log = nullptr;        ///< progress lines (none when null)
+  spdlog::logger* log = nullptr;         ///< progress lines (none when null)
   std::function<bool()> stop_requested;  ///< interrupts
   /// Periodic checkpoints (every solver.checkpoint_every iterations or steps).
   std::function<void(const RunCheckpoint&)> checkpoint;
   /// x0 is a converged state of another grid or variant: a steady solve starts with the
   /// pseudo-time step solver.warm_pseudo_step instead of solver.initial_pseudo_step.
   bool warm_start = false;
+  /// Steady solves: called once per iteration with (iteration, scaled residual) before the
+  /// step is taken; a non-empty reason stops the solve as not converged with that reason (an
+  /// early give-up test; none when empty).
+  std::function<std::string(long, double)> give_up;
   /// At most one progress line per this many seconds of wall time (0: every iteration or
   /// step; `--progress-every`).
   double progress_interval_s = 0.2;
@@ -45,10 +49,10 @@ struct RunControls {
 /// One row of the convergence history, for either solver.
 struct HistoryRow {
   long iteration = 0;
-  double time_s = 0.0;          ///< model time (transient) or 0
-  double step_s = 0.0;          ///< pseudo-time step (steady) or time step (transient)
-  double residual_norm = 0.0;   ///< ||F||_s (NaN where not evaluated)
-  double change = 0.0;          ///< max relative change of the step (steady) or error estimate
+  double time_s = 0.0;         ///< model time (transient) or 0
+  double step_s = 0.0;         ///< pseudo-time step (steady) or time step (transient)
+  double residual_norm = 0.0;  ///< ||F||_s (NaN where not evaluated)
+  double change = 0.0;         ///< max relative change of the step (steady) or error estimate
   double wall_s = 0.0;
 };
 
@@ -68,14 +72,14 @@ std::string describe_sequence(const std::vector<SequenceLevel>& levels, bool wit
 
 struct RunOutcome {
   SolveStatus status = SolveStatus::kFailed;
-  std::string method;            ///< "steady", "transient", "split_steady"
+  std::string method;  ///< "steady", "transient", "split_steady"
   std::string reason;
-  std::vector<double> x;         ///< final state n[j*S + s]
-  double time_s = 0.0;           ///< model time of x (transient)
-  double step_s = 0.0;           ///< as RunCheckpoint::step_s, for a checkpoint of x
+  std::vector<double> x;  ///< final state n[j*S + s]
+  double time_s = 0.0;    ///< model time of x (transient)
+  double step_s = 0.0;    ///< as RunCheckpoint::step_s, for a checkpoint of x
   long iterations = 0;
-  double residual_norm = 0.0;    ///< coupled scaled residual of x, always evaluated
-  ColumnBalance balance;         ///< column balance of x, always evaluated
+  double residual_norm = 0.0;  ///< coupled scaled residual of x, always evaluated
+  ColumnBalance balance;       ///< column balance of x, always evaluated
   double wall_s = 0.0;
   std::vector<HistoryRow> history;
   std::vector<SequenceLevel> sequence;  ///< coarser levels solved before this grid (if any)

@@ -53,26 +53,26 @@ enum class SolveStatus { kConverged, kCompleted, kNotConverged, kFailed, kInterr
 const char* to_string(SolveStatus s);
 
 struct SteadyStateOptions {
-  double tolerance = 1e-8;            ///< on ||F||_s (dimensionless)
-  double step_tolerance = 1e-6;       ///< on max|dx|/(|x| + a_s) of the last step
-  int max_iterations = 200;           ///< linear solves
+  double tolerance = 1e-8;       ///< on ||F||_s (dimensionless)
+  double step_tolerance = 1e-6;  ///< on max|dx|/(|x| + a_s) of the last step
+  int max_iterations = 200;      ///< linear solves
   double initial_pseudo_step_s = 1e-6;
-  double max_pseudo_step_s = 1e16;    ///< the Newton limit
-  double min_pseudo_step_s = 1e-14;   ///< below this the solve fails
-  double growth_increment = 2.0;      ///< g in the SER formula
+  double max_pseudo_step_s = 1e16;   ///< the Newton limit
+  double min_pseudo_step_s = 1e-14;  ///< below this the solve fails
+  double growth_increment = 2.0;     ///< g in the SER formula
   double max_growth = 10.0;
   double min_growth = 0.5;
-  double newton_switch = 1e-6;        ///< ||F||_s below which dtau = max_pseudo_step_s
-  double change_target = 1.0;         ///< relative change below which dtau may grow fast
-  double max_change_growth = 100.0;   ///< bound of that growth per step
-  double clipped_growth = 2.0;        ///< bound of dtau growth after a clipped step whose
-                                      ///< residual did not rise (one that rose: min_growth)
-  double positivity_fraction = 0.1;   ///< f: x_new >= f x_old
-  double min_damping = 1.0;           ///< lower bound of the global damping lambda (1: none)
-  double time_s = 0.0;                ///< the t handed to the operators
-  int checkpoint_every = 0;           ///< iterations between checkpoint calls (0: never)
-  double krylov_rtol_max = 1e-3;      ///< upper bound of the GMRES forcing term
-  double krylov_rtol_min = 1e-12;     ///< lower bound of the GMRES forcing term
+  double newton_switch = 1e-6;       ///< ||F||_s below which dtau = max_pseudo_step_s
+  double change_target = 1.0;        ///< relative change below which dtau may grow fast
+  double max_change_growth = 100.0;  ///< bound of that growth per step
+  double clipped_growth = 2.0;       ///< bound of dtau growth after a clipped step whose
+                                     ///< residual did not rise (one that rose: min_growth)
+  double positivity_fraction = 0.1;  ///< f: x_new >= f x_old
+  double min_damping = 1.0;          ///< lower bound of the global damping lambda (1: none)
+  double time_s = 0.0;               ///< the t handed to the operators
+  int checkpoint_every = 0;          ///< iterations between checkpoint calls (0: never)
+  double krylov_rtol_max = 1e-3;     ///< upper bound of the GMRES forcing term
+  double krylov_rtol_min = 1e-12;    ///< lower bound of the GMRES forcing term
   ResidualScale scale;
 };
 
@@ -85,8 +85,8 @@ struct SteadyIteration {
   double wall_s = 0.0;               ///< since the start of solve()
   std::size_t worst_cell = 0;        ///< where ||F||_s is attained
   std::size_t worst_species = 0;
-  int krylov_iterations = 0;         ///< GMRES iterations of the step taken from this state
-  std::size_t changed_cell = 0;      ///< where the step that led here changed most (relative)
+  int krylov_iterations = 0;     ///< GMRES iterations of the step taken from this state
+  std::size_t changed_cell = 0;  ///< where the step that led here changed most (relative)
   std::size_t changed_species = 0;
   bool clipped = false;  ///< that step hit the positivity limit for a non-negligible density
 };
@@ -101,6 +101,10 @@ struct SteadyStateCallbacks {
   std::function<std::string(const std::vector<double>&)> reject_reason;
   /// Polled once per iteration; true stops with status kInterrupted.
   std::function<bool()> stop_requested;
+  /// Called with each iteration's record before its step is taken (after the convergence
+  /// test): a non-empty reason stops the solve with status kNotConverged and that reason
+  /// (a caller's early give-up test, such as a stagnating residual).
+  std::function<std::string(const SteadyIteration&)> give_up;
   /// Called after each residual evaluation (progress display).
   std::function<void(const SteadyIteration&)> on_iteration;
   /// Called every checkpoint_every iterations with (iteration, pseudo-time step of the step
@@ -110,18 +114,18 @@ struct SteadyStateCallbacks {
 
 struct SteadyStateResult {
   SolveStatus status = SolveStatus::kFailed;
-  std::string reason;               ///< why it stopped, in words
-  std::vector<double> x;            ///< the final (or current) state
-  int iterations = 0;               ///< linear solves performed
-  int rejected_steps = 0;           ///< steps undone (non-finite residual, failed solve)
-  double residual_norm = 0.0;       ///< ||F||_s of x
+  std::string reason;          ///< why it stopped, in words
+  std::vector<double> x;       ///< the final (or current) state
+  int iterations = 0;          ///< linear solves performed
+  int rejected_steps = 0;      ///< steps undone (non-finite residual, failed solve)
+  double residual_norm = 0.0;  ///< ||F||_s of x
   double max_relative_change = 0.0;
   std::vector<SteadyIteration> history;
   double wall_s = 0.0;
-  double evaluate_s = 0.0;          ///< operators' tendency + Jacobian
-  double assembly_s = 0.0;          ///< PETSc matrix assembly
-  double factor_solve_s = 0.0;      ///< LU factorisation + triangular solves + GMRES
-  int krylov_iterations = 0;        ///< GMRES iterations over the whole solve
+  double evaluate_s = 0.0;      ///< operators' tendency + Jacobian
+  double assembly_s = 0.0;      ///< PETSc matrix assembly
+  double factor_solve_s = 0.0;  ///< LU factorisation + triangular solves + GMRES
+  int krylov_iterations = 0;    ///< GMRES iterations over the whole solve
 
   [[nodiscard]] bool converged() const { return status == SolveStatus::kConverged; }
 };
