@@ -48,7 +48,7 @@ def run(colchem, root, work, name, modules, extra=()):
     assert p.returncode == 0, p.stdout + p.stderr
     ds = netCDF4.Dataset(out)
     assert ds.getncattr("colchem_solver_status") == "converged", name
-    species = [str(s) for s in ds["species"][:]]
+    species = [str(s) for s in ds["species_name"][:]]
     alt = np.asarray(ds["altitude"][:], dtype=float)
     if ds["altitude"].units == "m":
         alt = alt / 1e3

@@ -17,9 +17,11 @@ for tool in ncdump ncks cdo /usr/bin/python3; do
 done
 rm -rf "$work"; mkdir -p "$work"; cd "$work"
 
-# A transient run with snapshots: Tellin, cut to two days with two outputs.
+# A transient run with snapshots: Tellin, cut to two days with two outputs, on 20 cells (the
+# layout, not the numbers, is under test).
 "$colchem" run "$src/configs/tellin.yaml" -o run.nc \
   --set 'solver.transient.end=2 day' --set 'solver.transient.outputs=[1 day, 2 day]' \
+  --set grid.cells=20 \
   > run.log 2>&1 || { tail -20 run.log; exit 1; }
 # The test sweep cut to three variants (base; sulfur at two removal scales).
 "$colchem" sweep "$src/tests/cli/sweep/tellin_sweep.yaml" -o sweep.nc \

@@ -89,7 +89,7 @@ def fitted(stem):
 seed = {"low": 20261204, "uniform": 20261205}
 for gen in ("low", "uniform"):
     ds = netCDF4.Dataset(f"truth_{gen}.nc")
-    names = [str(s) for s in ds["species"][:]]
+    names = [str(s) for s in ds["species_name"][:]]
     z = np.asarray(ds["altitude"][:], dtype=float)
     if ds["altitude"].units == "m": z = z / 1e3
     f = np.asarray(ds["mole_fraction"][names.index("SO"), :], dtype=float)
@@ -167,7 +167,7 @@ hold2="species.SO.hold={mixing_ratio: 2.0e-7, from: 20 km, to: 30 km, timescale:
 /usr/bin/python3 - <<'PY'
 import numpy as np, netCDF4
 ds = netCDF4.Dataset("truth_held.nc")
-names = [str(s) for s in ds["species"][:]]
+names = [str(s) for s in ds["species_name"][:]]
 z = np.asarray(ds["altitude"][:], dtype=float)
 if ds["altitude"].units == "m": z = z / 1e3
 f = np.asarray(ds["mole_fraction"][names.index("SO"), :], dtype=float)

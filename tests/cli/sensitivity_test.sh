@@ -24,7 +24,9 @@ run() {  # name, then the arguments
   grep -q "worst relative difference" "$name.log" || { cat "$name.log"; exit 1; }
 }
 run pyrene_chi2 "$root/configs/pyrene_full.yaml" --objective chi2 --observations "$obs" --check 20
-run pyrene_column "$root/configs/pyrene_full.yaml" --objective column --species SO2 --check 5
+# Two bands of K checked directly as well (log-sensitivities 0.22 and -0.11 of the SO2 column).
+run pyrene_column "$root/configs/pyrene_full.yaml" --objective column --species SO2 --check 5 \
+  --check-parameter "K band 58-68 km" --check-parameter "K band 69-79 km"
 # Named parameters that act on the photolysis data or on a photolysis reaction's scale
 # (the overtone and UV modules switched on), on the H2SO4 vapour at 105 km, above the haze,
 # where photolysis is its main loss (log-sensitivities -0.34 for h2so4_uv_scale and -0.0093
@@ -39,8 +41,11 @@ run pyrene_photo_parameters "$root/configs/pyrene_full.yaml" \
   --check 0 --check-parameter overtone_scale --check-parameter h2so4_uv_scale --check-step 3e-2
 run tellin_aerosol "$root/configs/tellin.yaml" --set solver.method=steady \
   --objective column --species "H2SO4(aer)" --check 20
+# Two bands of the eddy profile checked directly (not only through their sum, the whole
+# profile): SO2 at 25 km depends on K below it (log-sensitivities 2.8 and 1.3).
 run tellin_so2 "$root/configs/tellin.yaml" --set solver.method=steady \
-  --objective mole_fraction --species SO2 --altitude 25 --check 5
+  --objective mole_fraction --species SO2 --altitude 25 --check 5 \
+  --check-parameter "K band 10-19 km" --check-parameter "K band 20-29 km"
 run tellin_rate "$root/configs/tellin.yaml" --set solver.method=steady \
   --objective rate --reaction "O3 + hv -> O2 + O(1D)" --check 5
 /usr/bin/python3 - "$only" <<'PY'
