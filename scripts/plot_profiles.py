@@ -5,11 +5,11 @@ that holds reaction rates, the production and loss breakdown of each species.
 
     scripts/plot_profiles.py OUT.nc --species SO2 SO [--obs OBS.csv] [--outdir DIR] [--top 6]
 
-Needs Debian's python3-matplotlib and python3-netcdf4 (run with /usr/bin/python3).
+Needs Debian's python3-matplotlib, python3-netcdf4, python3-xarray and python3-pint (run with
+/usr/bin/python3). For more plots use the package in python/colchem_py (README "Python").
 Writes DIR/profiles_<species>.png and, where rates exist, DIR/budget_<species>.png.
 """
 import argparse
-import csv
 import os
 import sys
 
@@ -20,33 +20,22 @@ import matplotlib.pyplot as plt  # noqa: E402
 import netCDF4  # noqa: E402
 import numpy as np  # noqa: E402
 
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "python"))
+import colchem_py  # noqa: E402
+
 
 def text_values(var):
     return [str(v) for v in var[:]]
 
 
 def read_obs_csv(path):
-    """The observation format of README "Observation files" (units in the header)."""
-    scale = {"1": 1.0, "": 1.0, "ppm": 1e-6, "ppmv": 1e-6, "ppb": 1e-9, "ppbv": 1e-9,
-             "ppt": 1e-12, "pptv": 1e-12, "%": 1e-2}
-    rows = [line for line in open(path) if line.strip() and not line.lstrip().startswith("#")]
-    reader = csv.reader(rows)
-    header = [h.strip() for h in next(reader)]
-    names, units = [], []
-    for h in header:
-        name, _, unit = h.partition("[")
-        names.append(name.strip())
-        units.append(unit.rstrip("]").strip())
-    ix = {n: i for i, n in enumerate(names)}
-    alt_scale = {"km": 1.0, "m": 1e-3}[units[ix["altitude"]] or "km"]
-    out = []
-    for r in reader:
-        r = [x.split("#")[0].strip() for x in r]
-        out.append(dict(z=float(r[ix["altitude"]]) * alt_scale, species=r[ix["species"]],
-                        value=float(r[ix["value"]]) * scale[units[ix["value"]]],
-                        sigma=float(r[ix["uncertainty"]]) * scale[units[ix["uncertainty"]]],
-                        limit=r[ix["upper_limit"]] in ("1", "1.0")))
-    return out
+    """The observation format of README "Observation files", units from the header converted
+    by pint (python/colchem_py: `value [nmol/mol]`, `[ppb]`, `[%]`)."""
+    obs = colchem_py.read_observations(path)
+    return [dict(z=float(z), species=str(s), value=float(v), sigma=float(u), limit=bool(l))
+            for z, s, v, u, l in zip(obs["altitude"].values, obs["species"].values,
+                                     obs["value"].values, obs["uncertainty"].values,
+                                     obs["upper_limit"].values)]
 
 
 def obs_from_file(ds):

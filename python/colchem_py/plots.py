@@ -32,7 +32,7 @@ def _legend_outside(ax, fontsize=7, **kw):
 
 
 def _label(da):
-    name = da.attrs.get("long_name", da.name)
+    name = da.name
     u = da.attrs.get("units")
     return f"{name} [{u}]" if u else str(name)
 
