@@ -7,7 +7,7 @@ COLCHEM_DEBIAN_PACKAGES=(
   petsc-dev libopenmpi-dev openmpi-bin
   libnetcdf-dev netcdf-bin
   libyaml-cpp-dev libspdlog-dev libfmt-dev catch2 libcli11-dev libudunits2-dev
-  python3 python3-numpy python3-xarray python3-netcdf4 python3-matplotlib
+  python3 python3-numpy python3-xarray python3-netcdf4 python3-matplotlib python3-pint
   cdo nco
 )
 

@@ -269,6 +269,11 @@ add_test(NAME cli.ensemble_attribution
 add_test(NAME cli.plot_ensemble
   COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/plot_ensemble_test.py $<TARGET_FILE:colchem>
           ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/plot_ensemble)
+# The Python package python/colchem_py on real run, sweep, box, photo, sensitivity and
+# ensemble files: names as coordinates, pint units (nmol/mol), every plot drawn from the file.
+add_test(NAME cli.python_package
+  COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/python_package_test.py $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/python_package)
 colchem_cli_test(ensemble_attribute_bad 2 "--attribute': expected SPECIES@KM"
   $<TARGET_FILE:colchem> ensemble ${CMAKE_CURRENT_LIST_DIR}/ensemble/linear_loss.yaml --attribute SO@900)
 
