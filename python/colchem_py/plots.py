@@ -74,13 +74,18 @@ def plot_profiles(ds, species, obs=None):
     """Mole fraction of `species` against altitude (one line per converged variant), the
     observations (error bars; upper limits as left-pointing triangles) and chi2_log of each
     line in the legend; a right panel shows model/observed at the observed points (the
-    file's model_at_observation) where the file holds them."""
+    file's model_at_observation, or observation_model of a fit file) where the file holds
+    them. `obs` (from read_observations) replaces the file's observations; then the right
+    panel is left out (the file holds the model at its own points only)."""
     if species not in [str(s) for s in ds["species"].values]:
         raise KeyError(f"species {species!r} is not in the file (has: "
                        f"{', '.join(str(s) for s in ds['species'].values)})")
     stored = file_observations(ds)
     obs = stored if obs is None else obs
-    has_ratio = obs is stored and stored is not None and "model_at_observation" in ds
+    # The model at the observed points: model_at_observation (run, sweep) or
+    # observation_model (fit file).
+    at_obs = next((v for v in ("model_at_observation", "observation_model") if v in ds), None)
+    has_ratio = obs is stored and stored is not None and at_obs is not None
     fig, axes = plt.subplots(1, 2 if has_ratio else 1, figsize=(9.5 if has_ratio else 7, 5.5),
                              sharey=True, squeeze=False,
                              gridspec_kw={"width_ratios": [3, 1.3] if has_ratio else [1]})
@@ -108,7 +113,7 @@ def plot_profiles(ds, species, obs=None):
             ax.plot(ov[up], oz[up], "k<", ms=6, label="upper limit", gid="upper_limit")
         if has_ratio:
             rx = axes[0, 1]
-            model = ds["model_at_observation"]
+            model = ds[at_obs]
             for v, (lab, good) in enumerate(zip(labels, ok)):
                 if not good:
                     continue

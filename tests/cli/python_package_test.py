@@ -1,6 +1,6 @@
 """The Python package python/colchem_py on real colchem files: a Pyrene run with the invented
-observations, a three-variant Tellin sweep, a box run, a photo run, a sensitivity file and a
-four-member ensemble. Checks that
+observations, a three-variant Tellin sweep, a box run, a photo run, a sensitivity file, a
+four-member ensemble, a three-level resolution study and a one-parameter fit. Checks that
   - unit conversion through pint gives nmol/mol -> 1e-9, ppb -> 1e-9, % -> 1e-2 (SI
     definitions of the prefixes; ppb and % as defined in the UDUNITS-2 database), and an
     observation file in [nmol/mol]/[ppb] reads as the same mole fractions as the shipped one
@@ -54,6 +54,10 @@ colchem_run("sensitivity", os.path.join(cfg, "pyrene_full.yaml"), "--observation
 colchem_run("ensemble", os.path.join(cfg, "pyrene_full.yaml"), "-n", "4", "--seed", "2",
             "--set", f"observations={obs_file}", "--set", "solver.max_iterations=150",
             "-o", "ens.nc")
+colchem_run("resolve", os.path.join(cfg, "pyrene_full.yaml"), "--cells", "14", "--levels", "3",
+            "-o", "res.nc")
+colchem_run("fit", os.path.join(cfg, "pyrene_full.yaml"), "--observations", obs_file,
+            "-p", "species.SO2.bottom.mixing_ratio:1e-8:1e-4:log", "-o", "fit.nc")
 
 
 def raw_names(path, var):
@@ -133,9 +137,16 @@ assert np.issubdtype(box.time.dtype, np.datetime64), box.time.dtype
 bnames = raw_names("box.nc", "species_name")
 assert np.array_equal(box.mole_fraction.sel(species=bnames[0]).values,
                       raw("box.nc", "mole_fraction")[:, 0])
-kinds = {f: cc.kind(cc.open_file(f)) for f in ("box.nc", "photo.nc", "sens.nc", "ens.nc")}
+kinds = {f: cc.kind(cc.open_file(f))
+         for f in ("box.nc", "photo.nc", "sens.nc", "ens.nc", "res.nc", "fit.nc")}
 assert kinds == {"box.nc": "box", "photo.nc": "photo", "sens.nc": "sensitivity",
-                 "ens.nc": "ensemble"}, kinds
+                 "ens.nc": "ensemble", "res.nc": "resolution", "fit.nc": "fit"}, kinds
+res = cc.open_file("res.nc")
+rn = raw_names("res.nc", "species_name")
+assert np.array_equal(res.log10_mole_fraction.sel(species="SO2").values,
+                      raw("res.nc", "log10_mole_fraction")[:, rn.index("SO2"), :])
+fit = cc.open_file("fit.nc")
+assert list(fit.parameter.values) == raw_names("fit.nc", "parameter_path")
 print("ok: open_file: species/reaction/channel/variant by name, values equal the file's")
 
 os.makedirs("png", exist_ok=True)
@@ -160,6 +171,15 @@ assert fig.legends == [] and all(ax.get_legend() is None or
                                   for ax in fig.axes), "legend not outside the axes"
 check_png(cc.save(fig, "png/profiles_SO2.png"))
 print(f"ok: profile, chi2_log {chi2:.6g} in the legend, {keep.sum()} model/observed ratios")
+
+# A fit file: its model/observed panel is observation_model / observation_value.
+fig = cc.plot_profiles(fit, "SO2")
+fk = np.array([x == "SO2" for x in raw_names("fit.nc", "observation_species")])
+ratio_line = [v for g, v in lines(fig).items() if g.startswith("ratio:")][0]
+assert np.array_equal(ratio_line.get_xdata(), raw("fit.nc", "observation_model")[fk]
+                      / raw("fit.nc", "observation_value")[fk])
+check_png(cc.save(fig, "png/fit_SO2.png"))
+print("ok: resolution and fit files open by name; the fit's model/observed from the file")
 
 # Sweep profiles and ranking: bars are chi2_log summed over scored species, best first.
 check_png(cc.save(cc.plot_profiles(sweep, "SO2"), "png/sweep_SO2.png"))
