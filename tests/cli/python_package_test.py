@@ -99,7 +99,8 @@ for line in text:
         out.append(line)
     elif line.startswith("altitude"):
         assert "value [1], uncertainty [1]" in line, line
-        out.append(line.replace("value [1], uncertainty [1]", "value [nmol/mol], uncertainty [ppb]"))
+        out.append(line.replace("value [1], uncertainty [1]",
+                                "value [nmol/mol], uncertainty [ppb]"))
     else:
         c = [x.strip() for x in line.split(",")]
         c[2], c[3] = repr(float(c[2]) * 1e9), repr(float(c[3]) * 1e9)
