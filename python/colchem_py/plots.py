@@ -192,10 +192,12 @@ def plot_convergence(ds):
     handles = ax.get_legend_handles_labels()
     if "history_step" in ds:
         ax2 = ax.twinx()
-        ax2.semilogy(it, ds["history_step"].values, "s--", color="tab:orange", ms=3,
+        step = ds["history_step"].values
+        # A step of 0 (no step taken, e.g. the last iteration) has no place on a log axis.
+        ax2.semilogy(it, np.where(step > 0, step, np.nan), "s--", color="tab:orange", ms=3,
                      label=f"pseudo-time step [{ds['history_step'].attrs.get('units', '')}]",
                      gid="step")
-        ax2.set_ylabel(_label(ds["history_step"]))
+        ax2.set_ylabel(f"pseudo-time step [{ds['history_step'].attrs.get('units', '')}]")
         h2 = ax2.get_legend_handles_labels()
         handles = (handles[0] + h2[0], handles[1] + h2[1])
     ax.legend(*handles, loc="upper left", bbox_to_anchor=(1.15, 1.0), fontsize=7)

@@ -183,7 +183,16 @@ check_png(cc.save(fig, "png/fit_SO2.png"))
 print("ok: resolution and fit files open by name; the fit's model/observed from the file")
 
 # Sweep profiles and ranking: bars are chi2_log summed over scored species, best first.
-check_png(cc.save(cc.plot_profiles(sweep, "SO2"), "png/sweep_SO2.png"))
+fig = cc.plot_profiles(sweep, "SO2")
+ln = lines(fig)
+schi = raw("sweep.nc", "chi2_log")[:, raw_names("sweep.nc", "score_species").index("SO2")]
+smf = raw("sweep.nc", "mole_fraction")[:, raw_names("sweep.nc", "species_name").index("SO2")]
+for v, lab in enumerate(raw_names("sweep.nc", "variant_label")):
+    line = ln[f"model:{lab}"]
+    assert np.array_equal(line.get_xdata(), smf[v]), lab
+    m = re.search(r"chi2_log ([0-9.eE+-]+)\)", line.get_label())
+    assert m and abs(float(m.group(1)) - schi[v]) <= 1e-5 * schi[v], (line.get_label(), schi[v])
+check_png(cc.save(fig, "png/sweep_SO2.png"))
 fig = cc.plot_sweep_ranking(sweep)
 ax = fig.axes[0]
 widths = [b.get_width() for b in ax.patches]
@@ -213,6 +222,9 @@ print(f"ok: J: {J.shape[0]} channels drawn as in the file, the first 20 in disti
 # Convergence history.
 fig = cc.plot_convergence(run)
 assert np.array_equal(lines(fig)["residual"].get_ydata(), raw("run.nc", "history_residual_norm"))
+step = raw("run.nc", "history_step")
+drawn = lines(fig)["step"].get_ydata()
+assert np.array_equal(drawn[step > 0], step[step > 0]) and np.isnan(drawn[step <= 0]).all()
 check_png(cc.save(fig, "png/convergence.png"))
 print(f"ok: convergence: {run.sizes['iteration']} residual norms from the file")
 
