@@ -395,3 +395,9 @@ foreach(entry validation.worlds.tellin_injection_reduced=65 cli.sweep_signal=56
   list(GET pair 1 cost)
   set_tests_properties(${name} PROPERTIES COST ${cost})
 endforeach()
+
+# The README's results table against the demo's sweep run by the current code
+# (tests/cli/readme_results_test.sh, scripts/results_table.py --check-readme).
+add_test(NAME cli.readme_results
+  COMMAND ${CMAKE_CURRENT_LIST_DIR}/readme_results_test.sh $<TARGET_FILE:colchem>
+          ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/readme_results_work)
