@@ -7,6 +7,8 @@
 #include <cmath>
 #include <ctime>
 #include <limits>
+#include <string_view>
+#include <utility>
 
 #include "analysis/budget.hpp"
 #include "colchem/version.hpp"
@@ -57,7 +59,9 @@ void define_background(NcWriter& nc, const Background& bg) {
   nc.dimension("altitude_edge", bg.grid.cells() + 1);
   nc.dimension("nv", 2);
   nc.variable("altitude", {"altitude"},
-              {"km", "altitude of cell centre above the reference radius", "altitude",
+              {"km",
+               "altitude of cell centre above the reference radius",
+               "altitude",
                {{"positive", "up"}, {"axis", "Z"}, {"bounds", "altitude_bounds"}}});
   nc.variable("altitude_bounds", {"altitude", "nv"}, {"km", "cell edges", "", {}});
   nc.variable("altitude_edge", {"altitude_edge"},
@@ -66,8 +70,7 @@ void define_background(NcWriter& nc, const Background& bg) {
   nc.variable("pressure", {"altitude"}, {"Pa", "pressure", "air_pressure", {}});
   nc.variable("air_number_density", {"altitude"},
               {"cm-3", "total number density of air molecules", "", {}});
-  nc.variable("gravity", {"altitude"},
-              {"m s-2", "gravitational acceleration", "", {}});
+  nc.variable("gravity", {"altitude"}, {"m s-2", "gravitational acceleration", "", {}});
   nc.variable("scale_height", {"altitude"},
               {"km", "pressure scale height of the mean air molecule", "", {}});
   nc.variable("eddy_diffusion", {"altitude"},
@@ -120,6 +123,40 @@ void write_background_data(NcWriter& nc, const Background& bg) {
 
 namespace colchem {
 
+namespace {
+/// CF standard names of the form mole_fraction_of_X_in_air for the gases that have one (CF
+/// Standard Name Table; names from memory of the table, version 84 era), keyed by colchem's
+/// species notation. A species not listed has no CF name and is only in mole_fraction.
+constexpr std::pair<std::string_view, std::string_view> kCfGasNames[] = {
+    {"O3", "ozone"},
+    {"SO2", "sulfur_dioxide"},
+    {"CO", "carbon_monoxide"},
+    {"CO2", "carbon_dioxide"},
+    {"OH", "hydroxyl_radical"},
+    {"HO2", "hydroperoxyl_radical"},
+    {"H2O2", "hydrogen_peroxide"},
+    {"H2", "molecular_hydrogen"},
+    {"HCl", "hydrogen_chloride"},
+    {"ClO", "chlorine_monoxide"},
+    {"OClO", "chlorine_dioxide"},
+    {"Cl2O2", "dichlorine_peroxide"},
+    {"HOCl", "hypochlorous_acid"},
+    {"OCS", "carbonyl_sulfide"},
+    {"CH4", "methane"},
+    {"N2O", "nitrous_oxide"},
+    {"NO", "nitrogen_monoxide"},
+    {"NO2", "nitrogen_dioxide"},
+    {"HNO3", "nitric_acid"},
+};
+
+std::string_view cf_gas_name(const std::string& species) {
+  for (const auto& [sp, cf] : kCfGasNames) {
+    if (sp == species) return cf;
+  }
+  return {};
+}
+}  // namespace
+
 void define_species(NcWriter& nc, const std::vector<std::string>& species) {
   nc.dimension("species", species.size());
   nc.string_variable("species_name", "species", "species name (colchem notation)");
@@ -129,6 +166,17 @@ void define_species(NcWriter& nc, const std::vector<std::string>& species) {
               {"1", "mole fraction (number density over air number density)", "", {}});
   nc.variable("column_density", {"species"},
               {"cm-2", "vertical column density over the model domain", "", {}});
+  // The gases CF names, once more as their own profile with the CF standard name (a CF name
+  // belongs to one gas, so mole_fraction(species, altitude) cannot carry one).
+  for (const auto& sp : species) {
+    const std::string_view cf = cf_gas_name(sp);
+    if (cf.empty()) continue;
+    nc.variable("mole_fraction_" + sp, {"altitude"},
+                {"1",
+                 sp + " mole fraction (the row of mole_fraction)",
+                 "mole_fraction_of_" + std::string(cf) + "_in_air",
+                 {}});
+  }
 }
 
 void write_species_data(NcWriter& nc, const Background& bg, const std::vector<std::string>& species,
@@ -141,6 +189,13 @@ void write_species_data(NcWriter& nc, const Background& bg, const std::vector<st
   nc.put("number_density", nd);
   nc.put("mole_fraction", f);
   nc.put("column_density", col);
+  const std::size_t N = bg.grid.cells();
+  for (std::size_t s = 0; s < S; ++s) {
+    if (cf_gas_name(species[s]).empty()) continue;
+    nc.put("mole_fraction_" + species[s],
+           std::vector<double>(f.begin() + static_cast<std::ptrdiff_t>(s * N),
+                               f.begin() + static_cast<std::ptrdiff_t>((s + 1) * N)));
+  }
 }
 
 std::size_t ModelColumn::index(const std::string& name) const {
@@ -296,7 +351,8 @@ void write_reaction_data(NcWriter& nc, const ReactionData& d) {
 
 BudgetInputs read_budget_inputs(const NcReader& nc) {
   BudgetInputs in;
-  for (const char* v : {"reaction_rate", "net_stoichiometry", "transport_tendency", "net_tendency"}) {
+  for (const char* v :
+       {"reaction_rate", "net_stoichiometry", "transport_tendency", "net_tendency"}) {
     if (!nc.has_variable(v)) {
       throw InputError(ExitCode::kInputData, SourceLocation{nc.path().string()}, v,
                        "a run file with reaction diagnostics (written by colchem run)",

@@ -2,12 +2,34 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <stdexcept>
 #include <vector>
 
 #include "core/constants.hpp"
 
 namespace colchem {
+
+namespace {
+/// CF standard names of photolysis rates (CF Standard Name Table, from memory), recognised by
+/// a channel's products: mass balance fixes the absorber (O2 + O(1D) can only come from O3,
+/// NO + O only from NO2). Empty when CF names none.
+std::string cf_photolysis_name(const std::string& products) {
+  std::vector<std::string> p;
+  std::size_t at = 0;
+  while (at <= products.size()) {
+    const std::size_t plus = products.find(" + ", at);
+    p.push_back(products.substr(at, plus == std::string::npos ? std::string::npos : plus - at));
+    if (plus == std::string::npos) break;
+    at = plus + 3;
+  }
+  std::sort(p.begin(), p.end());
+  if (p == std::vector<std::string>{"O(1D)", "O2"})
+    return "photolysis_rate_of_ozone_to_1D_oxygen_atom";
+  if (p == std::vector<std::string>{"NO", "O"}) return "photolysis_rate_of_nitrogen_dioxide";
+  return {};
+}
+}  // namespace
 
 void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool with_spectrum,
                               bool with_enhancement) {
@@ -31,7 +53,8 @@ void define_photolysis_output(NcWriter& nc, const PhotolysisModel& model, bool w
     std::string long_name = "photolysis rate coefficient of channel " + name;
     if (!model.channel_products()[c].empty())
       long_name += " (-> " + model.channel_products()[c] + ")";
-    nc.variable("J_" + name, {"altitude"}, {"s-1", long_name, "", {}});
+    nc.variable("J_" + name, {"altitude"},
+                {"s-1", long_name, cf_photolysis_name(model.channel_products()[c]), {}});
     if (with_enhancement) {
       nc.variable("J_enhancement_" + name, {"altitude"},
                   {"1", "J of channel " + name + " over its direct-beam value", "", {}});

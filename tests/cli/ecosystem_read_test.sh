@@ -79,6 +79,15 @@ assert J.dims == ("channel", "altitude"), J.dims
 for c, ch in enumerate(run["channel_name"].values):
     assert np.array_equal(J.values[c], run[f"J_{ch}"].values), ch
 assert "grid:" in run["provenance_scenario"].item()
+# CF standard names where CF has one (CF Standard Name Table): each named gas once more as its
+# own profile, equal to its row of mole_fraction; O3 -> O2 + O(1D) as the CF photolysis rate.
+so2 = run["mole_fraction_SO2"]
+assert so2.attrs["standard_name"] == "mole_fraction_of_sulfur_dioxide_in_air", so2.attrs
+assert np.array_equal(so2.values, run["mole_fraction"].values[names.index("SO2")])
+assert run["mole_fraction_O3"].attrs["standard_name"] == "mole_fraction_of_ozone_in_air"
+assert "mole_fraction_N2" not in run  # CF names no N2 mole fraction in air
+assert run["J_O3_O2_O1D"].attrs["standard_name"] == "photolysis_rate_of_ozone_to_1D_oxygen_atom"
+assert "standard_name" not in run["J_SO2_SO_O"].attrs
 box = xr.open_dataset("box.nc")
 assert np.issubdtype(box["time"].dtype, np.datetime64), box["time"].dtype
 sweep = xr.open_dataset("sweep.nc")
