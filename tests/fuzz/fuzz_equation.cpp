@@ -5,6 +5,7 @@
 #include <yaml-cpp/yaml.h>
 
 #include <sstream>
+#include <string>
 
 #include "core/units.hpp"
 #include "fuzz_support.hpp"
@@ -29,8 +30,11 @@ std::string mechanism_text(const std::string& input) {
     << "name" << YAML::Value << "base" << YAML::Key << "reactions" << YAML::Value << YAML::BeginSeq;
   std::istringstream lines(input);
   std::string eq;
-  while (std::getline(lines, eq)) {
-    y << YAML::BeginMap << YAML::Key << "equation" << YAML::Value << YAML::DoubleQuoted << eq
+  for (int i = 0; std::getline(lines, eq); ++i) {
+    // Every reaction needs its own id (README "Mechanism files"), so that the equation, not a
+    // missing id, is what the loader reads and refuses.
+    y << YAML::BeginMap << YAML::Key << "id" << YAML::Value << "r" + std::to_string(i);
+    y << YAML::Key << "equation" << YAML::Value << YAML::DoubleQuoted << eq
       << YAML::Key << "rate" << YAML::Value << YAML::Flow << YAML::BeginMap << YAML::Key
       << "first_order" << YAML::Value << YAML::BeginMap << YAML::Key << "k" << YAML::Value << 1.0
       << YAML::EndMap << YAML::EndMap << YAML::EndMap;
