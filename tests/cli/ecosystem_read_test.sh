@@ -17,11 +17,11 @@ for tool in ncdump ncks cdo /usr/bin/python3; do
 done
 rm -rf "$work"; mkdir -p "$work"; cd "$work"
 
-# A transient run with snapshots: Tellin, cut to two days with two outputs, on 20 cells (the
-# layout, not the numbers, is under test).
+# A transient run with snapshots: Tellin, cut to two hours with two outputs, on 20 cells,
+# first step 0.5 s (the layout, not the numbers, is under test).
 "$colchem" run "$src/configs/tellin.yaml" -o run.nc \
-  --set 'solver.transient.end=2 day' --set 'solver.transient.outputs=[1 day, 2 day]' \
-  --set grid.cells=20 \
+  --set 'solver.transient.end=2 hour' --set 'solver.transient.outputs=[1 hour, 2 hour]' \
+  --set grid.cells=20 --set 'solver.transient.step=0.5 s' \
   > run.log 2>&1 || { tail -20 run.log; exit 1; }
 # The test sweep cut to three variants (base; sulfur at two removal scales).
 "$colchem" sweep "$src/tests/cli/sweep/tellin_sweep.yaml" -o sweep.nc \
@@ -67,9 +67,9 @@ for name in ("run.nc", "sweep.nc", "box.nc", "photo.nc"):
 run = xr.open_dataset("run.nc")
 t = run["snapshot"]
 assert np.issubdtype(t.dtype, np.datetime64), t.dtype
-# The stated origin plus the model times asked for (1 and 2 days; analytic).
-days = (t.values - np.datetime64("2000-01-01T00:00:00")) / np.timedelta64(1, "D")
-assert np.allclose(days, [1, 2], rtol=0, atol=1e-9), days
+# The stated origin plus the model times asked for (1 and 2 hours; analytic).
+hours = (t.values - np.datetime64("2000-01-01T00:00:00")) / np.timedelta64(1, "h")
+assert np.allclose(hours, [1, 2], rtol=0, atol=1e-9), hours
 names = [str(s) for s in run["species_name"].values]
 assert "SO2" in names, names
 assert "species_name" in run["mole_fraction"].coords

@@ -28,7 +28,7 @@ ok = excess > 0
 slope, intercept = np.polyfit(tt[ok], np.log(excess[ok]), 1)
 tau = -1.0 / slope
 print(f"SO2 column: background {background:.3e} cm-2, excess at {tt[0]:.1f} d {excess[0]:.3e} cm-2")
-print(f"e-folding time of the injected SO2: {tau:.1f} days (accepted {lo:.0f}-{hi:.0f})")
+print(f"e-folding time of the injected SO2: {tau:.1f} days (accepted {lo:.4g}-{hi:.4g})")
 alt = ds["altitude"][:]
 nd = ds["snapshot_number_density"][:]          # (snapshot, species, altitude)
 sulfate = [n for n in names if n.startswith("H2SO4")]

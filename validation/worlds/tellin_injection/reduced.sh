@@ -1,5 +1,6 @@
 #!/usr/bin/env bash
-# The Tellin injection on the reduced case (25 cells, 70 days; about a minute): the e-folding
+# The Tellin injection on the reduced case (25 cells, 70 days; about a minute; CTest label
+# slow, the default suite runs short.sh): the e-folding
 # time of the injected SO2 within 10 % of the converged value recorded in
 # converged_efolding_days.txt (the full case, 50 cells and 130 days, measured by run.sh, which
 # also shows the reduced value within 5 % of the full one). ./reduced.sh [path/to/colchem]
