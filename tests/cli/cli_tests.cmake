@@ -390,12 +390,12 @@ add_test(NAME cli.demo_reference
           ${CMAKE_SOURCE_DIR} ${CMAKE_CURRENT_BINARY_DIR}/demo_reference_work)
 
 # Start the longest tests first (CTest orders by COST when a fresh build has no timing data
-# yet; measured wall seconds on a quiet 2-core machine, rounded), so that `ctest -j2` does
-# not end on one long test running alone.
-foreach(entry validation.worlds.tellin_injection_reduced=65 cli.sweep_signal=56
-              cli.sensitivity.pyrene_chi2=43 cli.fit.pyrene_check=30 cli.output_safety=17
-              cli.run_tellin=16 cli.sweep_resume=16 cli.sensitivity.pyrene_column=15
-              cli.ensemble_pyrene=14 cli.ecosystem_read=11)
+# yet; wall seconds on a quiet 2-core machine, rounded, estimated from the CPU time where the
+# machine was not quiet), so that `ctest -j2` does not end on one long test running alone.
+foreach(entry cli.fit.pyrene_check=23 cli.sweep_signal=22 cli.python_package=17
+              cli.sweep_resume=16 cli.sensitivity.pyrene_chi2=15 cli.ensemble_pyrene=14
+              cli.sensitivity.pyrene_column=13 validation.worlds.tellin_injection_short=12
+              cli.plot_ensemble=9 cli.sweep_pieces=8)
   string(REPLACE "=" ";" pair "${entry}")
   list(GET pair 0 name)
   list(GET pair 1 cost)
