@@ -19,17 +19,17 @@ namespace {
 using Field = DatasetVariable;
 
 /// The ensemble's global attributes: size, sampling, seed and method.
-void add_ensemble_globals(Dataset& nc, const EnsembleResults& r) {
+void add_ensemble_globals(Dataset& ds, const EnsembleResults& r) {
   const std::size_t M = r.converged.size();
   std::size_t ok = 0;
   for (int c : r.converged) ok += c != 0 ? 1 : 0;
-  nc.global_number("ensemble_members", static_cast<double>(M));
-  nc.global_number("ensemble_converged", static_cast<double>(ok));
-  nc.global_text("ensemble_sampling", r.sampling);
-  nc.global_number("ensemble_seed", static_cast<double>(r.seed));
-  nc.global_number("ensemble_sigmas", r.sigmas);
-  nc.global_number("ensemble_reach_above_km", r.above_km);
-  nc.global_text(
+  ds.global_number("ensemble_members", static_cast<double>(M));
+  ds.global_number("ensemble_converged", static_cast<double>(ok));
+  ds.global_text("ensemble_sampling", r.sampling);
+  ds.global_number("ensemble_seed", static_cast<double>(r.seed));
+  ds.global_number("ensemble_sigmas", r.sigmas);
+  ds.global_number("ensemble_reach_above_km", r.above_km);
+  ds.global_text(
       "ensemble_method",
       "member m multiplies k_r (or J_r) by exp(z_mr ln f_r(T) / sigmas), f_r(T) = f298 "
       "exp|g (1/T - 1/298)| (JPL Publication 19-5), z standard normal: Latin hypercube "
@@ -88,11 +88,11 @@ void add_members(ResultFields& f, const EnsembleResults& r) {
 }
 
 /// The scores of the base state and the members, and the observed points against the band.
-void add_ensemble_scores(Dataset& nc, ResultFields& f, const EnsembleResults& r) {
+void add_ensemble_scores(Dataset& ds, ResultFields& f, const EnsembleResults& r) {
   const std::size_t M = r.converged.size();
   const std::size_t Q = r.scored_species.size(), K = r.points.size();
-  nc.dimension("scored_species", Q);
-  nc.dimension("observation", K);
+  ds.dimension("scored_species", Q);
+  ds.dimension("observation", K);
   f.texts.push_back(string_variable("score_species", "scored_species",
                                     "species scored against observations", r.scored_species));
   Field bc = number_variable("base_chi2_log", {"scored_species"},
@@ -157,9 +157,9 @@ void add_ensemble_scores(Dataset& nc, ResultFields& f, const EnsembleResults& r)
 }
 
 /// The first-order attribution of each target's variance.
-void add_attribution(Dataset& nc, ResultFields& f, const EnsembleResults& r) {
-  nc.dimension("target", r.attribution.size());
-  nc.global_text(
+void add_attribution(Dataset& ds, ResultFields& f, const EnsembleResults& r) {
+  ds.dimension("target", r.attribution.size());
+  ds.global_text(
       "attribution_method",
       "first order (delta method): Var_1(ln x) = sum_r a_r^2, a_r = sum_j S_rj ln f_r(T_j) / "
       "sigmas, S_rj = d ln x / d ln k_r(z_j) from the discrete adjoint of the base state, "
@@ -211,18 +211,18 @@ void add_attribution(Dataset& nc, ResultFields& f, const EnsembleResults& r) {
 
 }  // namespace
 
-void add_ensemble(Dataset& nc, const Background& bg, const EnsembleResults& r) {
-  add_background(nc, bg);
-  nc.dimension("species", r.species.size());
-  nc.dimension("reaction", r.equations.size());
-  nc.dimension("member", r.converged.size());
-  nc.dimension("percentile", std::size(kEnsemblePercentiles));
-  add_ensemble_globals(nc, r);
+void add_ensemble(Dataset& ds, const Background& bg, const EnsembleResults& r) {
+  add_background(ds, bg);
+  ds.dimension("species", r.species.size());
+  ds.dimension("reaction", r.equations.size());
+  ds.dimension("member", r.converged.size());
+  ds.dimension("percentile", std::size(kEnsemblePercentiles));
+  add_ensemble_globals(ds, r);
   ResultFields f;
   add_members(f, r);
-  if (!r.scored_species.empty()) add_ensemble_scores(nc, f, r);
-  if (!r.attribution.empty()) add_attribution(nc, f, r);
-  add_result_fields(nc, std::move(f));
+  if (!r.scored_species.empty()) add_ensemble_scores(ds, f, r);
+  if (!r.attribution.empty()) add_attribution(ds, f, r);
+  add_result_fields(ds, std::move(f));
 }
 
 namespace {

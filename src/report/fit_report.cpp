@@ -97,30 +97,30 @@ Dataset fit_dataset(const Scenario& sc, const ColumnModel& model,
                     const std::vector<FitParameter>& params, const FitResult& res, bool log_space,
                     const std::string& command_line) {
   const std::size_t P = params.size(), M = res.residuals.size();
-  Dataset nc;
-  add_provenance(nc, sc, command_line);
-  nc.global_text("colchem_fit_method",
+  Dataset ds;
+  add_provenance(ds, sc, command_line);
+  ds.global_text("colchem_fit_method",
                  "bounded Gauss-Newton (PETSc TAO, TAOBRGN) on the chi-square residuals; "
                  "Jacobian by forward sensitivities of the steady state, J dx/dp = -dF/dp; "
                  "covariance (J^T J)^-1 at the best fit, unscaled (Press et al., Numerical "
                  "Recipes, 3rd ed., sections 15.4-15.5)");
-  nc.global_text("colchem_fit_residuals", log_space ? "chi2_log" : "chi2_linear");
-  nc.global_text("colchem_fit_status", res.reason);
-  nc.global_number("colchem_fit_converged", res.converged ? 1.0 : 0.0);
-  nc.global_number("colchem_fit_chi2", res.chi2);
-  nc.global_number("colchem_fit_chi2_initial", res.chi2_initial);
-  nc.global_number("colchem_fit_reduced_chi2", res.reduced_chi2);
-  nc.global_number("colchem_fit_points", static_cast<double>(res.points));
-  nc.global_number("colchem_fit_iterations", res.iterations);
-  nc.global_number("colchem_fit_steady_solves", res.steady_solves);
-  nc.global_number("colchem_fit_jacobians", res.jacobians);
+  ds.global_text("colchem_fit_residuals", log_space ? "chi2_log" : "chi2_linear");
+  ds.global_text("colchem_fit_status", res.reason);
+  ds.global_number("colchem_fit_converged", res.converged ? 1.0 : 0.0);
+  ds.global_number("colchem_fit_chi2", res.chi2);
+  ds.global_number("colchem_fit_chi2_initial", res.chi2_initial);
+  ds.global_number("colchem_fit_reduced_chi2", res.reduced_chi2);
+  ds.global_number("colchem_fit_points", static_cast<double>(res.points));
+  ds.global_number("colchem_fit_iterations", res.iterations);
+  ds.global_number("colchem_fit_steady_solves", res.steady_solves);
+  ds.global_number("colchem_fit_jacobians", res.jacobians);
 
   ResultFields f;
   f.dimensions = {{"parameter", P}, {"parameter2", P}, {"observation", M}};
   add_parameter_fields(f, params, res);
   add_observation_fields(f, res);
-  add_state(nc, model.background(), model.species(), res.x, std::move(f));
-  return nc;
+  add_state(ds, model.background(), model.species(), res.x, std::move(f));
+  return ds;
 }
 
 }  // namespace colchem

@@ -115,12 +115,12 @@ void add_profiles(ResultFields& f, const ResolutionStudy& st) {
 }
 
 /// chi2_log and the model at every observed point, per level, with their orders.
-void add_resolution_scores(Dataset& nc, ResultFields& f, const ResolutionStudy& st) {
+void add_resolution_scores(Dataset& ds, ResultFields& f, const ResolutionStudy& st) {
   const std::size_t L = st.levels.size();
   std::size_t P = 0;
   for (const auto& q : st.scores) P += q.altitude_cm.size();
-  nc.dimension("scored_species", st.scores.size());
-  nc.dimension("observation", P);
+  ds.dimension("scored_species", st.scores.size());
+  ds.dimension("observation", P);
   f.texts.push_back(string_variable("score_species", "scored_species",
                                     "species scored against observations", {}));
   f.texts.push_back(
@@ -170,9 +170,9 @@ void add_resolution_scores(Dataset& nc, ResultFields& f, const ResolutionStudy& 
 }
 
 /// The boundary fluxes per level, with their orders.
-void add_boundary_fluxes(Dataset& nc, ResultFields& f, const ResolutionStudy& st) {
+void add_boundary_fluxes(Dataset& ds, ResultFields& f, const ResolutionStudy& st) {
   const std::size_t L = st.levels.size();
-  nc.dimension("boundary_flux", st.boundary_fluxes.size());
+  ds.dimension("boundary_flux", st.boundary_fluxes.size());
   f.texts.push_back(string_variable("boundary_flux_species", "boundary_flux",
                                     "species of the compared boundary flux", {}));
   f.texts.push_back(string_variable("boundary_flux_end", "boundary_flux",
@@ -212,21 +212,21 @@ void add_boundary_fluxes(Dataset& nc, ResultFields& f, const ResolutionStudy& st
 
 }  // namespace
 
-void add_resolution(Dataset& nc, const ResolutionStudy& st, const ResolutionOptions& options) {
+void add_resolution(Dataset& ds, const ResolutionStudy& st, const ResolutionOptions& options) {
   const auto& base = st.levels.front();
   const std::size_t L = st.levels.size(), S = st.profiles.size();
-  add_background(nc, base.background);
-  nc.dimension("level", L);
-  nc.dimension("level_pair", L - 1);
-  nc.dimension("level_triple", L - 2);
-  nc.dimension("species", S);
-  nc.global_number("refinement_ratio", static_cast<double>(st.ratio));
-  nc.global_number("formal_order", options.range.formal_order);
-  nc.global_number("asymptotic_order_low", options.range.low);
-  nc.global_number("asymptotic_order_high", options.range.high);
-  nc.global_number("resolved_below", options.range.resolved_below);
-  nc.global_number("relative_floor", options.relative_floor);
-  nc.global_text("resolution_method",
+  add_background(ds, base.background);
+  ds.dimension("level", L);
+  ds.dimension("level_pair", L - 1);
+  ds.dimension("level_triple", L - 2);
+  ds.dimension("species", S);
+  ds.global_number("refinement_ratio", static_cast<double>(st.ratio));
+  ds.global_number("formal_order", options.range.formal_order);
+  ds.global_number("asymptotic_order_low", options.range.low);
+  ds.global_number("asymptotic_order_high", options.range.high);
+  ds.global_number("resolved_below", options.range.resolved_below);
+  ds.global_number("relative_floor", options.relative_floor);
+  ds.global_text("resolution_method",
                  "Richardson extrapolation (Roache 1998, Verification and Validation in "
                  "Computational Science and Engineering): p = ln(|u1-u2|/|u2-u3|)/ln r, error of "
                  "the finest (u2-u3)/(r^p-1); profiles compared as log10 mole fraction at the "
@@ -235,9 +235,9 @@ void add_resolution(Dataset& nc, const ResolutionStudy& st, const ResolutionOpti
   ResultFields f;
   add_levels(f, st);
   add_profiles(f, st);
-  if (!st.scores.empty()) add_resolution_scores(nc, f, st);
-  if (!st.boundary_fluxes.empty()) add_boundary_fluxes(nc, f, st);
-  add_result_fields(nc, std::move(f));
+  if (!st.scores.empty()) add_resolution_scores(ds, f, st);
+  if (!st.boundary_fluxes.empty()) add_boundary_fluxes(ds, f, st);
+  add_result_fields(ds, std::move(f));
 }
 
 std::string resolution_table_text(const ResolutionStudy& st) {

@@ -42,16 +42,16 @@ Dataset sensitivity_dataset(const Scenario& sc, const ColumnModel& model, std::s
   const std::size_t R = res.reactions.size(), P = res.parameters.size();
   const std::string g_units = obj.units.empty() ? "1" : obj.units;
   const std::string lambda_units = g_units == "1" ? "cm3 s" : g_units + " cm3 s";
-  Dataset nc;
-  add_provenance(nc, sc, command_line);
-  nc.global_text("colchem_objective", obj.label);
-  nc.global_number("colchem_objective_value", res.value);
-  nc.global_text("colchem_objective_units", g_units);
-  nc.global_text("colchem_sensitivity_method",
+  Dataset ds;
+  add_provenance(ds, sc, command_line);
+  ds.global_text("colchem_objective", obj.label);
+  ds.global_number("colchem_objective_value", res.value);
+  ds.global_text("colchem_objective_units", g_units);
+  ds.global_text("colchem_sensitivity_method",
                  "discrete adjoint of the steady state (Cacuci 1981, J. Math. Phys. 22, 2794): "
                  "J^T lambda = (dG/dx)^T, dG/dp = dG/dp|_x - lambda^T dF/dp");
-  nc.global_number("colchem_adjoint_krylov_iterations", res.krylov_iterations);
-  nc.global_number("colchem_adjoint_seconds", res.total_s);
+  ds.global_number("colchem_adjoint_krylov_iterations", res.krylov_iterations);
+  ds.global_number("colchem_adjoint_seconds", res.total_s);
   std::vector<std::string> ids, eqs, pn, pd;
   DatasetVariable dG = number_variable(
       "dG_dlnk", {"reaction"},
@@ -103,8 +103,8 @@ Dataset sensitivity_dataset(const Scenario& sc, const ColumnModel& model, std::s
       string_variable("parameter_name", "parameter", "parameter", pn),
       string_variable("parameter_description", "parameter", "what the parameter is", pd)};
   f.numbers = {dG, ls, share, profile, pv, pdG, pls, lam};
-  add_state(nc, model.background(), model.species(), x, std::move(f));
-  return nc;
+  add_state(ds, model.background(), model.species(), x, std::move(f));
+  return ds;
 }
 
 }  // namespace colchem
