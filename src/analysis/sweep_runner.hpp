@@ -20,6 +20,9 @@
 
 namespace colchem {
 
+/// What a sweep file holds for a variant (variable variant_state).
+enum class VariantState : int { kNotRun = 0, kConverged = 1, kFailed = 2, kInterrupted = 3 };
+
 struct VariantOutcome {
   std::size_t index = 0;
   bool converged = false;

@@ -7,67 +7,12 @@
 #include "app/commands.hpp"
 #include "chem/box_model.hpp"
 #include "io/chemistry_section.hpp"
-#include "io/netcdf_file.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
+#include "report/box_report.hpp"
 
 namespace colchem::app {
-
-namespace {
-
-void write_box(const BoxSpec& box, const BoxResult& res, const std::string& command_line) {
-  const Mechanism& m = *box.chemistry.mechanism;
-  const std::size_t S = res.species, R = res.reactions, nt = res.times_s.size();
-  NcWriter nc(box.output_file);
-  nc.global_text("Conventions", "CF-1.10");
-  nc.global_text("title", "colchem box model: " + box.name);
-  nc.global_text("history", command_line);
-  nc.global_text("mechanism", m.name);
-  nc.text_variable("provenance_configuration", "the box configuration after every --set (YAML)",
-                   box.resolved_yaml);
-  nc.text_variable("provenance_mechanism", "the mechanism file", m.text);
-  nc.global_number("temperature_K", box.temperature_K);
-  nc.global_number("pressure_Pa", box.pressure_dyn_cm2 * 0.1);
-  nc.dimension("time", nt);
-  nc.dimension("species", S);
-  nc.dimension("reaction", R);
-  nc.variable("time", {"time"},
-              NcVarAttrs{kModelTimeUnits,
-                         "model time",
-                         "time",
-                         {{"axis", "T"}, {"calendar", kModelTimeCalendar}}});
-  nc.string_variable("species_name", "species", "species name");
-  nc.string_variable("reaction_id", "reaction", "reaction id as in the mechanism");
-  nc.string_variable("reaction_equation", "reaction", "reaction equation");
-  nc.variable("number_density", {"time", "species"}, NcVarAttrs{"cm-3", "number density", "", {}});
-  nc.variable("mole_fraction", {"time", "species"}, NcVarAttrs{"1", "mole fraction", "", {}});
-  nc.variable("production", {"time", "species"},
-              NcVarAttrs{"cm-3 s-1", "chemical production rate", "", {}});
-  nc.variable("loss", {"time", "species"}, NcVarAttrs{"cm-3 s-1", "chemical loss rate", "", {}});
-  nc.variable("reaction_rate", {"time", "reaction"},
-              NcVarAttrs{"cm-3 s-1", "rate of each reaction (production of its products, loss "
-                                     "of its reactants, per unit coefficient)", "", {}});
-  nc.end_definitions();
-  nc.put("time", res.times_s);
-  std::vector<std::string> names, ids, eqs;
-  for (const auto& sp : m.species) names.push_back(sp.name);
-  for (auto r : res.reaction_index) ids.push_back(m.reactions[r].id);
-  for (auto r : res.reaction_index) eqs.push_back(m.reactions[r].equation);
-  nc.put_strings("species_name", names);
-  nc.put_strings("reaction_id", ids);
-  nc.put_strings("reaction_equation", eqs);
-  nc.put("number_density", res.n_cm3);
-  std::vector<double> x(res.n_cm3);
-  for (auto& v : x) v /= box.air_cm3;
-  nc.put("mole_fraction", x);
-  nc.put("production", res.production);
-  nc.put("loss", res.loss);
-  if (R > 0) nc.put("reaction_rate", res.rates);
-  nc.commit();
-  (void)S;
-}
-
-}  // namespace
 
 void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAction>>& out) {
   auto* cmd = app.add_subcommand("box", "Integrate one well-mixed cell at fixed temperature and "
@@ -88,7 +33,10 @@ void add_box_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandActi
     const OutputClaim claim(box.output_file);
     const BoxProblem pb = box_problem(box);
     const BoxResult res = run_box(pb);
-    write_box(box, res, ctx.command_line);
+    const BoxFileHeader header{box.name, box.resolved_yaml, box.temperature_K,
+                               box.pressure_dyn_cm2, box.air_cm3};
+    write_dataset(box_dataset(header, *box.chemistry.mechanism, res, ctx.command_line),
+                  box.output_file);
 
     const Mechanism& m = *box.chemistry.mechanism;
     const std::size_t S = res.species, R = res.reactions, last = res.times_s.size() - 1;

@@ -11,7 +11,7 @@
 #include "core/error.hpp"
 #include "io/netcdf_file.hpp"
 #include "io/output.hpp"
-#include "io/sweep_output.hpp"
+#include "io/sweep_file.hpp"
 
 namespace colchem::app {
 

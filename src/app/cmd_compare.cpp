@@ -9,10 +9,11 @@
 #include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "core/error.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
-#include "io/score_output.hpp"
-#include "io/sweep_output.hpp"
+#include "io/sweep_file.hpp"
+#include "report/score_report.hpp"
 
 namespace colchem::app {
 
@@ -81,13 +82,11 @@ void add_compare_command(CLI::App& app, std::vector<std::pair<CLI::App*, Command
     std::cout << format_scores(scores);
     if (!o->dry) {
       const std::string target = o->output.empty() ? o->run : o->output;
-      NcWriter nc = NcWriter::amend(o->run, target);
-      nc.global_text("colchem_observation_file", o->obs);
-      nc.global_text("colchem_observations", obs.text);
-      define_scores(nc, scores);
-      nc.end_definitions();
-      write_scores(nc, scores);
-      nc.commit();
+      Dataset ds;
+      ds.global_text("colchem_observation_file", o->obs);
+      ds.global_text("colchem_observations", obs.text);
+      add_scores(ds, scores);
+      amend_dataset(o->run, ds, target);
       ctx.log->info("wrote scores into {}", target);
     }
     return 0;

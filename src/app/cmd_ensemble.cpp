@@ -27,9 +27,11 @@
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
-#include "io/ensemble_output.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
+#include "report/column_report.hpp"
+#include "report/ensemble_report.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/column_run.hpp"
 #include "solve/continuation.hpp"
@@ -418,11 +420,11 @@ std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<do
 void write_ensemble_file(const std::filesystem::path& output, const Scenario& sc,
                          const ColumnModel& base_model, const EnsembleResults& res, int ranks,
                          const std::string& command_line) {
-  NcWriter nc(output);
-  write_provenance(nc, sc, command_line);
-  nc.global_number("colchem_ensemble_ranks", ranks);
-  write_ensemble_netcdf(nc, base_model.background(), res);
-  nc.commit();
+  Dataset ds;
+  add_provenance(ds, sc, command_line);
+  ds.global_number("colchem_ensemble_ranks", ranks);
+  add_ensemble(ds, base_model.background(), res);
+  write_dataset(ds, output);
 }
 
 int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {

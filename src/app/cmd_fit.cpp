@@ -24,9 +24,10 @@
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
-#include "io/fit_output.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
+#include "report/fit_report.hpp"
 #include "solve/column_run.hpp"
 #include "solve/fit.hpp"
 #include "solve/interrupt.hpp"
@@ -489,7 +490,7 @@ int fit_once(const FitCliOptions& o, FitSetup& f, Context& ctx, std::ostream& ou
   // 4. The fit.
   FitProblem problem(model, sc.solver, obs, params, run.x, fopt);
   const FitResult res = problem.solve();
-  write_fit_file(f.file, sc, model, params, res, fopt.log_space, ctx.command_line);
+  write_dataset(fit_dataset(sc, model, params, res, fopt.log_space, ctx.command_line), f.file);
 
   const std::size_t P = params.size();
   print_fit(params, res, fopt.log_space, out);

@@ -5,10 +5,13 @@
 
 #include "app/commands.hpp"
 #include "core/error.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/scenario.hpp"
 #include "photo/photolysis_output.hpp"
+#include "report/column_report.hpp"
+#include "report/photolysis_report.hpp"
 #include "solve/column_model.hpp"
 
 namespace colchem::app {
@@ -42,7 +45,7 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                        "a scenario with photolysis channels", "none");
     }
     std::vector<double> n = model.initial_state();
-    if (!o->from.empty()) model.take_restart(o->from, n);
+    if (!o->from.empty()) model.take_restart(read_model_column(o->from), n);
     const PhotolysisModel& photo = *model.photolysis();
     std::vector<double> J(photo.channels().size() * model.cells());
     std::vector<double> F(o->spectrum ? model.cells() * photo.bins() : 0);
@@ -66,14 +69,11 @@ void add_photo_command(CLI::App& app, std::vector<std::pair<CLI::App*, CommandAc
                                        model.background().grid, "[1]");
     }
     if (!o->output.empty()) {
-      NcWriter nc(o->output);
-      write_provenance(nc, sc, ctx.command_line);
-      define_background(nc, model.background());
-      define_photolysis_output(nc, local, o->spectrum, !J_direct.empty());
-      nc.end_definitions();
-      write_background_data(nc, model.background());
-      write_photolysis_output(nc, local, J, F, J_direct);
-      nc.commit();
+      Dataset ds;
+      add_provenance(ds, sc, ctx.command_line);
+      add_background(ds, model.background());
+      add_photolysis(ds, local, {J, F, J_direct, o->spectrum});
+      write_dataset(ds, o->output);
       ctx.log->info("wrote {}", o->output);
     }
     return 0;

@@ -24,10 +24,10 @@
 #include "core/error.hpp"
 #include "core/ideal_gas.hpp"
 #include "core/units.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/mechanism_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
-#include "io/sweep_output.hpp"
 
 namespace colchem::app {
 

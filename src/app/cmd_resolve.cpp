@@ -14,10 +14,11 @@
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/error.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
-#include "io/resolution_output.hpp"
 #include "io/scenario.hpp"
-#include "io/sweep_output.hpp"
+#include "report/column_report.hpp"
+#include "report/resolution_report.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
 
@@ -80,10 +81,10 @@ int run_resolve(const ResolveCliOptions& o, Context& ctx) {
   ro.range.low = o.low;
   ro.range.high = o.high;
   const ResolutionStudy st = run_resolution_study(req, base, o.levels, o.ratio, ro, units);
-  NcWriter nc(output);
-  write_provenance(nc, sc, ctx.command_line);
-  write_resolution_netcdf(nc, st, ro);
-  nc.commit();
+  Dataset ds;
+  add_provenance(ds, sc, ctx.command_line);
+  add_resolution(ds, st, ro);
+  write_dataset(ds, output);
   std::cout << resolution_table_text(st);
   ctx.log->info("wrote {}", output.string());
   if (!st.all_converged()) {

@@ -16,12 +16,14 @@
 #include "app/summary.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
-#include "io/run_output.hpp"
+#include "io/restart_file.hpp"
 #include "io/scenario.hpp"
-#include "io/score_output.hpp"
-#include "io/sweep_output.hpp"
+#include "io/sweep_file.hpp"
+#include "report/run_report.hpp"
+#include "report/score_report.hpp"
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
@@ -133,7 +135,7 @@ int run_scenario(RunCliOptions o, Context& ctx) {
     none.status = SolveStatus::kCompleted;
     none.method = "none";
     none.reason = "no chemistry section: background column only";
-    write_run_file(sc.output.file, sc, model, none, ctx.command_line, {});
+    write_dataset(run_dataset(sc, model, none, ctx.command_line, {}), sc.output.file);
     ctx.log->info("wrote {} (background only)", sc.output.file.string());
     return 0;
   }
@@ -157,14 +159,14 @@ int run_scenario(RunCliOptions o, Context& ctx) {
   controls.warm_start = st.warm;
   controls.progress_interval_s = o.progress_every;
   controls.checkpoint = [&](const RunCheckpoint& cp) {
-    write_checkpoint(ckpt, sc, model, cp, ctx.command_line);
+    write_dataset(checkpoint_dataset(sc, model, cp, ctx.command_line), ckpt);
   };
   RunOutcome r = resume ? continue_column(model, sc.solver, *resume, controls)
                         : run_column(model, sc.solver, std::move(st.x0), controls);
   r.sequence = std::move(st.sequence);
 
   if (r.status == SolveStatus::kInterrupted) {
-    write_checkpoint(ckpt, sc, model, checkpoint_of(r), ctx.command_line);
+    write_dataset(checkpoint_dataset(sc, model, checkpoint_of(r), ctx.command_line), ckpt);
     ctx.log->warn(
         "interrupted (signal {}); checkpoint written to {}; continue with "
         "--restart {}",
@@ -175,7 +177,7 @@ int run_scenario(RunCliOptions o, Context& ctx) {
     scores = score_column(model.background().grid.center_cm, model.species(),
                           mole_fractions(model, r.x), obs, 0);
   }
-  write_run_file(sc.output.file, sc, model, r, ctx.command_line, scores);
+  write_dataset(run_dataset(sc, model, r, ctx.command_line, scores), sc.output.file);
   std::cout << summarize_run(sc, model, r);
   if (!scores.empty()) std::cout << format_scores(scores);
   ctx.log->info("wrote {}", sc.output.file.string());

@@ -19,9 +19,9 @@
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
-#include "io/run_output.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/scenario.hpp"
-#include "io/sensitivity_output.hpp"
+#include "report/sensitivity_report.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
@@ -284,7 +284,7 @@ int run_sensitivity(const SensitivityCliOptions& o, Context& ctx) {
   sopt.eddy_bands = o.bands;
   sopt.shift = 1.0 / steady_options(sc.solver).max_pseudo_step_s;
   const SensitivityResult res = compute_sensitivities(model, obj, run.x, sopt);
-  write_sensitivity_file(file, sc, model, run.x, obj, res, ctx.command_line);
+  write_dataset(sensitivity_dataset(sc, model, run.x, obj, res, ctx.command_line), file);
   print_sensitivities(o, obj, res);
   ctx.log->info("wrote {}", file.string());
 

@@ -25,11 +25,14 @@
 #include "chem/kinetics.hpp"
 #include "core/error.hpp"
 #include "io/config_node.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/scenario.hpp"
+#include "io/sweep_file.hpp"
 #include "io/sweep_loader.hpp"
-#include "io/sweep_output.hpp"
+#include "report/column_report.hpp"
+#include "report/sweep_report.hpp"
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
@@ -529,18 +532,18 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
       (not_run > 0 ? fmt::format(", {} not run (piece {}:{})", not_run, lo, hi) : std::string{});
   const auto ranking = rank_variants(res, spec.rank_by);
   {
-    NcWriter nc(spec.output);
-    write_provenance(nc, base, ctx.command_line);
-    nc.global_text("colchem_sweep_file", spec.file.string());
-    nc.global_text("colchem_sweep_scenario",
+    Dataset ds;
+    add_provenance(ds, base, ctx.command_line);
+    ds.global_text("colchem_sweep_file", spec.file.string());
+    ds.global_text("colchem_sweep_scenario",
                    std::filesystem::weakly_canonical(spec.scenario).string());
-    nc.global_text("colchem_sweep_definition", definition);
-    nc.global_text("colchem_sweep_definition_hash", text_digest(definition));
-    if (piece) nc.global_text("colchem_sweep_piece", fmt::format("{}:{}", lo, hi));
-    nc.global_number("colchem_sweep_ranks", size);
-    nc.global_text("colchem_sweep_status", sweep_status + ": " + counts);
-    write_sweep_netcdf(nc, base_model.background(), res, ranking);
-    nc.commit();
+    ds.global_text("colchem_sweep_definition", definition);
+    ds.global_text("colchem_sweep_definition_hash", text_digest(definition));
+    if (piece) ds.global_text("colchem_sweep_piece", fmt::format("{}:{}", lo, hi));
+    ds.global_number("colchem_sweep_ranks", size);
+    ds.global_text("colchem_sweep_status", sweep_status + ": " + counts);
+    add_sweep(ds, base_model.background(), res, ranking);
+    write_dataset(ds, spec.output);
   }
   write_text_file(spec.table, sweep_table_csv(res, ranking, spec.rank_by));
   std::cout << sweep_table_text(res, ranking, spec.rank_by);

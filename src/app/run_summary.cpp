@@ -7,7 +7,7 @@
 #include <cmath>
 
 #include "app/summary.hpp"
-#include "io/run_output.hpp"
+#include "report/run_report.hpp"
 
 namespace colchem::app {
 

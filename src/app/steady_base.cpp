@@ -5,6 +5,7 @@
 
 #include "core/column_state.hpp"
 #include "core/error.hpp"
+#include "io/output.hpp"
 
 namespace colchem::app {
 
@@ -24,7 +25,7 @@ StartState start_state(const BaseStart& start, const Scenario& sc, const ColumnM
   StartState st;
   st.x0 = model.initial_state();
   if (!start.restart.empty()) {
-    const std::size_t n = model.take_restart(start.restart, st.x0);
+    const std::size_t n = model.take_restart(read_model_column(start.restart), st.x0);
     // A converged state of the same scenario (on another grid, say) starts warm.
     st.warm = n == model.species_count();
     if (log != nullptr) {

@@ -23,26 +23,13 @@
 #include <string>
 #include <vector>
 
+#include "core/dataset.hpp"
 #include "io/output_claim.hpp"
 
 namespace colchem {
 
-/// CF time units of model time (snapshots, box time series). Model time starts at zero; CF
-/// time needs a date origin, and this one is a convention stated in the file (the worlds are
-/// fictional): "0 s" is printed by xarray as 2000-01-01.
-inline constexpr const char* kModelTimeUnits = "seconds since 2000-01-01 00:00:00";
-inline constexpr const char* kModelTimeCalendar = "proleptic_gregorian";
-
-struct NcVarAttrs {
-  std::string units;          ///< UDUNITS-parsable; "1" for dimensionless
-  std::string long_name;
-  std::string standard_name;  ///< CF standard name where one exists, else empty
-  std::map<std::string, std::string> extra;  ///< further text attributes
-  /// Stored as NC_INT (counts, 0/1 flags); put() converts the doubles it is given.
-  bool integer = false;
-  /// CF flag_values (with `flag_meanings` in `extra`); implies `integer`.
-  std::vector<int> flag_values = {};
-};
+/// The attributes of a numeric variable (core/dataset.hpp).
+using NcVarAttrs = VarAttrs;
 
 class NcWriter {
  public:

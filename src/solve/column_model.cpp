@@ -8,8 +8,6 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/interp.hpp"
-#include "io/netcdf_file.hpp"
-#include "io/output.hpp"
 #include "solve/residual_norm.hpp"
 
 namespace colchem {
@@ -126,10 +124,7 @@ std::vector<double> ColumnModel::initial_state() const {
   return n;
 }
 
-std::size_t ColumnModel::take_restart(const std::filesystem::path& file,
-                                      std::vector<double>& n) const {
-  const NcReader nc(file);
-  const ModelColumn old = read_model_column(nc);
+std::size_t ColumnModel::take_restart(const ModelColumn& old, std::vector<double>& n) const {
   const std::size_t S = species_count(), N = cells();
   std::size_t taken = 0;
   for (std::size_t s = 0; s < S; ++s) {

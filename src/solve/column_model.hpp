@@ -21,6 +21,7 @@
 
 #include "chem/chemistry_operator.hpp"
 #include "core/background.hpp"
+#include "core/model_column.hpp"
 #include "io/scenario.hpp"
 #include "photo/photolysis_model.hpp"
 #include "solve/column_system.hpp"
@@ -98,9 +99,10 @@ class ColumnModel : public NonlocalCoupling {
   /// The scenario's initial state n[j*S + s] with the held species imposed.
   [[nodiscard]] std::vector<double> initial_state() const;
   /// Interpolates a previous run's number densities (log-linear in altitude, end values
-  /// held) onto this grid for the species both share; the others keep `n`.
-  /// Returns the number of species taken from the file.
-  std::size_t take_restart(const std::filesystem::path& file, std::vector<double>& n) const;
+  /// held) onto this grid for the species both share; the others keep `n`. `old` is read
+  /// from the earlier run's file by io/output.hpp's read_model_column.
+  /// Returns the number of species taken from it.
+  std::size_t take_restart(const ModelColumn& old, std::vector<double>& n) const;
   /// Imposes the held species' densities on a state.
   void impose_held(std::span<double> n) const;
 

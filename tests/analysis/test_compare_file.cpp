@@ -9,9 +9,12 @@
 #include "core/background.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "io/dataset_writer.hpp"
+#include "io/netcdf_file.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
-#include "io/score_output.hpp"
+#include "report/column_report.hpp"
+#include "report/score_report.hpp"
 
 using namespace colchem;
 namespace fs = std::filesystem;
@@ -33,14 +36,11 @@ TEST_CASE("scores are written into a copy of a run file and read back", "[score]
   const fs::path run = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "score_run.nc";
   const fs::path scored = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "score_run_scored.nc";
   {
-    NcWriter nc(run);
-    write_provenance(nc, sc, "test");
-    define_background(nc, bg);
-    define_species(nc, species);
-    nc.end_definitions();
-    write_background_data(nc, bg);
-    write_species_data(nc, bg, species, n);
-    nc.commit();
+    Dataset ds;
+    add_provenance(ds, sc, "test");
+    add_background(ds, bg);
+    add_species(ds, bg, species, n);
+    write_dataset(ds, run);
   }
   const fs::path obs_file = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "score_obs.csv";
   // At 78 km the model is 1e-7 * 10^-1 = 1e-8 (by hand); observed 2e-8 +- 5e-9.
@@ -57,11 +57,9 @@ TEST_CASE("scores are written into a copy of a run file and read back", "[score]
   CHECK(scores[0].chi2_linear == Approx(4.0).epsilon(1e-7));
   CHECK(scores[1].chi2_log == Approx(0.0).margin(1e-20));
   {
-    NcWriter nc = NcWriter::amend(run, scored);
-    define_scores(nc, scores);
-    nc.end_definitions();
-    write_scores(nc, scores);
-    nc.commit();
+    Dataset ds;
+    add_scores(ds, scores);
+    amend_dataset(run, ds, scored);
   }
   const NcReader back(scored);
   CHECK(back.read("chi2_linear")[0] == Approx(4.0).epsilon(1e-7));

@@ -4,9 +4,11 @@
 #include <cmath>
 #include <filesystem>
 
-#include "io/output.hpp"
+#include "io/dataset_writer.hpp"
+#include "io/netcdf_file.hpp"
 #include "io/scenario.hpp"
-#include "io/sweep_output.hpp"
+#include "report/column_report.hpp"
+#include "report/sweep_report.hpp"
 
 using namespace colchem;
 
@@ -45,10 +47,10 @@ TEST_CASE("sweep results are ranked, failed variants last, and written with a va
 
   const auto out = std::filesystem::path(COLCHEM_TEST_OUTPUT_DIR) / "sweep_out.nc";
   {
-    NcWriter nc(out);
-    write_provenance(nc, sc, "test");
-    write_sweep_netcdf(nc, bg, r, ranking);
-    nc.commit();
+    Dataset ds;
+    add_provenance(ds, sc, "test");
+    add_sweep(ds, bg, r, ranking);
+    write_dataset(ds, out);
   }
   const NcReader back(out);
   CHECK(back.shape("mole_fraction") == std::vector<std::size_t>{3, 1, N});

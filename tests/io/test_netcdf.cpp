@@ -2,14 +2,17 @@
 // then rename rule (an unfinished writer leaves nothing under the final name).
 #include <catch2/catch.hpp>
 
+#include <cmath>
 #include <filesystem>
 
 #include "core/background.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "core/dataset.hpp"
+#include "io/dataset_writer.hpp"
 #include "io/netcdf_file.hpp"
-#include "io/output.hpp"
 #include "io/scenario.hpp"
+#include "report/column_report.hpp"
 
 using namespace colchem;
 namespace fs = std::filesystem;
@@ -21,13 +24,10 @@ TEST_CASE("a scenario's background round-trips through NetCDF", "[netcdf]") {
   const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "roundtrip.nc";
   fs::remove(out);
   {
-    NcWriter nc(out);
-    write_provenance(nc, sc, "colchem_tests");
-    define_background(nc, bg);
-    nc.end_definitions();
-    write_background_data(nc, bg);
-    CHECK_FALSE(fs::exists(out));  // still under its temporary name
-    nc.commit();
+    Dataset ds;
+    add_provenance(ds, sc, "colchem_tests");
+    add_background(ds, bg);
+    write_dataset(ds, out);
   }
   REQUIRE(fs::exists(out));
   const NcReader r(out);
@@ -60,6 +60,7 @@ TEST_CASE("an uncommitted writer leaves no file behind", "[netcdf]") {
     NcWriter nc(out);
     nc.dimension("x", 3);
     nc.variable("v", {"x"}, {"1", "test", "", {}});
+    CHECK_FALSE(fs::exists(out));  // still under its temporary name
     // Destroyed without commit(), as when a run fails half-way.
   }
   CHECK_FALSE(fs::exists(out));
@@ -107,4 +108,41 @@ TEST_CASE("every dimension gets a numeric coordinate; names become auxiliary coo
   CHECK(r.read("held") == std::vector<double>{0.0, 1.0, 0.0});
   CHECK(r.text_variable("provenance_note") == std::optional<std::string>("line 1\nline 2\n"));
   CHECK_FALSE(r.text_variable("absent").has_value());
+}
+
+TEST_CASE("a Dataset is written once: data, flags, fills, texts and the writer's coordinates",
+          "[netcdf]") {
+  const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "dataset.nc";
+  fs::remove(out);
+  Dataset ds;
+  ds.global_number("answer", 2.5);
+  ds.dimension("x", 3);
+  ds.strings("x_name", "x", "entry names", {"a", "b", "c"});
+  ds.variable("v", {"x"}, {"cm-3", "values", "", {}}, {1.0, 2.0, 3.0});
+  ds.variable("gap", {"x"}, {"1", "declared without data", "", {}}).nan_fill();
+  ds.flag("state", {"x"}, "state of the entry", "no yes maybe", {0.0, 2.0, 1.0});
+  ds.text("note", "a long text", "hello");
+  write_dataset(ds, out);
+  const NcReader r(out);
+  CHECK(r.global_number("answer") == std::optional<double>(2.5));
+  CHECK(r.read("v") == std::vector<double>{1.0, 2.0, 3.0});
+  CHECK(r.var_text("v", "units") == std::optional<std::string>("cm-3"));
+  for (double g : r.read("gap")) CHECK(std::isnan(g));
+  CHECK(r.read("state") == std::vector<double>{0.0, 2.0, 1.0});
+  CHECK(r.var_text("state", "flag_meanings") == std::optional<std::string>("no yes maybe"));
+  CHECK(r.text_variable("note") == std::optional<std::string>("hello"));
+  CHECK(r.read_strings("x_name") == std::vector<std::string>{"a", "b", "c"});
+  // The writer's layout: an index coordinate for x and the names as auxiliary coordinates.
+  CHECK(r.read("x") == std::vector<double>{0.0, 1.0, 2.0});
+  CHECK(r.var_text("v", "coordinates") == std::optional<std::string>("x_name"));
+}
+
+TEST_CASE("a Dataset variable with the wrong amount of data leaves no file", "[netcdf]") {
+  const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "dataset_short.nc";
+  fs::remove(out);
+  Dataset ds;
+  ds.dimension("x", 3);
+  ds.variable("v", {"x"}, {"1", "two values for three entries", "", {}}, {1.0, 2.0});
+  CHECK_THROWS_AS(write_dataset(ds, out), RunError);
+  CHECK_FALSE(fs::exists(out));
 }

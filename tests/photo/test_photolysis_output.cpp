@@ -3,9 +3,11 @@
 
 #include <vector>
 
+#include "io/dataset_writer.hpp"
 #include "io/netcdf_file.hpp"
-#include "io/output.hpp"
 #include "photo/photolysis_output.hpp"
+#include "report/column_report.hpp"
+#include "report/photolysis_report.hpp"
 #include "photo_test_support.hpp"
 
 using namespace colchem;
@@ -27,13 +29,10 @@ TEST_CASE("J-values and the actinic flux round-trip through NetCDF", "[photo][io
   const auto path = std::filesystem::path(COLCHEM_TEST_OUTPUT_DIR) / "photo" / "jvalues.nc";
   std::filesystem::create_directories(path.parent_path());
   {
-    NcWriter nc(path);
-    define_background(nc, bg);
-    define_photolysis_output(nc, m, true);
-    nc.end_definitions();
-    write_background_data(nc, bg);
-    write_photolysis_output(nc, m, J, F);
-    nc.commit();
+    Dataset ds;
+    add_background(ds, bg);
+    add_photolysis(ds, m, {J, F, {}, true});
+    write_dataset(ds, path);
   }
   NcReader r(path);
   const auto Jr = r.read("J_A_B_C");

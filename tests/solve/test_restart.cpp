@@ -12,8 +12,10 @@
 #include <memory>
 
 #include "chem/stiff_integrator.hpp"
-#include "io/run_output.hpp"
+#include "io/dataset_writer.hpp"
+#include "io/restart_file.hpp"
 #include "io/scenario.hpp"
+#include "report/run_report.hpp"
 #include "solve/column_model.hpp"
 #include "solve/column_run.hpp"
 
@@ -78,7 +80,7 @@ TEST_CASE(
   REQUIRE(first.time_s > injection_s);  // interrupted after the injection
   REQUIRE(first.time_s < end_s);
   const auto file = output("restart_transient.checkpoint.nc");
-  write_checkpoint(file, sc, m1, checkpoint_of(first), "test");
+  write_dataset(checkpoint_dataset(sc, m1, checkpoint_of(first), "test"), file);
 
   ColumnModel m2(sc);  // a new process
   const RestartFile rf = read_checkpoint(file, m2, sc.solver.method);
@@ -162,7 +164,7 @@ TEST_CASE(
   // The pseudo-time step handed out is the one of the 10th step (history row 9).
   CHECK(at10.step_s == whole.history[9].step_s);
   const auto file = output("restart_steady.checkpoint.nc");
-  write_checkpoint(file, sc, m0, at10, "test");
+  write_dataset(checkpoint_dataset(sc, m0, at10, "test"), file);
 
   ColumnModel m1(sc);
   const RestartFile rf = read_checkpoint(file, m1, sc.solver.method);
@@ -188,7 +190,7 @@ TEST_CASE("Restart: only a checkpoint of the same column and method continues",
   ColumnModel m(sc);
   RunCheckpoint cp{"steady", 3, 0.0, 1.0, m.initial_state(), {}, {}};
   const auto file = output("restart_other.checkpoint.nc");
-  write_checkpoint(file, sc, m, cp, "test");
+  write_dataset(checkpoint_dataset(sc, m, cp, "test"), file);
   CHECK(read_checkpoint(file, m, SolverMethod::kSteady).checkpoint.has_value());
   const RestartFile other_method = read_checkpoint(file, m, SolverMethod::kTransient);
   CHECK(!other_method.checkpoint);
@@ -203,7 +205,7 @@ TEST_CASE("Restart: only a checkpoint of the same column and method continues",
   done.method = "steady";
   done.x = m.initial_state();
   const auto run_file = output("restart_other_run.nc");
-  write_run_file(run_file, sc, m, done, "test", {});
+  write_dataset(run_dataset(sc, m, done, "test", {}), run_file);
   const RestartFile plain = read_checkpoint(run_file, m, SolverMethod::kSteady);
   CHECK(!plain.checkpoint);
   CHECK_THAT(plain.why_not, Catch::Contains("not a checkpoint"));

@@ -1,5 +1,5 @@
-// A resolution study's results: NetCDF (the coarsest level's background as the altitude
-// coordinate, every level's log10 mole fraction on it, differences, observed orders,
+// A resolution study's results: the file as a Dataset (the coarsest level's background as the
+// altitude coordinate, every level's log10 mole fraction on it, differences, observed orders,
 // Richardson error estimates and statuses), the printed table, and an adapted grid as a
 // reusable `grid:` section.
 #pragma once
@@ -8,13 +8,12 @@
 #include <string>
 
 #include "analysis/resolution_runner.hpp"
-#include "io/netcdf_file.hpp"
+#include "core/dataset.hpp"
 
 namespace colchem {
 
-/// Defines and writes the study's variables (the caller writes provenance and commits).
-void write_resolution_netcdf(NcWriter& nc, const ResolutionStudy& st,
-                             const ResolutionOptions& options);
+/// The study's variables after the provenance (the coarsest level's background first).
+void add_resolution(Dataset& ds, const ResolutionStudy& st, const ResolutionOptions& options);
 
 /// The per-species table (and the scores' table when there are scores).
 std::string resolution_table_text(const ResolutionStudy& st);

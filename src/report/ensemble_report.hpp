@@ -1,4 +1,4 @@
-// The ensemble file (colchem ensemble) and its printed summary.
+// The ensemble file (colchem ensemble) as a Dataset and its printed summary.
 #pragma once
 
 #include <cstdint>
@@ -7,7 +7,7 @@
 
 #include "analysis/observations.hpp"
 #include "core/background.hpp"
-#include "io/netcdf_file.hpp"
+#include "core/dataset.hpp"
 
 namespace colchem {
 
@@ -67,7 +67,9 @@ struct EnsembleResults {
   std::vector<EnsembleAttribution> attribution;
 };
 
-void write_ensemble_netcdf(NcWriter& nc, const Background& bg, const EnsembleResults& r);
+/// The ensemble's variables after the provenance: background, reactions with their
+/// uncertainty, members, percentiles of the profiles, scores and attribution.
+void add_ensemble(Dataset& ds, const Background& bg, const EnsembleResults& r);
 
 /// Members converged and failed; per scored species the base chi2_log and the members'
 /// percentiles of it; per observed point whether it lies in the 95 % band; the chance of

@@ -1,20 +1,19 @@
-// The file of `colchem sensitivity` (CF-1.10, written to a temporary and renamed): the
+// The file of `colchem sensitivity` (CF-1.10), as a Dataset: the
 // state's background and species profiles, the objective, the ranked reaction
 // sensitivities with their profiles dG/d ln k_r(z), the other parameters' sensitivities
 // and the adjoint solution (README "Sensitivities").
 #pragma once
 
-#include <filesystem>
 #include <string>
 
+#include "core/dataset.hpp"
 #include "io/scenario.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/column_model.hpp"
 
 namespace colchem {
 
-void write_sensitivity_file(const std::filesystem::path& file, const Scenario& sc,
-                            const ColumnModel& model, std::span<const double> x,
+Dataset sensitivity_dataset(const Scenario& sc, const ColumnModel& model, std::span<const double> x,
                             const Objective& obj, const SensitivityResult& res,
                             const std::string& command_line);
 
