@@ -1,3 +1,6 @@
+// Photolysis output (no formula of its own beyond J / J_direct-beam): J_<channel> (s-1), the
+// bins (nm), the stellar photon flux at the top and the actinic and diffuse fluxes
+// (cm-2 s-1 nm-1); variables and units listed in photo/photolysis_output.hpp.
 #include "photo/photolysis_output.hpp"
 
 #include <fmt/format.h>
