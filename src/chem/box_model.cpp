@@ -1,3 +1,5 @@
+// Box mode, dn/dt = P(n) - L(n) (cm^-3 s^-1) in one cell at fixed T and p, integrated by
+// backward Euler with step doubling (chem/stiff_integrator.hpp): see chem/box_model.hpp.
 #include "chem/box_model.hpp"
 
 #include <cmath>

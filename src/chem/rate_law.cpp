@@ -1,3 +1,6 @@
+// Rate constants k(T, [M]) (s^-1, cm^3 s^-1, cm^6 s^-1): Arrhenius k = A (T/300)^b
+// exp(-E/T), falloff and chemical activation (JPL Publication 19-5, Burkholder et al. 2019),
+// Troe (Troe 1983), equilibrium reverse: equations and units in chem/rate_law.hpp.
 #include "chem/rate_law.hpp"
 
 #include <cmath>

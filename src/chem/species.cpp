@@ -1,14 +1,9 @@
+// Per-species properties: b_i = A T^s (cm^-1 s^-1, D_i = b_i / n_a) with the default A of
+// transport/transport_species.hpp (Banks and Kockarts 1973 form, from memory) and the thermal
+// diffusion factor alpha_T (from memory); see chem/species.hpp.
 #include "chem/species.hpp"
 
-#include <cmath>
-
 namespace colchem {
-
-double default_diffusion_A(double species_mass_amu, double air_mass_amu) {
-  // b = 1.52e18 [T (1/M_i + 1/M_a)]^(1/2) cm^-1 s^-1 (Banks and Kockarts 1973, Aeronomy,
-  // part B; from memory).
-  return 1.52e18 * std::sqrt(1.0 / species_mass_amu + 1.0 / air_mass_amu);
-}
 
 DiffusionParams Species::diffusion_params(double mean_air_mass_amu) const {
   if (diffusion) return *diffusion;

@@ -13,6 +13,7 @@
 
 #include "core/composition.hpp"
 #include "core/error.hpp"
+#include "transport/transport_species.hpp"  // default_diffusion_A
 
 namespace colchem {
 
@@ -36,8 +37,5 @@ struct Species {
   /// alpha_T: the override, else -0.38 for H and H2 (from memory), else 0.
   [[nodiscard]] double thermal_diffusion_factor() const;
 };
-
-/// The default binary-diffusion coefficient A (cm^-1 s^-1 K^-1/2) for masses in amu.
-double default_diffusion_A(double species_mass_amu, double air_mass_amu);
 
 }  // namespace colchem

@@ -1,3 +1,8 @@
+// Photolysis rates J_c(z) = sum_b sigma_c,b phi_c,b f_c,b F_b(z) (s^-1) from the direct
+// beam F_b = F_b,top exp(-tau_s,b) (photons cm^-2 s^-1 per bin; tau_s the slant optical
+// depth of the absorbers, Rayleigh gases and aerosol), with the two-stream diffuse field
+// when asked: equations, units and published sources (Brasseur and Solomon 2005; Chapman
+// 1931; Joseph, Wiscombe and Weinman 1976) in photo/photolysis_model.hpp.
 #include "photo/photolysis_model.hpp"
 
 #include <fmt/format.h>
@@ -46,41 +51,90 @@ struct BinnedData {
   std::vector<bool> channel_per_level;
 };
 
+/// A table's cross section on the bins: one row per table temperature, times the scale.
+/// With several tables, interpolated linearly in T per level (clamped): [j * B + b];
+/// otherwise [b].
+std::vector<double> bin_tables(const CrossSectionSpec& cs, const Background& bg,
+                               std::span<const double> edges, bool& per_level) {
+  const std::size_t N = bg.grid.cells();
+  const std::size_t B = edges.size() - 1;
+  std::vector<std::vector<double>> binned;
+  for (const auto& t : cs.tables) {
+    binned.push_back(bin_average(t, edges));
+    for (auto& v : binned.back()) v *= cs.scale;
+  }
+  per_level = binned.size() > 1;
+  std::vector<double> table(per_level ? N * B : B, 0.0);
+  if (per_level) {
+    const auto& Ts = cs.temperature_K;
+    for (std::size_t j = 0; j < N; ++j) {
+      const double T = std::clamp(bg.temperature_K[j], Ts.front(), Ts.back());
+      std::size_t k = 1;
+      while (k + 1 < Ts.size() && Ts[k] < T) ++k;
+      const double w = (T - Ts[k - 1]) / (Ts[k] - Ts[k - 1]);
+      for (std::size_t b = 0; b < B; ++b) {
+        table[j * B + b] = (1.0 - w) * binned[k - 1][b] + w * binned[k][b];
+      }
+    }
+  } else if (!binned.empty()) {
+    table = binned[0];
+  }
+  return table;
+}
+
+/// A channel's quantum yield times its scale and branching on the bins.
+std::vector<double> bin_quantum_yield(const ChannelSpec& ch, std::span<const double> edges) {
+  const std::size_t B = edges.size() - 1;
+  const auto& q = ch.quantum_yield;
+  std::vector<double> phi(B, q.value);
+  if (q.form == YieldForm::kTable) {
+    phi = bin_average_held(q.table, edges);
+  } else if (q.form == YieldForm::kStep) {
+    for (std::size_t b = 0; b < B; ++b) {
+      const double f = fraction_below(edges[b], edges[b + 1], q.step_nm);
+      phi[b] = f * q.below_value + (1.0 - f) * q.above_value;
+    }
+  }
+  for (std::size_t b = 0; b < B; ++b) phi[b] *= q.scale * ch.branching;
+  return phi;
+}
+
+/// A channel's sigma phi f: (table sigma x onset average + bands integrated above the
+/// threshold) x phi x branching; `table` is its absorber's tables alone.
+std::vector<double> bin_channel(const ChannelSpec& ch, const AbsorberSpec& absorber,
+                                const std::vector<double>& table, std::span<const double> edges) {
+  const std::size_t B = edges.size() - 1;
+  const std::vector<double> phi = bin_quantum_yield(ch, edges);
+  std::vector<double> onset(B), bands(B, 0.0);
+  for (std::size_t b = 0; b < B; ++b) {
+    onset[b] = onset_average(edges[b], edges[b + 1], ch.threshold_nm, ch.onset_width_cm1);
+  }
+  for (const auto& band : absorber.bands) {
+    const auto v = band_onto_bins_above(band, edges, ch.threshold_nm, ch.onset_width_cm1);
+    for (std::size_t b = 0; b < B; ++b) bands[b] += v[b];
+  }
+  std::vector<double> sp = table;
+  for (std::size_t i = 0; i < sp.size(); ++i) {
+    const std::size_t b = i % B;
+    sp[i] = (sp[i] * onset[b] + bands[b]) * phi[b];
+  }
+  return sp;
+}
+
 BinnedData bin_spectral_data(const PhotolysisSpec& spec, const Background& bg,
                              std::span<const double> edges, const SourceLocation& where) {
-  const std::size_t N = bg.grid.cells();
   const std::size_t B = edges.size() - 1;
   BinnedData out;
   // Absorbers: tables (interpolated in T per level, clamped, times their scale) plus
   // overtone bands. The tables alone are kept for the channels.
   std::vector<std::vector<double>> tables_only;
   for (const auto& ab : spec.absorbers) {
-    const auto& cs = ab.cross_section;
-    std::vector<std::vector<double>> binned;
-    for (const auto& t : cs.tables) {
-      binned.push_back(bin_average(t, edges));
-      for (auto& v : binned.back()) v *= cs.scale;
-    }
+    bool per_level = false;
+    std::vector<double> table = bin_tables(ab.cross_section, bg, edges, per_level);
     std::vector<double> bands(B, 0.0);
     for (const auto& band : ab.bands) {
       const auto v = band_onto_bins(band, edges);
       for (std::size_t b = 0; b < B; ++b) bands[b] += v[b];
-    }
-    const bool per_level = binned.size() > 1;
-    std::vector<double> table(per_level ? N * B : B, 0.0);
-    if (per_level) {
-      const auto& Ts = cs.temperature_K;
-      for (std::size_t j = 0; j < N; ++j) {
-        const double T = std::clamp(bg.temperature_K[j], Ts.front(), Ts.back());
-        std::size_t k = 1;
-        while (k + 1 < Ts.size() && Ts[k] < T) ++k;
-        const double w = (T - Ts[k - 1]) / (Ts[k] - Ts[k - 1]);
-        for (std::size_t b = 0; b < B; ++b) {
-          table[j * B + b] = (1.0 - w) * binned[k - 1][b] + w * binned[k][b];
-        }
-      }
-    } else if (!binned.empty()) {
-      table = binned[0];
     }
     std::vector<double> sigma = table;
     for (std::size_t i = 0; i < sigma.size(); ++i) sigma[i] += bands[i % B];
@@ -88,9 +142,6 @@ BinnedData bin_spectral_data(const PhotolysisSpec& spec, const Background& bg,
     out.absorber_per_level.push_back(per_level);
     tables_only.push_back(std::move(table));
   }
-
-  // Channels: (table sigma x onset average + bands integrated above the threshold) x phi x
-  // branching.
   for (const auto& ch : spec.channels) {
     std::size_t ai = spec.absorbers.size();
     for (std::size_t i = 0; i < spec.absorbers.size(); ++i) {
@@ -100,34 +151,66 @@ BinnedData bin_spectral_data(const PhotolysisSpec& spec, const Background& bg,
       throw InputError(ExitCode::kConfig, where, "channels." + ch.name, "a declared absorber",
                        "'" + ch.absorber + "'");
     }
-    const auto& q = ch.quantum_yield;
-    std::vector<double> phi(B, q.value);
-    if (q.form == YieldForm::kTable) {
-      phi = bin_average_held(q.table, edges);
-    } else if (q.form == YieldForm::kStep) {
-      for (std::size_t b = 0; b < B; ++b) {
-        const double f = fraction_below(edges[b], edges[b + 1], q.step_nm);
-        phi[b] = f * q.below_value + (1.0 - f) * q.above_value;
-      }
-    }
-    std::vector<double> onset(B), bands(B, 0.0);
-    for (std::size_t b = 0; b < B; ++b) {
-      phi[b] *= q.scale * ch.branching;
-      onset[b] = onset_average(edges[b], edges[b + 1], ch.threshold_nm, ch.onset_width_cm1);
-    }
-    for (const auto& band : spec.absorbers[ai].bands) {
-      const auto v = band_onto_bins_above(band, edges, ch.threshold_nm, ch.onset_width_cm1);
-      for (std::size_t b = 0; b < B; ++b) bands[b] += v[b];
-    }
-    std::vector<double> sp = tables_only[ai];
-    for (std::size_t i = 0; i < sp.size(); ++i) {
-      const std::size_t b = i % B;
-      sp[i] = (sp[i] * onset[b] + bands[b]) * phi[b];
-    }
-    out.channel_sigma_phi.push_back(std::move(sp));
+    out.channel_sigma_phi.push_back(bin_channel(ch, spec.absorbers[ai], tables_only[ai], edges));
     out.channel_per_level.push_back(out.absorber_per_level[ai]);
   }
   return out;
+}
+
+/// An aerosol optical property (single-scattering albedo or asymmetry) at the cell centres
+/// and bins, [j * B + b]: constant, linear in z (end values held), bin-averaged in lambda,
+/// or both (bin-averaged per tabulated altitude, then linear in z).
+std::vector<double> aerosol_property(const OpticalPropertySpec& p, const AerosolSpec& ae,
+                                     const Background& bg, std::span<const double> edges) {
+  const std::size_t N = bg.grid.cells();
+  const std::size_t B = edges.size() - 1;
+  std::vector<double> v(N * B, p.value);
+  if (p.form == OpticalPropertyForm::kAltitudeWavelength) {
+    const std::size_t K = p.spectra.size();
+    std::vector<double> binned(K * B), column(K);  // [k * B + b]
+    for (std::size_t k = 0; k < K; ++k) {
+      const auto avg = bin_average_held(p.spectra[k], edges);
+      std::copy(avg.begin(), avg.end(), binned.begin() + static_cast<std::ptrdiff_t>(k * B));
+    }
+    for (std::size_t b = 0; b < B; ++b) {
+      for (std::size_t k = 0; k < K; ++k) column[k] = binned[k * B + b];
+      for (std::size_t j = 0; j < N; ++j) {
+        v[j * B + b] = interp_linear_hold(p.grid_altitude_cm, column, bg.grid.center_cm[j]);
+      }
+    }
+    return v;
+  }
+  const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
+                                         ? bin_average_held(p.by_wavelength, edges)
+                                         : std::vector<double>{};
+  for (std::size_t j = 0; j < N; ++j) {
+    const double at_z =
+        p.form == OpticalPropertyForm::kAltitude
+            ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
+            : p.value;
+    for (std::size_t b = 0; b < B; ++b) v[j * B + b] = by_bin.empty() ? at_z : by_bin[b];
+  }
+  return v;
+}
+
+/// The spherical ray from radius r0 (a cell centre or edge) towards the sun: path[k] for
+/// k >= first is the ray's length through cell k over dz_k, and the return value the
+/// Chapman factor of the column above the top (slant_path.hpp).
+double ray_path_factors(const Background& bg, std::span<const double> dz, double r0, double mu0,
+                        double sin_chi, std::size_t first, double H_top, double* path) {
+  const std::size_t N = bg.grid.cells();
+  const double R = bg.planet.radius_cm;
+  const double r_top = R + bg.grid.edge_cm[N];
+  const double p2 = std::pow(r0 * sin_chi, 2);
+  auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
+  double below = r0 * mu0;  // distance from the tangent point to r0
+  for (std::size_t k = first; k < N; ++k) {
+    const double above = chord(R + bg.grid.edge_cm[k + 1]);
+    path[k] = (above - below) / dz[k];
+    below = above;
+  }
+  const double sin_top = std::min(1.0, r0 * sin_chi / r_top);
+  return chapman_function(r_top / H_top, std::asin(sin_top));
 }
 
 }  // namespace
@@ -135,18 +218,45 @@ BinnedData bin_spectral_data(const PhotolysisSpec& spec, const Background& bg,
 PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& bg,
                                  const std::vector<std::string>& species_names,
                                  std::span<const double> parameters) {
+  // 1. Wavelength bins and the stellar photons per bin at the planet.
   levels_ = bg.grid.cells();
   species_ = species_names.size();
+  set_bins(spec, bg);
+  // 2. The column: air density, cell widths, the column above the top.
+  const std::size_t N = levels_;
+  air_density_ = bg.air_density_cm3;
+  for (std::size_t j = 0; j < N; ++j) dz_.push_back(bg.grid.width_cm(j));
+  const double H_top = bg.scale_height_cm[N - 1];
+  top_height_ = H_top * std::exp(-0.5 * dz_[N - 1] / H_top);
+  // 3. Absorbers and channels binned with the parameters' values written into the data, and
+  //    their derivatives with respect to the parameters the data refer to.
+  const SourceLocation where{spec.data_source};
+  set_absorbers_and_channels(spec, bg, species_names, parameters, where);
+  set_parameter_derivatives(spec, bg, parameters, where);
+  // 4. Scatterers: Rayleigh gases, aerosols, the surface.
+  add_rayleigh(spec, bg, species_names, where);
+  set_aerosols(spec, bg);
+  if (two_stream_) {
+    const auto& rt = spec.radiative_transfer;
+    albedo_ = rt.surface_albedo_table.value.empty()
+                  ? std::vector<double>(bins_, rt.surface_albedo)
+                  : bin_average_held(rt.surface_albedo_table, edges_);
+  }
+  // 5. Sun positions and slant paths; 6. workspace; 7. prescribed channels.
+  set_geometry(spec, bg);
+  size_workspace();
+  set_prescribed(spec, bg);
+}
+
+void PhotolysisModel::set_bins(const PhotolysisSpec& spec, const Background& bg) {
   edges_ = spec.bin_edges_nm.empty() ? default_bin_edges() : spec.bin_edges_nm;
   if (edges_.size() < 2) throw std::invalid_argument("photolysis: fewer than two bin edges");
   bins_ = edges_.size() - 1;
-  const std::size_t N = levels_;
   const std::size_t B = bins_;
   for (std::size_t b = 0; b < B; ++b) {
     widths_.push_back(edges_[b + 1] - edges_[b]);
     centers_.push_back(0.5 * (edges_[b] + edges_[b + 1]));
   }
-
   // Stellar photons per bin at the planet: F_1au / r^2 times the bin width.
   std::vector<double> per_nm;
   switch (spec.spectrum.form) {
@@ -161,39 +271,39 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   const double r2 = bg.planet.star_distance_au * bg.planet.star_distance_au;
   top_flux_.resize(B);
   for (std::size_t b = 0; b < B; ++b) top_flux_[b] = per_nm[b] * widths_[b] / r2;
+}
 
-  air_density_ = bg.air_density_cm3;
-  for (std::size_t j = 0; j < N; ++j) dz_.push_back(bg.grid.width_cm(j));
-  const double H_top = bg.scale_height_cm[N - 1];
-  top_height_ = H_top * std::exp(-0.5 * dz_[N - 1] / H_top);
-
-  const SourceLocation where{spec.data_source};
-  auto locate = [&](const std::string& name, Attenuator& a, bool required) {
-    for (std::size_t s = 0; s < species_names.size(); ++s) {
-      if (species_names[s] == name) {
-        a.species = static_cast<int>(s);
-        return true;
-      }
-    }
-    auto it = bg.bulk_mole_fraction.find(name);
-    if (it != bg.bulk_mole_fraction.end()) {
-      a.bulk_fraction = it->second;
+bool PhotolysisModel::locate(const std::string& name, const std::vector<std::string>& species_names,
+                             const Background& bg, Attenuator& a, bool required,
+                             const SourceLocation& where) {
+  for (std::size_t s = 0; s < species_names.size(); ++s) {
+    if (species_names[s] == name) {
+      a.species = static_cast<int>(s);
       return true;
     }
-    if (required) {
-      throw InputError(ExitCode::kConfig, where, "absorbers",
-                       "absorber '" + name + "' to be a model species or a bulk gas", "neither",
-                       "remove it from the photolysis data or add the species");
-    }
-    return false;
-  };
+  }
+  auto it = bg.bulk_mole_fraction.find(name);
+  if (it != bg.bulk_mole_fraction.end()) {
+    a.bulk_fraction = it->second;
+    return true;
+  }
+  if (required) {
+    throw InputError(ExitCode::kConfig, where, "absorbers",
+                     "absorber '" + name + "' to be a model species or a bulk gas", "neither",
+                     "remove it from the photolysis data or add the species");
+  }
+  return false;
+}
 
-  // Absorbers and channels, binned with the parameters' values written into the data; the
-  // derivative of the binned data with respect to each parameter the data refer to.
+void PhotolysisModel::set_absorbers_and_channels(const PhotolysisSpec& spec, const Background& bg,
+                                                 const std::vector<std::string>& species_names,
+                                                 std::span<const double> parameters,
+                                                 const SourceLocation& where) {
+  const std::size_t B = bins_;
   const BinnedData data = bin_spectral_data(with_parameters(spec, parameters), bg, edges_, where);
   for (std::size_t i = 0; i < spec.absorbers.size(); ++i) {
     Attenuator a;
-    locate(spec.absorbers[i].species, a, true);
+    locate(spec.absorbers[i].species, species_names, bg, a, true, where);
     a.per_level = data.absorber_per_level[i];
     a.sigma = data.absorber_sigma[i];
     nonzero_range(a.sigma, B, a.lo, a.hi);
@@ -208,6 +318,11 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     channel_names_.push_back(spec.channels[c].name);
     products_.push_back(spec.channels[c].products);
   }
+}
+
+void PhotolysisModel::set_parameter_derivatives(const PhotolysisSpec& spec, const Background& bg,
+                                                std::span<const double> parameters,
+                                                const SourceLocation& where) {
   for (const auto& u : spec.parameter_uses) {
     const bool seen =
         std::any_of(derivs_.begin(), derivs_.end(),
@@ -240,11 +355,16 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     }
     derivs_.push_back(std::move(d));
   }
+}
 
+void PhotolysisModel::add_rayleigh(const PhotolysisSpec& spec, const Background& bg,
+                                   const std::vector<std::string>& species_names,
+                                   const SourceLocation& where) {
   // Rayleigh scattering of bulk gases: exact bin average of the lambda^-e law.
+  const std::size_t B = bins_;
   for (const auto& r : spec.rayleigh) {
     Attenuator a;
-    if (!locate(r.gas, a, false)) continue;
+    if (!locate(r.gas, species_names, bg, a, false, where)) continue;
     a.sigma.resize(B);
     for (std::size_t b = 0; b < B; ++b) {
       a.sigma[b] = r.cross_section_cm2 *
@@ -255,9 +375,13 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
     a.scatters = true;
     attenuators_.push_back(std::move(a));
   }
+}
 
+void PhotolysisModel::set_aerosols(const PhotolysisSpec& spec, const Background& bg) {
   // Aerosol: extinction at cell centres (linear in z, end values held) times dz. The
   // two-stream scheme scatters the fraction omega of it and delta-scales the forward peak.
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
   two_stream_ = spec.radiative_transfer.scheme == RadiativeTransferScheme::kTwoStream;
   closure_ = spec.radiative_transfer.closure;
   aerosol_dtau_.assign(N * B, 0.0);
@@ -265,39 +389,10 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
   aerosol_gsca_.assign(two_stream_ ? N * B : 0, 0.0);
   for (const AerosolSpec& ae : spec.aerosols) {  // populations add
     if (!ae.present) continue;
-    auto property = [&](const OpticalPropertySpec& p) {  // [j * B + b]
-      std::vector<double> v(N * B, p.value);
-      if (p.form == OpticalPropertyForm::kAltitudeWavelength) {
-        const std::size_t K = p.spectra.size();
-        std::vector<double> binned(K * B), column(K);  // [k * B + b]
-        for (std::size_t k = 0; k < K; ++k) {
-          const auto avg = bin_average_held(p.spectra[k], edges_);
-          std::copy(avg.begin(), avg.end(), binned.begin() + static_cast<std::ptrdiff_t>(k * B));
-        }
-        for (std::size_t b = 0; b < B; ++b) {
-          for (std::size_t k = 0; k < K; ++k) column[k] = binned[k * B + b];
-          for (std::size_t j = 0; j < N; ++j) {
-            v[j * B + b] = interp_linear_hold(p.grid_altitude_cm, column, bg.grid.center_cm[j]);
-          }
-        }
-        return v;
-      }
-      const std::vector<double> by_bin = p.form == OpticalPropertyForm::kWavelength
-                                             ? bin_average_held(p.by_wavelength, edges_)
-                                             : std::vector<double>{};
-      for (std::size_t j = 0; j < N; ++j) {
-        const double at_z =
-            p.form == OpticalPropertyForm::kAltitude
-                ? interp_linear_hold(ae.altitude_cm, p.by_altitude, bg.grid.center_cm[j])
-                : p.value;
-        for (std::size_t b = 0; b < B; ++b) v[j * B + b] = by_bin.empty() ? at_z : by_bin[b];
-      }
-      return v;
-    };
     std::vector<double> omega, asym;
     if (two_stream_) {
-      omega = property(ae.single_scattering_albedo);
-      asym = property(ae.asymmetry);
+      omega = aerosol_property(ae.single_scattering_albedo, ae, bg, edges_);
+      asym = aerosol_property(ae.asymmetry, ae, bg, edges_);
     }
     for (std::size_t j = 0; j < N; ++j) {
       const double beta =
@@ -319,82 +414,66 @@ PhotolysisModel::PhotolysisModel(const PhotolysisSpec& spec, const Background& b
       }
     }
   }
-  if (two_stream_) {
-    const auto& rt = spec.radiative_transfer;
-    albedo_ = rt.surface_albedo_table.value.empty()
-                  ? std::vector<double>(B, rt.surface_albedo)
-                  : bin_average_held(rt.surface_albedo_table, edges_);
-  }
+}
 
-  // Geometry.
+void PhotolysisModel::set_geometry(const PhotolysisSpec& spec, const Background& bg) {
+  const std::size_t N = levels_;
   nodes_ = illumination_nodes(spec.illumination);
   spherical_ = spec.slant_path == SlantPath::kSpherical;
-  if (spherical_) {
-    const double R = bg.planet.radius_cm;
-    const double r_top = R + bg.grid.edge_cm[N];
-    for (const auto& node : nodes_) {
-      const double sin_chi = std::sqrt(std::max(0.0, 1.0 - node.mu0 * node.mu0));
-      std::vector<double> pf(N * N, 0.0);
-      std::vector<double> tf(N, 0.0);
-      for (std::size_t j = 0; j < N; ++j) {
-        const double rj = R + bg.grid.center_cm[j];
-        const double p2 = std::pow(rj * sin_chi, 2);
-        auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
-        double below = rj * node.mu0;  // distance from the tangent point to the cell centre
-        for (std::size_t k = j; k < N; ++k) {
-          const double above = chord(R + bg.grid.edge_cm[k + 1]);
-          pf[j * N + k] = (above - below) / dz_[k];
-          below = above;
-        }
-        const double sin_top = std::min(1.0, rj * sin_chi / r_top);
-        tf[j] = chapman_function(r_top / H_top, std::asin(sin_top));
-      }
-      path_factor_.push_back(std::move(pf));
-      top_factor_.push_back(std::move(tf));
-      if (!two_stream_) continue;
-      // The same from every edge, for the pseudo-spherical source of the diffuse field.
-      std::vector<double> epf(N * N + N, 0.0);
-      std::vector<double> etf(N + 1, 0.0);
-      for (std::size_t e = 0; e <= N; ++e) {
-        const double re = R + bg.grid.edge_cm[e];
-        const double p2 = std::pow(re * sin_chi, 2);
-        auto chord = [&](double r) { return std::sqrt(std::max(0.0, r * r - p2)); };
-        double below = re * node.mu0;
-        for (std::size_t k = e; k < N; ++k) {
-          const double above = chord(R + bg.grid.edge_cm[k + 1]);
-          epf[e * N + k] = (above - below) / dz_[k];
-          below = above;
-        }
-        etf[e] = chapman_function(r_top / H_top, std::asin(std::min(1.0, re * sin_chi / r_top)));
-      }
-      edge_path_factor_.push_back(std::move(epf));
-      edge_top_factor_.push_back(std::move(etf));
+  if (!spherical_) return;
+  const double R = bg.planet.radius_cm;
+  const double H_top = bg.scale_height_cm[N - 1];
+  for (const auto& node : nodes_) {
+    const double sin_chi = std::sqrt(std::max(0.0, 1.0 - node.mu0 * node.mu0));
+    std::vector<double> pf(N * N, 0.0);
+    std::vector<double> tf(N, 0.0);
+    for (std::size_t j = 0; j < N; ++j) {
+      tf[j] = ray_path_factors(bg, dz_, R + bg.grid.center_cm[j], node.mu0, sin_chi, j, H_top,
+                               pf.data() + j * N);
     }
+    path_factor_.push_back(std::move(pf));
+    top_factor_.push_back(std::move(tf));
+    if (!two_stream_) continue;
+    // The same from every edge, for the pseudo-spherical source of the diffuse field.
+    std::vector<double> epf(N * N + N, 0.0);
+    std::vector<double> etf(N + 1, 0.0);
+    for (std::size_t e = 0; e <= N; ++e) {
+      etf[e] = ray_path_factors(bg, dz_, R + bg.grid.edge_cm[e], node.mu0, sin_chi, e, H_top,
+                                epf.data() + e * N);
+    }
+    edge_path_factor_.push_back(std::move(epf));
+    edge_top_factor_.push_back(std::move(etf));
   }
+}
 
+void PhotolysisModel::size_workspace() {
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
   dtau_.assign(N * B, 0.0);
   vtau_.assign(N * B, 0.0);
   tau_top_.assign(B, 0.0);
   beam_.assign(B, 0.0);
   column_.assign(B, 0.0);
-  if (two_stream_) {
-    ray_dtau_.assign(N * B, 0.0);
-    ray_top_.assign(B, 0.0);
-    const std::size_t LB = (N + 1) * B;  // layers: the column above the top, then the cells
-    for (auto* v : {&lay_dtau_, &lay_w_, &lay_g_, &upm_, &downm_, &act_}) v->assign(LB, 0.0);
-    for (auto* v : {&up_, &down_}) v->assign(LB + B, 0.0);
-    slant_.assign(spherical_ ? LB + B : 0, 0.0);
-    diag_up_.assign(N * B, 0.0);
-    diag_down_.assign(N * B, 0.0);
-    // Size every scratch vector once, so that compute() allocates nothing.
-    const std::vector<double> zeros(LB, 0.0), ones(B, 1.0);
-    const TwoStreamLayers ly{B, zeros, zeros, zeros, albedo_, closure_};
-    two_stream_optics(ly, optics_);
-    two_stream_fluxes(ly, optics_, TwoStreamSun{1.0, ones, {}}, ts_ws_,
-                      TwoStreamFluxes{up_, down_, upm_, downm_, act_});
-  }
+  if (!two_stream_) return;
+  ray_dtau_.assign(N * B, 0.0);
+  ray_top_.assign(B, 0.0);
+  const std::size_t LB = (N + 1) * B;  // layers: the column above the top, then the cells
+  for (auto* v : {&lay_dtau_, &lay_w_, &lay_g_, &upm_, &downm_, &act_}) v->assign(LB, 0.0);
+  for (auto* v : {&up_, &down_}) v->assign(LB + B, 0.0);
+  slant_.assign(spherical_ ? LB + B : 0, 0.0);
+  diag_up_.assign(N * B, 0.0);
+  diag_down_.assign(N * B, 0.0);
+  // Size every scratch vector once, so that compute() allocates nothing.
+  const std::vector<double> zeros(LB, 0.0), ones(B, 1.0);
+  const TwoStreamLayers ly{B, zeros, zeros, zeros, albedo_, closure_};
+  two_stream_optics(ly, optics_);
+  two_stream_fluxes(ly, optics_, TwoStreamSun{1.0, ones, {}}, ts_ws_,
+                    TwoStreamFluxes{up_, down_, upm_, downm_, act_});
+}
 
+void PhotolysisModel::set_prescribed(const PhotolysisSpec& spec, const Background& bg) {
   // Prescribed channels: J at the cell centres, fixed for the run.
+  const std::size_t N = levels_;
   prescribed_.assign(chans_.size(), {});
   for (const PrescribedJSpec& p : spec.prescribed) {
     if (p.channel_index >= chans_.size()) {
@@ -672,7 +751,6 @@ void PhotolysisModel::computed_parameter_derivative(std::size_t parameter,
                                                     std::span<const double> n,
                                                     std::span<double> dJ) {
   const std::size_t N = levels_;
-  const std::size_t B = bins_;
   if (dJ.size() != chans_.size() * N) {
     throw std::invalid_argument("PhotolysisModel::parameter_derivative: dJ has the wrong size");
   }
@@ -681,56 +759,68 @@ void PhotolysisModel::computed_parameter_derivative(std::size_t parameter,
     return d.parameter == parameter;
   });
   if (it == derivs_.end()) return;  // the parameter does not act on photolysis
-  const ParameterDerivative& d = *it;
-
   if (two_stream_) {
-    // Central difference of compute() along the binned data's derivative (the diffuse field
-    // depends on every optical depth; see the header).
-    const double h = d.step;
-    std::vector<double> Jp(dJ.size()), Jm(dJ.size());
-    for (const double sign : {1.0, -1.0}) {
-      std::vector<std::vector<double>> saved_a, saved_c;
-      for (std::size_t i = 0; i < d.dsigma.size(); ++i) {
-        saved_a.push_back(attenuators_[i].sigma);
-        if (d.dsigma[i].empty()) continue;
-        for (std::size_t q = 0; q < d.dsigma[i].size(); ++q)
-          attenuators_[i].sigma[q] += sign * h * d.dsigma[i][q];
-      }
-      for (std::size_t c = 0; c < chans_.size(); ++c) {
-        saved_c.push_back(chans_[c].sigma_phi);
-        if (d.dsigma_phi[c].empty()) continue;
-        for (std::size_t q = 0; q < d.dsigma_phi[c].size(); ++q)
-          chans_[c].sigma_phi[q] += sign * h * d.dsigma_phi[c][q];
-      }
-      // The perturbed data may be non-zero in bins the stored ranges skip.
-      std::vector<std::size_t> ranges;
-      for (auto& a : attenuators_) {
-        ranges.insert(ranges.end(), {a.lo, a.hi});
-        a.lo = 0;
-        a.hi = B;
-      }
-      for (auto& c : chans_) {
-        ranges.insert(ranges.end(), {c.lo, c.hi});
-        c.lo = 0;
-        c.hi = B;
-      }
-      compute(n, sign > 0 ? std::span<double>{Jp} : std::span<double>{Jm});
-      std::size_t r = 0;
-      for (std::size_t i = 0; i < attenuators_.size(); ++i, r += 2) {
-        if (i < saved_a.size()) attenuators_[i].sigma = std::move(saved_a[i]);
-        attenuators_[i].lo = ranges[r];
-        attenuators_[i].hi = ranges[r + 1];
-      }
-      for (std::size_t c = 0; c < chans_.size(); ++c, r += 2) {
-        chans_[c].sigma_phi = std::move(saved_c[c]);
-        chans_[c].lo = ranges[r];
-        chans_[c].hi = ranges[r + 1];
-      }
-    }
-    for (std::size_t i = 0; i < dJ.size(); ++i) dJ[i] = (Jp[i] - Jm[i]) / (2.0 * h);
-    return;
+    two_stream_parameter_derivative(*it, n, dJ);
+  } else {
+    direct_beam_parameter_derivative(*it, n, dJ);
   }
+}
 
+void PhotolysisModel::two_stream_parameter_derivative(const ParameterDerivative& d,
+                                                      std::span<const double> n,
+                                                      std::span<double> dJ) {
+  // Central difference of compute() along the binned data's derivative (the diffuse field
+  // depends on every optical depth; see the header).
+  const std::size_t B = bins_;
+  const double h = d.step;
+  std::vector<double> Jp(dJ.size()), Jm(dJ.size());
+  for (const double sign : {1.0, -1.0}) {
+    std::vector<std::vector<double>> saved_a, saved_c;
+    for (std::size_t i = 0; i < d.dsigma.size(); ++i) {
+      saved_a.push_back(attenuators_[i].sigma);
+      if (d.dsigma[i].empty()) continue;
+      for (std::size_t q = 0; q < d.dsigma[i].size(); ++q)
+        attenuators_[i].sigma[q] += sign * h * d.dsigma[i][q];
+    }
+    for (std::size_t c = 0; c < chans_.size(); ++c) {
+      saved_c.push_back(chans_[c].sigma_phi);
+      if (d.dsigma_phi[c].empty()) continue;
+      for (std::size_t q = 0; q < d.dsigma_phi[c].size(); ++q)
+        chans_[c].sigma_phi[q] += sign * h * d.dsigma_phi[c][q];
+    }
+    // The perturbed data may be non-zero in bins the stored ranges skip.
+    std::vector<std::size_t> ranges;
+    for (auto& a : attenuators_) {
+      ranges.insert(ranges.end(), {a.lo, a.hi});
+      a.lo = 0;
+      a.hi = B;
+    }
+    for (auto& c : chans_) {
+      ranges.insert(ranges.end(), {c.lo, c.hi});
+      c.lo = 0;
+      c.hi = B;
+    }
+    compute(n, sign > 0 ? std::span<double>{Jp} : std::span<double>{Jm});
+    std::size_t r = 0;
+    for (std::size_t i = 0; i < attenuators_.size(); ++i, r += 2) {
+      if (i < saved_a.size()) attenuators_[i].sigma = std::move(saved_a[i]);
+      attenuators_[i].lo = ranges[r];
+      attenuators_[i].hi = ranges[r + 1];
+    }
+    for (std::size_t c = 0; c < chans_.size(); ++c, r += 2) {
+      chans_[c].sigma_phi = std::move(saved_c[c]);
+      chans_[c].lo = ranges[r];
+      chans_[c].hi = ranges[r + 1];
+    }
+  }
+  for (std::size_t i = 0; i < dJ.size(); ++i) dJ[i] = (Jp[i] - Jm[i]) / (2.0 * h);
+}
+
+void PhotolysisModel::direct_beam_parameter_derivative(const ParameterDerivative& d,
+                                                       std::span<const double> n,
+                                                       std::span<double> dJ) {
+  const std::size_t N = levels_;
+  const std::size_t B = bins_;
   // Direct beam: J_c = sum_k w_k sum_b s_cb F_b exp(-tau_s,b), so
   //   dJ_c/dp = sum_k w_k sum_b (ds_cb/dp - s_cb dtau_s,b/dp) F_b exp(-tau_s,b),
   // with dtau_s/dp the same path integral of the absorbers' dsigma/dp n.

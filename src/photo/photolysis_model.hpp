@@ -34,6 +34,7 @@
 #include <vector>
 
 #include "core/background.hpp"
+#include "core/error.hpp"
 #include "photo/photolysis_spec.hpp"
 #include "photo/slant_path.hpp"
 #include "photo/two_stream.hpp"
@@ -131,6 +132,27 @@ class PhotolysisModel {
     std::vector<std::vector<double>> dsigma_phi;  ///< per channel; empty: 0
   };
   static constexpr double kParameterStep = 1e-5;
+  void two_stream_parameter_derivative(const ParameterDerivative& d, std::span<const double> n,
+                                       std::span<double> dJ);
+  void direct_beam_parameter_derivative(const ParameterDerivative& d, std::span<const double> n,
+                                        std::span<double> dJ);
+
+  // Construction steps, in the order the constructor takes them.
+  void set_bins(const PhotolysisSpec& spec, const Background& bg);
+  static bool locate(const std::string& name, const std::vector<std::string>& species_names,
+                     const Background& bg, Attenuator& a, bool required,
+                     const SourceLocation& where);
+  void set_absorbers_and_channels(const PhotolysisSpec& spec, const Background& bg,
+                                  const std::vector<std::string>& species_names,
+                                  std::span<const double> parameters, const SourceLocation& where);
+  void set_parameter_derivatives(const PhotolysisSpec& spec, const Background& bg,
+                                 std::span<const double> parameters, const SourceLocation& where);
+  void add_rayleigh(const PhotolysisSpec& spec, const Background& bg,
+                    const std::vector<std::string>& species_names, const SourceLocation& where);
+  void set_aerosols(const PhotolysisSpec& spec, const Background& bg);
+  void set_geometry(const PhotolysisSpec& spec, const Background& bg);
+  void size_workspace();
+  void set_prescribed(const PhotolysisSpec& spec, const Background& bg);
 
   [[nodiscard]] double density(const Attenuator& a, std::span<const double> n, std::size_t j) const;
   /// Step 1 of compute(): dtau_, tau_top_ (and the Rayleigh parts), and vtau_ (direct beam,

@@ -1,4 +1,6 @@
-// The enhancement factors J / J_direct and the printed J table (photo/photolysis_output.hpp).
+// The enhancement factors J / J_direct-beam (dimensionless) and the printed J table (s-1);
+// the NetCDF variables of a photolysis run are built in report/ (photolysis J_<channel> in s-1,
+// bins in nm, photon fluxes in cm-2 s-1 nm-1).
 #include "photo/photolysis_output.hpp"
 
 #include <fmt/format.h>

@@ -1,3 +1,8 @@
+// Slant paths: the Chapman function Ch(X, chi) = int_0^inf exp(-u) (X + u) /
+// sqrt(X^2 cos^2 chi + 2 X u + u^2) du, chords through spherical shells
+// sqrt(r_k+1^2 - p^2) - sqrt(r_k^2 - p^2) (cm), and the illumination average over
+// mu0 = sin(lat) sin(dec) + cos(lat) cos(dec) cos(h): published sources (Chapman 1931; Smith
+// and Smith 1972) in photo/slant_path.hpp.
 #include "photo/slant_path.hpp"
 
 #include <algorithm>

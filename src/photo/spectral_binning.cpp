@@ -1,3 +1,7 @@
+// Spectral data onto bins, f_b = (1/dlambda_b) int f dlambda conserving integrals (nm, cm^2,
+// cm^-2 s^-1 nm^-1); overtone bands in wavenumber space (cm^-1), S = 8.85e-13 f cm from an
+// oscillator strength; the Planck photon flux at 1 au (Rybicki and Lightman 1979, eq. 1.51):
+// equations and units in photo/spectral_binning.hpp.
 #include "photo/spectral_binning.hpp"
 
 #include <algorithm>

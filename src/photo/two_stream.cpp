@@ -1,3 +1,8 @@
+// Two-stream diffuse fluxes, dF+/dtau = g1 F+ - g2 F- - g3 w S exp(-tau_s) and
+// dF-/dtau = g2 F+ - g1 F- + g4 w S exp(-tau_s) (photons cm^-2 s^-1 per bin), solved by
+// layer doubling and the interaction principle: closures, delta scaling and sources
+// (Meador and Weaver 1980; Toon et al. 1989; Joseph, Wiscombe and Weinman 1976) in
+// photo/two_stream.hpp.
 #include "photo/two_stream.hpp"
 
 #include <algorithm>
@@ -143,22 +148,17 @@ void two_stream_optics(const TwoStreamLayers& ly, TwoStreamOptics& o) {
   }
 }
 
-void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, const TwoStreamSun& sun,
-                       TwoStreamWorkspace& ws, const TwoStreamFluxes& out) {
+namespace {
+
+/// Step 1 of two_stream_fluxes: the beam at every edge and layer centre (ws.beam,
+/// ws.beam_mid) and each layer's diffuse emission up and down, whole (ws.U, ws.D) and per
+/// half (ws.Uh, ws.Dh).
+void beam_sources(const TwoStreamLayers& ly, const TwoStreamOptics& o, const TwoStreamSun& sun,
+                  TwoStreamWorkspace& ws) {
   const std::size_t B = ly.columns;
   const std::size_t LB = ly.dtau.size();
-  const std::size_t L = B > 0 ? LB / B : 0;
   const bool plane = sun.slant_tau.empty();
-  if (B == 0 || L * B != LB || o.R.size() < LB || sun.incident.size() != B ||
-      (!plane && sun.slant_tau.size() != LB + B) || out.up.size() != LB + B ||
-      out.down.size() != LB + B || out.up_mid.size() != LB || out.down_mid.size() != LB ||
-      (!out.actinic_mid.empty() && out.actinic_mid.size() != LB) || !(sun.mu0 > 0.0)) {
-    throw std::invalid_argument("two_stream_fluxes: array sizes or mu0 do not match");
-  }
-  for (auto* v : {&ws.beam_mid, &ws.U, &ws.D, &ws.Uh, &ws.Dh}) grow(*v, LB);
-  for (auto* v : {&ws.beam, &ws.src}) grow(*v, LB + B);
   const double inv_mu0 = 1.0 / sun.mu0;
-
   // 1. The beam's sources in every layer, as two halves added. The beam (flux normal to it)
   // at the top of each layer is carried down by the layers' own decay, so that a layer's
   // sources and the beam below it agree exactly.
@@ -207,7 +207,14 @@ void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, cons
     ws.Uh[i] = su2;
     ws.Dh[i] = sd1;
   }
+}
 
+/// Steps 2 and 3 of two_stream_fluxes: the sweeps up and down through the layers' sources.
+void sweep_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, const TwoStreamSun& sun,
+                  TwoStreamWorkspace& ws, const TwoStreamFluxes& out) {
+  const std::size_t B = ly.columns;
+  const std::size_t LB = ly.dtau.size();
+  const std::size_t L = LB / B;
   // 2. Upward sweep: F+_e = rho_e F-_e + src_e (emission of everything below e).
   for (std::size_t b = 0; b < B; ++b) {
     ws.src[LB + b] = ly.surface_albedo[b] * sun.mu0 * ws.beam[LB + b];
@@ -235,6 +242,26 @@ void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, cons
     out.up_mid[i] = Rh * dm + from_below;
     if (!out.actinic_mid.empty()) out.actinic_mid[i] = ws.beam_mid[i] + 2.0 * (dm + out.up_mid[i]);
   }
+}
+
+}  // namespace
+
+void two_stream_fluxes(const TwoStreamLayers& ly, const TwoStreamOptics& o, const TwoStreamSun& sun,
+                       TwoStreamWorkspace& ws, const TwoStreamFluxes& out) {
+  const std::size_t B = ly.columns;
+  const std::size_t LB = ly.dtau.size();
+  const std::size_t L = B > 0 ? LB / B : 0;
+  const bool plane = sun.slant_tau.empty();
+  if (B == 0 || L * B != LB || o.R.size() < LB || sun.incident.size() != B ||
+      (!plane && sun.slant_tau.size() != LB + B) || out.up.size() != LB + B ||
+      out.down.size() != LB + B || out.up_mid.size() != LB || out.down_mid.size() != LB ||
+      (!out.actinic_mid.empty() && out.actinic_mid.size() != LB) || !(sun.mu0 > 0.0)) {
+    throw std::invalid_argument("two_stream_fluxes: array sizes or mu0 do not match");
+  }
+  for (auto* v : {&ws.beam_mid, &ws.U, &ws.D, &ws.Uh, &ws.Dh}) grow(*v, LB);
+  for (auto* v : {&ws.beam, &ws.src}) grow(*v, LB + B);
+  beam_sources(ly, o, sun, ws);
+  sweep_fluxes(ly, o, sun, ws, out);
 }
 
 void solve_two_stream(const TwoStreamColumn& col, TwoStreamWorkspace& ws,

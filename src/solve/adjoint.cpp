@@ -171,35 +171,35 @@ void perturb_parameter(ColumnModel& model, const ParameterRef& p, double step) {
   }
 }
 
-SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj,
-                                        std::span<const double> x, const SensitivityOptions& opt) {
-  const auto t_start = std::chrono::steady_clock::now();
-  const std::size_t S = model.species_count(), N = model.cells(), n = N * S;
-  SensitivityResult res;
-  std::vector<char> held(n);
-  for (std::size_t i = 0; i < n; ++i) held[i] = model.held(i % S) ? 1 : 0;
+namespace {
 
-  // 1. Jacobian at x: the block-tridiagonal part, then the photolysis factors.
-  auto t0 = std::chrono::steady_clock::now();
-  model.refresh(x);
-  const ColumnSystem sys = model.system();
-  BlockTridiagonal jac(N, S);
-  evaluate_jacobian(sys, x, 0.0, jac);
-  res.jacobian_s = seconds_since(t0);
-  t0 = std::chrono::steady_clock::now();
-  const ColumnModel::PhotolysisJacobian pj = model.photolysis_jacobian(x);
-  res.photolysis_jacobian_s = seconds_since(t0);
-  res.absorber_columns = pj.columns.size();
-  res.photolysis_coupled = pj.channels > 0;
-  res.photolysis_reverse = pj.reverse;
-  const std::size_t CN = pj.channels * N;
+/// What the steps of compute_sensitivities share: the model at the steady state x, which
+/// unknowns are held, and the result being filled.
+struct AdjointState {
+  ColumnModel& model;
+  const Objective& obj;
+  std::span<const double> x;
+  std::size_t S, N, n;
+  std::vector<char> held;  ///< [j*S + s]: held species
+  SensitivityResult& res;
+};
 
-  // 2. dG/dx: local part, then the nonlocal part through J (dG/dJ DJ).
-  std::vector<double> g(n), dG_dJ(CN);
-  res.value = evaluate(model, obj, x, g, dG_dJ);
+double dot(std::span<const double> a, std::span<const double> b) {
+  double sum = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) sum += a[i] * b[i];
+  return sum;
+}
+
+/// Step 2: g = dG/dx, the local part and the nonlocal part through J (dG/dJ DJ); sets
+/// res.value.
+std::vector<double> objective_gradient(AdjointState& st,
+                                       const ColumnModel::PhotolysisJacobian& pj) {
+  const std::size_t CN = pj.channels * st.N;
+  std::vector<double> g(st.n), dG_dJ(CN);
+  st.res.value = evaluate(st.model, st.obj, st.x, g, dG_dJ);
   if (pj.reverse) {
     if (std::any_of(dG_dJ.begin(), dG_dJ.end(), [](double v) { return v != 0.0; })) {
-      model.add_photolysis_transpose(x, dG_dJ, g);
+      st.model.add_photolysis_transpose(st.x, dG_dJ, g);
     }
   } else {
     for (std::size_t k = 0; k < pj.columns.size(); ++k) {
@@ -208,12 +208,18 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
       g[pj.columns[k]] += sum;
     }
   }
-  for (std::size_t i = 0; i < n; ++i) {
-    if (held[i]) g[i] = 0.0;
+  for (std::size_t i = 0; i < st.n; ++i) {
+    if (st.held[i]) g[i] = 0.0;
   }
+  return g;
+}
 
-  // 3. (shift I - J)^T mu = g, lambda = -mu (shift -> 0: the Newton limit).
-  t0 = std::chrono::steady_clock::now();
+/// Step 3: (shift I - J)^T mu = g, lambda = -mu (shift -> 0: the Newton limit); the
+/// photolysis coupling enters as the product DJ^T B^T v.
+void solve_adjoint(AdjointState& st, const BlockTridiagonal& jac,
+                   const ColumnModel::PhotolysisJacobian& pj, std::span<const double> g,
+                   const SensitivityOptions& opt) {
+  const std::size_t S = st.S, N = st.N, n = st.n, CN = pj.channels * N;
   std::vector<double> u(CN);
   const PtcLinearSolver::Product nl_transpose = [&](std::span<const double> v,
                                                     std::span<double> out) {
@@ -226,7 +232,7 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
       u[i] = sum;
     }
     if (pj.reverse) {
-      model.add_photolysis_transpose(x, u, out);
+      st.model.add_photolysis_transpose(st.x, u, out);
       return;
     }
     for (std::size_t k = 0; k < pj.columns.size(); ++k) {
@@ -240,25 +246,27 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
   std::vector<double> mu(n);
   std::string reason;
   const bool coupled = pj.channels > 0;
-  if (!solver.solve_transposed(jac, opt.shift, held, g, coupled ? &nl_transpose : nullptr,
+  if (!solver.solve_transposed(jac, opt.shift, st.held, g, coupled ? &nl_transpose : nullptr,
                                opt.krylov_rtol, mu, reason)) {
     throw RunError(ExitCode::kNotConverged, "adjoint solve: " + reason);
   }
-  res.krylov_iterations = solver.krylov_iterations();
-  res.lambda.resize(n);
-  for (std::size_t i = 0; i < n; ++i) res.lambda[i] = held[i] ? 0.0 : -mu[i];
-  res.solve_s = seconds_since(t0);
+  st.res.krylov_iterations = solver.krylov_iterations();
+  st.res.lambda.resize(n);
+  for (std::size_t i = 0; i < n; ++i) st.res.lambda[i] = st.held[i] ? 0.0 : -mu[i];
+}
 
-  // 4. dG/dp = dG/dp|_x - lambda . dF/dp.
-  t0 = std::chrono::steady_clock::now();
-  const auto& lambda = res.lambda;
-  const Background& bg = model.background();
-  const Kinetics& kin = model.chemistry().kinetics();
+/// Step 4a: dG/d ln k_r = -lambda . nu_r R_r (+ the objective's own rate); returns the
+/// photolysis reactions' sum per cell (the stellar-flux row).
+std::vector<double> reaction_rows(AdjointState& st) {
+  const std::size_t S = st.S, N = st.N;
+  const auto& lambda = st.res.lambda;
+  const Background& bg = st.model.background();
+  const Kinetics& kin = st.model.chemistry().kinetics();
   const Mechanism& mech = kin.mechanism();
   const std::size_t R = kin.reaction_count();
   std::vector<double> rates(N * R);
-  model.chemistry().reaction_rates(x, rates);
-  res.reaction_profile.assign(R * N, 0.0);
+  st.model.chemistry().reaction_rates(st.x, rates);
+  st.res.reaction_profile.assign(R * N, 0.0);
   std::vector<double> stellar(N, 0.0);
   for (std::size_t r = 0; r < R; ++r) {
     const auto nu = net_stoichiometry(kin, r, S);
@@ -274,22 +282,25 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
       for (std::size_t s = 0; s < S; ++s) {
         if (nu[s] != 0.0) d -= lambda[j * S + s] * nu[s] * Rj;
       }
-      if (obj.kind == ObjectiveKind::kRate && obj.reaction == r) d += Rj * bg.grid.width_cm(j);
-      res.reaction_profile[r * N + j] = d;
+      if (st.obj.kind == ObjectiveKind::kRate && st.obj.reaction == r) {
+        d += Rj * bg.grid.width_cm(j);
+      }
+      st.res.reaction_profile[r * N + j] = d;
       row.dG += d;
       if (kin.reaction_channel(r) != Kinetics::npos) stellar[j] += d;
     }
-    row.log_sensitivity = log_sensitivity(row.dG, res.value, 1.0, true);
-    res.reactions.push_back(std::move(row));
+    row.log_sensitivity = log_sensitivity(row.dG, st.res.value, 1.0, true);
+    st.res.reactions.push_back(std::move(row));
   }
+  return stellar;
+}
 
-  std::vector<double> Fp(n), fplus(n), fminus(n);
-  const auto dot_lambda = [&](std::span<const double> v) {
-    double sum = 0.0;
-    for (std::size_t i = 0; i < n; ++i) sum += lambda[i] * v[i];
-    return sum;
-  };
-  // Named parameters.
+/// Step 4b: named parameters, -lambda . dF/dp (+ dG/dp at fixed x for a rate objective).
+void named_parameter_rows(AdjointState& st) {
+  ColumnModel& model = st.model;
+  const Kinetics& kin = model.chemistry().kinetics();
+  const Mechanism& mech = kin.mechanism();
+  std::vector<double> Fp(st.n);
   const auto params = kin.parameters();
   for (std::size_t q = 0; q < mech.parameters.size(); ++q) {
     SensitivityRow row;
@@ -298,44 +309,50 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
     row.parameter.name = mech.parameters[q].name;
     row.parameter.value = params[q];
     row.equation = mech.parameters[q].meaning;
-    model.parameter_tendency(q, x, Fp);
-    row.dG = -dot_lambda(Fp);
-    if (obj.kind == ObjectiveKind::kRate) {
+    model.parameter_tendency(q, st.x, Fp);
+    row.dG = -dot(st.res.lambda, Fp);
+    if (st.obj.kind == ObjectiveKind::kRate) {
       // The rate depends on p directly (its scale, its J): central difference at fixed x.
       const double h = 1e-5 * std::max(std::abs(params[q]), 1e-3);
       perturb_parameter(model, row.parameter, h);
-      model.refresh(x);
-      const double gp = objective_value(model, obj, x);
+      model.refresh(st.x);
+      const double gp = objective_value(model, st.obj, st.x);
       perturb_parameter(model, row.parameter, -h);
-      model.refresh(x);
-      const double gm = objective_value(model, obj, x);
+      model.refresh(st.x);
+      const double gm = objective_value(model, st.obj, st.x);
       perturb_parameter(model, row.parameter, 0.0);
-      model.refresh(x);
+      model.refresh(st.x);
       row.dG += (gp - gm) / (2.0 * h);
     }
-    row.log_sensitivity = log_sensitivity(row.dG, res.value, row.parameter.value, false);
-    res.parameters.push_back(std::move(row));
+    row.log_sensitivity = log_sensitivity(row.dG, st.res.value, row.parameter.value, false);
+    st.res.parameters.push_back(std::move(row));
   }
-  // Transport parameters: central differences of the transport tendency at fixed x.
-  const std::vector<SpeciesBoundaries> bcs0 = model.boundaries();
-  const auto transport_row = [&](SensitivityRow row) {
-    std::fill(fplus.begin(), fplus.end(), 0.0);
-    std::fill(fminus.begin(), fminus.end(), 0.0);
-    perturb_parameter(model, row.parameter, kLogStep);
-    model.transport().add_tendency(x, 0.0, fplus);
-    perturb_parameter(model, row.parameter, -kLogStep);
-    model.transport().add_tendency(x, 0.0, fminus);
-    model.rebuild_transport(bg, bcs0);
-    for (std::size_t i = 0; i < n; ++i) {
-      Fp[i] = held[i] ? 0.0 : (fplus[i] - fminus[i]) / (2.0 * kLogStep);
-    }
-    row.dG = -dot_lambda(Fp);
-    row.log_sensitivity = log_sensitivity(row.dG, res.value, 1.0, true);
-    res.parameters.push_back(std::move(row));
-  };
-  const auto& names = model.species();
-  for (std::size_t s = 0; s < S; ++s) {
-    if (model.held(s)) continue;
+}
+
+/// A transport parameter's row: -lambda . dF/dp with dF/dp a central difference of the
+/// transport tendency at fixed x; the transport is rebuilt from bg and bcs0 afterwards.
+void add_transport_row(AdjointState& st, SensitivityRow row, const Background& bg,
+                       const std::vector<SpeciesBoundaries>& bcs0) {
+  std::vector<double> Fp(st.n), fplus(st.n, 0.0), fminus(st.n, 0.0);
+  perturb_parameter(st.model, row.parameter, kLogStep);
+  st.model.transport().add_tendency(st.x, 0.0, fplus);
+  perturb_parameter(st.model, row.parameter, -kLogStep);
+  st.model.transport().add_tendency(st.x, 0.0, fminus);
+  st.model.rebuild_transport(bg, bcs0);
+  for (std::size_t i = 0; i < st.n; ++i) {
+    Fp[i] = st.held[i] ? 0.0 : (fplus[i] - fminus[i]) / (2.0 * kLogStep);
+  }
+  row.dG = -dot(st.res.lambda, Fp);
+  row.log_sensitivity = log_sensitivity(row.dG, st.res.value, 1.0, true);
+  st.res.parameters.push_back(std::move(row));
+}
+
+/// Step 4c: every non-zero, unscheduled boundary value of a transported species.
+void boundary_rows(AdjointState& st, const std::vector<SpeciesBoundaries>& bcs0) {
+  const Background& bg = st.model.background();
+  const auto& names = st.model.species();
+  for (std::size_t s = 0; s < st.S; ++s) {
+    if (st.model.held(s)) continue;
     for (const bool top : {false, true}) {
       const BoundaryCondition& bc = top ? bcs0[s].top : bcs0[s].bottom;
       const bool valued = bc.kind == BoundaryKind::kMixingRatio ||
@@ -351,9 +368,16 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
       row.parameter.name =
           fmt::format("{} {} {}", names[s], top ? "top" : "bottom", boundary_kind_name(bc.kind));
       row.equation = fmt::format("{} = {:.4g}", boundary_kind_name(bc.kind), bc.value.value[0]);
-      transport_row(std::move(row));
+      add_transport_row(st, std::move(row), bg, bcs0);
     }
   }
+}
+
+/// Step 4d: the eddy coefficient scaled over the whole profile and in bands of equal height.
+void eddy_rows(AdjointState& st, const std::vector<SpeciesBoundaries>& bcs0,
+               std::size_t eddy_bands) {
+  const Background& bg = st.model.background();
+  const std::size_t N = st.N;
   const auto& edges = bg.grid.edge_cm;
   const auto eddy_row = [&](std::size_t lo, std::size_t hi, std::string name) {
     SensitivityRow row;
@@ -364,25 +388,64 @@ SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj
     row.parameter.name = std::move(name);
     row.equation =
         fmt::format("K scaled at the edges {:.4g}-{:.4g} km", edges[lo] * 1e-5, edges[hi] * 1e-5);
-    transport_row(std::move(row));
+    add_transport_row(st, std::move(row), bg, bcs0);
   };
   eddy_row(0, N, "K (whole profile)");
   // Bands of equal height: edge e belongs to band floor(bands (z_e - z_0)/(z_N - z_0))
   // (the top edge to the last band), so every edge is in exactly one band.
-  const std::size_t bands = std::min(opt.eddy_bands, N + 1);
-  if (bands > 1) {
-    const auto band_of = [&](std::size_t e) {
-      const double f = (edges[e] - edges.front()) / (edges.back() - edges.front());
-      return std::min(bands - 1, static_cast<std::size_t>(f * static_cast<double>(bands)));
-    };
-    std::size_t lo = 0;
-    while (lo <= N) {
-      std::size_t hi = lo;
-      while (hi + 1 <= N && band_of(hi + 1) == band_of(lo)) ++hi;
-      eddy_row(lo, hi, fmt::format("K band {:.4g}-{:.4g} km", edges[lo] * 1e-5, edges[hi] * 1e-5));
-      lo = hi + 1;
-    }
+  const std::size_t bands = std::min(eddy_bands, N + 1);
+  if (bands <= 1) return;
+  const auto band_of = [&](std::size_t e) {
+    const double f = (edges[e] - edges.front()) / (edges.back() - edges.front());
+    return std::min(bands - 1, static_cast<std::size_t>(f * static_cast<double>(bands)));
+  };
+  std::size_t lo = 0;
+  while (lo <= N) {
+    std::size_t hi = lo;
+    while (hi + 1 <= N && band_of(hi + 1) == band_of(lo)) ++hi;
+    eddy_row(lo, hi, fmt::format("K band {:.4g}-{:.4g} km", edges[lo] * 1e-5, edges[hi] * 1e-5));
+    lo = hi + 1;
   }
+}
+
+}  // namespace
+
+SensitivityResult compute_sensitivities(ColumnModel& model, const Objective& obj,
+                                        std::span<const double> x, const SensitivityOptions& opt) {
+  const auto t_start = std::chrono::steady_clock::now();
+  const std::size_t S = model.species_count(), N = model.cells(), n = N * S;
+  SensitivityResult res;
+  AdjointState st{model, obj, x, S, N, n, std::vector<char>(n), res};
+  for (std::size_t i = 0; i < n; ++i) st.held[i] = model.held(i % S) ? 1 : 0;
+
+  // 1. Jacobian at x: the block-tridiagonal part, then the photolysis factors.
+  auto t0 = std::chrono::steady_clock::now();
+  model.refresh(x);
+  const ColumnSystem sys = model.system();
+  BlockTridiagonal jac(N, S);
+  evaluate_jacobian(sys, x, 0.0, jac);
+  res.jacobian_s = seconds_since(t0);
+  t0 = std::chrono::steady_clock::now();
+  const ColumnModel::PhotolysisJacobian pj = model.photolysis_jacobian(x);
+  res.photolysis_jacobian_s = seconds_since(t0);
+  res.absorber_columns = pj.columns.size();
+  res.photolysis_coupled = pj.channels > 0;
+  res.photolysis_reverse = pj.reverse;
+
+  // 2. dG/dx; 3. the adjoint solve.
+  const std::vector<double> g = objective_gradient(st, pj);
+  t0 = std::chrono::steady_clock::now();
+  solve_adjoint(st, jac, pj, g, opt);
+  res.solve_s = seconds_since(t0);
+
+  // 4. dG/dp = dG/dp|_x - lambda . dF/dp: reactions, named parameters, boundary values,
+  // the eddy coefficient, the stellar flux.
+  t0 = std::chrono::steady_clock::now();
+  const std::vector<double> stellar = reaction_rows(st);
+  named_parameter_rows(st);
+  const std::vector<SpeciesBoundaries> bcs0 = model.boundaries();
+  boundary_rows(st, bcs0);
+  eddy_rows(st, bcs0, opt.eddy_bands);
   if (pj.channels > 0) {
     SensitivityRow row;
     row.parameter.kind = ParameterKind::kStellarFlux;

@@ -12,56 +12,101 @@
 
 namespace colchem {
 
-ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.background)) {
-  species_setup_ = sc.species_setup;
-  const double air_amu = bg_.molecule_mass_g / constants::kAtomicMassUnit;
-  if (sc.chemistry.mechanism) {
-    const Mechanism& mech = *sc.chemistry.mechanism;
-    // Held profiles are exchanges with an unlimited reservoir at the held mixing ratio.
-    ChemistrySpec chem = sc.chemistry;
-    for (const auto& entry : species_setup_.species) {
-      const auto idx = mech.species_index(entry.name);
-      if (!entry.hold || !idx) continue;  // unknown names are reported below
-      if (mech.species[*idx].fixed || entry.fixed.value_or(false)) {
-        throw InputError(ExitCode::kConfig, entry.where, "species." + entry.name + ".hold",
-                         "a species that is not held fixed", "'" + entry.name + "' is fixed");
-      }
-      CondensationExchange h;
-      h.species = *idx;
-      h.saturation = CondensationExchange::Saturation::kHeldProfile;
-      h.held_mixing_ratio = entry.hold->mixing_ratio;
-      h.rate = CondensationExchange::Rate::kTimescale;
-      h.timescale_s = entry.hold->timescale_s;
-      h.above_cm = entry.hold->from_cm;
-      h.below_cm = entry.hold->to_cm;
-      chem.exchanges.push_back(h);
+namespace {
+
+/// The chemistry with each held profile as an exchange with an unlimited reservoir at the
+/// held mixing ratio.
+ChemistrySpec with_held_profiles(const ChemistrySpec& chemistry, const ColumnSpeciesSpec& setup) {
+  const Mechanism& mech = *chemistry.mechanism;
+  ChemistrySpec chem = chemistry;
+  for (const auto& entry : setup.species) {
+    const auto idx = mech.species_index(entry.name);
+    if (!entry.hold || !idx) continue;  // unknown names are reported by the caller
+    if (mech.species[*idx].fixed || entry.fixed.value_or(false)) {
+      throw InputError(ExitCode::kConfig, entry.where, "species." + entry.name + ".hold",
+                       "a species that is not held fixed", "'" + entry.name + "' is fixed");
     }
-    chemistry_ = std::make_unique<ChemistryOperator>(chem, bg_);
-    for (const auto& sp : mech.species) {
-      names_.push_back(sp.name);
-      held_.push_back(sp.fixed);
-      TransportSpecies ts = default_transport_species(sp.name, sp.molar_mass_g_mol, air_amu);
-      const DiffusionParams d = sp.diffusion_params(air_amu);
-      ts.diffusion_A = d.A;
-      ts.diffusion_s = d.s;
-      ts.thermal_diffusion = sp.thermal_diffusion_factor();
-      ts.fixed = sp.fixed;
-      transport_species_.push_back(ts);
-    }
+    CondensationExchange h;
+    h.species = *idx;
+    h.saturation = CondensationExchange::Saturation::kHeldProfile;
+    h.held_mixing_ratio = entry.hold->mixing_ratio;
+    h.rate = CondensationExchange::Rate::kTimescale;
+    h.timescale_s = entry.hold->timescale_s;
+    h.above_cm = entry.hold->from_cm;
+    h.below_cm = entry.hold->to_cm;
+    chem.exchanges.push_back(h);
   }
-  // Every species the scenario configures must be a species of the mechanism.
-  for (const auto& entry : species_setup_.species) {
+  return chem;
+}
+
+/// What the transport operator needs of a mechanism species (before the scenario's
+/// per-species settings).
+TransportSpecies transport_species_of(const Species& sp, double air_amu) {
+  TransportSpecies ts = default_transport_species(sp.name, sp.molar_mass_g_mol, air_amu);
+  const DiffusionParams d = sp.diffusion_params(air_amu);
+  ts.diffusion_A = d.A;
+  ts.diffusion_s = d.s;
+  ts.thermal_diffusion = sp.thermal_diffusion_factor();
+  ts.fixed = sp.fixed;
+  return ts;
+}
+
+/// Every species the scenario configures must be a species of the mechanism.
+void check_species_known(const ColumnSpeciesSpec& setup, const std::vector<std::string>& names) {
+  for (const auto& entry : setup.species) {
     bool known = false;
-    for (const auto& n : names_) known = known || n == entry.name;
+    for (const auto& n : names) known = known || n == entry.name;
     if (!known) {
       std::string list;
-      for (const auto& n : names_) list += (list.empty() ? "" : ", ") + n;
+      for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
       throw InputError(ExitCode::kConfig, entry.where, "species." + entry.name,
-                       names_.empty() ? std::string("a chemistry section declaring the species")
-                                      : "a species of the mechanism (" + list + ")",
+                       names.empty() ? std::string("a chemistry section declaring the species")
+                                     : "a species of the mechanism (" + list + ")",
                        "'" + entry.name + "'");
     }
   }
+}
+
+/// The photolysis model of the scenario and, per chemistry channel, its photolysis channel.
+std::unique_ptr<PhotolysisModel> build_photolysis(const Scenario& sc, const Background& bg,
+                                                  const std::vector<std::string>& names,
+                                                  const std::vector<std::string>& channels,
+                                                  std::vector<std::size_t>& channel_map) {
+  if (!sc.has_photolysis) {
+    throw InputError(
+        ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",
+        "a photolysis section (the mechanism has photolysis channel '" + channels.front() + "')",
+        "none");
+  }
+  auto photo = std::make_unique<PhotolysisModel>(sc.photolysis, bg, names, sc.chemistry.parameters);
+  for (const auto& c : channels) {
+    const int pc = photo->channel_index(c);
+    if (pc < 0) {
+      throw InputError(ExitCode::kInputData, SourceLocation{sc.photolysis.data_source}, "channels",
+                       "a channel named '" + c + "' (used by the mechanism)", "none");
+    }
+    channel_map.push_back(static_cast<std::size_t>(pc));
+  }
+  return photo;
+}
+
+}  // namespace
+
+ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.background)) {
+  species_setup_ = sc.species_setup;
+  // 1. Chemistry (held profiles as exchanges) and the species' transport properties.
+  const double air_amu = bg_.molecule_mass_g / constants::kAtomicMassUnit;
+  if (sc.chemistry.mechanism) {
+    chemistry_ =
+        std::make_unique<ChemistryOperator>(with_held_profiles(sc.chemistry, species_setup_), bg_);
+    for (const auto& sp : sc.chemistry.mechanism->species) {
+      names_.push_back(sp.name);
+      held_.push_back(sp.fixed);
+      transport_species_.push_back(transport_species_of(sp, air_amu));
+    }
+  }
+  // 2. The scenario's per-species settings.
+  check_species_known(species_setup_, names_);
   apply_species_settings(species_setup_, transport_species_);
   for (std::size_t s = 0; s < names_.size(); ++s) {
     held_[s] = transport_species_[s].fixed;
@@ -70,6 +115,7 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
   }
   if (names_.empty()) return;
 
+  // 3. Transport with its boundary conditions, and the injections.
   try {
     boundaries_ = boundaries_for(species_setup_, transport_species_);
     transport_ = std::make_unique<TransportOperator>(bg_, transport_species_, boundaries_);
@@ -79,24 +125,11 @@ ColumnModel::ColumnModel(const Scenario& sc) : bg_(build_background(sc.backgroun
   }
   injections_ = resolve_injections(species_setup_, bg_, transport_species_);
 
+  // 4. Photolysis, when the mechanism has photolysis channels.
   const auto& channels = chemistry_->photolysis_channels();
   if (!channels.empty()) {
-    if (!sc.has_photolysis) {
-      throw InputError(ExitCode::kConfig, SourceLocation{sc.file.string()}, "photolysis",
-                       "a photolysis section (the mechanism has photolysis channel '" +
-                           channels.front() + "')",
-                       "none");
-    }
     photo_spec_ = sc.photolysis;
-    photo_ = std::make_unique<PhotolysisModel>(sc.photolysis, bg_, names_, sc.chemistry.parameters);
-    for (const auto& c : channels) {
-      const int pc = photo_->channel_index(c);
-      if (pc < 0) {
-        throw InputError(ExitCode::kInputData, SourceLocation{sc.photolysis.data_source},
-                         "channels", "a channel named '" + c + "' (used by the mechanism)", "none");
-      }
-      channel_map_.push_back(static_cast<std::size_t>(pc));
-    }
+    photo_ = build_photolysis(sc, bg_, names_, channels, channel_map_);
     J_.assign(photo_->channels().size() * cells(), 0.0);
   }
 }
@@ -118,8 +151,8 @@ void ColumnModel::impose_held(std::span<double> n) const {
 }
 
 std::vector<double> ColumnModel::initial_state() const {
-  std::vector<double> n = colchem::initial_state(species_setup_, bg_, transport_species_,
-                                                 held_mixing_ratio_);
+  std::vector<double> n =
+      colchem::initial_state(species_setup_, bg_, transport_species_, held_mixing_ratio_);
   impose_held(n);
   return n;
 }
@@ -149,7 +182,8 @@ void ColumnModel::refresh_photolysis(std::span<const double> n) {
   photo_->compute(n, J_);
   const std::size_t N = cells();
   for (std::size_t c = 0; c < channel_map_.size(); ++c) {
-    chemistry_->set_photolysis_rates(c, std::span<const double>(J_.data() + channel_map_[c] * N, N));
+    chemistry_->set_photolysis_rates(c,
+                                     std::span<const double>(J_.data() + channel_map_[c] * N, N));
   }
 }
 
@@ -279,8 +313,7 @@ void ColumnModel::add_photolysis_transpose(std::span<const double> x, std::span<
 }
 
 ColumnBalance ColumnModel::column_balance(std::span<const double> x, double t,
-                                          double absolute_density_cm3,
-                                          double reference_time_s) {
+                                          double absolute_density_cm3, double reference_time_s) {
   const std::size_t S = species_count(), N = cells();
   ColumnBalance out;
   std::vector<double> f(N * S, 0.0), cond(N * S, 0.0), gross(S, 0.0), imbalance(S, 0.0),
@@ -395,7 +428,8 @@ ColumnDiagnostics ColumnModel::diagnostics(std::span<const double> n, double t) 
   d.reaction_rate.assign(RR * N, 0.0);
   for (std::size_t j = 0; j < N; ++j) {
     for (std::size_t r = 0; r < R; ++r) d.reaction_rate[r * N + j] = rates[j * R + r];
-    for (std::size_t k = 0; k < terms.size(); ++k) d.reaction_rate[(R + k) * N + j] = xrate[k * N + j];
+    for (std::size_t k = 0; k < terms.size(); ++k)
+      d.reaction_rate[(R + k) * N + j] = xrate[k * N + j];
   }
   std::vector<double> fc(N * S, 0.0), ft(N * S, 0.0);
   chemistry_->add_tendency(n, t, fc);

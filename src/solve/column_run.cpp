@@ -1,3 +1,7 @@
+// Runs the column dn/dt = f_transport(n) + f_chemistry(n; J(n)) (cm^-3 s^-1) to its steady
+// state (pseudo-transient continuation, solve/steady_state.hpp) or through a transient
+// (Strang splitting, solve/split_integrator.hpp): equations and sources in those headers,
+// the driving in solve/column_run.hpp.
 #include "solve/column_run.hpp"
 
 #include <fmt/format.h>

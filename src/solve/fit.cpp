@@ -127,6 +127,37 @@ bool FitProblem::residuals(std::span<const double> u, std::vector<double>& r) {
   return true;
 }
 
+void FitProblem::tendency_derivative(std::size_t k, std::span<const double> values,
+                                     std::vector<double>& Fp) {
+  const FitParameter& p = params_[k];
+  if (p.kind == FitKind::kNamed) {
+    model_.parameter_tendency(p.index, x_, Fp);  // dF/dp
+    if (p.log) {
+      for (double& f : Fp) f *= values[k];
+    }
+  } else if (p.kind == FitKind::kHeld) {
+    std::fill(Fp.begin(), Fp.end(), 0.0);
+    model_.chemistry().add_held_profile_derivative(p.index, x_, Fp);  // dF/dp
+    if (p.log) {
+      for (double& f : Fp) f *= values[k];
+    }
+  } else {
+    // dF/d ln p by the central difference of the transport tendency at fixed x.
+    const std::size_t n = Fp.size();
+    std::vector<double> v(values.begin(), values.end()), fplus(n, 0.0), fminus(n, 0.0);
+    const double h = kTransportLogStep;
+    v[k] = values[k] * std::exp(h);
+    transport_apply(v);
+    model_.transport().add_tendency(x_, 0.0, fplus);
+    v[k] = values[k] * std::exp(-h);
+    transport_apply(v);
+    model_.transport().add_tendency(x_, 0.0, fminus);
+    transport_apply(values);
+    const double per_u = p.log ? 1.0 : 1.0 / values[k];
+    for (std::size_t i = 0; i < n; ++i) Fp[i] = (fplus[i] - fminus[i]) / (2.0 * h) * per_u;
+  }
+}
+
 bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
   if (!std::equal(u.begin(), u.end(), u_.begin(), u_.end())) {
     std::vector<double> r;
@@ -157,38 +188,12 @@ bool FitProblem::jacobian(std::span<const double> u, std::vector<double>& jac) {
   const auto res = observation_residuals(model_, obs_, opt_.log_space, x_);
   jac.assign(res.size() * P, 0.0);
 
-  std::vector<double> values(P), Fp(n), fplus(n), fminus(n), dx(n);
+  std::vector<double> values(P), Fp(n), dx(n);
   for (std::size_t k = 0; k < P; ++k) values[k] = value_of(k, u_[k]);
   PtcLinearSolver linear(N, S);
   for (std::size_t k = 0; k < P; ++k) {
     const FitParameter& p = params_[k];
-    if (p.kind == FitKind::kNamed) {
-      model_.parameter_tendency(p.index, x_, Fp);  // dF/dp
-      if (p.log) {
-        for (double& f : Fp) f *= values[k];
-      }
-    } else if (p.kind == FitKind::kHeld) {
-      std::fill(Fp.begin(), Fp.end(), 0.0);
-      model_.chemistry().add_held_profile_derivative(p.index, x_, Fp);  // dF/dp
-      if (p.log) {
-        for (double& f : Fp) f *= values[k];
-      }
-    } else {
-      // dF/d ln p by the central difference of the transport tendency at fixed x.
-      std::vector<double> v = values;
-      const double h = kTransportLogStep;
-      std::fill(fplus.begin(), fplus.end(), 0.0);
-      std::fill(fminus.begin(), fminus.end(), 0.0);
-      v[k] = values[k] * std::exp(h);
-      transport_apply(v);
-      model_.transport().add_tendency(x_, 0.0, fplus);
-      v[k] = values[k] * std::exp(-h);
-      transport_apply(v);
-      model_.transport().add_tendency(x_, 0.0, fminus);
-      transport_apply(values);
-      const double per_u = p.log ? 1.0 : 1.0 / values[k];
-      for (std::size_t i = 0; i < n; ++i) Fp[i] = (fplus[i] - fminus[i]) / (2.0 * h) * per_u;
-    }
+    tendency_derivative(k, values, Fp);
     for (std::size_t i = 0; i < n; ++i) {
       if (held[i]) Fp[i] = 0.0;
     }
@@ -307,24 +312,20 @@ PetscErrorCode tao_jacobian(Tao, Vec u, Mat J, Mat, void* ctx) {
   return 0;
 }
 
-}  // namespace
+/// What TAOBRGN returned: the best u, why it stopped, its iterations.
+struct TaoOutcome {
+  bool converged = false;
+  std::string reason;
+  int iterations = 0;
+  std::vector<double> u;
+};
 
-FitResult FitProblem::solve() {
-  const auto t0 = std::chrono::steady_clock::now();
-  const std::size_t P = params_.size(), M = m_;
-  if (M == 0) {
-    throw RunError(ExitCode::kConfig, "fit: no observed point lies inside the model column");
-  }
-  std::vector<double> r0;
-  const std::vector<double> u0 = initial_u();
-  if (!residuals(u0, r0)) {
-    throw RunError(ExitCode::kNotConverged, "fit: the steady solve at the initial values failed");
-  }
-  double chi2_0 = 0.0;
-  for (double v : r0) chi2_0 += v * v;
-
+/// Runs TAOBRGN on the problem from u0 within the parameters' bounds (in u).
+TaoOutcome run_tao(FitProblem& problem, const std::vector<FitParameter>& params,
+                   const FitOptions& opt, std::span<const double> u0) {
+  const std::size_t P = problem.size(), M = problem.points();
   TaoContext ctx;
-  ctx.problem = this;
+  ctx.problem = &problem;
   Tao tao = nullptr;
   Vec u = nullptr, r = nullptr, lo = nullptr, hi = nullptr;
   Mat J = nullptr;
@@ -338,7 +339,7 @@ FitResult FitProblem::solve() {
                           nullptr, &J),
         "MatCreateSeqDense");
   for (std::size_t k = 0; k < P; ++k) {
-    const FitParameter& p = params_[k];
+    const FitParameter& p = params[k];
     const auto i = static_cast<PetscInt>(k);
     check(VecSetValue(u, i, u0[k], INSERT_VALUES), "VecSetValue");
     check(VecSetValue(lo, i, p.log ? std::log(p.min) : p.min, INSERT_VALUES), "VecSetValue");
@@ -353,8 +354,8 @@ FitResult FitProblem::solve() {
   check(TaoSetResidualRoutine(tao, r, tao_residual, &ctx), "TaoSetResidualRoutine");
   check(TaoSetJacobianResidualRoutine(tao, J, J, tao_jacobian, &ctx),
         "TaoSetJacobianResidualRoutine");
-  check(TaoSetTolerances(tao, opt_.gatol, opt_.grtol, 0.0), "TaoSetTolerances");
-  check(TaoSetMaximumIterations(tao, opt_.max_iterations), "TaoSetMaximumIterations");
+  check(TaoSetTolerances(tao, opt.gatol, opt.grtol, 0.0), "TaoSetTolerances");
+  check(TaoSetMaximumIterations(tao, opt.max_iterations), "TaoSetMaximumIterations");
   check(TaoSetOptionsPrefix(tao, "colchem_fit_"), "TaoSetOptionsPrefix");
   check(TaoSetFromOptions(tao), "TaoSetFromOptions");
   check(TaoSolve(tao), "TaoSolve");
@@ -362,14 +363,17 @@ FitResult FitProblem::solve() {
   PetscInt its = 0;
   check(TaoGetConvergedReason(tao, &reason), "TaoGetConvergedReason");
   check(TaoGetIterationNumber(tao, &its), "TaoGetIterationNumber");
-  std::vector<double> ubest(P);
+  TaoOutcome out;
+  out.converged = reason > 0;
+  out.reason = TaoConvergedReasons[reason];
+  out.iterations = static_cast<int>(its);
+  out.u.resize(P);
   {
     const PetscScalar* pu = nullptr;
     check(VecGetArrayRead(u, &pu), "VecGetArrayRead");
-    std::copy(pu, pu + P, ubest.begin());
+    std::copy(pu, pu + P, out.u.begin());
     check(VecRestoreArrayRead(u, &pu), "VecRestoreArrayRead");
   }
-  const std::string tao_reason = TaoConvergedReasons[reason];
   MatDestroy(&J);
   VecDestroy(&r);
   VecDestroy(&lo);
@@ -377,27 +381,20 @@ FitResult FitProblem::solve() {
   VecDestroy(&u);
   TaoDestroy(&tao);
   if (!ctx.error.empty()) throw RunError(ExitCode::kNotConverged, "fit: " + ctx.error);
+  return out;
+}
 
-  FitResult res = stats_;
-  std::vector<double> rb, jac;
-  if (!residuals(ubest, rb) || !jacobian(ubest, jac)) {
-    throw RunError(ExitCode::kNotConverged, "fit: the steady solve at the best fit failed");
-  }
-  res = stats_;
-  res.converged = reason > 0;
-  res.reason = tao_reason;
-  res.iterations = static_cast<int>(its);
-  res.u = ubest;
-  res.points = M;
-  res.chi2_initial = chi2_0;
-  for (double v : rb) res.chi2 += v * v;
-  const double dof = static_cast<double>(M) - static_cast<double>(P);
-  res.reduced_chi2 = dof > 0 ? res.chi2 / dof : std::nan("");
+/// The one-sigma uncertainties, bound flags and correlations at the best fit ubest from the
+/// Gauss-Newton covariance of jac (res.reduced_chi2 set).
+void add_uncertainties(FitResult& res, const FitProblem& problem,
+                       const std::vector<FitParameter>& params, std::span<const double> ubest,
+                       std::span<const double> jac) {
+  const std::size_t P = params.size();
   std::vector<double> cov;
   const bool invertible = gauss_newton_covariance(jac, P, cov);
   for (std::size_t k = 0; k < P; ++k) {
-    const FitParameter& p = params_[k];
-    const double v = value_of(k, ubest[k]);
+    const FitParameter& p = params[k];
+    const double v = problem.value_of(k, ubest[k]);
     res.value.push_back(v);
     const double su = invertible ? std::sqrt(cov[k * P + k]) : std::nan("");
     res.sigma_u.push_back(su);
@@ -417,6 +414,43 @@ FitResult FitProblem::solve() {
       }
     }
   }
+}
+
+}  // namespace
+
+FitResult FitProblem::solve() {
+  const auto t0 = std::chrono::steady_clock::now();
+  const std::size_t P = params_.size(), M = m_;
+  if (M == 0) {
+    throw RunError(ExitCode::kConfig, "fit: no observed point lies inside the model column");
+  }
+  std::vector<double> r0;
+  const std::vector<double> u0 = initial_u();
+  if (!residuals(u0, r0)) {
+    throw RunError(ExitCode::kNotConverged, "fit: the steady solve at the initial values failed");
+  }
+  double chi2_0 = 0.0;
+  for (double v : r0) chi2_0 += v * v;
+
+  const TaoOutcome tao = run_tao(*this, params_, opt_, u0);
+  const std::vector<double>& ubest = tao.u;
+
+  FitResult res = stats_;
+  std::vector<double> rb, jac;
+  if (!residuals(ubest, rb) || !jacobian(ubest, jac)) {
+    throw RunError(ExitCode::kNotConverged, "fit: the steady solve at the best fit failed");
+  }
+  res = stats_;
+  res.converged = tao.converged;
+  res.reason = tao.reason;
+  res.iterations = tao.iterations;
+  res.u = ubest;
+  res.points = M;
+  res.chi2_initial = chi2_0;
+  for (double v : rb) res.chi2 += v * v;
+  const double dof = static_cast<double>(M) - static_cast<double>(P);
+  res.reduced_chi2 = dof > 0 ? res.chi2 / dof : std::nan("");
+  add_uncertainties(res, *this, params_, ubest, jac);
   res.x = x_;
   res.residuals = observation_residuals(model_, obs_, opt_.log_space, x_);
   res.wall_s = seconds_since(t0);

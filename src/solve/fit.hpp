@@ -127,6 +127,8 @@ class FitProblem {
   void apply(std::span<const double> u);
   bool solve_to(std::span<const double> u, int depth);
   void transport_apply(std::span<const double> u);
+  /// dF/du_k at x_ for parameter k at the values `values` (held species not yet zeroed).
+  void tendency_derivative(std::size_t k, std::span<const double> values, std::vector<double>& Fp);
   ColumnModel& model_;
   SolverSpec solver_;
   const ObservationSet& obs_;

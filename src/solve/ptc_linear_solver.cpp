@@ -1,8 +1,8 @@
 // PETSc assembly and direct solve of (shift I - J) dx = F: see ptc_linear_solver.hpp.
 #include "solve/ptc_linear_solver.hpp"
 
-#include <chrono>
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <limits>
 
@@ -15,6 +15,32 @@ namespace {
 double seconds_since(std::chrono::steady_clock::time_point t0) {
   return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
 }
+
+/// An outer GMRES on a shell matrix (mult) with a shell right preconditioner (apply), both
+/// on ctx: restarted every `restart` iterations, the unpreconditioned residual norm, a
+/// nonzero initial guess, options under `prefix`.
+void create_shell_gmres(std::size_t size, void* ctx, PetscErrorCode (*mult)(Mat, Vec, Vec),
+                        PetscErrorCode (*apply)(PC, Vec, Vec), const char* prefix, PetscInt restart,
+                        Mat& shell, KSP& ksp) {
+  const auto n = static_cast<PetscInt>(size);
+  check(MatCreateShell(PETSC_COMM_SELF, n, n, n, n, ctx, &shell), "MatCreateShell");
+  check(MatShellSetOperation(shell, MATOP_MULT, reinterpret_cast<void (*)(void)>(mult)),
+        "MatShellSetOperation");
+  check(KSPCreate(PETSC_COMM_SELF, &ksp), "KSPCreate");
+  check(KSPSetOptionsPrefix(ksp, prefix), "KSPSetOptionsPrefix");
+  check(KSPSetType(ksp, KSPGMRES), "KSPSetType");
+  check(KSPGMRESSetRestart(ksp, restart), "KSPGMRESSetRestart");
+  check(KSPSetPCSide(ksp, PC_RIGHT), "KSPSetPCSide");
+  check(KSPSetNormType(ksp, KSP_NORM_UNPRECONDITIONED), "KSPSetNormType");
+  PC pc = nullptr;
+  check(KSPGetPC(ksp, &pc), "KSPGetPC");
+  check(PCSetType(pc, PCSHELL), "PCSetType");
+  check(PCShellSetContext(pc, ctx), "PCShellSetContext");
+  check(PCShellSetApply(pc, apply), "PCShellSetApply");
+  check(KSPSetInitialGuessNonzero(ksp, PETSC_TRUE), "KSPSetInitialGuessNonzero");
+  check(KSPSetFromOptions(ksp), "KSPSetFromOptions");
+}
+
 }  // namespace
 
 PtcLinearSolver::PtcLinearSolver(std::size_t cells, std::size_t species)
@@ -204,7 +230,8 @@ PetscErrorCode PtcLinearSolver::shell_precondition(PC pc, Vec r, Vec z) {
   PetscScalar* bs = nullptr;
   if ((ierr = VecGetArrayRead(r, &rs)) != 0) return ierr;
   if ((ierr = VecGetArray(s.b_, &bs)) != 0) return ierr;
-  for (std::size_t i = 0; i < c->tmp.size(); ++i) bs[i] = c->held[i] ? rs[i] : rs[i] * c->weights[i];
+  for (std::size_t i = 0; i < c->tmp.size(); ++i)
+    bs[i] = c->held[i] ? rs[i] : rs[i] * c->weights[i];
   (void)VecRestoreArray(s.b_, &bs);
   (void)VecRestoreArrayRead(r, &rs);
   return KSPSolve(s.ksp_, s.b_, z);
@@ -221,25 +248,11 @@ bool PtcLinearSolver::solve_coupled(const BlockTridiagonal& jac, double shift,
   if (!ok || !direct_solve(dx, reason)) return false;
 
   const auto t0 = std::chrono::steady_clock::now();
-  const auto n = static_cast<PetscInt>(cells_ * species_);
   if (shell_ == nullptr) {
-    check(MatCreateShell(PETSC_COMM_SELF, n, n, n, n, &ctx_, &shell_), "MatCreateShell");
-    check(MatShellSetOperation(shell_, MATOP_MULT, reinterpret_cast<void (*)(void)>(&shell_mult)),
-          "MatShellSetOperation");
+    // GMRES on W^-1 (P - J_nl) with the LU of P as right preconditioner.
+    create_shell_gmres(cells_ * species_, &ctx_, &shell_mult, &shell_precondition, "colchem_nk_",
+                       40, shell_, outer_);
     check(VecDuplicate(b_, &rhs_scaled_), "VecDuplicate");
-    check(KSPCreate(PETSC_COMM_SELF, &outer_), "KSPCreate");
-    check(KSPSetOptionsPrefix(outer_, "colchem_nk_"), "KSPSetOptionsPrefix");
-    check(KSPSetType(outer_, KSPGMRES), "KSPSetType");
-    check(KSPGMRESSetRestart(outer_, 40), "KSPGMRESSetRestart");
-    check(KSPSetPCSide(outer_, PC_RIGHT), "KSPSetPCSide");
-    check(KSPSetNormType(outer_, KSP_NORM_UNPRECONDITIONED), "KSPSetNormType");
-    PC pc = nullptr;
-    check(KSPGetPC(outer_, &pc), "KSPGetPC");
-    check(PCSetType(pc, PCSHELL), "PCSetType");
-    check(PCShellSetContext(pc, &ctx_), "PCShellSetContext");
-    check(PCShellSetApply(pc, &shell_precondition), "PCShellSetApply");
-    check(KSPSetInitialGuessNonzero(outer_, PETSC_TRUE), "KSPSetInitialGuessNonzero");
-    check(KSPSetFromOptions(outer_), "KSPSetFromOptions");
   }
   ctx_.self = this;
   ctx_.held = held;
@@ -275,8 +288,8 @@ bool PtcLinearSolver::solve_coupled(const BlockTridiagonal& jac, double shift,
   // GMRES that ran out of iterations or broke down (a Krylov space that stopped growing,
   // seen at the Newton limit where a nearly conserved mode makes the operator singular to
   // round-off) still gives an inexact Newton step when it reduced the residual 100-fold.
-  const bool reduced = (why == KSP_DIVERGED_ITS || why == KSP_DIVERGED_BREAKDOWN) &&
-                       rnorm <= 1e-2 * rhs_norm;
+  const bool reduced =
+      (why == KSP_DIVERGED_ITS || why == KSP_DIVERGED_BREAKDOWN) && rnorm <= 1e-2 * rhs_norm;
   if (ierr != 0 || (why < 0 && !reduced) || !std::isfinite(rnorm)) {
     reason = "Krylov solve failed (" +
              std::string(ierr != 0 ? "PETSc error " + std::to_string(static_cast<int>(ierr))
@@ -284,15 +297,7 @@ bool PtcLinearSolver::solve_coupled(const BlockTridiagonal& jac, double shift,
              " after " + std::to_string(its) + " iterations)";
     return false;
   }
-  const PetscScalar* xr = nullptr;
-  check(VecGetArrayRead(x_, &xr), "VecGetArrayRead");
-  bool finite = true;
-  for (std::size_t i = 0; i < dx.size(); ++i) {
-    dx[i] = held[i] ? 0.0 : xr[i];
-    finite = finite && std::isfinite(xr[i]);
-  }
-  check(VecRestoreArrayRead(x_, &xr), "VecRestoreArrayRead");
-  if (!finite) {
+  if (!read_solution(held, dx)) {
     reason = "Krylov solve produced non-finite values";
     return false;
   }
@@ -316,6 +321,64 @@ PetscErrorCode PtcLinearSolver::transpose_precondition(PC pc, Vec r, Vec z) {
   if (ierr != 0) return ierr;
   auto* c = static_cast<TransposeContext*>(raw);
   return KSPSolveTranspose(c->self->ksp_, r, z);
+}
+
+bool PtcLinearSolver::adjoint_gmres(const Product& nonlocal_transpose, double rtol,
+                                    std::string& reason) {
+  // b_ holds the right-hand side, x_ the transposed LU's solution, which starts GMRES.
+  if (shell_t_ == nullptr) {
+    // GMRES on A^T - J_nl^T with the transposed LU of A as right preconditioner.
+    create_shell_gmres(cells_ * species_, &tctx_, &transpose_mult, &transpose_precondition,
+                       "colchem_adjoint_", 60, shell_t_, outer_t_);
+  }
+  tctx_.self = this;
+  tctx_.nonlocal = &nonlocal_transpose;
+  tctx_.tmp.assign(cells_ * species_, 0.0);
+  check(KSPSetOperators(outer_t_, shell_t_, shell_t_), "KSPSetOperators");
+  check(KSPSetTolerances(outer_t_, rtol, 0.0, 1e30, 300), "KSPSetTolerances");
+  Vec rhs_copy = nullptr;
+  check(VecDuplicate(b_, &rhs_copy), "VecDuplicate");
+  check(VecCopy(b_, rhs_copy), "VecCopy");
+  Vec sol = nullptr;
+  check(VecDuplicate(b_, &sol), "VecDuplicate");
+  check(VecCopy(x_, sol), "VecCopy");  // the transposed LU's solution starts GMRES
+  PetscReal bnorm = 0.0;
+  check(VecNorm(rhs_copy, NORM_2, &bnorm), "VecNorm");
+  const PetscErrorCode ierr = KSPSolve(outer_t_, rhs_copy, sol);
+  KSPConvergedReason why = KSP_CONVERGED_ITERATING;
+  (void)KSPGetConvergedReason(outer_t_, &why);
+  PetscInt its = 0;
+  (void)KSPGetIterationNumber(outer_t_, &its);
+  PetscReal rnorm = 0.0;
+  (void)KSPGetResidualNorm(outer_t_, &rnorm);
+  krylov_its_ = static_cast<int>(its);
+  if (ierr == 0) (void)VecCopy(sol, x_);
+  (void)VecDestroy(&sol);
+  (void)VecDestroy(&rhs_copy);
+  // A solve that stalls at round-off short of rtol (breakdown or the iteration limit) is
+  // accepted when it reduced the residual below 1e-10 of the right-hand side.
+  const bool stalled = (why == KSP_DIVERGED_ITS || why == KSP_DIVERGED_BREAKDOWN) &&
+                       std::isfinite(rnorm) && rnorm <= 1e-10 * bnorm;
+  if (ierr != 0 || (why < 0 && !stalled)) {
+    reason = "adjoint Krylov solve failed (" +
+             std::string(ierr != 0 ? "PETSc error " + std::to_string(static_cast<int>(ierr))
+                                   : std::string(KSPConvergedReasons[why])) +
+             " after " + std::to_string(its) + " iterations)";
+    return false;
+  }
+  return true;
+}
+
+bool PtcLinearSolver::read_solution(std::span<const char> zero_rows, std::span<double> out) {
+  const PetscScalar* xs = nullptr;
+  check(VecGetArrayRead(x_, &xs), "VecGetArrayRead");
+  bool finite = true;
+  for (std::size_t i = 0; i < out.size(); ++i) {
+    out[i] = !zero_rows.empty() && zero_rows[i] ? 0.0 : xs[i];
+    finite = finite && std::isfinite(xs[i]);
+  }
+  check(VecRestoreArrayRead(x_, &xs), "VecRestoreArrayRead");
+  return finite;
 }
 
 bool PtcLinearSolver::solve_transposed(const BlockTridiagonal& jac, double shift,
@@ -342,73 +405,12 @@ bool PtcLinearSolver::solve_transposed(const BlockTridiagonal& jac, double shift
     reason = "transposed LU solve failed";
     return false;
   }
-  if (nonlocal_transpose != nullptr) {
-    const auto n = static_cast<PetscInt>(cells_ * species_);
-    if (shell_t_ == nullptr) {
-      check(MatCreateShell(PETSC_COMM_SELF, n, n, n, n, &tctx_, &shell_t_), "MatCreateShell");
-      check(MatShellSetOperation(shell_t_, MATOP_MULT,
-                                 reinterpret_cast<void (*)(void)>(&transpose_mult)),
-            "MatShellSetOperation");
-      check(KSPCreate(PETSC_COMM_SELF, &outer_t_), "KSPCreate");
-      check(KSPSetOptionsPrefix(outer_t_, "colchem_adjoint_"), "KSPSetOptionsPrefix");
-      check(KSPSetType(outer_t_, KSPGMRES), "KSPSetType");
-      check(KSPGMRESSetRestart(outer_t_, 60), "KSPGMRESSetRestart");
-      check(KSPSetPCSide(outer_t_, PC_RIGHT), "KSPSetPCSide");
-      check(KSPSetNormType(outer_t_, KSP_NORM_UNPRECONDITIONED), "KSPSetNormType");
-      PC pc = nullptr;
-      check(KSPGetPC(outer_t_, &pc), "KSPGetPC");
-      check(PCSetType(pc, PCSHELL), "PCSetType");
-      check(PCShellSetContext(pc, &tctx_), "PCShellSetContext");
-      check(PCShellSetApply(pc, &transpose_precondition), "PCShellSetApply");
-      check(KSPSetInitialGuessNonzero(outer_t_, PETSC_TRUE), "KSPSetInitialGuessNonzero");
-      check(KSPSetFromOptions(outer_t_), "KSPSetFromOptions");
-    }
-    tctx_.self = this;
-    tctx_.nonlocal = nonlocal_transpose;
-    tctx_.tmp.assign(cells_ * species_, 0.0);
-    check(KSPSetOperators(outer_t_, shell_t_, shell_t_), "KSPSetOperators");
-    check(KSPSetTolerances(outer_t_, rtol, 0.0, 1e30, 300), "KSPSetTolerances");
-    Vec rhs_copy = nullptr;
-    check(VecDuplicate(b_, &rhs_copy), "VecDuplicate");
-    check(VecCopy(b_, rhs_copy), "VecCopy");
-    Vec sol = nullptr;
-    check(VecDuplicate(b_, &sol), "VecDuplicate");
-    check(VecCopy(x_, sol), "VecCopy");  // the transposed LU's solution starts GMRES
-    PetscReal bnorm = 0.0;
-    check(VecNorm(rhs_copy, NORM_2, &bnorm), "VecNorm");
-    ierr = KSPSolve(outer_t_, rhs_copy, sol);
-    (void)KSPGetConvergedReason(outer_t_, &why);
-    PetscInt its = 0;
-    (void)KSPGetIterationNumber(outer_t_, &its);
-    PetscReal rnorm = 0.0;
-    (void)KSPGetResidualNorm(outer_t_, &rnorm);
-    krylov_its_ = static_cast<int>(its);
-    if (ierr == 0) (void)VecCopy(sol, x_);
-    (void)VecDestroy(&sol);
-    (void)VecDestroy(&rhs_copy);
-    // A solve that stalls at round-off short of rtol (breakdown or the iteration limit) is
-    // accepted when it reduced the residual below 1e-10 of the right-hand side.
-    const bool stalled = (why == KSP_DIVERGED_ITS || why == KSP_DIVERGED_BREAKDOWN) &&
-                         std::isfinite(rnorm) && rnorm <= 1e-10 * bnorm;
-    if (ierr != 0 || (why < 0 && !stalled)) {
-      solve_s_ += seconds_since(t1);
-      reason = "adjoint Krylov solve failed (" +
-               std::string(ierr != 0 ? "PETSc error " + std::to_string(static_cast<int>(ierr))
-                                     : std::string(KSPConvergedReasons[why])) +
-               " after " + std::to_string(its) + " iterations)";
-      return false;
-    }
+  if (nonlocal_transpose != nullptr && !adjoint_gmres(*nonlocal_transpose, rtol, reason)) {
+    solve_s_ += seconds_since(t1);
+    return false;
   }
   solve_s_ += seconds_since(t1);
-  const PetscScalar* xs = nullptr;
-  check(VecGetArrayRead(x_, &xs), "VecGetArrayRead");
-  bool finite = true;
-  for (std::size_t i = 0; i < y.size(); ++i) {
-    y[i] = xs[i];
-    finite = finite && std::isfinite(xs[i]);
-  }
-  check(VecRestoreArrayRead(x_, &xs), "VecRestoreArrayRead");
-  if (!finite) {
+  if (!read_solution({}, y)) {
     reason = "adjoint solve produced non-finite values (singular Jacobian?)";
     return false;
   }

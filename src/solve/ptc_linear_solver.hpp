@@ -86,6 +86,10 @@ class PtcLinearSolver {
   void assemble(const BlockTridiagonal& jac, double shift, std::span<const char> held,
                 std::span<const double> rhs, std::string& reason, bool& ok);
   bool direct_solve(std::span<double> dx, std::string& reason);
+  /// GMRES on the transposed system with the nonlocal product, from b_ and x_ into x_.
+  bool adjoint_gmres(const Product& nonlocal_transpose, double rtol, std::string& reason);
+  /// out = x_ (0 in the rows zero_rows marks, when given); false when x_ is not finite.
+  bool read_solution(std::span<const char> zero_rows, std::span<double> out);
 
   struct ShellContext {
     PtcLinearSolver* self = nullptr;

@@ -5,6 +5,7 @@
 #include <chrono>
 #include <cmath>
 #include <cstdio>
+#include <optional>
 
 #include "core/error.hpp"
 #include "core/step_control.hpp"
@@ -24,8 +25,10 @@ std::string sci(double v) {
 /// Times to land on exactly, in order, within (start, end].
 std::vector<double> stop_times(const SplitOptions& o) {
   std::vector<double> stops;
-  for (double s : o.output_times_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
-  for (double s : o.breakpoints_s) if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  for (double s : o.output_times_s)
+    if (s > o.start_s && s <= o.end_s) stops.push_back(s);
+  for (double s : o.breakpoints_s)
+    if (s > o.start_s && s <= o.end_s) stops.push_back(s);
   stops.push_back(o.end_s);
   std::sort(stops.begin(), stops.end());
   stops.erase(std::unique(stops.begin(), stops.end()), stops.end());
@@ -41,8 +44,7 @@ SplitIntegrator::SplitIntegrator(ColumnOperator& transport, ColumnOperator& chem
       options_(std::move(options)) {
   if (!(options_.end_s > options_.start_s) || !(options_.step_s > 0.0) ||
       !(options_.min_step_s > 0.0)) {
-    throw RunError(ExitCode::kInternal,
-                   "split integrator: need end > start and positive steps");
+    throw RunError(ExitCode::kInternal, "split integrator: need end > start and positive steps");
   }
 }
 
@@ -78,6 +80,65 @@ bool SplitIntegrator::try_step(const std::vector<double>& x, double t, double dt
   return true;
 }
 
+namespace {
+
+/// Why a run ends: its status and the reason (finish() adds the coupled residual).
+struct RunEnd {
+  SolveStatus status;
+  std::string reason;
+};
+
+/// An interrupt or the step limit, checked before each attempt.
+std::optional<RunEnd> limit_reached(const SplitResult& res, const SplitOptions& o,
+                                    const SplitCallbacks& cb) {
+  if (cb.stop_requested && cb.stop_requested()) {
+    return RunEnd{SolveStatus::kInterrupted, "interrupted at t = " + sci(res.time_s) + " s after " +
+                                                 std::to_string(res.steps) + " steps"};
+  }
+  if (res.steps >= o.max_steps) {
+    return RunEnd{SolveStatus::kNotConverged, "step limit " + std::to_string(o.max_steps) +
+                                                  " reached at t = " + sci(res.time_s) + " s"};
+  }
+  return std::nullopt;
+}
+
+/// After an accepted step that ended at res.time_s: the step's record (with the coupled
+/// residual every steady_check_every steps), the snapshot at an output time, the
+/// checkpoint, then the steady-state and end-time tests.
+std::optional<RunEnd> record_step(const ColumnSystem& system, const SplitOptions& o,
+                                  const SplitCallbacks& cb, SplitResult& res, double dt, double err,
+                                  double dt_want, double wall_s, bool hits_stop) {
+  const double t_new = res.time_s;
+  SplitStepRecord rec{res.steps, t_new, dt, err, std::numeric_limits<double>::quiet_NaN(), wall_s};
+  const bool check_steady = o.to_steady_state && res.steps % std::max(1, o.steady_check_every) == 0;
+  if (check_steady) rec.residual_norm = scaled_residual_norm(system, res.x, o.scale, t_new).value;
+  res.history.push_back(rec);
+  if (cb.on_step) cb.on_step(rec);
+  const bool is_output =
+      std::find(o.output_times_s.begin(), o.output_times_s.end(), t_new) != o.output_times_s.end();
+  if (hits_stop && is_output) res.snapshots.push_back(SplitSnapshot{t_new, res.x});
+  if (o.checkpoint_every > 0 && cb.checkpoint && res.steps % o.checkpoint_every == 0) {
+    cb.checkpoint(res, dt_want);
+  }
+  if (check_steady && rec.residual_norm < o.steady_tolerance) {
+    return RunEnd{SolveStatus::kConverged, "coupled scaled residual " + sci(rec.residual_norm) +
+                                               " < " + sci(o.steady_tolerance) +
+                                               " at t = " + sci(t_new) + " s"};
+  }
+  if (hits_stop && t_new >= o.end_s) {
+    if (o.to_steady_state) {
+      return RunEnd{SolveStatus::kNotConverged, "end time " + sci(o.end_s) +
+                                                    " s reached before the coupled residual "
+                                                    "fell below " +
+                                                    sci(o.steady_tolerance)};
+    }
+    return RunEnd{SolveStatus::kCompleted, "end time " + sci(o.end_s) + " s reached"};
+  }
+  return std::nullopt;
+}
+
+}  // namespace
+
 SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& cb) const {
   const auto t_start = Clock::now();
   const SplitOptions& o = options_;
@@ -90,19 +151,15 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
   res.time_s = o.start_s;
   res.steps = o.steps_before;
   res.snapshots = o.snapshots_before;
-
   const std::vector<double> stops = stop_times(o);
-  auto is_output = [&](double t) {
-    return std::find(o.output_times_s.begin(), o.output_times_s.end(), t) !=
-           o.output_times_s.end();
-  };
 
   double dt_want = std::min(o.step_s, o.max_step_s);
-  auto finish = [&](SolveStatus st, std::string why) {
-    res.status = st;
+  auto finish = [&](RunEnd end) {
+    res.status = end.status;
     res.next_step_s = dt_want;
     res.residual_norm = scaled_residual_norm(system_, x, o.scale, res.time_s).value;
-    res.reason = std::move(why) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
+    res.reason =
+        std::move(end.reason) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
     res.wall_s = since(t_start);
     return res;
   };
@@ -110,16 +167,7 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
   std::size_t next_stop = 0;
   std::vector<double> x1, x2;
   while (true) {
-    if (cb.stop_requested && cb.stop_requested()) {
-      return finish(SolveStatus::kInterrupted,
-                    "interrupted at t = " + sci(res.time_s) + " s after " +
-                        std::to_string(res.steps) + " steps");
-    }
-    if (res.steps >= o.max_steps) {
-      return finish(SolveStatus::kNotConverged,
-                    "step limit " + std::to_string(o.max_steps) + " reached at t = " +
-                        sci(res.time_s) + " s");
-    }
+    if (auto end = limit_reached(res, o, cb)) return finish(std::move(*end));
     const double t = res.time_s;
     const double stop = stops[next_stop];
     // Land on the stop exactly; avoid a sliver step just before it.
@@ -133,11 +181,12 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
       ++res.rejected_steps;
       dt_want = 0.5 * dt;
       if (dt_want < o.min_step_s) {
-        return finish(SolveStatus::kFailed,
-                      "step size fell below " + sci(o.min_step_s) + " s at t = " + sci(t) +
-                          " s (" + (err > 1.0 ? "error estimate " + sci(err)
-                                              : std::string("an implicit sub-step failed")) +
-                          ")");
+        return finish(
+            {SolveStatus::kFailed, "step size fell below " + sci(o.min_step_s) +
+                                       " s at t = " + sci(t) + " s (" +
+                                       (err > 1.0 ? "error estimate " + sci(err)
+                                                  : std::string("an implicit sub-step failed")) +
+                                       ")"});
       }
       continue;
     }
@@ -154,35 +203,10 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
       dt_want = std::min(hits_stop ? std::max(next, dt_want) : next, o.max_step_s);
     }
     if (cb.on_time_crossed) cb.on_time_crossed(t, t_new, x);
-
-    SplitStepRecord rec{res.steps, t_new, dt, err, std::numeric_limits<double>::quiet_NaN(),
-                        since(t_start)};
-    const bool check_steady =
-        o.to_steady_state && res.steps % std::max(1, o.steady_check_every) == 0;
-    if (check_steady) rec.residual_norm = scaled_residual_norm(system_, x, o.scale, t_new).value;
-    res.history.push_back(rec);
-    if (cb.on_step) cb.on_step(rec);
-    if (hits_stop && is_output(stop)) res.snapshots.push_back(SplitSnapshot{stop, x});
-    if (o.checkpoint_every > 0 && cb.checkpoint && res.steps % o.checkpoint_every == 0) {
-      cb.checkpoint(res, dt_want);
+    if (auto end = record_step(system_, o, cb, res, dt, err, dt_want, since(t_start), hits_stop)) {
+      return finish(std::move(*end));
     }
-    if (check_steady && rec.residual_norm < o.steady_tolerance) {
-      return finish(SolveStatus::kConverged, "coupled scaled residual " +
-                                                 sci(rec.residual_norm) + " < " +
-                                                 sci(o.steady_tolerance) + " at t = " +
-                                                 sci(t_new) + " s");
-    }
-    if (hits_stop) {
-      if (stop >= o.end_s) {
-        if (o.to_steady_state) {
-          return finish(SolveStatus::kNotConverged,
-                        "end time " + sci(o.end_s) + " s reached before the coupled residual "
-                        "fell below " + sci(o.steady_tolerance));
-        }
-        return finish(SolveStatus::kCompleted, "end time " + sci(o.end_s) + " s reached");
-      }
-      ++next_stop;
-    }
+    if (hits_stop) ++next_stop;
   }
 }
 

@@ -1,3 +1,7 @@
+// Per-species column settings as typed values: initial profiles n = f n_a (cm^-3, f
+// interpolated log-linearly), boundary conditions, and injections, a global amount spread
+// over the planet's surface, N = amount / (4 pi R^2) (cm^-2), then uniformly in n over
+// [bottom, top]: see transport/column_species.hpp.
 #include "transport/column_species.hpp"
 
 #include <algorithm>

@@ -54,6 +54,34 @@ const double kD = 0.5 * kGamma;
 const double kW1 = 1.0 / (kGamma * (2.0 - kGamma));
 const double kW0 = -(1.0 - kGamma) * (1.0 - kGamma) / (kGamma * (2.0 - kGamma));
 
+/// m_i g / (k T): the gravitational part of the molecular drift per unit length (cm^-1).
+double inverse_scale_height(const TransportSpecies& sp, double g, double T) {
+  return sp.mass_g * g / (constants::kBoltzmann * T);
+}
+
+/// The flux coefficients over the half cell between a boundary edge and the nearest centre
+/// (the ghost value of a Dirichlet boundary, or the edge density of a velocity boundary,
+/// sits on the edge); the drift over that half cell uses the trapezoid rule.
+FluxPair half_cell_flux(const Background& bg, const TransportSpecies& sp, std::size_t edge,
+                        std::size_t cell, double& drift) {
+  const auto& ze = bg.grid.edge_cm;
+  const auto& zc = bg.grid.center_cm;
+  const double a_T = 1.0 + sp.thermal_diffusion;
+  const double T_e = bg.edge_temperature_K[edge];
+  const double T_c = bg.temperature_K[cell];
+  const bool ghost_below = edge == 0;
+  const double h = ghost_below ? zc[cell] - ze[edge] : ze[edge] - zc[cell];
+  const double x = 0.5 * h *
+                       (inverse_scale_height(sp, bg.edge_gravity_cm_s2[edge], T_e) +
+                        inverse_scale_height(sp, bg.gravity_cm_s2[cell], T_c)) +
+                   a_T * (ghost_below ? std::log(T_c / T_e) : std::log(T_e / T_c));
+  drift = x;
+  const double na_e = bg.edge_air_density_cm3[edge];
+  const double na_c = bg.air_density_cm3[cell];
+  return fitted_flux(bg.edge_eddy_cm2_s[edge], na_e, sp.binary_diffusion(T_e) / na_e, h, x,
+                     ghost_below ? na_e : na_c, ghost_below ? na_c : na_e);
+}
+
 }  // namespace
 
 TransportOperator::TransportOperator(const Background& bg, std::vector<TransportSpecies> species,
@@ -68,11 +96,9 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
     throw std::invalid_argument("TransportOperator: one boundary pair per species expected");
   }
   if (N_ < 1) throw std::invalid_argument("TransportOperator: the grid has no cells");
-  const auto& ze = bg.grid.edge_cm;
-  const auto& zc = bg.grid.center_cm;
+  // 1. Geometry and storage.
   dz_.resize(N_);
   for (std::size_t j = 0; j < N_; ++j) dz_[j] = bg.grid.width_cm(j);
-
   coef_.assign(S_ * (N_ + 1), EdgeCoef{});
   drift_.assign(S_ * (N_ + 1), 0.0);
   top_velocity_.assign(S_, 0.0);
@@ -84,111 +110,121 @@ TransportOperator::TransportOperator(const Background& bg, std::vector<Transport
   f_.assign(N_ + 1, 0.0);
   save_.assign(N_ * S_, 0.0);
 
-  const double k_B = constants::kBoltzmann;
   const double M_planet = planet_mass_g(bg.planet);
   for (std::size_t s = 0; s < S_; ++s) {
+    check_boundary_kinds(s);
     const TransportSpecies& sp = species_[s];
-    const SpeciesBoundaries& b = bc_[s];
-    const auto bad_end = [&](const char* end, BoundaryKind k) {
-      return std::invalid_argument("TransportOperator: species " + sp.name + ": '" +
-                                   boundary_kind_name(k) + "' is not a " + end + " boundary");
-    };
-    switch (b.bottom.kind) {
-      case BoundaryKind::kEscapeVelocity:
-      case BoundaryKind::kJeans:
-      case BoundaryKind::kDiffusionLimited:
-        throw bad_end("bottom", b.bottom.kind);
-      default:
-        break;
-    }
-    if (b.top.kind == BoundaryKind::kDepositionVelocity) throw bad_end("top", b.top.kind);
     if (sp.fixed) continue;  // held at its background mixing ratio: no transport at all
     if (!(sp.mass_g > 0.0)) {
       throw std::invalid_argument("TransportOperator: species " + sp.name + " has no mass");
     }
-    const double a_T = 1.0 + sp.thermal_diffusion;
-    // m_i g / (k T): the gravitational part of the drift per unit length.
-    const auto inv_H = [&](double g, double T) { return sp.mass_g * g / (k_B * T); };
+    // 2. Eddy and molecular diffusion coefficients of the interior edges; 3. boundary
+    // edges; 4. escape velocities; 5. the time-independent matrix.
+    set_interior_coefficients(bg, s);
+    set_boundary_coefficients(bg, s);
+    set_escape_velocity(bg, s, M_planet);
+    assemble_matrix(s);
+  }
+}
 
-    for (std::size_t e = 1; e < N_; ++e) {
-      EdgeCoef& c = coef_[s * (N_ + 1) + e];
-      const double dze = zc[e] - zc[e - 1];
-      const double T_e = bg.edge_temperature_K[e];
-      const double x = dze * inv_H(bg.edge_gravity_cm_s2[e], T_e) +
-                       a_T * std::log(bg.temperature_K[e] / bg.temperature_K[e - 1]);
-      drift_[s * (N_ + 1) + e] = x;
-      const FluxPair f =
-          fitted_flux(bg.edge_eddy_cm2_s[e], edge_n_air_[e],
-                      sp.binary_diffusion(T_e) / edge_n_air_[e], dze, x, n_air_[e - 1], n_air_[e]);
-      c.left_K = f.lower_K;
-      c.right_K = f.upper_K;
-      c.left_D = f.lower_D;
-      c.right_D = f.upper_D;
-    }
+void TransportOperator::check_boundary_kinds(std::size_t s) const {
+  const TransportSpecies& sp = species_[s];
+  const SpeciesBoundaries& b = bc_[s];
+  const auto bad_end = [&](const char* end, BoundaryKind k) {
+    return std::invalid_argument("TransportOperator: species " + sp.name + ": '" +
+                                 boundary_kind_name(k) + "' is not a " + end + " boundary");
+  };
+  switch (b.bottom.kind) {
+    case BoundaryKind::kEscapeVelocity:
+    case BoundaryKind::kJeans:
+    case BoundaryKind::kDiffusionLimited:
+      throw bad_end("bottom", b.bottom.kind);
+    default:
+      break;
+  }
+  if (b.top.kind == BoundaryKind::kDepositionVelocity) throw bad_end("top", b.top.kind);
+}
 
-    // Dirichlet boundaries: the ghost value sits on the boundary edge, half a cell from the
-    // nearest centre; the drift over that half cell uses the trapezoid rule.
-    const auto half_cell = [&](std::size_t edge, std::size_t cell) {
-      const double T_e = bg.edge_temperature_K[edge];
-      const double T_c = bg.temperature_K[cell];
-      const bool ghost_below = edge == 0;
-      const double h = ghost_below ? zc[cell] - ze[edge] : ze[edge] - zc[cell];
-      const double x =
-          0.5 * h * (inv_H(bg.edge_gravity_cm_s2[edge], T_e) + inv_H(bg.gravity_cm_s2[cell], T_c)) +
-          a_T * (ghost_below ? std::log(T_c / T_e) : std::log(T_e / T_c));
-      drift_[s * (N_ + 1) + edge] = x;
-      const double na_e = edge_n_air_[edge];
-      return fitted_flux(bg.edge_eddy_cm2_s[edge], na_e, sp.binary_diffusion(T_e) / na_e, h, x,
-                         ghost_below ? na_e : n_air_[cell], ghost_below ? n_air_[cell] : na_e);
-    };
-    if (dirichlet(b.bottom.kind)) {
-      EdgeCoef& c = coef_[s * (N_ + 1)];
-      const FluxPair f = half_cell(0, 0);
-      c.ghost_K = f.lower_K;
-      c.right_K = f.upper_K;
-      c.ghost_D = f.lower_D;
-      c.right_D = f.upper_D;
-    } else if (velocity(b.bottom.kind)) {
-      // Phi = v n_edge: the edge density follows from the same half-cell flux.
-      const FluxPair f = half_cell(0, 0);
-      half_cell_[s * 2] = HalfCell{f.upper_K + f.upper_D, f.lower_K + f.lower_D};
-    }
-    if (dirichlet(b.top.kind)) {
-      EdgeCoef& c = coef_[s * (N_ + 1) + N_];
-      const FluxPair f = half_cell(N_, N_ - 1);
-      c.left_K = f.lower_K;
-      c.ghost_K = f.upper_K;
-      c.left_D = f.lower_D;
-      c.ghost_D = f.upper_D;
-    } else if (velocity(b.top.kind)) {
-      const FluxPair f = half_cell(N_, N_ - 1);
-      half_cell_[s * 2 + 1] = HalfCell{f.lower_K + f.lower_D, f.upper_K + f.upper_D};
-    }
+void TransportOperator::set_interior_coefficients(const Background& bg, std::size_t s) {
+  const TransportSpecies& sp = species_[s];
+  const auto& zc = bg.grid.center_cm;
+  const double a_T = 1.0 + sp.thermal_diffusion;
+  for (std::size_t e = 1; e < N_; ++e) {
+    EdgeCoef& c = coef_[s * (N_ + 1) + e];
+    const double dze = zc[e] - zc[e - 1];
+    const double T_e = bg.edge_temperature_K[e];
+    const double x = dze * inverse_scale_height(sp, bg.edge_gravity_cm_s2[e], T_e) +
+                     a_T * std::log(bg.temperature_K[e] / bg.temperature_K[e - 1]);
+    drift_[s * (N_ + 1) + e] = x;
+    const FluxPair f =
+        fitted_flux(bg.edge_eddy_cm2_s[e], edge_n_air_[e],
+                    sp.binary_diffusion(T_e) / edge_n_air_[e], dze, x, n_air_[e - 1], n_air_[e]);
+    c.left_K = f.lower_K;
+    c.right_K = f.upper_K;
+    c.left_D = f.lower_D;
+    c.right_D = f.upper_D;
+  }
+}
 
-    // Escape velocities that do not change in time.
-    if (b.top.kind == BoundaryKind::kJeans) {
-      const double T = b.top.exobase_temperature_K > 0.0 ? b.top.exobase_temperature_K
-                                                         : bg.edge_temperature_K[N_];
-      top_velocity_[s] = jeans_velocity(sp.mass_g, T, bg.planet.radius_cm + ze[N_], M_planet);
-    } else if (b.top.kind == BoundaryKind::kDiffusionLimited) {
-      // Phi = b f / H_a = [b / (H_a n_a)] n on the top edge.
-      const double T = bg.edge_temperature_K[N_];
-      const double H_a = scale_height(T, bg.molecule_mass_g, bg.edge_gravity_cm_s2[N_]);
-      top_velocity_[s] = sp.binary_diffusion(T) / (H_a * edge_n_air_[N_]);
-    }
+void TransportOperator::set_boundary_coefficients(const Background& bg, std::size_t s) {
+  const TransportSpecies& sp = species_[s];
+  const SpeciesBoundaries& b = bc_[s];
+  double& drift_bottom = drift_[s * (N_ + 1)];
+  double& drift_top = drift_[s * (N_ + 1) + N_];
+  if (dirichlet(b.bottom.kind)) {
+    EdgeCoef& c = coef_[s * (N_ + 1)];
+    const FluxPair f = half_cell_flux(bg, sp, 0, 0, drift_bottom);
+    c.ghost_K = f.lower_K;
+    c.right_K = f.upper_K;
+    c.ghost_D = f.lower_D;
+    c.right_D = f.upper_D;
+  } else if (velocity(b.bottom.kind)) {
+    // Phi = v n_edge: the edge density follows from the same half-cell flux.
+    const FluxPair f = half_cell_flux(bg, sp, 0, 0, drift_bottom);
+    half_cell_[s * 2] = HalfCell{f.upper_K + f.upper_D, f.lower_K + f.lower_D};
+  }
+  if (dirichlet(b.top.kind)) {
+    EdgeCoef& c = coef_[s * (N_ + 1) + N_];
+    const FluxPair f = half_cell_flux(bg, sp, N_, N_ - 1, drift_top);
+    c.left_K = f.lower_K;
+    c.ghost_K = f.upper_K;
+    c.left_D = f.lower_D;
+    c.ghost_D = f.upper_D;
+  } else if (velocity(b.top.kind)) {
+    const FluxPair f = half_cell_flux(bg, sp, N_, N_ - 1, drift_top);
+    half_cell_[s * 2 + 1] = HalfCell{f.lower_K + f.lower_D, f.upper_K + f.upper_D};
+  }
+}
 
-    // Time-independent tridiagonal part of A (velocity boundaries are added per call).
-    for (std::size_t j = 0; j < N_; ++j) {
-      const EdgeCoef& cb = coef(s, j);
-      const EdgeCoef& ct = coef(s, j + 1);
-      const double L_b = cb.left_K + cb.left_D;
-      const double R_b = cb.right_K + cb.right_D;
-      const double L_t = ct.left_K + ct.left_D;
-      const double R_t = ct.right_K + ct.right_D;
-      lo_[s * N_ + j] = j > 0 ? L_b / dz_[j] : 0.0;
-      di_[s * N_ + j] = (R_b - L_t) / dz_[j];
-      up_[s * N_ + j] = j + 1 < N_ ? -R_t / dz_[j] : 0.0;
-    }
+void TransportOperator::set_escape_velocity(const Background& bg, std::size_t s, double M_planet) {
+  // Escape velocities that do not change in time.
+  const TransportSpecies& sp = species_[s];
+  const BoundaryCondition& top = bc_[s].top;
+  if (top.kind == BoundaryKind::kJeans) {
+    const double T =
+        top.exobase_temperature_K > 0.0 ? top.exobase_temperature_K : bg.edge_temperature_K[N_];
+    top_velocity_[s] =
+        jeans_velocity(sp.mass_g, T, bg.planet.radius_cm + bg.grid.edge_cm[N_], M_planet);
+  } else if (top.kind == BoundaryKind::kDiffusionLimited) {
+    // Phi = b f / H_a = [b / (H_a n_a)] n on the top edge.
+    const double T = bg.edge_temperature_K[N_];
+    const double H_a = scale_height(T, bg.molecule_mass_g, bg.edge_gravity_cm_s2[N_]);
+    top_velocity_[s] = sp.binary_diffusion(T) / (H_a * edge_n_air_[N_]);
+  }
+}
+
+void TransportOperator::assemble_matrix(std::size_t s) {
+  // Time-independent tridiagonal part of A (velocity boundaries are added per call).
+  for (std::size_t j = 0; j < N_; ++j) {
+    const EdgeCoef& cb = coef(s, j);
+    const EdgeCoef& ct = coef(s, j + 1);
+    const double L_b = cb.left_K + cb.left_D;
+    const double R_b = cb.right_K + cb.right_D;
+    const double L_t = ct.left_K + ct.left_D;
+    const double R_t = ct.right_K + ct.right_D;
+    lo_[s * N_ + j] = j > 0 ? L_b / dz_[j] : 0.0;
+    di_[s * N_ + j] = (R_b - L_t) / dz_[j];
+    up_[s * N_ + j] = j + 1 < N_ ? -R_t / dz_[j] : 0.0;
   }
 }
 

@@ -106,6 +106,12 @@ class TransportOperator final : public ColumnOperator {
   [[nodiscard]] const EdgeCoef& coef(std::size_t s, std::size_t e) const {
     return coef_[s * (N_ + 1) + e];
   }
+  // Construction steps for species s, in the order the constructor takes them.
+  void check_boundary_kinds(std::size_t s) const;
+  void set_interior_coefficients(const Background& bg, std::size_t s);
+  void set_boundary_coefficients(const Background& bg, std::size_t s);
+  void set_escape_velocity(const Background& bg, std::size_t s, double M_planet);
+  void assemble_matrix(std::size_t s);
   /// Ghost density (Dirichlet) or imposed flux at the boundary at time t.
   [[nodiscard]] double ghost_density(std::size_t s, bool top, double t) const;
   [[nodiscard]] double imposed_flux(std::size_t s, bool top, double t) const;

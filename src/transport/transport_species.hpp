@@ -23,6 +23,10 @@ struct TransportSpecies {
   [[nodiscard]] double binary_diffusion(double T_K) const;
 };
 
+/// The default binary-diffusion coefficient A_i = 1.52e18 (1/M_i + 1/M_a)^(1/2)
+/// (cm^-1 s^-1 K^-1/2) for masses in amu (the one place of this formula).
+double default_diffusion_A(double species_mass_amu, double air_mass_amu);
+
 /// A species with the default diffusion parameters above; `air_mass_amu` is the mean
 /// molecular mass of the background.
 TransportSpecies default_transport_species(const std::string& name, double mass_amu,
