@@ -487,11 +487,7 @@ int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
   const std::filesystem::path output = o.output.empty()
                                            ? std::filesystem::path(sc.name + "_ensemble.nc")
                                            : std::filesystem::path(o.output);
-  ObservationSet obs;
-  if (!sc.observations.empty()) {
-    obs = read_observations(sc.observations, units);
-    require_observed_species(obs, base_model.species());
-  }
+  const ObservationSet obs = read_model_observations(sc.observations, base_model, units);
   const std::vector<AttributionTarget> targets =
       attribution_targets(base_model, sc, obs, o.attribution, o.attribute);
   const InterruptGuard interrupt;

@@ -3,7 +3,25 @@
 // least squares (solve/fit.hpp), prints the best fit with one-sigma uncertainties, the
 // correlation matrix and the reduced chi-square, and writes them with the fitted profiles
 // to CF NetCDF. --check compares the chi-square gradient of the fit's Jacobian, 2 J^T r,
-// with central finite differences of the full steady solve.
+// with central finite differences of the full steady solve. --module-set fits each set of
+// modules and ranks the sets by AIC and BIC.
+//
+//   colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log
+//       -p "atmosphere.eddy_diffusion[58-71.9]:0.1:10:log" -o pyrene_fit.nc
+//   colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log --check --max-iterations 0
+//   mpirun -n 2 colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log
+//       --module-set base=base --module-set uv=base,h2so4_uv -o pyrene_fit.nc
+//
+// A single fit (fit_once) 1. loads and checks the scenario, the observations and the
+// parameters, 2. solves the steady state at the starting values, 3. checks the gradient
+// (--check), 4. fits, writes the file and prints the table. A comparison of module sets
+// 1. prepares every set, 2. fits the sets over the ranks, 3. ranks them on rank 0.
 #include <fmt/format.h>
 
 #include <algorithm>

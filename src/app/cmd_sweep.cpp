@@ -642,18 +642,6 @@ int sweep_exit_code(const SweepPlan& plan, const SweepResults& res, const SweepT
   return 0;
 }
 
-/// The sweep's observations (none without spec.observations); their species must be in the
-/// model (refused here, not as every variant failing).
-ObservationSet sweep_observations(const SweepSpec& spec, const ColumnModel& base_model,
-                                  const UnitSystem& units) {
-  ObservationSet obs;
-  if (!spec.observations.empty()) {
-    obs = read_observations(spec.observations, units);
-    require_observed_species(obs, base_model.species());
-  }
-  return obs;
-}
-
 /// The base state on every rank, then the variants to run over the ranks: their outcomes
 /// on rank 0. Merging pieces solves nothing (every outcome is carried), nor does a rank
 /// with nothing to run solve the base.
@@ -730,7 +718,7 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
   const std::vector<std::size_t> todo = variants_to_run(plan, carried);
   std::vector<OutputClaim> claims;
   if (world.rank == 0) claims = claim_outputs({plan.spec.output, plan.spec.table});
-  const ObservationSet obs = sweep_observations(plan.spec, base_model, units);
+  const ObservationSet obs = read_model_observations(plan.spec.observations, base_model, units);
   if (world.rank == 0) log_plan(o, plan, carried, todo.size(), world.size, *ctx.log);
   const InterruptGuard interrupt;
 
