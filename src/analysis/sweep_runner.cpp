@@ -67,7 +67,8 @@ class Unpacker {
 
  private:
   void need(std::size_t n) const {
-    if (static_cast<std::size_t>(end_ - p_) < n) throw std::runtime_error("sweep: truncated result buffer");
+    if (static_cast<std::size_t>(end_ - p_) < n)
+      throw std::runtime_error("sweep: truncated result buffer");
   }
   const char* p_;
   const char* end_;
@@ -101,18 +102,36 @@ VariantOutcome unpack(Unpacker& up) {
   return o;
 }
 
-}  // namespace
+/// One variant on this rank, timed; a runner that throws gives a failed outcome.
+VariantOutcome run_one(const Variant& v, const VariantRunner& run, int rank) {
+  const auto t0 = std::chrono::steady_clock::now();
+  VariantOutcome out;
+  try {
+    out = run(v);
+  } catch (const std::exception& e) {
+    out = VariantOutcome{};
+    out.converged = false;
+    out.reason = e.what();
+  }
+  out.index = v.index;
+  out.rank = rank;
+  out.wall_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return out;
+}
 
-std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
-                                         const VariantRunner& run, const VariantDone& done,
-                                         const std::function<bool()>& stop_requested,
-                                         const std::vector<std::size_t>* todo) {
-  int rank = 0, size = 1;
-  MPI_Comm_rank(comm, &rank);
-  MPI_Comm_size(comm, &size);
+/// What one rank ran: its outcomes, and whether it stopped on request.
+struct RankShare {
+  std::vector<VariantOutcome> mine;
+  bool stopped = false;
+};
 
-  // The shared counters on rank 0: the next variant to start, and the variants finished (for
-  // progress lines).
+/// Runs variants on this rank while any remain: the next index comes from the shared
+/// counters on rank 0 (the next variant to start, and the variants finished, for progress
+/// lines), incremented atomically.
+RankShare run_share(MPI_Comm comm, int rank, const std::vector<Variant>& variants,
+                    const VariantRunner& run, const VariantDone& done,
+                    const std::function<bool()>& stop_requested,
+                    const std::vector<std::size_t>* todo) {
   long* counter = nullptr;
   MPI_Win win;
   MPI_Win_allocate(rank == 0 ? static_cast<MPI_Aint>(2 * sizeof(long)) : 0, sizeof(long),
@@ -121,75 +140,73 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
   MPI_Barrier(comm);
   MPI_Win_lock_all(0, win);
 
-  std::vector<VariantOutcome> mine;
+  RankShare share;
   const long one = 1;
-  bool stopped = false;
+  const std::size_t to_run = todo ? todo->size() : variants.size();
   for (;;) {
     if (stop_requested && stop_requested()) {
-      stopped = true;
+      share.stopped = true;
       break;
     }
     long next = 0;
     MPI_Fetch_and_op(&one, &next, MPI_LONG, 0, 0, MPI_SUM, win);
     MPI_Win_flush(0, win);
-    const std::size_t to_run = todo ? todo->size() : variants.size();
     if (next < 0 || static_cast<std::size_t>(next) >= to_run) break;
     const std::size_t pick =
         todo ? (*todo)[static_cast<std::size_t>(next)] : static_cast<std::size_t>(next);
     if (pick >= variants.size()) throw std::runtime_error("sweep: variant index out of range");
     const Variant& v = variants[pick];
-
-    const auto t0 = std::chrono::steady_clock::now();
-    VariantOutcome out;
-    try {
-      out = run(v);
-    } catch (const std::exception& e) {
-      out = VariantOutcome{};
-      out.converged = false;
-      out.reason = e.what();
-    }
-    out.index = v.index;
-    out.rank = rank;
-    out.wall_seconds =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    VariantOutcome out = run_one(v, run, rank);
     long finished = 0;
     MPI_Fetch_and_op(&one, &finished, MPI_LONG, 0, 1, MPI_SUM, win);
     MPI_Win_flush(0, win);
     out.finished = static_cast<std::size_t>(finished) + 1;
     out.to_run = to_run;
     if (done) done(v, out);
-    mine.push_back(std::move(out));
+    share.mine.push_back(std::move(out));
   }
   MPI_Win_unlock_all(win);
   MPI_Win_free(&win);
+  return share;
+}
 
-  // Gather every rank's outcomes on rank 0.
-  Packer pk;
-  pk.put<std::uint8_t>(stopped ? 1 : 0);
-  pk.put<std::uint64_t>(mine.size());
-  for (const auto& o : mine) pack(pk, o);
-  int nbytes = static_cast<int>(pk.bytes().size());
-  std::vector<int> counts(static_cast<std::size_t>(size)), displs(static_cast<std::size_t>(size));
-  MPI_Gather(&nbytes, 1, MPI_INT, counts.data(), 1, MPI_INT, 0, comm);
+/// Every rank's packed share, concatenated on rank 0 (empty elsewhere), with each rank's
+/// byte count and offset.
+struct Gathered {
   std::vector<char> all;
+  std::vector<int> counts, displs;
+};
+
+Gathered gather_shares(MPI_Comm comm, int rank, int size, const RankShare& share) {
+  Packer pk;
+  pk.put<std::uint8_t>(share.stopped ? 1 : 0);
+  pk.put<std::uint64_t>(share.mine.size());
+  for (const auto& o : share.mine) pack(pk, o);
+  int nbytes = static_cast<int>(pk.bytes().size());
+  Gathered g;
+  g.counts.resize(static_cast<std::size_t>(size));
+  g.displs.resize(static_cast<std::size_t>(size));
+  MPI_Gather(&nbytes, 1, MPI_INT, g.counts.data(), 1, MPI_INT, 0, comm);
   if (rank == 0) {
     int total = 0;
     for (int r = 0; r < size; ++r) {
-      displs[static_cast<std::size_t>(r)] = total;
-      total += counts[static_cast<std::size_t>(r)];
+      g.displs[static_cast<std::size_t>(r)] = total;
+      total += g.counts[static_cast<std::size_t>(r)];
     }
-    all.resize(static_cast<std::size_t>(total));
+    g.all.resize(static_cast<std::size_t>(total));
   }
-  MPI_Gatherv(pk.bytes().data(), nbytes, MPI_CHAR, all.data(), counts.data(), displs.data(),
+  MPI_Gatherv(pk.bytes().data(), nbytes, MPI_CHAR, g.all.data(), g.counts.data(), g.displs.data(),
               MPI_CHAR, 0, comm);
-  if (rank != 0) return {};
+  return g;
+}
 
-  std::vector<VariantOutcome> outcomes(variants.size());
-  std::vector<bool> seen(variants.size(), false);
+/// Rank 0: the gathered outcomes in variant order; `seen` marks the variants that ran.
+/// Returns whether any rank stopped on request.
+bool unpack_shares(const Gathered& g, std::vector<VariantOutcome>& outcomes,
+                   std::vector<bool>& seen) {
   bool any_stopped = false;
-  for (int r = 0; r < size; ++r) {
-    Unpacker up(all.data() + displs[static_cast<std::size_t>(r)],
-                static_cast<std::size_t>(counts[static_cast<std::size_t>(r)]));
+  for (std::size_t r = 0; r < g.counts.size(); ++r) {
+    Unpacker up(g.all.data() + g.displs[r], static_cast<std::size_t>(g.counts[r]));
     any_stopped = (up.get<std::uint8_t>() != 0) || any_stopped;
     const auto n = up.get<std::uint64_t>();
     for (std::uint64_t i = 0; i < n; ++i) {
@@ -201,24 +218,50 @@ std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Varian
       outcomes[o.index] = std::move(o);
     }
   }
-  std::vector<bool> wanted(variants.size(), todo == nullptr);
+  return any_stopped;
+}
+
+/// The variants that did not run: skipped (outside `todo`), or interrupted before they
+/// started when a rank stopped; any other is an error.
+void mark_not_run(std::vector<VariantOutcome>& outcomes, const std::vector<bool>& seen,
+                  bool any_stopped, const std::vector<std::size_t>* todo) {
+  std::vector<bool> wanted(outcomes.size(), todo == nullptr);
   if (todo) {
     for (const auto i : *todo) wanted[i] = true;
   }
   for (std::size_t i = 0; i < seen.size(); ++i) {
-    if (!seen[i] && !wanted[i]) {
-      outcomes[i].index = i;
+    if (seen[i]) continue;
+    outcomes[i].index = i;
+    if (!wanted[i]) {
       outcomes[i].skipped = true;
-      continue;
-    }
-    if (!seen[i] && any_stopped) {
-      outcomes[i].index = i;
+    } else if (any_stopped) {
       outcomes[i].interrupted = true;
       outcomes[i].reason = "interrupted before it started";
-      continue;
+    } else {
+      throw std::runtime_error("sweep: variant " + std::to_string(i) + " never ran");
     }
-    if (!seen[i]) throw std::runtime_error("sweep: variant " + std::to_string(i) + " never ran");
   }
+}
+
+}  // namespace
+
+std::vector<VariantOutcome> run_variants(MPI_Comm comm, const std::vector<Variant>& variants,
+                                         const VariantRunner& run, const VariantDone& done,
+                                         const std::function<bool()>& stop_requested,
+                                         const std::vector<std::size_t>* todo) {
+  int rank = 0, size = 1;
+  MPI_Comm_rank(comm, &rank);
+  MPI_Comm_size(comm, &size);
+  // 1. Run variants on this rank while any remain.
+  const RankShare share = run_share(comm, rank, variants, run, done, stop_requested, todo);
+  // 2. Gather every rank's outcomes on rank 0.
+  const Gathered g = gather_shares(comm, rank, size, share);
+  if (rank != 0) return {};
+  // 3. Put them in variant order and account for the variants that did not run.
+  std::vector<VariantOutcome> outcomes(variants.size());
+  std::vector<bool> seen(variants.size(), false);
+  const bool any_stopped = unpack_shares(g, outcomes, seen);
+  mark_not_run(outcomes, seen, any_stopped, todo);
   return outcomes;
 }
 

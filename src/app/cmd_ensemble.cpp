@@ -8,6 +8,14 @@
 // adjoint sensitivities of the base state (analysis/attribution.hpp) and compared with the
 // ensemble's own variance there: here, not in `colchem sensitivity`, because the check needs
 // the members and both must use the same uncertainties and --sigmas.
+//
+//   colchem ensemble configs/pyrene_full.yaml -n 12 --seed 1 -o pyrene_ensemble.nc
+//   mpirun -n 2 colchem ensemble configs/pyrene_full.yaml -n 12 --seed 1   same file, 2 ranks
+//   colchem ensemble configs/pyrene_full.yaml -n 12 --attribute SO2@90     variance shares there
+//
+// run_ensemble() 1. loads the scenario, the observations and the attribution targets,
+// 2. solves the base state, 3. draws the members, 4. solves them over the ranks, 5. on
+// rank 0 computes the statistics and the attribution and writes the file.
 #include <mpi.h>
 
 #include <fmt/format.h>
@@ -23,6 +31,7 @@
 #include "analysis/observations.hpp"
 #include "analysis/score.hpp"
 #include "analysis/sweep_runner.hpp"
+#include "app/batch.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
@@ -407,13 +416,11 @@ std::vector<VariantOutcome> run_members(const Scenario& sc, const std::vector<do
     return solve_member(sc, std::span<const double>(z).subspan(v.index * R, R), sigmas, x0,
                         interrupt);
   };
-  BatchProgress batch(log, "ensemble members", progress_every);
-  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
-    batch.finished(r.finished, r.to_run);
+  const VariantDone line = [&](const Variant& v, const VariantOutcome& r) {
     log.debug("{} on rank {}: {} ({} iterations, {:.2f} s)", v.label, rank,
               r.converged ? "converged" : "FAILED: " + r.reason, r.iterations, r.wall_seconds);
   };
-  return run_variants(MPI_COMM_WORLD, members, runner, done);
+  return run_batch(members, runner, {log, "ensemble members", progress_every, line});
 }
 
 /// The ensemble's CF NetCDF file.
@@ -427,84 +434,104 @@ void write_ensemble_file(const std::filesystem::path& output, const Scenario& sc
   write_dataset(ds, output);
 }
 
+/// The draws: R standard normals for each of the M members, the same on every rank.
+struct Draws {
+  EnsembleSampling sampling = EnsembleSampling::kLatinHypercube;
+  std::size_t members = 0, reactions = 0;
+  std::vector<double> z;
+};
+
+Draws draw_members(const EnsembleCliOptions& o, const ColumnModel& base_model) {
+  Draws d;
+  d.reactions = base_model.chemistry().kinetics().mechanism().reactions.size();
+  d.members = o.members;
+  d.sampling =
+      o.sampling == "random" ? EnsembleSampling::kRandom : EnsembleSampling::kLatinHypercube;
+  d.z = draw_standard_normals(d.members, d.reactions, o.seed, d.sampling);
+  return d;
+}
+
+/// Statistics over the converged members: the percentiles, the scores against the
+/// observations, and the attribution at every target, one adjoint solve of the base state
+/// `x` each (a target whose adjoint fails is reported and left out).
+EnsembleResults ensemble_statistics(const EnsembleCliOptions& o, ColumnModel& base_model,
+                                    const Scenario& sc, const Draws& d,
+                                    const std::vector<double>& x, const ObservationSet& obs,
+                                    const std::vector<VariantOutcome>& outcomes,
+                                    const std::vector<AttributionTarget>& targets,
+                                    spdlog::logger& log) {
+  std::vector<std::vector<double>> values;
+  EnsembleResults res = ensemble_results(o, base_model, d.sampling, d.z, outcomes, values);
+  res.base_mole_fraction = mole_fractions(base_model, x);
+  res.percentile = ensemble_percentiles(values);
+  const auto& zc = base_model.background().grid.center_cm;
+  if (!obs.points.empty()) score_members(res, values, obs, zc, o.above_km);
+  for (const auto& t : targets) {
+    try {
+      res.attribution.push_back(attribute_target(base_model, sc, x, t, o.sigmas, values));
+    } catch (const RunError& e) {
+      log.warn("attribution left out: {}", e.what());
+    }
+  }
+  return res;
+}
+
 int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
   const PetscSession petsc;  // initialises MPI as well
-  int rank = 0, size = 1;
-  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
-  MPI_Comm_size(MPI_COMM_WORLD, &size);
+  const WorldRanks world = world_ranks();
   const UnitSystem units;
+
+  // 1. Load the scenario, the observations and the attribution targets (all checked before
+  //    any member is solved).
   const Scenario sc = load_scenario(o.config, o.sets, units);
   ColumnModel base_model(sc);
   require_steady_chemistry(sc, base_model, "an ensemble compares steady states");
   const std::filesystem::path output = o.output.empty()
                                            ? std::filesystem::path(sc.name + "_ensemble.nc")
                                            : std::filesystem::path(o.output);
-  ObservationSet obs;
-  if (!sc.observations.empty()) {
-    obs = read_observations(sc.observations, units);
-    require_observed_species(obs, base_model.species());  // before any member is solved
-  }
+  const ObservationSet obs = read_model_observations(sc.observations, base_model, units);
   const std::vector<AttributionTarget> targets =
       attribution_targets(base_model, sc, obs, o.attribution, o.attribute);
   const InterruptGuard interrupt;
 
-  // 1. The base state, solved on every rank (the same deterministic solve), from which
+  // 2. The base state, solved on every rank (the same deterministic solve), from which
   //    every member starts: members do not depend on which rank ran them.
   //    It starts cold from the scenario's initial state (no grid sequence).
   BaseStart start(o.config, o.sets);
   start.grid_sequencing = false;
-  start.progress = rank == 0;
+  start.progress = world.rank == 0;
   const BaseSolve base_solve =
       solve_steady_base(start, sc, base_model, units, ctx, interrupt, "base state");
   if (base_solve.exit_code != 0) return base_solve.exit_code;
   const RunOutcome& base = base_solve.run;
 
-  // 2. The draws: the same on every rank.
-  const Mechanism& mech = base_model.chemistry().kinetics().mechanism();
-  const std::size_t R = mech.reactions.size(), M = o.members;
-  const EnsembleSampling sampling =
-      o.sampling == "random" ? EnsembleSampling::kRandom : EnsembleSampling::kLatinHypercube;
-  const std::vector<double> z = draw_standard_normals(M, R, o.seed, sampling);
-  if (rank == 0) {
+  // 3. The draws, the same on every rank.
+  const Draws d = draw_members(o, base_model);
+  if (world.rank == 0) {
     ctx.log->info(
         "ensemble of {}: {} members ({} sampling, seed {}) of {} reactions on {} "
         "rank{}",
-        sc.name, M, sampling_name(sampling), o.seed, R, size, size == 1 ? "" : "s");
+        sc.name, d.members, sampling_name(d.sampling), o.seed, d.reactions, world.size,
+        plural(static_cast<std::size_t>(world.size)));
   }
 
-  // 3. The members.
+  // 4. The members over the ranks; their outcomes on rank 0.
   const std::vector<VariantOutcome> outcomes =
-      run_members(sc, z, M, R, o.sigmas, base.x, interrupt, *ctx.log, rank, o.progress_every);
+      run_members(sc, d.z, d.members, d.reactions, o.sigmas, base.x, interrupt, *ctx.log,
+                  world.rank, o.progress_every);
   if (interrupt.query()()) {
-    if (rank == 0) ctx.log->warn("interrupted: nothing written");
+    if (world.rank == 0) ctx.log->warn("interrupted: nothing written");
     return static_cast<int>(ExitCode::kInterrupted);
   }
-  if (rank != 0) return 0;
+  if (world.rank != 0) return 0;
 
-  // 4. Statistics over the converged members.
-  std::vector<std::vector<double>> values;
-  EnsembleResults res = ensemble_results(o, base_model, sampling, z, outcomes, values);
-  res.base_mole_fraction = mole_fractions(base_model, base.x);
-  res.percentile = ensemble_percentiles(values);
-  const auto& zc = base_model.background().grid.center_cm;
-  if (!obs.points.empty()) score_members(res, values, obs, zc, o.above_km);
-
-  // 5. Attribution: one adjoint solve of the base state per target.
-  //    A target whose adjoint fails is reported and left out; the ensemble is still written.
-  for (const auto& t : targets) {
-    try {
-      res.attribution.push_back(attribute_target(base_model, sc, base.x, t, o.sigmas, values));
-    } catch (const RunError& e) {
-      ctx.log->warn("attribution left out: {}", e.what());
-    }
-  }
-
-  write_ensemble_file(output, sc, base_model, res, size, ctx.command_line);
+  // 5. Statistics and attribution on rank 0; the file and the summary.
+  const EnsembleResults res =
+      ensemble_statistics(o, base_model, sc, d, base.x, obs, outcomes, targets, *ctx.log);
+  write_ensemble_file(output, sc, base_model, res, world.size, ctx.command_line);
   std::cout << ensemble_summary_text(res);
   ctx.log->info("wrote {}", output.string());
-  std::size_t ok = 0;
-  for (int c : res.converged) ok += c != 0 ? 1 : 0;
-  if (ok == 0) {
+  if (std::none_of(res.converged.begin(), res.converged.end(), [](int c) { return c != 0; })) {
     ctx.log->error("no member converged");
     return static_cast<int>(ExitCode::kNotConverged);
   }

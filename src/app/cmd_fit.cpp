@@ -3,7 +3,25 @@
 // least squares (solve/fit.hpp), prints the best fit with one-sigma uncertainties, the
 // correlation matrix and the reduced chi-square, and writes them with the fitted profiles
 // to CF NetCDF. --check compares the chi-square gradient of the fit's Jacobian, 2 J^T r,
-// with central finite differences of the full steady solve.
+// with central finite differences of the full steady solve. --module-set fits each set of
+// modules and ranks the sets by AIC and BIC.
+//
+//   colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log
+//       -p "atmosphere.eddy_diffusion[58-71.9]:0.1:10:log" -o pyrene_fit.nc
+//   colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log --check --max-iterations 0
+//   mpirun -n 2 colchem fit configs/pyrene_full.yaml
+//       --observations profiles/observed/pyrene_so2_invented.csv
+//       -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log
+//       --module-set base=base --module-set uv=base,h2so4_uv -o pyrene_fit.nc
+//
+// A single fit (fit_once) 1. loads and checks the scenario, the observations and the
+// parameters, 2. solves the steady state at the starting values, 3. checks the gradient
+// (--check), 4. fits, writes the file and prints the table. A comparison of module sets
+// 1. prepares every set, 2. fits the sets over the ranks, 3. ranks them on rank 0.
 #include <fmt/format.h>
 
 #include <algorithm>
@@ -20,6 +38,7 @@
 #include "analysis/resolution_runner.hpp"
 #include "analysis/sweep.hpp"
 #include "analysis/sweep_runner.hpp"
+#include "app/batch.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
@@ -68,14 +87,18 @@ double number(const std::string& text, bool& ok) {
   }
 }
 
-/// Resolves one --param against the model.
-FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
-                             const Scenario& sc) {
-  const SourceLocation where{sc.file.string()};
-  const auto bad = [&](const std::string& expected) {
+/// The refusal of one --param (exit 2): what was expected, and the text given.
+struct ParamError {
+  SourceLocation where;
+  std::string text;
+  [[nodiscard]] InputError operator()(const std::string& expected) const {
     return InputError(ExitCode::kUsage, where, "--param", expected, "'" + text + "'");
-  };
-  // The path may hold no ':'; the last two or three fields are the bounds and the flag.
+  }
+};
+
+/// PATH:MIN:MAX[:log]: the path, the bounds and the flag, checked (the path may hold no
+/// ':'; the last two or three fields are the bounds and the flag).
+FitParameter parse_bounds(const std::string& text, const ParamError& bad) {
   const auto fields = split(text, ':');
   if (fields.size() < 3 || fields.size() > 4) throw bad(kParamSyntax);
   FitParameter p;
@@ -90,89 +113,119 @@ FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
   }
   if (!(p.min < p.max)) throw bad("MIN < MAX");
   if (p.log && !(p.min > 0.0)) throw bad("MIN > 0 for a log parameter");
+  return p;
+}
 
-  const auto parts = split(p.path, '.');
-  const std::string& eddy = "atmosphere.eddy_diffusion";
-  if (parts.size() == 3 && parts[0] == "chemistry" && parts[1] == "parameters") {
-    const auto& defs = model.chemistry().kinetics().mechanism().parameters;
+/// chemistry.parameters.NAME: a named parameter of the mechanism.
+void resolve_named(FitParameter& p, const std::string& name, const ColumnModel& model,
+                   const ParamError& bad) {
+  const auto& defs = model.chemistry().kinetics().mechanism().parameters;
+  const auto it =
+      std::find_if(defs.begin(), defs.end(), [&](const auto& d) { return d.name == name; });
+  if (it == defs.end()) {
     std::string names;
-    for (std::size_t q = 0; q < defs.size(); ++q) {
-      names += (names.empty() ? "" : ", ") + defs[q].name;
-      if (defs[q].name == parts[2]) {
-        p.kind = FitKind::kNamed;
-        p.index = q;
-        p.initial = model.chemistry().kinetics().parameters()[q];
-      }
-    }
-    if (p.initial == 0.0 && p.kind == FitKind::kNamed &&
-        std::none_of(defs.begin(), defs.end(), [&](const auto& d) { return d.name == parts[2]; })) {
-      throw bad("a named parameter of the mechanism (" + (names.empty() ? "none" : names) + ")");
-    }
+    for (const auto& d : defs) names += (names.empty() ? "" : ", ") + d.name;
+    throw bad("a named parameter of the mechanism (" + (names.empty() ? "none" : names) + ")");
+  }
+  p.kind = FitKind::kNamed;
+  p.index = static_cast<std::size_t>(it - defs.begin());
+  p.initial = model.chemistry().kinetics().parameters()[p.index];
+}
+
+/// species.NAME.bottom.KIND / species.NAME.top.KIND: the single value of a boundary as the
+/// scenario sets it.
+void resolve_boundary(FitParameter& p, const std::vector<std::string>& parts,
+                      const ColumnModel& model, const ParamError& bad) {
+  const auto& names = model.species();
+  const auto it = std::find(names.begin(), names.end(), parts[1]);
+  if (it == names.end()) throw bad("a species of the model in species.NAME.bottom.KIND");
+  const auto s = static_cast<std::size_t>(it - names.begin());
+  if (model.held(s)) throw bad("a species that is not held fixed");
+  p.kind = FitKind::kBoundary;
+  p.index = s;
+  p.top = parts[2] == "top";
+  const BoundaryCondition& bc = p.top ? model.boundaries()[s].top : model.boundaries()[s].bottom;
+  const std::string kind = boundary_kind_name(bc.kind);
+  const bool valued = bc.kind == BoundaryKind::kMixingRatio || bc.kind == BoundaryKind::kDensity ||
+                      bc.kind == BoundaryKind::kFlux ||
+                      bc.kind == BoundaryKind::kDepositionVelocity ||
+                      bc.kind == BoundaryKind::kEscapeVelocity;
+  if (!valued || kind != parts[3] || bc.value.value.size() != 1) {
+    throw bad(fmt::format(
+        "the {} boundary of {} as it is set in the scenario: {}", parts[2], parts[1],
+        valued && bc.value.value.size() == 1 ? "species." + parts[1] + "." + parts[2] + "." + kind
+                                             : kind + " (no single value to fit)"));
+  }
+  p.initial = bc.value.value[0];
+}
+
+/// species.NAME.hold: a multiplier of the species' held profile.
+void resolve_held(FitParameter& p, const std::string& name, const ColumnModel& model,
+                  const ParamError& bad) {
+  const auto& names = model.species();
+  const auto it = std::find(names.begin(), names.end(), name);
+  const auto s = static_cast<std::size_t>(it - names.begin());
+  if (it == names.end() || !model.has_chemistry() || !model.chemistry().has_held_profile(s)) {
+    throw bad(
+        "a species with a held profile (species.NAME.hold in the scenario) in "
+        "species.NAME.hold");
+  }
+  p.kind = FitKind::kHeld;
+  p.index = s;
+  p.initial = 1.0;
+}
+
+/// atmosphere.eddy_diffusion[LO-HI] (`band`, empty for the whole column): a multiplier of K
+/// at the cell edges from LO to HI km.
+void resolve_eddy(FitParameter& p, const std::string& band, const ColumnModel& model,
+                  const ParamError& bad) {
+  const auto& edges = model.background().grid.edge_cm;
+  p.kind = FitKind::kEddy;
+  p.initial = 1.0;
+  if (band.empty()) {
+    p.edge_lo = 0;
+    p.edge_hi = model.cells();
+    return;
+  }
+  const auto dash = band.find('-', 2);
+  if (band.front() != '[' || band.back() != ']' || dash == std::string::npos) {
+    throw bad("atmosphere.eddy_diffusion[LO-HI] with LO and HI in km");
+  }
+  bool num_ok = true;
+  const double lo = number(band.substr(1, dash - 1), num_ok) * constants::kCmPerKm;
+  const double hi =
+      number(band.substr(dash + 1, band.size() - dash - 2), num_ok) * constants::kCmPerKm;
+  std::vector<std::size_t> in;
+  for (std::size_t e = 0; e < edges.size(); ++e) {
+    if (edges[e] >= lo && edges[e] <= hi) in.push_back(e);
+  }
+  if (!num_ok || in.empty()) {
+    throw bad(
+        fmt::format("atmosphere.eddy_diffusion[LO-HI] (km) holding at least one cell "
+                    "edge ({:.4g}-{:.4g} km)",
+                    edges.front() * 1e-5, edges.back() * 1e-5));
+  }
+  p.edge_lo = in.front();
+  p.edge_hi = in.back();
+}
+
+/// Resolves one --param against the model: 1. the bounds, 2. the path (named parameter,
+/// boundary value, held profile or K band), 3. a start within the bounds.
+FitParameter parse_parameter(const std::string& text, const ColumnModel& model,
+                             const Scenario& sc) {
+  const ParamError bad{SourceLocation{sc.file.string()}, text};
+  FitParameter p = parse_bounds(text, bad);
+  const auto parts = split(p.path, '.');
+  const std::string eddy = "atmosphere.eddy_diffusion";
+  if (parts.size() == 3 && parts[0] == "chemistry" && parts[1] == "parameters") {
+    resolve_named(p, parts[2], model, bad);
   } else if (parts.size() == 4 && parts[0] == "species" &&
              (parts[2] == "bottom" || parts[2] == "top")) {
-    const auto& names = model.species();
-    const auto it = std::find(names.begin(), names.end(), parts[1]);
-    if (it == names.end()) throw bad("a species of the model in species.NAME.bottom.KIND");
-    const auto s = static_cast<std::size_t>(it - names.begin());
-    if (model.held(s)) throw bad("a species that is not held fixed");
-    p.kind = FitKind::kBoundary;
-    p.index = s;
-    p.top = parts[2] == "top";
-    const BoundaryCondition& bc = p.top ? model.boundaries()[s].top : model.boundaries()[s].bottom;
-    const std::string kind = boundary_kind_name(bc.kind);
-    const bool valued = bc.kind == BoundaryKind::kMixingRatio ||
-                        bc.kind == BoundaryKind::kDensity || bc.kind == BoundaryKind::kFlux ||
-                        bc.kind == BoundaryKind::kDepositionVelocity ||
-                        bc.kind == BoundaryKind::kEscapeVelocity;
-    if (!valued || kind != parts[3] || bc.value.value.size() != 1) {
-      throw bad(fmt::format(
-          "the {} boundary of {} as it is set in the scenario: {}", parts[2], parts[1],
-          valued && bc.value.value.size() == 1 ? "species." + parts[1] + "." + parts[2] + "." + kind
-                                               : kind + " (no single value to fit)"));
-    }
-    p.initial = bc.value.value[0];
+    resolve_boundary(p, parts, model, bad);
   } else if (parts.size() == 3 && parts[0] == "species" && parts[2] == "hold") {
-    const auto& names = model.species();
-    const auto it = std::find(names.begin(), names.end(), parts[1]);
-    const auto s = static_cast<std::size_t>(it - names.begin());
-    if (it == names.end() || !model.has_chemistry() || !model.chemistry().has_held_profile(s)) {
-      throw bad(
-          "a species with a held profile (species.NAME.hold in the scenario) in "
-          "species.NAME.hold");
-    }
-    p.kind = FitKind::kHeld;
-    p.index = s;
-    p.initial = 1.0;
+    resolve_held(p, parts[1], model, bad);
   } else if (p.path.rfind(eddy, 0) == 0) {
-    const auto& edges = model.background().grid.edge_cm;
-    p.kind = FitKind::kEddy;
-    p.initial = 1.0;
-    const std::string rest = p.path.substr(eddy.size());
-    if (rest.empty()) {
-      p.edge_lo = 0;
-      p.edge_hi = model.cells();
-    } else {
-      const auto dash = rest.find('-', 2);
-      if (rest.front() != '[' || rest.back() != ']' || dash == std::string::npos) {
-        throw bad("atmosphere.eddy_diffusion[LO-HI] with LO and HI in km");
-      }
-      bool num_ok = true;
-      const double lo = number(rest.substr(1, dash - 1), num_ok) * constants::kCmPerKm;
-      const double hi =
-          number(rest.substr(dash + 1, rest.size() - dash - 2), num_ok) * constants::kCmPerKm;
-      std::vector<std::size_t> in;
-      for (std::size_t e = 0; e < edges.size(); ++e) {
-        if (edges[e] >= lo && edges[e] <= hi) in.push_back(e);
-      }
-      if (!num_ok || in.empty()) {
-        throw bad(
-            fmt::format("atmosphere.eddy_diffusion[LO-HI] (km) holding at least one cell "
-                        "edge ({:.4g}-{:.4g} km)",
-                        edges.front() * 1e-5, edges.back() * 1e-5));
-      }
-      p.edge_lo = in.front();
-      p.edge_hi = in.back();
-    }
+    resolve_eddy(p, p.path.substr(eddy.size()), model, bad);
   } else {
     throw bad(kParamSyntax);
   }
@@ -516,20 +569,16 @@ int fit_single(const FitCliOptions& o, Context& ctx) {
   return fit_once(o, f, ctx, std::cout, nullptr);
 }
 
-/// Each module set fitted, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE Trans.
-/// Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6, 461), k
-/// the set's fitted parameters and N the observed points; with Gaussian errors of known
-/// sigma -2 ln L_max = chi2_min + a constant the sets share (the same data). Under mpirun
-/// the sets are distributed over the ranks as a sweep's variants are (run_variants: the next
-/// set goes to the next free rank); each fit starts from its own scenario's steady state,
-/// so its result does not depend on the rank that ran it, and the table is the same on any
-/// number of ranks.
-int compare_module_sets(const FitCliOptions& o, Context& ctx) {
-  struct Set {
-    std::string label, modules;
-    FitSetup setup;
-  };
-  std::vector<Set> sets;
+/// One module set of a comparison: its label, its modules ("a, b") and its fit's inputs.
+struct ModuleSet {
+  std::string label, modules;
+  FitSetup setup;
+};
+
+/// The --module-set LABEL=MODULE,MODULE,... options (each label once) and the labels of the
+/// --module-param LABEL=PATH:MIN:MAX[:log] options, checked; the fits are not set up yet.
+std::vector<ModuleSet> parse_module_sets(const FitCliOptions& o) {
+  std::vector<ModuleSet> sets;
   const SourceLocation where{o.config};
   for (const auto& spec : o.module_sets) {
     const auto eq = spec.find('=');
@@ -537,7 +586,7 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
       throw InputError(ExitCode::kUsage, where, "--module-set", "LABEL=MODULE,MODULE,...",
                        "'" + spec + "'");
     }
-    Set set;
+    ModuleSet set;
     set.label = spec.substr(0, eq);
     for (const auto& r : sets) {
       if (r.label == set.label) {
@@ -557,13 +606,18 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
                        "'" + m + "'");
     }
     const std::string label = m.substr(0, e);
-    if (std::none_of(sets.begin(), sets.end(), [&](const Set& r) { return r.label == label; })) {
+    if (std::none_of(sets.begin(), sets.end(),
+                     [&](const ModuleSet& r) { return r.label == label; })) {
       throw InputError(ExitCode::kUsage, where, "--module-param", "the LABEL of a --module-set",
                        "'" + label + "'");
     }
   }
-  // Every set's scenario, observations and parameters are checked on every rank before any
-  // solve (the same checks everywhere, so every rank stops alike on a bad input).
+  return sets;
+}
+
+/// Every set's scenario (its modules switched on), observations and parameters (the -p ones
+/// and its own), checked, with its output OUTPUT_STEM.LABEL.nc; one variant per set.
+std::vector<Variant> prepare_module_sets(const FitCliOptions& o, std::vector<ModuleSet>& sets) {
   std::vector<Variant> variants;
   for (auto& set : sets) {
     std::vector<std::string> overrides = o.sets;
@@ -584,70 +638,55 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
     v.module_label = set.label;
     variants.push_back(v);
   }
+  return variants;
+}
 
-  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
-  const InterruptGuard interrupt;
-  int rank = 0, size = 1;
-  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
-  MPI_Comm_size(MPI_COMM_WORLD, &size);
-  if (rank == 0) {
-    ctx.log->info("fit: {} module sets on {} rank{}", sets.size(), size, size == 1 ? "" : "s");
+/// Fits one module set, printing its block on standard output in one piece; the outcome's
+/// values are chi2_min, N, k and the fit's exit code.
+VariantOutcome fit_module_set(const FitCliOptions& o, ModuleSet& set, Context& ctx, int rank) {
+  std::ostringstream text;
+  text << fmt::format("=== module set {} (modules {}) on rank {}\n", set.label, set.modules, rank);
+  VariantOutcome result;
+  FitSummary fit;
+  int code = 0;
+  try {
+    code = fit_once(o, set.setup, ctx, text, &fit);
+    result.reason = fit.converged ? "converged" : "fit not converged";
+  } catch (const InputError& e) {
+    code = static_cast<int>(e.code());
+    result.reason = e.what();
+  } catch (const RunError& e) {
+    code = static_cast<int>(e.code());
+    result.reason = e.what();
   }
-  // The outcome's values: chi2_min, N, k, the fit's exit code.
-  const VariantRunner runner = [&](const Variant& v) {
-    Set& set = sets[v.index];
-    std::ostringstream text;
-    text << fmt::format("=== module set {} (modules {}) on rank {}\n", set.label, set.modules,
-                        rank);
-    VariantOutcome result;
-    FitSummary fit;
-    int code = 0;
-    try {
-      code = fit_once(o, set.setup, ctx, text, &fit);
-      result.reason = fit.converged ? "converged" : "fit not converged";
-    } catch (const InputError& e) {
-      code = static_cast<int>(e.code());
-      result.reason = e.what();
-    } catch (const RunError& e) {
-      code = static_cast<int>(e.code());
-      result.reason = e.what();
-    }
-    if (code == static_cast<int>(ExitCode::kNotConverged) && fit.points == 0) {
-      result.reason = "no steady state at the starting values";
-    }
-    result.converged = fit.converged && code == 0;
-    result.interrupted = code == static_cast<int>(ExitCode::kInterrupted);
-    result.values = {fit.points > 0 ? fit.chi2 : std::numeric_limits<double>::quiet_NaN(),
-                     static_cast<double>(fit.points), static_cast<double>(fit.parameters),
-                     static_cast<double>(code)};
-    text << "\n";
-    std::cout << text.str() << std::flush;  // one block per set, whatever the rank
-    return result;
-  };
-  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
-    ctx.log->info("module set {} ({}/{}) on rank {}: {} ({:.2f} s)", v.label, v.index + 1,
-                  variants.size(), rank, r.converged ? "converged" : r.reason, r.wall_seconds);
-  };
-  const std::vector<VariantOutcome> outcomes =
-      run_variants(MPI_COMM_WORLD, variants, runner, done, interrupt.query());
-  // The other ranks wait for rank 0's exit code (as a sweep's do).
-  if (rank != 0) {
-    int code = 0;
-    MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
-    return code;
+  if (code == static_cast<int>(ExitCode::kNotConverged) && fit.points == 0) {
+    result.reason = "no steady state at the starting values";
   }
+  result.converged = fit.converged && code == 0;
+  result.interrupted = code == static_cast<int>(ExitCode::kInterrupted);
+  result.values = {fit.points > 0 ? fit.chi2 : std::numeric_limits<double>::quiet_NaN(),
+                   static_cast<double>(fit.points), static_cast<double>(fit.parameters),
+                   static_cast<double>(code)};
+  text << "\n";
+  std::cout << text.str() << std::flush;  // one block per set, whatever the rank
+  return result;
+}
 
-  struct Row {
-    std::string label;
-    double chi2 = 0.0, points = 0.0, k = 0.0;
-    int status = 0;
-    std::string reason;
-    bool converged = false;
-  };
-  std::vector<Row> rows;
+/// One row of the ranking: a set's chi2_min, N, k and how its fit ended.
+struct SetRow {
+  std::string label;
+  double chi2 = 0.0, points = 0.0, k = 0.0;
+  int status = 0;
+  std::string reason;
+  bool converged = false;
+};
+
+std::vector<SetRow> set_rows(const std::vector<ModuleSet>& sets,
+                             const std::vector<VariantOutcome>& outcomes) {
+  std::vector<SetRow> rows;
   for (std::size_t i = 0; i < sets.size(); ++i) {
     const VariantOutcome& r = outcomes[i];
-    Row row;
+    SetRow row;
     row.label = sets[i].label;
     row.converged = r.converged;
     row.reason = r.reason;
@@ -662,12 +701,19 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
     }
     rows.push_back(row);
   }
-  double best_aic = std::numeric_limits<double>::infinity(), best_bic = best_aic;
+  return rows;
+}
+
+/// Prints the sets ranked by AIC with BIC and the Akaike weights; returns the exit code of
+/// the best-ranked set whose fit did not end in 0, else 0.
+int print_ranking(const std::vector<SetRow>& rows) {
+  const double inf = std::numeric_limits<double>::infinity();
+  double best_aic = inf, best_bic = inf;
   std::vector<double> aic, bic;
   for (const auto& r : rows) {
     const bool ok = std::isfinite(r.chi2) && r.points > 0.0;
-    aic.push_back(ok ? r.chi2 + 2.0 * r.k : std::numeric_limits<double>::infinity());
-    bic.push_back(ok ? r.chi2 + r.k * std::log(r.points) : std::numeric_limits<double>::infinity());
+    aic.push_back(ok ? r.chi2 + 2.0 * r.k : inf);
+    bic.push_back(ok ? r.chi2 + r.k * std::log(r.points) : inf);
     best_aic = std::min(best_aic, aic.back());
     best_bic = std::min(best_bic, bic.back());
   }
@@ -685,7 +731,7 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
   int status = 0;
   for (std::size_t i = 0; i < order.size(); ++i) {
     const std::size_t r = order[i];
-    const Row& row = rows[r];
+    const SetRow& row = rows[r];
     std::cout << fmt::format(
         "{:>4}  {:<24} {:>12.6g} {:>3} {:>4} {:>12.6g} {:>8.3f} {:>12.6g} {:>8.3f} {:>8.4f}  {}\n",
         i + 1, row.label, row.chi2, static_cast<std::size_t>(row.k),
@@ -699,8 +745,45 @@ int compare_module_sets(const FitCliOptions& o, Context& ctx) {
     if (status == 0) status = row.status;
   }
   std::cout << std::flush;
-  MPI_Bcast(&status, 1, MPI_INT, 0, MPI_COMM_WORLD);
   return status;
+}
+
+/// Each module set fitted, then ranked: AIC = chi2_min + 2k (Akaike 1974, IEEE Trans.
+/// Autom. Control 19, 716) and BIC = chi2_min + k ln N (Schwarz 1978, Ann. Stat. 6, 461), k
+/// the set's fitted parameters and N the observed points; with Gaussian errors of known
+/// sigma -2 ln L_max = chi2_min + a constant the sets share (the same data). Under mpirun
+/// the sets are distributed over the ranks as a sweep's variants are (run_variants: the next
+/// set goes to the next free rank); each fit starts from its own scenario's steady state,
+/// so its result does not depend on the rank that ran it, and the table is the same on any
+/// number of ranks.
+int compare_module_sets(const FitCliOptions& o, Context& ctx) {
+  // 1. Every set's scenario, observations and parameters, checked on every rank before any
+  //    solve (the same checks everywhere, so every rank stops alike on a bad input).
+  std::vector<ModuleSet> sets = parse_module_sets(o);
+  const std::vector<Variant> variants = prepare_module_sets(o, sets);
+
+  // 2. The fits over the ranks; the outcomes on rank 0.
+  const PetscSession petsc;  // one for every fit (PETSc initialises once per process)
+  const InterruptGuard interrupt;
+  const WorldRanks world = world_ranks();
+  if (world.rank == 0) {
+    ctx.log->info("fit: {} module sets on {} rank{}", sets.size(), world.size,
+                  plural(static_cast<std::size_t>(world.size)));
+  }
+  const VariantRunner runner = [&](const Variant& v) {
+    return fit_module_set(o, sets[v.index], ctx, world.rank);
+  };
+  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
+    ctx.log->info("module set {} ({}/{}) on rank {}: {} ({:.2f} s)", v.label, v.index + 1,
+                  variants.size(), world.rank, r.converged ? "converged" : r.reason,
+                  r.wall_seconds);
+  };
+  const std::vector<VariantOutcome> outcomes =
+      run_variants(MPI_COMM_WORLD, variants, runner, done, interrupt.query());
+  if (world.rank != 0) return exit_code_of_rank0(0);
+
+  // 3. Rank 0 ranks the sets; every rank exits with its code.
+  return exit_code_of_rank0(print_ranking(set_rows(sets, outcomes)));
 }
 
 }  // namespace

@@ -1,6 +1,18 @@
 // colchem sweep SWEEP.yaml: run every variant of a scenario (module combinations x parameter
 // grids x config overrides), on one process or under mpirun, score each against the
 // observations, and write one NetCDF with a variant dimension plus a ranked table.
+//
+//   colchem sweep configs/pyrene_sweep.yaml --dry-run             list the variants, solve nothing
+//   mpirun -n 4 colchem sweep configs/pyrene_sweep.yaml            every variant over 4 ranks
+//   colchem sweep configs/pyrene_sweep.yaml --variants 0:4 -o a.nc --table a.csv
+//   colchem sweep configs/pyrene_sweep.yaml --variants 4: -o b.nc --table b.csv
+//   colchem sweep configs/pyrene_sweep.yaml --merge a.nc b.nc     join pieces, solve nothing
+//   colchem sweep configs/pyrene_sweep.yaml --resume out/pyrene_sweep.nc   finish an interrupted
+//   one
+//
+// run_sweep() 1. loads the sweep and its base scenario, 2. plans the variants, 3. picks
+// this piece's variants and the results carried over, 4. solves the base state and runs
+// the variants over the ranks, 5. writes the sweep file and the ranked table on rank 0.
 #include <mpi.h>
 
 #include <fmt/format.h>
@@ -20,6 +32,7 @@
 #include "analysis/observations.hpp"
 #include "analysis/score.hpp"
 #include "analysis/sweep_runner.hpp"
+#include "app/batch.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "chem/kinetics.hpp"
@@ -173,13 +186,8 @@ std::string one_line(const std::vector<std::string>& v) {
   return fmt::format("{}", fmt::join(v, " "));
 }
 
-int run_sweep(const SweepCliOptions& o, Context& ctx) {
-  const PetscSession petsc;  // initialises MPI as well
-  int rank = 0, size = 1;
-  MPI_Comm_rank(MPI_COMM_WORLD, &rank);
-  MPI_Comm_size(MPI_COMM_WORLD, &size);
-  const UnitSystem units;
-  SweepSpec spec = load_sweep(o.file, o.sets);
+/// The option combinations a sweep refuses (exit 2).
+void require_option_combination(const SweepCliOptions& o) {
   if (!o.resume.empty() && !o.merge.empty()) {
     throw InputError(ExitCode::kUsage, SourceLocation{"command line"}, "--merge",
                      "either --resume or --merge", "both");
@@ -193,45 +201,42 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
                      "--merge without --variants (the merged file holds every variant)",
                      "--variants " + o.variants);
   }
-  std::vector<Variant> variants = expand_variants(spec);
+}
 
-  // The base scenario fixes the grid and species every variant must share.
-  const Scenario base = load_scenario(spec.scenario, spec.common_overrides, units);
-  ColumnModel base_model(base);
+/// Refuses a module or parameter `name` that mechanism `mech` lacks (exit 3), suggesting
+/// the nearest of `all`.
+[[noreturn]] void refuse_unknown(const SourceLocation& where, const std::string& key_path,
+                                 const std::string& what, const Mechanism& mech,
+                                 const std::vector<std::string>& all, const std::string& name) {
+  const auto near = nearest_word(name, all);
+  throw InputError(ExitCode::kConfig, where, key_path,
+                   "a " + what + " of mechanism '" + mech.name + "' (" +
+                       fmt::format("{}", fmt::join(all, ", ")) + ")",
+                   "unknown " + what + " '" + name + "'",
+                   near ? "did you mean '" + *near + "'?" : std::string{});
+}
+
+/// The base scenario has chemistry, every module a variant switches on exists in its
+/// mechanism, every swept parameter exists and every value lies within its bounds: refused
+/// here (exit 3), not as every variant failing.
+void require_sweepable(const SweepSpec& spec, const Scenario& base, const ColumnModel& base_model) {
   if (!base_model.has_chemistry()) {
     throw InputError(ExitCode::kConfig, SourceLocation{spec.scenario.string()}, "chemistry",
                      "a scenario with a chemistry section", "none");
   }
-  // Every module a variant switches on exists in the mechanism: refused here (exit 3), not
-  // as every variant failing.
   const Mechanism& mech = *base.chemistry.mechanism;
+  std::vector<std::string> modules, parameters;
+  for (const auto& md : mech.modules) modules.push_back(md.name);
+  for (const auto& p : mech.parameters) parameters.push_back(p.name);
   for (const auto& ms : spec.module_sets) {
     for (const auto& name : ms.modules) {
-      if (mech.module_index(name)) continue;
-      std::vector<std::string> all;
-      for (const auto& md : mech.modules) all.push_back(md.name);
-      const auto near = nearest_word(name, all);
-      throw InputError(ExitCode::kConfig, ms.where, ms.key_path,
-                       "a module of mechanism '" + mech.name + "' (" +
-                           fmt::format("{}", fmt::join(all, ", ")) + ")",
-                       "unknown module '" + name + "'",
-                       near ? "did you mean '" + *near + "'?" : std::string{});
+      if (!mech.module_index(name))
+        refuse_unknown(ms.where, ms.key_path, "module", mech, modules, name);
     }
   }
-  // Every swept parameter exists and every value lies within its bounds: refused here
-  // (exit 3), not as every variant failing.
   for (const auto& a : spec.axes) {
     const auto idx = mech.parameter_index(a.name);
-    if (!idx) {
-      std::vector<std::string> all;
-      for (const auto& p : mech.parameters) all.push_back(p.name);
-      const auto near = nearest_word(a.name, all);
-      throw InputError(ExitCode::kConfig, a.where, a.key_path,
-                       "a parameter of mechanism '" + mech.name + "' (" +
-                           fmt::format("{}", fmt::join(all, ", ")) + ")",
-                       "unknown parameter '" + a.name + "'",
-                       near ? "did you mean '" + *near + "'?" : std::string{});
-    }
+    if (!idx) refuse_unknown(a.where, a.key_path, "parameter", mech, parameters, a.name);
     const Parameter& p = mech.parameters[*idx];
     for (const double x : a.values) {
       if (!(x >= p.min && x <= p.max)) {
@@ -241,250 +246,326 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
       }
     }
   }
-  // A parameter that acts on no reaction of a variant (its module switched off) does not
-  // make a variant of its own: such variants are merged.
-  if (!spec.axes.empty()) {
-    std::map<std::pair<std::size_t, std::size_t>, std::set<std::string>> acting;
-    for (const auto& v : variants) {
-      const auto key = std::make_pair(v.module_set, v.override_set);
-      if (!acting.contains(key)) acting.emplace(key, acting_parameters(spec, v, units));
-    }
-    const std::size_t before = variants.size();
-    std::vector<std::string> dropped;
-    const std::size_t merged = merge_duplicate_variants(
-        variants,
-        [&](const Variant& v, const std::string& p) {
-          return acting.at({v.module_set, v.override_set}).contains(p);
-        },
-        &dropped);
-    if (merged > 0 && rank == 0) {
-      ctx.log->info(
-          "merged {} duplicate variant{} of {} (parameters that act on no reaction of the "
-          "variant; module set: parameter): {}",
-          merged, merged == 1 ? "" : "s", before, fmt::join(dropped, ", "));
-    }
+}
+
+/// A parameter that acts on no reaction of a variant (its module switched off) does not
+/// make a variant of its own: such variants are merged (logged on rank 0).
+void merge_inert_variants(const SweepSpec& spec, std::vector<Variant>& variants,
+                          const UnitSystem& units, spdlog::logger& log, int rank) {
+  if (spec.axes.empty()) return;
+  std::map<std::pair<std::size_t, std::size_t>, std::set<std::string>> acting;
+  for (const auto& v : variants) {
+    const auto key = std::make_pair(v.module_set, v.override_set);
+    if (!acting.contains(key)) acting.emplace(key, acting_parameters(spec, v, units));
   }
-  const std::string definition = sweep_definition(spec, base, variants);
+  const std::size_t before = variants.size();
+  std::vector<std::string> dropped;
+  const std::size_t merged = merge_duplicate_variants(
+      variants,
+      [&](const Variant& v, const std::string& p) {
+        return acting.at({v.module_set, v.override_set}).contains(p);
+      },
+      &dropped);
+  if (merged > 0 && rank == 0) {
+    log.info(
+        "merged {} duplicate variant{} of {} (parameters that act on no reaction of the "
+        "variant; module set: parameter): {}",
+        merged, plural(merged), before, fmt::join(dropped, ", "));
+  }
+}
+
+/// --dry-run: the variants (index, modules, parameters, overrides) and their count.
+void print_variants(const SweepSpec& spec, const std::vector<Variant>& variants,
+                    const std::string& definition) {
   const std::size_t V = variants.size();
-
-  if (o.dry_run) {
-    if (rank == 0) {
-      std::cout << fmt::format("sweep {}: {} variants (definition {})\n", spec.name, V,
-                               text_digest(definition));
-      std::cout << "variant\tmodules\tparameters\toverrides\n";
-      for (const auto& v : variants) {
-        std::vector<std::string> params;
-        // Readable here; the overrides column carries the exact values.
-        for (const auto& [n, x] : v.parameters) params.push_back(fmt::format("{}={:.6g}", n, x));
-        std::cout << fmt::format(
-            "{}\t{}\t{}\t{}\n", v.index,
-            v.modules.empty() ? v.module_label : fmt::format("{}", fmt::join(v.modules, "+")),
-            params.empty() ? "-" : one_line(params),
-            v.overrides.empty() ? "-" : fmt::format("{}", fmt::join(v.overrides, " | ")));
-      }
-      std::cout << fmt::format("{} variants\n", V);
-    }
-    return 0;
+  std::cout << fmt::format("sweep {}: {} variants (definition {})\n", spec.name, V,
+                           text_digest(definition));
+  std::cout << "variant\tmodules\tparameters\toverrides\n";
+  for (const auto& v : variants) {
+    std::vector<std::string> params;
+    // Readable here; the overrides column carries the exact values.
+    for (const auto& [n, x] : v.parameters) params.push_back(fmt::format("{}={:.6g}", n, x));
+    std::cout << fmt::format(
+        "{}\t{}\t{}\t{}\n", v.index,
+        v.modules.empty() ? v.module_label : fmt::format("{}", fmt::join(v.modules, "+")),
+        params.empty() ? "-" : one_line(params),
+        v.overrides.empty() ? "-" : fmt::format("{}", fmt::join(v.overrides, " | ")));
   }
+  std::cout << fmt::format("{} variants\n", V);
+}
 
-  // A piece of the sweep (job arrays): variants [lo, hi) only, into its own files.
-  std::size_t lo = 0, hi = V;
-  const bool piece = !o.variants.empty();
-  if (piece) {
-    std::tie(lo, hi) = parse_variant_range(o.variants, V);
+/// What the sweep runs and where it writes: the variants, the definition that makes two
+/// runs the same sweep, and the range [lo, hi) of a piece (job arrays; every variant
+/// otherwise).
+struct SweepPlan {
+  SweepSpec spec;
+  std::vector<Variant> variants;
+  std::string definition;
+  std::size_t lo = 0, hi = 0;
+  bool piece = false;
+};
+
+/// A piece of the sweep (--variants) runs variants [lo, hi) only, into its own files
+/// (FILE.variants-LO-HI.EXT unless -o / --table name them).
+void choose_piece(const SweepCliOptions& o, SweepPlan& plan) {
+  plan.lo = 0;
+  plan.hi = plan.variants.size();
+  plan.piece = !o.variants.empty();
+  if (plan.piece) {
+    std::tie(plan.lo, plan.hi) = parse_variant_range(o.variants, plan.variants.size());
     const auto piece_name = [&](const std::filesystem::path& p) {
       std::filesystem::path q = p;
-      q.replace_extension(fmt::format(".variants-{}-{}{}", lo, hi, p.extension().string()));
+      q.replace_extension(
+          fmt::format(".variants-{}-{}{}", plan.lo, plan.hi, p.extension().string()));
       return q;
     };
-    if (o.output.empty()) spec.output = piece_name(spec.output);
-    if (o.table.empty()) spec.table = piece_name(spec.table);
+    if (o.output.empty()) plan.spec.output = piece_name(plan.spec.output);
+    if (o.table.empty()) plan.spec.table = piece_name(plan.spec.table);
   }
-  if (!o.output.empty()) spec.output = o.output;
-  if (!o.table.empty()) spec.table = o.table;
+  if (!o.output.empty()) plan.spec.output = o.output;
+  if (!o.table.empty()) plan.spec.table = o.table;
+}
 
-  // Results carried over from earlier files (--resume) or pieces (--merge).
-  std::vector<std::optional<VariantOutcome>> carried(V);
-  std::vector<std::string> carried_from(V);
+/// Results carried over from earlier files (--resume) or pieces (--merge), per variant,
+/// with the file each came from.
+struct Carried {
+  std::vector<std::optional<VariantOutcome>> outcome;
+  std::vector<std::string> from;
+  [[nodiscard]] std::size_t count() const {
+    return static_cast<std::size_t>(
+        std::count_if(outcome.begin(), outcome.end(), [](const auto& c) { return c.has_value(); }));
+  }
+};
+
+/// The finished variants of the --resume files or the --merge pieces (refusing files of
+/// another definition and, when merging, a variant in two pieces).
+Carried carry_results(const SweepCliOptions& o, const SweepPlan& plan) {
+  const std::size_t V = plan.variants.size();
+  Carried c{std::vector<std::optional<VariantOutcome>>(V), std::vector<std::string>(V)};
   const bool merging = !o.merge.empty();
   for (const auto& f : merging ? o.merge : o.resume) {
     const SweepFileRecord rec = read_sweep_file(f);
-    require_same_definition(rec, definition, variants, merging ? "--merge" : "--resume");
+    require_same_definition(rec, plan.definition, plan.variants, merging ? "--merge" : "--resume");
     for (std::size_t v = 0; v < V; ++v) {
       const VariantState st = rec.state[v];
       const bool finished = st == VariantState::kConverged ||
                             (st == VariantState::kFailed && (merging || !o.retry_failed));
       if (!finished) continue;
-      if (carried[v]) {
+      if (c.outcome[v]) {
         if (merging) {
           throw InputError(ExitCode::kInputData, SourceLocation{f}, "--merge",
                            "pieces that each hold a variant at most once",
-                           fmt::format("variant {} also in {}", v, carried_from[v]));
+                           fmt::format("variant {} also in {}", v, c.from[v]));
         }
         continue;
       }
-      carried[v] = rec.outcomes[v];
-      carried_from[v] = f;
+      c.outcome[v] = rec.outcomes[v];
+      c.from[v] = f;
     }
   }
-  if (merging) {
-    std::vector<std::string> missing;
-    for (std::size_t v = 0; v < V; ++v) {
-      if (!carried[v]) missing.push_back(std::to_string(v));
-    }
-    if (!missing.empty()) {
-      if (missing.size() > 20) {
-        const auto n = missing.size();
-        missing.resize(20);
-        missing.push_back(fmt::format("... ({} in all)", n));
-      }
-      throw InputError(ExitCode::kInputData, SourceLocation{o.merge.front()}, "--merge",
-                       fmt::format("pieces that together finish all {} variants", V),
-                       "no finished result for variant" +
-                           std::string(missing.size() == 1 ? " " : "s ") +
-                           fmt::format("{}", fmt::join(missing, ", ")),
-                       "run the piece holding them again with --resume PIECE (it keeps the "
-                       "finished ones)");
-    }
+  return c;
+}
+
+/// --merge: refuses pieces that leave a variant unfinished, naming (up to 20 of) them.
+void require_all_merged(const SweepCliOptions& o, const Carried& c) {
+  const std::size_t V = c.outcome.size();
+  std::vector<std::string> missing;
+  for (std::size_t v = 0; v < V; ++v) {
+    if (!c.outcome[v]) missing.push_back(std::to_string(v));
   }
+  if (missing.empty()) return;
+  if (missing.size() > 20) {
+    const auto n = missing.size();
+    missing.resize(20);
+    missing.push_back(fmt::format("... ({} in all)", n));
+  }
+  throw InputError(ExitCode::kInputData, SourceLocation{o.merge.front()}, "--merge",
+                   fmt::format("pieces that together finish all {} variants", V),
+                   "no finished result for variant" +
+                       std::string(missing.size() == 1 ? " " : "s ") +
+                       fmt::format("{}", fmt::join(missing, ", ")),
+                   "run the piece holding them again with --resume PIECE (it keeps the "
+                   "finished ones)");
+}
+
+/// The variants of this piece that no earlier file finished.
+std::vector<std::size_t> variants_to_run(const SweepPlan& plan, const Carried& c) {
   std::vector<std::size_t> todo;
-  for (std::size_t v = lo; v < hi; ++v) {
-    if (!carried[v]) todo.push_back(v);
+  for (std::size_t v = plan.lo; v < plan.hi; ++v) {
+    if (!c.outcome[v]) todo.push_back(v);
   }
+  return todo;
+}
 
-  // Rank 0 writes the files: it holds them for the whole sweep (one live writer per path).
-  std::vector<OutputClaim> claims;
-  if (rank == 0) claims = claim_outputs({spec.output, spec.table});
-
-  const std::size_t S = base_model.species_count(), N = base_model.cells();
-  ObservationSet obs;
-  if (!spec.observations.empty()) {
-    obs = read_observations(spec.observations, units);
-    require_observed_species(obs, base_model.species());  // not as every variant failing
+/// Rank 0's account of what the sweep is about to do.
+void log_plan(const SweepCliOptions& o, const SweepPlan& plan, const Carried& c, std::size_t to_run,
+              int ranks, spdlog::logger& log) {
+  const std::size_t V = plan.variants.size();
+  log.info("sweep {}: {} variants on {} rank{}", plan.spec.name, V, ranks,
+           plural(static_cast<std::size_t>(ranks)));
+  if (plan.piece) {
+    log.info("this piece: variants {}:{} ({} of {})", plan.lo, plan.hi, plan.hi - plan.lo, V);
   }
-  if (rank == 0) {
-    ctx.log->info("sweep {}: {} variants on {} rank{}", spec.name, V, size, size == 1 ? "" : "s");
-    if (piece) ctx.log->info("this piece: variants {}:{} ({} of {})", lo, hi, hi - lo, V);
-    const std::size_t kept =
-        std::count_if(carried.begin(), carried.end(), [](const auto& c) { return c.has_value(); });
-    if (!o.resume.empty()) {
-      ctx.log->info("resuming: {} finished variant{} kept from {}, {} to run", kept,
-                    kept == 1 ? "" : "s", fmt::join(o.resume, ", "), todo.size());
-    }
-    if (merging) ctx.log->info("merging {} pieces: all {} variants finished", o.merge.size(), V);
+  if (!o.resume.empty()) {
+    const std::size_t kept = c.count();
+    log.info("resuming: {} finished variant{} kept from {}, {} to run", kept, plural(kept),
+             fmt::join(o.resume, ", "), to_run);
   }
-  const InterruptGuard interrupt;
+  if (!o.merge.empty()) log.info("merging {} pieces: all {} variants finished", o.merge.size(), V);
+}
 
-  // Every variant starts from the base scenario's steady state, solved on every rank by
-  // the same deterministic solve (grid sequencing as `colchem run`), so that a variant's
-  // answer does not depend on the rank that ran it or on what that rank ran before: the
-  // scores on 1 and 2 ranks are identical (tests/cli/sweep_test.sh). A variant that does
-  // not converge from there (or every variant, when the base did not converge) starts
-  // again from its own scenario's cold start, grid-sequenced as `colchem run` does.
-  // Merging pieces solves nothing, and a rank with nothing to run skips the base.
-  std::optional<BaseSolve> base_solve;
-  if (!merging && !todo.empty()) {
-    BaseStart base_start(spec.scenario.string(), spec.common_overrides);
-    base_start.progress = rank == 0;
-    try {
-      base_solve = solve_steady_base(base_start, base, base_model, units, ctx, interrupt,
-                                     "base state of the sweep");
-    } catch (const RunError& e) {
-      // Stopped on a coarser level of the base state: no variant starts (the stop request
-      // is seen first), and the files record every variant as interrupted (exit 7).
-      if (e.code() != ExitCode::kInterrupted) throw;
-      ctx.log->warn("interrupted (signal {}) during the base state of the sweep",
-                    interrupt.signal_number());
-    }
+/// Every variant starts from the base scenario's steady state, solved on every rank by
+/// the same deterministic solve (grid sequencing as `colchem run`), so that a variant's
+/// answer does not depend on the rank that ran it or on what that rank ran before: the
+/// scores on 1 and 2 ranks are identical (tests/cli/sweep_test.sh). Empty when it was
+/// stopped on a coarser level: no variant starts (the stop request is seen first), and the
+/// files record every variant as interrupted (exit 7).
+std::optional<BaseSolve> solve_sweep_base(const SweepSpec& spec, const Scenario& base,
+                                          ColumnModel& base_model, const UnitSystem& units,
+                                          Context& ctx, const InterruptGuard& interrupt, int rank) {
+  BaseStart base_start(spec.scenario.string(), spec.common_overrides);
+  base_start.progress = rank == 0;
+  try {
+    return solve_steady_base(base_start, base, base_model, units, ctx, interrupt,
+                             "base state of the sweep");
+  } catch (const RunError& e) {
+    if (e.code() != ExitCode::kInterrupted) throw;
+    ctx.log->warn("interrupted (signal {}) during the base state of the sweep",
+                  interrupt.signal_number());
+    return std::nullopt;
   }
-  const bool base_ok = base_solve && base_solve->run.ok();
+}
 
-  const VariantRunner runner = [&](const Variant& v) {
-    VariantOutcome result;
-    const Scenario sc = load_scenario(spec.scenario, v.overrides, units);
-    ColumnModel model(sc);
-    if (model.species_count() != S || model.cells() != N) {
-      result.reason = "the variant changes the grid or the species of the base scenario";
+/// What every variant's solve shares: the sweep, the base state (null when the base did
+/// not converge) and the grid and species every variant must keep.
+struct VariantSolve {
+  const SweepSpec& spec;
+  const UnitSystem& units;
+  const InterruptGuard& interrupt;
+  const std::vector<double>* base_x = nullptr;
+  std::size_t species = 0, cells = 0;
+};
+
+/// Solves the variant from its own scenario's cold start, grid-sequenced as `colchem run`
+/// does (the iterations of a failed solve from the base are counted in); false when it was
+/// stopped on a coarser level.
+bool solve_cold(const VariantSolve& in, const Variant& v, const Scenario& sc, ColumnModel& model,
+                RunControls controls, RunOutcome& r) {
+  BaseStart own(in.spec.scenario.string(), v.overrides);
+  own.progress = false;
+  StartState st;
+  try {
+    st = start_state(own, sc, model, in.units, nullptr, in.interrupt);
+  } catch (const RunError& e) {
+    if (e.code() != ExitCode::kInterrupted) throw;
+    return false;
+  }
+  model.impose_held(st.x0);
+  controls.warm_start = st.warm;
+  const long before = in.base_x ? r.iterations : 0;
+  r = run_column(model, sc.solver, std::move(st.x0), controls);
+  r.iterations += before;
+  return true;
+}
+
+/// One variant: from the base state; one that does not converge from there (or every
+/// variant, when the base did not converge) starts again from its own cold start.
+VariantOutcome solve_variant(const VariantSolve& in, const Variant& v) {
+  VariantOutcome result;
+  const Scenario sc = load_scenario(in.spec.scenario, v.overrides, in.units);
+  ColumnModel model(sc);
+  if (model.species_count() != in.species || model.cells() != in.cells) {
+    result.reason = "the variant changes the grid or the species of the base scenario";
+    return result;
+  }
+  RunControls controls;
+  controls.stop_requested = in.interrupt.query();
+  RunOutcome r;
+  if (in.base_x) {
+    std::vector<double> x0 = *in.base_x;
+    model.impose_held(x0);
+    controls.warm_start = true;
+    r = run_column(model, sc.solver, std::move(x0), controls);
+    result.warm_started = true;
+  }
+  if (!in.base_x || (!r.ok() && r.status != SolveStatus::kInterrupted)) {
+    if (!solve_cold(in, v, sc, model, controls, r)) {
+      result.interrupted = true;
+      result.reason = "interrupted";
       return result;
     }
-    RunControls controls;
-    controls.stop_requested = interrupt.query();
-    RunOutcome r;
-    if (base_ok) {
-      std::vector<double> x0 = base_solve->run.x;
-      model.impose_held(x0);
-      controls.warm_start = true;
-      r = run_column(model, sc.solver, std::move(x0), controls);
-      result.warm_started = true;
-    }
-    if (!base_ok || (!r.ok() && r.status != SolveStatus::kInterrupted)) {
-      BaseStart own(spec.scenario.string(), v.overrides);
-      own.progress = false;
-      StartState st;
-      try {
-        st = start_state(own, sc, model, units, nullptr, interrupt);
-      } catch (const RunError& e) {
-        if (e.code() != ExitCode::kInterrupted) throw;
-        result.interrupted = true;
-        result.reason = "interrupted";
-        return result;
-      }
-      model.impose_held(st.x0);
-      controls.warm_start = st.warm;
-      const long before = base_ok ? r.iterations : 0;
-      r = run_column(model, sc.solver, std::move(st.x0), controls);
-      r.iterations += before;
-      result.warm_started = false;
-    }
-    result.converged = r.ok();
-    result.interrupted = r.status == SolveStatus::kInterrupted;
-    result.reason = r.ok() ? std::string("converged")
-                           : (result.interrupted ? std::string("interrupted") : r.reason);
-    result.iterations = static_cast<int>(r.iterations);
-    result.residual = r.residual_norm;
-    result.values = mole_fractions(model, r.x);
-    return result;
-  };
-  BatchProgress batch(*ctx.log, "sweep", o.progress_every);
-  const VariantDone done = [&](const Variant& v, const VariantOutcome& r) {
-    batch.finished(r.finished, r.to_run);
+    result.warm_started = false;
+  }
+  result.converged = r.ok();
+  result.interrupted = r.status == SolveStatus::kInterrupted;
+  result.reason = r.ok() ? std::string("converged")
+                         : (result.interrupted ? std::string("interrupted") : r.reason);
+  result.iterations = static_cast<int>(r.iterations);
+  result.residual = r.residual_norm;
+  result.values = mole_fractions(model, r.x);
+  return result;
+}
+
+/// Runs the variants to run over the ranks (outcomes on rank 0), one line per variant.
+std::vector<VariantOutcome> run_sweep_variants(const SweepCliOptions& o, const SweepPlan& plan,
+                                               const VariantSolve& in,
+                                               const std::vector<std::size_t>& todo, Context& ctx,
+                                               int rank) {
+  const std::size_t V = plan.variants.size();
+  const VariantRunner runner = [&](const Variant& v) { return solve_variant(in, v); };
+  const VariantDone line = [&](const Variant& v, const VariantOutcome& r) {
     ctx.log->info("variant {}/{} [{}] {} on rank {}: {} ({} iterations, {:.2f} s)", v.index + 1, V,
                   v.label, r.warm_started ? "from the base" : "cold", rank,
                   r.converged ? "converged" : (r.interrupted ? r.reason : "FAILED: " + r.reason),
                   r.iterations, r.wall_seconds);
   };
-  std::vector<VariantOutcome> outcomes;
-  if (merging) {
-    if (rank == 0) outcomes.resize(V);  // every variant is carried (checked above)
-  } else {
-    outcomes = run_variants(MPI_COMM_WORLD, variants, runner, done, interrupt.query(), &todo);
-  }
-  // The other ranks wait for rank 0's exit code, so that none exits (and mpirun aborts the
-  // job, killing rank 0) before rank 0 has written the files.
-  if (rank != 0) {
-    int code = 0;
-    MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
-    return code;
-  }
-  const auto finish = [](int code) {
-    MPI_Bcast(&code, 1, MPI_INT, 0, MPI_COMM_WORLD);
-    return code;
-  };
-  for (std::size_t v = 0; v < V; ++v) {
-    if (carried[v]) {
-      outcomes[v] = *carried[v];
+  return run_batch(plan.variants, runner, {*ctx.log, "sweep", o.progress_every, line},
+                   in.interrupt.query(), &todo);
+}
+
+/// Rank 0: the carried results in place, and the variants outside the piece marked.
+void complete_outcomes(std::vector<VariantOutcome>& outcomes, const Carried& c,
+                       const SweepPlan& plan) {
+  for (std::size_t v = 0; v < plan.variants.size(); ++v) {
+    if (c.outcome[v]) {
+      outcomes[v] = *c.outcome[v];
       outcomes[v].index = v;
     } else if (outcomes[v].skipped) {
-      outcomes[v].reason = fmt::format("not run: outside variants {}:{} of this piece", lo, hi);
+      outcomes[v].reason =
+          fmt::format("not run: outside variants {}:{} of this piece", plan.lo, plan.hi);
     }
   }
+}
 
+/// Failed variants get the observation layout of a scored one with no model values, for a
+/// rectangular file.
+void fill_unscored(std::vector<std::vector<SpeciesScore>>& scores) {
+  std::vector<SpeciesScore> layout;
+  for (const auto& sc : scores) {
+    if (!sc.empty()) {
+      layout = sc;
+      break;
+    }
+  }
+  for (auto& sc : layout) {
+    sc.chi2_log = sc.chi2_linear = sc.reduced_chi2_log = sc.reduced_chi2_linear =
+        std::numeric_limits<double>::quiet_NaN();
+    for (auto& p : sc.points) p.model = std::numeric_limits<double>::quiet_NaN();
+  }
+  for (auto& sc : scores) {
+    if (sc.empty()) sc = layout;
+  }
+}
+
+/// The sweep's results: every variant's profiles and scores against the observations.
+SweepResults sweep_results(const SweepPlan& plan, const ColumnModel& base_model,
+                           const ObservationSet& obs, std::vector<VariantOutcome> outcomes) {
   SweepResults res;
-  res.variants = variants;
+  res.variants = plan.variants;
   res.species = base_model.species();
-  for (const auto& a : spec.axes) res.parameter_names.push_back(a.name);
+  for (const auto& a : plan.spec.axes) res.parameter_names.push_back(a.name);
   std::set<std::string> modules;
-  for (const auto& m : spec.module_sets) modules.insert(m.modules.begin(), m.modules.end());
+  for (const auto& m : plan.spec.module_sets) modules.insert(m.modules.begin(), m.modules.end());
   res.module_names.assign(modules.begin(), modules.end());
   for (auto& oc : outcomes) {
     res.mole_fraction.push_back(oc.converged ? oc.values : std::vector<double>{});
@@ -495,74 +576,163 @@ int run_sweep(const SweepCliOptions& o, Context& ctx) {
     }
     res.scores.push_back(std::move(scores));
   }
-  if (!obs.points.empty()) {
-    // Failed variants get the observation layout with no model values, for a rectangular file.
-    std::vector<SpeciesScore> layout;
-    for (const auto& sc : res.scores) {
-      if (!sc.empty()) {
-        layout = sc;
-        break;
-      }
-    }
-    for (auto& sc : layout) {
-      sc.chi2_log = sc.chi2_linear = sc.reduced_chi2_log = sc.reduced_chi2_linear =
-          std::numeric_limits<double>::quiet_NaN();
-      for (auto& p : sc.points) p.model = std::numeric_limits<double>::quiet_NaN();
-    }
-    for (auto& sc : res.scores) {
-      if (sc.empty()) sc = layout;
-    }
-  }
+  if (!obs.points.empty()) fill_unscored(res.scores);
   res.outcomes = std::move(outcomes);
-  std::size_t converged = 0, interrupted = 0, not_run = 0;
+  return res;
+}
+
+/// How the variants ended, and what the files say about the sweep as a whole: complete
+/// only when nothing was interrupted; a sweep with no converged variant is not a result
+/// either.
+struct SweepTally {
+  std::size_t converged = 0, interrupted = 0, not_run = 0, failed = 0;
+  std::string status, counts;
+};
+
+SweepTally tally_outcomes(const SweepResults& res, const SweepPlan& plan) {
+  SweepTally t;
   for (const auto& oc : res.outcomes) {
-    converged += oc.converged ? 1 : 0;
-    interrupted += oc.interrupted ? 1 : 0;
-    not_run += oc.skipped ? 1 : 0;
+    t.converged += oc.converged ? 1 : 0;
+    t.interrupted += oc.interrupted ? 1 : 0;
+    t.not_run += oc.skipped ? 1 : 0;
   }
-  const std::size_t failed = res.outcomes.size() - converged - interrupted - not_run;
-  // What the files say about the sweep as a whole: complete only when nothing was
-  // interrupted; a sweep with no converged variant is not a result either.
-  const std::string sweep_status = interrupted > 0  ? "interrupted"
-                                   : converged == 0 ? "failed"
-                                                    : "complete";
-  const std::string counts =
-      fmt::format("{} of {} variants converged, {} failed, {} interrupted", converged,
-                  res.outcomes.size(), failed, interrupted) +
-      (not_run > 0 ? fmt::format(", {} not run (piece {}:{})", not_run, lo, hi) : std::string{});
-  const auto ranking = rank_variants(res, spec.rank_by);
-  {
-    Dataset ds;
-    add_provenance(ds, base, ctx.command_line);
-    ds.global_text("colchem_sweep_file", spec.file.string());
-    ds.global_text("colchem_sweep_scenario",
-                   std::filesystem::weakly_canonical(spec.scenario).string());
-    ds.global_text("colchem_sweep_definition", definition);
-    ds.global_text("colchem_sweep_definition_hash", text_digest(definition));
-    if (piece) ds.global_text("colchem_sweep_piece", fmt::format("{}:{}", lo, hi));
-    ds.global_number("colchem_sweep_ranks", size);
-    ds.global_text("colchem_sweep_status", sweep_status + ": " + counts);
-    add_sweep(ds, base_model.background(), res, ranking);
-    write_dataset(ds, spec.output);
-  }
-  write_text_file(spec.table, sweep_table_csv(res, ranking, spec.rank_by));
-  std::cout << sweep_table_text(res, ranking, spec.rank_by);
-  ctx.log->info("wrote {} and {}; {}", spec.output.string(), spec.table.string(), counts);
-  if (interrupted > 0) {
-    ctx.log->warn(
+  t.failed = res.outcomes.size() - t.converged - t.interrupted - t.not_run;
+  t.status = t.interrupted > 0 ? "interrupted" : t.converged == 0 ? "failed" : "complete";
+  t.counts = fmt::format("{} of {} variants converged, {} failed, {} interrupted", t.converged,
+                         res.outcomes.size(), t.failed, t.interrupted) +
+             (t.not_run > 0 ? fmt::format(", {} not run (piece {}:{})", t.not_run, plan.lo, plan.hi)
+                            : std::string{});
+  return t;
+}
+
+/// The sweep file: provenance, the sweep's definition and status, every variant.
+void write_sweep_file(const SweepPlan& plan, const Scenario& base, const ColumnModel& base_model,
+                      const SweepResults& res, const std::vector<std::size_t>& ranking,
+                      const SweepTally& t, int ranks, const std::string& command_line) {
+  const SweepSpec& spec = plan.spec;
+  Dataset ds;
+  add_provenance(ds, base, command_line);
+  ds.global_text("colchem_sweep_file", spec.file.string());
+  ds.global_text("colchem_sweep_scenario",
+                 std::filesystem::weakly_canonical(spec.scenario).string());
+  ds.global_text("colchem_sweep_definition", plan.definition);
+  ds.global_text("colchem_sweep_definition_hash", text_digest(plan.definition));
+  if (plan.piece) ds.global_text("colchem_sweep_piece", fmt::format("{}:{}", plan.lo, plan.hi));
+  ds.global_number("colchem_sweep_ranks", ranks);
+  ds.global_text("colchem_sweep_status", t.status + ": " + t.counts);
+  add_sweep(ds, base_model.background(), res, ranking);
+  write_dataset(ds, spec.output);
+}
+
+/// The exit code of a written sweep: 7 when interrupted (continue with --resume), 5 when
+/// no variant converged, else 0; logged.
+int sweep_exit_code(const SweepPlan& plan, const SweepResults& res, const SweepTally& t,
+                    const InterruptGuard& interrupt, spdlog::logger& log) {
+  if (t.interrupted > 0) {
+    log.warn(
         "sweep interrupted (signal {}): {} variant{} not finished, recorded as "
         "'interrupted'; the results are incomplete; continue with --resume {}",
-        interrupt.signal_number(), interrupted, interrupted == 1 ? "" : "s", spec.output.string());
-    return finish(static_cast<int>(ExitCode::kInterrupted));
+        interrupt.signal_number(), t.interrupted, plural(t.interrupted), plan.spec.output.string());
+    return static_cast<int>(ExitCode::kInterrupted);
   }
-  if (converged == 0) {
-    ctx.log->error(
+  if (t.converged == 0) {
+    log.error(
         "no variant of the sweep converged: 0 of {} ({} failed); the reasons are in the "
         "status column of {}",
-        res.outcomes.size() - not_run, failed, spec.table.string());
-    return finish(static_cast<int>(ExitCode::kNotConverged));
+        res.outcomes.size() - t.not_run, t.failed, plan.spec.table.string());
+    return static_cast<int>(ExitCode::kNotConverged);
   }
-  return finish(0);
+  return 0;
+}
+
+/// The base state on every rank, then the variants to run over the ranks: their outcomes
+/// on rank 0. Merging pieces solves nothing (every outcome is carried), nor does a rank
+/// with nothing to run solve the base.
+std::vector<VariantOutcome> run_on_ranks(const SweepCliOptions& o, const SweepPlan& plan,
+                                         const Scenario& base, ColumnModel& base_model,
+                                         const std::vector<std::size_t>& todo,
+                                         const UnitSystem& units, Context& ctx,
+                                         const InterruptGuard& interrupt, int rank) {
+  if (!o.merge.empty()) {
+    return std::vector<VariantOutcome>(rank == 0 ? plan.variants.size() : 0);
+  }
+  std::optional<BaseSolve> base_solve;
+  if (!todo.empty()) {
+    base_solve = solve_sweep_base(plan.spec, base, base_model, units, ctx, interrupt, rank);
+  }
+  const bool base_ok = base_solve && base_solve->run.ok();
+  const VariantSolve in{plan.spec,
+                        units,
+                        interrupt,
+                        base_ok ? &base_solve->run.x : nullptr,
+                        base_model.species_count(),
+                        base_model.cells()};
+  return run_sweep_variants(o, plan, in, todo, ctx, rank);
+}
+
+/// Rank 0: the results with the carried ones, the sweep file, the ranked table (file and
+/// standard output); returns the sweep's exit code.
+int report_sweep(const SweepPlan& plan, const Scenario& base, const ColumnModel& base_model,
+                 const ObservationSet& obs, const Carried& carried,
+                 std::vector<VariantOutcome> outcomes, const InterruptGuard& interrupt, int ranks,
+                 Context& ctx) {
+  complete_outcomes(outcomes, carried, plan);
+  const SweepResults res = sweep_results(plan, base_model, obs, std::move(outcomes));
+  const SweepTally tally = tally_outcomes(res, plan);
+  const auto ranking = rank_variants(res, plan.spec.rank_by);
+  write_sweep_file(plan, base, base_model, res, ranking, tally, ranks, ctx.command_line);
+  write_text_file(plan.spec.table, sweep_table_csv(res, ranking, plan.spec.rank_by));
+  std::cout << sweep_table_text(res, ranking, plan.spec.rank_by);
+  ctx.log->info("wrote {} and {}; {}", plan.spec.output.string(), plan.spec.table.string(),
+                tally.counts);
+  return sweep_exit_code(plan, res, tally, interrupt, *ctx.log);
+}
+
+int run_sweep(const SweepCliOptions& o, Context& ctx) {
+  const PetscSession petsc;  // initialises MPI as well
+  const WorldRanks world = world_ranks();
+  const UnitSystem units;
+
+  // 1. Load the sweep and its variants, and the base scenario, which fixes the grid and
+  //    species every variant must share; refuse what would make every variant fail.
+  SweepPlan plan;
+  plan.spec = load_sweep(o.file, o.sets);
+  require_option_combination(o);
+  plan.variants = expand_variants(plan.spec);
+  const Scenario base = load_scenario(plan.spec.scenario, plan.spec.common_overrides, units);
+  ColumnModel base_model(base);
+  require_sweepable(plan.spec, base, base_model);
+
+  // 2. Plan: merge the variants that differ only in parameters acting on nothing, fix the
+  //    definition; --dry-run lists the variants and stops.
+  merge_inert_variants(plan.spec, plan.variants, units, *ctx.log, world.rank);
+  plan.definition = sweep_definition(plan.spec, base, plan.variants);
+  if (o.dry_run) {
+    if (world.rank == 0) print_variants(plan.spec, plan.variants, plan.definition);
+    return 0;
+  }
+
+  // 3. This piece's range and files, the results carried over (--resume, --merge) and the
+  //    variants left to run. Rank 0 holds the files for the whole sweep (one live writer
+  //    per path).
+  choose_piece(o, plan);
+  const Carried carried = carry_results(o, plan);
+  if (!o.merge.empty()) require_all_merged(o, carried);
+  const std::vector<std::size_t> todo = variants_to_run(plan, carried);
+  std::vector<OutputClaim> claims;
+  if (world.rank == 0) claims = claim_outputs({plan.spec.output, plan.spec.table});
+  const ObservationSet obs = read_model_observations(plan.spec.observations, base_model, units);
+  if (world.rank == 0) log_plan(o, plan, carried, todo.size(), world.size, *ctx.log);
+  const InterruptGuard interrupt;
+
+  // 4. The base state and the variants over the ranks.
+  std::vector<VariantOutcome> outcomes =
+      run_on_ranks(o, plan, base, base_model, todo, units, ctx, interrupt, world.rank);
+  if (world.rank != 0) return exit_code_of_rank0(0);
+
+  // 5. Rank 0 reports; every rank exits with its code.
+  return exit_code_of_rank0(report_sweep(plan, base, base_model, obs, carried, std::move(outcomes),
+                                         interrupt, world.size, ctx));
 }
 
 }  // namespace

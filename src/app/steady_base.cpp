@@ -3,6 +3,7 @@
 
 #include <algorithm>
 
+#include "analysis/score.hpp"
 #include "core/column_state.hpp"
 #include "core/error.hpp"
 #include "io/output.hpp"
@@ -86,6 +87,16 @@ std::filesystem::path observation_file(const std::string& option, const Scenario
                      "an observation file (the option or the scenario's `observations`)", "none");
   }
   return file;
+}
+
+ObservationSet read_model_observations(const std::filesystem::path& file, const ColumnModel& model,
+                                       const UnitSystem& units) {
+  ObservationSet obs;
+  if (!file.empty()) {
+    obs = read_observations(file, units);
+    require_observed_species(obs, model.species());
+  }
+  return obs;
 }
 
 BaseSolve solve_steady_base(const BaseStart& start, const Scenario& sc, ColumnModel& model,

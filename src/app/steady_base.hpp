@@ -14,6 +14,7 @@
 #include <utility>
 #include <vector>
 
+#include "analysis/observations.hpp"
 #include "analysis/resolution_runner.hpp"
 #include "app/commands.hpp"
 #include "io/scenario.hpp"
@@ -65,6 +66,11 @@ void require_steady_chemistry(const Scenario& sc, const ColumnModel& model,
 /// The observation file of a command: its --observations `option`, else the scenario's
 /// `observations`; refuses (ExitCode::kUsage) when there is neither.
 std::filesystem::path observation_file(const std::string& option, const Scenario& sc);
+
+/// The observations in `file` (none when it is empty), refused (exit 4) when they name a
+/// species the model lacks: checked before any solve, not after.
+ObservationSet read_model_observations(const std::filesystem::path& file, const ColumnModel& model,
+                                       const UnitSystem& units);
 
 /// The steady state of the scenario from start_state(...): `run.ok()` and `exit_code` 0, or
 /// the reason logged and `exit_code` kInterrupted or kNotConverged. `what` names the state
