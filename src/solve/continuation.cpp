@@ -57,6 +57,7 @@ ContinuationResult continue_to_target(std::vector<double> x0, const Continuation
   double step = options.first_step;
   std::vector<double> dx_ds;  // the tangent at (out.x, out.reached)
   bool have_tangent = false;
+  bool last_failed = false;  // the attempt before this one failed
   while (out.reached < 1.0) {
     const double s = std::min(1.0, out.reached + step);
     if (tangent && !have_tangent) {
@@ -80,9 +81,11 @@ ContinuationResult continue_to_target(std::vector<double> x0, const Continuation
       out.x = std::move(r.x);
       out.reached = s;
       have_tangent = false;
-      step *= 2.0;
+      if (!last_failed) step *= 2.0;
+      last_failed = false;
       continue;
     }
+    last_failed = true;
     step *= 0.5;
     if (step < options.min_step) {
       out.reason = fmt::format("continuation stalled at s = {:.4g} (step below {:.4g}; {})",

@@ -1,7 +1,9 @@
 // Natural-parameter continuation (homotopy) from a solved problem to a harder one: the
 // problems F(x; s) = 0 for s from 0 (x0 solves it) to 1 are solved in turn, the step in s
-// doubled after a success and halved after a failure (Allgower and Georg 2003, Introduction
-// to Numerical Continuation Methods, SIAM, chapter 1: the embedding and the step control).
+// halved after a failure and doubled after a success that did not follow a failure (the
+// step that just failed at twice the length would most likely fail again; common practice,
+// no source) (Allgower and Georg 2003, Introduction to Numerical Continuation Methods,
+// SIAM, chapter 1: the embedding and the step control).
 // Each step starts from a prediction of x(s + ds) (chapter 2, predictor-corrector methods):
 // along the path F(x(s); s) = 0, so J dx/ds = -dF/ds, one linear solve with the Jacobian
 // the steady solver factors (path_tangent); the step is taken in ln x,
