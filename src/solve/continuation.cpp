@@ -2,17 +2,73 @@
 
 #include <fmt/format.h>
 #include <algorithm>
+#include <cmath>
+
+#include "solve/ptc_linear_solver.hpp"
 
 namespace colchem {
 
+std::vector<double> predict_state(std::span<const double> x, std::span<const double> dx_ds,
+                                  double ds, double max_log_change) {
+  std::vector<double> out(x.begin(), x.end());
+  for (std::size_t i = 0; i < out.size(); ++i) {
+    const double dx = ds * dx_ds[i];
+    if (!std::isfinite(dx)) continue;
+    if (x[i] > 0.0) {
+      out[i] = x[i] * std::exp(std::clamp(dx / x[i], -max_log_change, max_log_change));
+    } else {
+      out[i] = std::max(0.0, x[i] + dx);
+    }
+  }
+  return out;
+}
+
+bool path_tangent(const ColumnSystem& system, std::span<const double> x, std::span<const double> f,
+                  std::span<const double> dF_ds, const SteadyStateOptions& options,
+                  std::vector<double>& dx_ds, std::string& reason) {
+  const std::size_t n = system.size();
+  BlockTridiagonal jac(system.cells, system.species);
+  if (system.coupling != nullptr) system.coupling->refresh(x);
+  evaluate_jacobian(system, x, options.time_s, jac);
+  std::vector<char> held(n, 0);
+  find_held_rows(jac, f, held);
+  std::vector<double> rhs(dF_ds.begin(), dF_ds.end());
+  for (std::size_t i = 0; i < n; ++i) {
+    if (held[i] != 0) rhs[i] = 0.0;
+  }
+  dx_ds.assign(n, 0.0);
+  PtcLinearSolver linear(system.cells, system.species);
+  const double shift = 1.0 / options.max_pseudo_step_s;
+  if (system.coupling == nullptr) return linear.solve(jac, shift, held, rhs, dx_ds, reason);
+  std::vector<double> weights(n);
+  residual_weights(jac, x, options.scale, weights);
+  const PtcLinearSolver::Product product = [&](std::span<const double> v, std::span<double> out) {
+    system.coupling->add_jacobian_product(x, v, out);
+  };
+  const double rtol = std::sqrt(options.krylov_rtol_min);
+  return linear.solve_coupled(jac, shift, held, rhs, weights, product, rtol, dx_ds, reason);
+}
+
 ContinuationResult continue_to_target(std::vector<double> x0, const ContinuationSolve& solve,
-                                      const ContinuationOptions& options) {
+                                      const ContinuationOptions& options,
+                                      const ContinuationTangent& tangent) {
   ContinuationResult out;
   out.x = std::move(x0);
   double step = options.first_step;
+  std::vector<double> dx_ds;  // the tangent at (out.x, out.reached)
+  bool have_tangent = false;
+  bool last_failed = false;  // the attempt before this one failed
   while (out.reached < 1.0) {
     const double s = std::min(1.0, out.reached + step);
-    RunOutcome r = solve(s, out.x);
+    if (tangent && !have_tangent) {
+      dx_ds = tangent(out.reached, out.x);
+      ++out.tangents;
+      have_tangent = true;
+    }
+    RunOutcome r =
+        solve(s, dx_ds.size() == out.x.size()
+                     ? predict_state(out.x, dx_ds, s - out.reached, options.max_log_change)
+                     : out.x);
     out.iterations += r.iterations;
     out.residual_norm = r.residual_norm;
     out.steps.push_back({s, r.ok(), r.iterations});
@@ -24,9 +80,12 @@ ContinuationResult continue_to_target(std::vector<double> x0, const Continuation
     if (r.ok()) {
       out.x = std::move(r.x);
       out.reached = s;
-      step *= 2.0;
+      have_tangent = false;
+      if (!last_failed) step *= 2.0;
+      last_failed = false;
       continue;
     }
+    last_failed = true;
     step *= 0.5;
     if (step < options.min_step) {
       out.reason = fmt::format("continuation stalled at s = {:.4g} (step below {:.4g}; {})",

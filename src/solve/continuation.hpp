@@ -1,12 +1,20 @@
 // Natural-parameter continuation (homotopy) from a solved problem to a harder one: the
-// problems F(x; s) = 0 for s from 0 (x0 solves it) to 1 are solved in turn, each started
-// from the last converged x, the step in s doubled after a success and halved after a
-// failure (Allgower and Georg 2003, Introduction to Numerical Continuation Methods, SIAM,
-// chapter 1: the embedding and the step control). The ensemble uses it with a member's rate
-// factors raised to the power s, a log-linear path from the base network to the member.
+// problems F(x; s) = 0 for s from 0 (x0 solves it) to 1 are solved in turn, the step in s
+// halved after a failure and doubled after a success that did not follow a failure (the
+// step that just failed at twice the length would most likely fail again; common practice,
+// no source) (Allgower and Georg 2003, Introduction to Numerical Continuation Methods,
+// SIAM, chapter 1: the embedding and the step control).
+// Each step starts from a prediction of x(s + ds) (chapter 2, predictor-corrector methods):
+// along the path F(x(s); s) = 0, so J dx/ds = -dF/ds, one linear solve with the Jacobian
+// the steady solver factors (path_tangent); the step is taken in ln x,
+// x_i(s + ds) = x_i(s) exp(ds (dx_i/ds) / x_i(s)), which keeps densities positive (the
+// exponent bounded by max_log_change). Without a tangent the step starts from x(s). The
+// ensemble uses it with a member's rate factors raised to the power s, a log-linear path
+// from the base network to the member.
 #pragma once
 
 #include <functional>
+#include <span>
 #include <string>
 #include <vector>
 
@@ -17,6 +25,9 @@ namespace colchem {
 struct ContinuationOptions {
   double first_step = 0.25;      ///< the first step in s
   double min_step = 1.0 / 64.0;  ///< a step halved below this gives up
+  /// Bound of |ds (dx_i/ds) / x_i| in a predicted step: a density changes by at most this
+  /// factor's exponential (e^4.6 ~ 100; common practice, no source).
+  double max_log_change = 4.6;
 };
 
 struct ContinuationStep {
@@ -33,14 +44,37 @@ struct ContinuationResult {
   long iterations = 0;                  ///< over every attempted step
   double residual_norm = 0.0;           ///< the last solve's coupled scaled residual
   std::vector<ContinuationStep> steps;  ///< every attempt, in order
+  int tangents = 0;                     ///< tangents computed (one linear solve each)
 };
 
 /// Solves the problem at s (started from x) and returns the outcome; `solve(1, x0)` is
 /// the target problem.
 using ContinuationSolve = std::function<RunOutcome(double s, const std::vector<double>& x)>;
 
-/// From s = 0 (x0 its solution) to s = 1 by solve(); stops early on an interrupt.
+/// dx/ds at a solution x of the problem at s (path_tangent); empty when it cannot be had
+/// (then the step starts from x itself).
+using ContinuationTangent =
+    std::function<std::vector<double>(double s, const std::vector<double>& x)>;
+
+/// From s = 0 (x0 its solution) to s = 1 by solve(); stops early on an interrupt. With a
+/// tangent, each step starts from the predicted state (one tangent per solved s).
 ContinuationResult continue_to_target(std::vector<double> x0, const ContinuationSolve& solve,
-                                      const ContinuationOptions& options = {});
+                                      const ContinuationOptions& options = {},
+                                      const ContinuationTangent& tangent = {});
+
+/// x(s + ds) predicted from x(s) and dx/ds in ln x (see above); densities at zero move
+/// linearly and stay non-negative.
+std::vector<double> predict_state(std::span<const double> x, std::span<const double> dx_ds,
+                                  double ds, double max_log_change);
+
+/// The tangent of the solution path at a solution x of F(x; s) = 0: (shift I - J - J_nl)
+/// dx/ds = dF/ds, shift = 1/options.max_pseudo_step_s (the Newton limit), J and J_nl the
+/// system's Jacobian at x (the coupling refreshed at x first), rows that the operators
+/// hold fixed (find_held_rows with `f`, F at x) unit rows with dx/ds = 0, GMRES to relative
+/// tolerance krylov_rtol_min^(1/2) where F is nonlocal. False (and a reason) when the solve
+/// fails.
+bool path_tangent(const ColumnSystem& system, std::span<const double> x, std::span<const double> f,
+                  std::span<const double> dF_ds, const SteadyStateOptions& options,
+                  std::vector<double>& dx_ds, std::string& reason);
 
 }  // namespace colchem

@@ -130,6 +130,11 @@ struct SteadyStateResult {
   [[nodiscard]] bool converged() const { return status == SolveStatus::kConverged; }
 };
 
+/// held[i] = 1 where row i is held fixed: the operators give it neither tendency (f) nor
+/// Jacobian entries (jac); 0 elsewhere. held has jac's size.
+void find_held_rows(const BlockTridiagonal& jac, std::span<const double> f,
+                    std::vector<char>& held);
+
 class SteadyStateSolver {
  public:
   SteadyStateSolver(ColumnSystem system, SteadyStateOptions options = {});
