@@ -9,6 +9,7 @@
 #include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/score_output.hpp"

@@ -28,6 +28,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/ensemble_output.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "solve/adjoint.hpp"

@@ -25,6 +25,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/fit_output.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "solve/column_run.hpp"

@@ -14,6 +14,7 @@
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/resolution_output.hpp"
 #include "io/scenario.hpp"

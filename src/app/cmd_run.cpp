@@ -16,6 +16,7 @@
 #include "app/summary.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/run_output.hpp"

@@ -19,6 +19,7 @@
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/run_output.hpp"
 #include "io/scenario.hpp"
 #include "io/sensitivity_output.hpp"

@@ -25,6 +25,7 @@
 #include "chem/kinetics.hpp"
 #include "core/error.hpp"
 #include "io/config_node.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/scenario.hpp"

@@ -9,6 +9,7 @@
 #include "core/background.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "io/score_output.hpp"
