@@ -11,7 +11,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "core/interp.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 #include "solve/column_run.hpp"
 
 namespace colchem {
@@ -76,7 +76,7 @@ SequencedStart sequenced_start(const SolveRequest& req, const ColumnModel& targe
     level_req.overrides.emplace_back("photolysis.radiative_transfer={scheme: direct_beam}");
   }
   // Nested iteration: a coarser level is solved to its discretisation error only
-  // (io/solver_section.hpp, sequence_tolerance); the step and balance tests belong to the
+  // (solve/solver_spec.hpp, sequence_tolerance); the step and balance tests belong to the
   // requested grid.
   level_req.overrides.push_back(fmt::format("solver.tolerance={:.17g}", level_tolerance));
   level_req.overrides.emplace_back("solver.step_tolerance=1e300");
@@ -100,7 +100,7 @@ LevelResult solve_on_edges(const SolveRequest& req, std::span<const double> edge
                            const UnitSystem& units, const LevelResult* warm) {
   std::vector<std::string> overrides = req.overrides;
   overrides.push_back(grid_override(edges_cm));
-  const Scenario sc = load_scenario(req.config, overrides, units);
+  const Scenario sc = req.load_scenario(req.config, overrides, units);
   ColumnModel model(sc);
   if (!model.has_chemistry()) {
     throw InputError(ExitCode::kConfig, SourceLocation{req.config.string()}, "chemistry",

@@ -48,6 +48,11 @@ struct SolveRequest {
   const ObservationSet* observations = nullptr;  ///< scores each level when not null
   spdlog::logger* log = nullptr;
   std::function<bool()> stop_requested;
+  /// Reads the scenario with the given overrides (the app passes io/scenario.hpp's
+  /// load_scenario: analysis/ reads no files itself).
+  std::function<Scenario(const std::filesystem::path&, const std::vector<std::string>&,
+                         const UnitSystem&)>
+      load_scenario;
 };
 
 /// Solves the scenario on `edges_cm`, warm-started from `warm` (interpolated log-linearly in

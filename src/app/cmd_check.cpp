@@ -10,6 +10,7 @@
 #include "app/summary.hpp"
 #include "core/background.hpp"
 #include "io/chemistry_section.hpp"
+#include "io/observation_loader.hpp"
 #include "io/scenario.hpp"
 #include "solve/column_model.hpp"
 

@@ -10,6 +10,7 @@
 #include "app/commands.hpp"
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/sweep_file.hpp"

@@ -44,6 +44,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "report/fit_report.hpp"

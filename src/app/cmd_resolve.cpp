@@ -15,6 +15,7 @@
 #include "app/steady_base.hpp"
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "report/column_report.hpp"

@@ -17,6 +17,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/restart_file.hpp"

@@ -20,6 +20,7 @@
 #include "core/constants.hpp"
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/scenario.hpp"
 #include "report/sensitivity_report.hpp"
 #include "solve/adjoint.hpp"

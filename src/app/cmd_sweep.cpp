@@ -39,6 +39,7 @@
 #include "core/error.hpp"
 #include "io/config_node.hpp"
 #include "io/dataset_writer.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/output_claim.hpp"
 #include "io/scenario.hpp"

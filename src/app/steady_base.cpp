@@ -17,6 +17,7 @@ SolveRequest solve_request(const BaseStart& start, spdlog::logger* log,
   req.overrides = start.sets;
   req.log = log;
   req.stop_requested = interrupt.query();
+  req.load_scenario = load_scenario;
   return req;
 }
 
@@ -37,7 +38,7 @@ StartState start_state(const BaseStart& start, const Scenario& sc, const ColumnM
     return st;
   }
   // A steady cold start on a fine grid starts from the same scenario solved on coarser
-  // grids (io/solver_section.hpp, grid_sequencing).
+  // grids (solve/solver_spec.hpp, grid_sequencing).
   if (sc.solver.method != SolverMethod::kSteady || !sc.solver.grid_sequencing ||
       !start.grid_sequencing) {
     return st;

@@ -37,7 +37,8 @@ BoxResult run_box(const BoxProblem& pb) {
   res.times_s = pb.times_s;
   res.species = kin.species_count();
   res.reactions = kin.reaction_count();
-  for (std::size_t r = 0; r < res.reactions; ++r) res.reaction_index.push_back(kin.mechanism_reaction(r));
+  for (std::size_t r = 0; r < res.reactions; ++r)
+    res.reaction_index.push_back(kin.mechanism_reaction(r));
   const std::size_t S = res.species;
   const std::size_t R = res.reactions;
   const std::size_t nt = pb.times_s.size();
@@ -63,6 +64,19 @@ BoxResult run_box(const BoxProblem& pb) {
   }
   res.stats = op.integrator_stats();
   return res;
+}
+
+BoxProblem box_problem(const BoxSpec& box) {
+  BoxProblem pb;
+  pb.chemistry = box.chemistry;
+  pb.temperature_K = box.temperature_K;
+  pb.air_cm3 = box.air_cm3;
+  pb.bulk_mole_fraction = box.bulk_mole_fraction;
+  pb.initial_cm3 = box.initial_cm3;
+  pb.photolysis = box.photolysis;
+  pb.times_s = box_output_times(box.duration_s, box.outputs, box.log_spacing, box.first_output_s);
+  pb.solver = box.solver;
+  return pb;
 }
 
 }  // namespace colchem

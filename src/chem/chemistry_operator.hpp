@@ -1,4 +1,4 @@
-// The chemistry of a column as a ColumnOperator (solve/column_operator.hpp):
+// The chemistry of a column as a ColumnOperator (core/column_operator.hpp):
 //
 //   f_{j,s}(n) = P_{j,s}(n) - L_{j,s}(n) - C_{j,s}(n)
 //
@@ -19,7 +19,7 @@
 #include "chem/kinetics.hpp"
 #include "chem/stiff_integrator.hpp"
 #include "core/background.hpp"
-#include "solve/column_operator.hpp"
+#include "core/column_operator.hpp"
 
 namespace colchem {
 

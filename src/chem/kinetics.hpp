@@ -4,7 +4,7 @@
 //   R_r = k_r prod_s n_s^nu_rs                  (cm^-3 s^-1)
 //   P_s = sum_r nu'_rs R_r,  L_s = sum_r nu_rs R_r,   dn_s/dt = P_s - L_s
 //   d(P - L)_s / dn_q = sum_r (nu'_rs - nu_rs) dR_r/dn_q   (exact, by the product rule)
-// State ordering n[j*S + s] (cell-major, species fastest) as in solve/block_tridiagonal.hpp.
+// State ordering n[j*S + s] (cell-major, species fastest) as in core/block_tridiagonal.hpp.
 // Held-fixed species (bulk gases) are parameters of the network: their tendency and their
 // Jacobian rows are zero, while the rates they take part in use their densities.
 // k_r includes the scale (named parameters) and, for a "+ M" reaction with a non-fall-off

@@ -139,7 +139,7 @@ struct Mechanism {
   [[nodiscard]] std::string equation_text(std::size_t reaction) const;
 };
 
-/// Thresholds of "absurd" rate constants that check_rates (io/mechanism_loader.hpp) refuses
+/// Thresholds of "absurd" rate constants that check_rates (chem/rate_checks.hpp) refuses
 /// at load (common practice, no source); a scenario or box configuration may set them in
 /// `chemistry.rate_limits` where a real world needs wider ones.
 struct RateLimits {

@@ -1,5 +1,5 @@
 // One view of a column state: the solver's cell-major densities n[j*S + s] (cm^-3; cell j,
-// species s, species fastest, as in solve/block_tridiagonal.hpp) and what outputs,
+// species s, species fastest, as in core/block_tridiagonal.hpp) and what outputs,
 // objectives and scores read from them, the one place each is formed:
 //   species-major copy  out[s*N + j] = n[j*S + s]
 //   mole fraction       f[s*N + j] = n[j*S + s] / n_a,j        (n_a the air density, cm^-3)

@@ -3,6 +3,7 @@
 #include <udunits2.h>
 
 #include <cctype>
+#include <cmath>
 #include <cstdlib>
 #include <stdexcept>
 #include <vector>
@@ -109,6 +110,14 @@ std::optional<QuantityText> split_quantity(const std::string& text) {
   const auto last = unit.find_last_not_of(" \t");
   unit = first == std::string::npos ? std::string() : unit.substr(first, last - first + 1);
   return QuantityText{v, unit};
+}
+
+bool same_dimension(const UnitSystem& units, const std::string& unit, const std::string& ref) {
+  const auto a = units.convert(1.0, unit, ref);
+  const auto b = units.convert(2.0, unit, ref);
+  const auto z = units.convert(0.0, unit, ref);
+  if (!a || !b || !z) return false;
+  return std::abs((*b - *z) - 2.0 * (*a - *z)) <= 1e-9 * std::abs(*a - *z);
 }
 
 }  // namespace colchem

@@ -50,4 +50,8 @@ struct QuantityText {
 /// Splits the text; nullopt if it does not start with a number.
 std::optional<QuantityText> split_quantity(const std::string& text);
 
+/// True when `unit` converts linearly to `ref`. UDUNITS-2 also "converts" reciprocal units
+/// (nm to cm-1 by inversion), which must not pass for a change of unit.
+bool same_dimension(const UnitSystem& units, const std::string& unit, const std::string& ref);
+
 }  // namespace colchem

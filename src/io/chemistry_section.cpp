@@ -10,9 +10,11 @@
 #include "core/background.hpp"
 #include "core/constants.hpp"
 #include "core/ideal_gas.hpp"
+#include "core/physical_bounds.hpp"
+#include "io/amount.hpp"
 #include "io/config_node.hpp"
+#include "io/key_table.hpp"
 #include "io/mechanism_loader.hpp"
-#include "io/physical_bounds.hpp"
 #include "io/scenario.hpp"
 #include "io/table.hpp"
 
@@ -30,7 +32,8 @@ std::vector<std::size_t> read_modules(const ConfigNode& n, const Mechanism& m) {
     if (!idx) {
       const auto near = nearest_word(name, names);
       item.fail("a module of mechanism '" + m.name + "'", "unknown module '" + name + "'",
-                near ? "did you mean '" + *near + "'?" : "modules: " + fmt::format("{}", fmt::join(names, ", ")));
+                near ? "did you mean '" + *near + "'?"
+                     : "modules: " + fmt::format("{}", fmt::join(names, ", ")));
     }
     if (std::find(active.begin(), active.end(), *idx) == active.end()) active.push_back(*idx);
   }
@@ -46,6 +49,18 @@ std::vector<std::size_t> read_modules(const ConfigNode& n, const Mechanism& m) {
   return active;
 }
 
+/// {table: FILE, column: NAME} (altitude column "altitude") in `unit` (as written when empty);
+/// the table is recorded in `inputs`.
+ProfileSpec altitude_table(const ConfigNode& n, const UnitSystem& units, const std::string& unit,
+                           const std::string& role, std::vector<InputFile>& inputs) {
+  const TableRef ref = table_ref(n, TableRefForm::altitude_column_required());
+  n.done();
+  const Table t = ref.read();
+  auto p = ref.profile(t, units, "cm", unit);
+  inputs.push_back(InputFile{role, ref.file, t.text()});
+  return ProfileSpec{std::move(p.axis), std::move(p.value), std::move(p.source)};
+}
+
 /// A value per altitude: a quantity in `unit`, or {table: FILE, column: NAME} (altitude
 /// column "altitude"); the table is recorded in `inputs`.
 AltitudeValue read_altitude_value(const ConfigNode& n, const UnitSystem& units,
@@ -56,15 +71,7 @@ AltitudeValue read_altitude_value(const ConfigNode& n, const UnitSystem& units,
     v.constant = unit == "1" ? n.number() : n.quantity(units, unit, example);
     return v;
   }
-  const auto file = n.child("table").path();
-  const std::string column = n.child("column").text();
-  n.done();
-  const Table t = Table::read(file);
-  t.require_increasing("altitude");
-  v.table.altitude_cm = t.column("altitude", units, "cm");
-  v.table.value = t.column(column, units, unit);
-  v.table.source = file.string();
-  inputs.push_back(InputFile{role, file, t.text()});
+  v.table = altitude_table(n, units, unit, role, inputs);
   return v;
 }
 
@@ -80,8 +87,8 @@ void require_range(const ConfigNode& n, const AltitudeValue& v, double lo, doubl
   }
 }
 
-CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
-                                   const UnitSystem& units, std::vector<InputFile>& inputs) {
+CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m, const UnitSystem& units,
+                                   std::vector<InputFile>& inputs) {
   using X = CondensationExchange;
   X s;
   const auto sp = n.child("species");
@@ -97,8 +104,8 @@ CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
   } else if (auto aq = sat.find("h2so4_aqueous")) {
     s.saturation = X::Saturation::kH2SO4Aqueous;
     const auto w = aq->child("weight_fraction");
-    s.weight_fraction = read_altitude_value(w, units, "1", "0.75",
-                                            "acid weight fraction for " + name, inputs);
+    s.weight_fraction =
+        read_altitude_value(w, units, "1", "0.75", "acid weight fraction for " + name, inputs);
     require_range(w, s.weight_fraction, kH2SO4ActivityMinWeight, 1.0,
                   "an acid weight fraction from 0.4 to 1 (the activity table's range)");
     aq->done();
@@ -141,16 +148,8 @@ CondensationExchange read_exchange(const ConfigNode& n, const Mechanism& m,
   if (auto c = n.find("condensed")) {
     if (!c->is_map()) c->fail("{table: FILE, column: NAME} (present where the value is > 0)");
     // Any unit: only where the amount is positive matters.
-    const auto file = c->child("table").path();
-    const std::string column = c->child("column").text();
-    c->done();
-    const Table t = Table::read(file);
-    t.require_increasing("altitude");
     s.has_condensed = true;
-    s.condensed.table.altitude_cm = t.column("altitude", units, "cm");
-    s.condensed.table.value = t.raw(column);
-    s.condensed.table.source = file.string();
-    inputs.push_back(InputFile{"condensed phase for " + name, file, t.text()});
+    s.condensed.table = altitude_table(*c, units, "", "condensed phase for " + name, inputs);
   }
   if (auto b = n.find("below")) s.below_cm = b->quantity(units, "cm", "70 km");
   if (auto a = n.find("above")) {
@@ -239,45 +238,26 @@ void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenar
               sc.chemistry.rate_limits);
 }
 
-BoxSpec load_box_config(const std::filesystem::path& file,
-                        const std::vector<std::string>& overrides, const UnitSystem& units) {
-  const ConfigDocument doc = ConfigDocument::load(file, overrides);
-  BoxSpec box;
-  box.file = file;
-  box.overrides = overrides;
-  box.resolved_yaml = doc.resolved_text();
-  const ConfigNode root = doc.root();
-  const auto meta = root.child("scenario");
-  box.name = meta.child("name").text();
-  if (auto d = meta.find("description")) box.description = d->text();
-  meta.done();
-
-  std::vector<InputFile> inputs;
-  box.chemistry = load_chemistry_spec(root.child("chemistry"), units, inputs, false);
-  const Mechanism& m = *box.chemistry.mechanism;
-
-  const auto b = root.child("box");
-  const auto tn = b.child("temperature");
-  box.temperature_K = tn.quantity(units, "K", "298 K");
-  if (!(box.temperature_K >= bounds::kMinTemperatureK &&
-        box.temperature_K <= bounds::kMaxTemperatureK)) {
-    tn.fail("a temperature from 1 K to 1e5 K (common practice, no source)");
-  }
-  const auto pn = b.child("pressure");
-  box.pressure_dyn_cm2 = pn.quantity(units, "g cm-1 s-2", "1 bar");
-  if (!(box.pressure_dyn_cm2 > 0.0)) pn.fail("a positive pressure");
-  if (!(box.pressure_dyn_cm2 <= bounds::kMaxPressureDynCm2)) {
-    pn.fail("a pressure of at most 1e5 bar (common practice, no source)");
-  }
+/// The box's flat keys (temperature, pressure, duration, output times): a key table.
+void read_box_keys(const ConfigNode& b, const UnitSystem& units, BoxSpec& box) {
+  const double inf = std::numeric_limits<double>::infinity();
+  const Key keys[] = {
+      quantity("temperature", &box.temperature_K, "K", "298 K", bounds::kMinTemperatureK,
+               bounds::kMaxTemperatureK,
+               "a temperature from 1 K to 1e5 K (common practice, no source)")
+          .needed(),
+      quantity("pressure", &box.pressure_dyn_cm2, "g cm-1 s-2", "1 bar", 0.0,
+               bounds::kMaxPressureDynCm2, "a positive pressure")
+          .above_lo()
+          .above_message("a pressure of at most 1e5 bar (common practice, no source)")
+          .needed(),
+      quantity("duration", &box.duration_s, "s", "1 h", 0.0, inf, "a positive duration")
+          .above_lo()
+          .needed(),
+      count("outputs", &box.outputs, 1, 1000000, "a number of output times from 1 to 1000000"),
+  };
+  read_keys(b, units, keys);
   box.air_cm3 = ideal_gas_density(box.pressure_dyn_cm2, box.temperature_K);
-  const auto dn = b.child("duration");
-  box.duration_s = dn.quantity(units, "s", "1 h");
-  if (!(box.duration_s > 0.0)) dn.fail("a positive duration");
-  if (auto o = b.find("outputs")) {
-    const long k = o->integer();
-    if (k < 1 || k > 1000000) o->fail("a number of output times from 1 to 1000000");
-    box.outputs = static_cast<std::size_t>(k);
-  }
   if (auto s = b.find("spacing")) box.log_spacing = s->choice({"log", "linear"}) == "log";
   box.first_output_s = 1e-6 * box.duration_s;
   if (auto f = b.find("first_output")) {
@@ -286,20 +266,12 @@ BoxSpec load_box_config(const std::filesystem::path& file,
       f->fail("a first output time in (0, duration]");
     }
   }
+}
 
-  // Bulk composition: mole fractions of the gases that make up [M] (and the fixed species).
-  double sum = 0.0;
-  for (const auto& [name, v] : b.child("bulk_composition").entries()) {
-    const double x = v.number();
-    if (!(x > 0.0 && x <= 1.0)) v.fail("a mole fraction in (0, 1]");
-    box.bulk_mole_fraction[name] = x;
-    sum += x;
-  }
-  if (std::abs(sum - 1.0) > 1e-3) {
-    b.child("bulk_composition").fail("mole fractions summing to 1 (within 0.001)",
-                                     fmt::format("a sum of {}", sum));
-  }
-
+/// The box's initial densities (fixed species from the bulk composition, `initial:` for
+/// the others), photolysis rates and reported reactions.
+void read_box_state(const ConfigNode& b, const UnitSystem& units, BoxSpec& box) {
+  const Mechanism& m = *box.chemistry.mechanism;
   // Initial state: fixed species start from the bulk composition; the rest from zero.
   box.initial_cm3.assign(m.species.size(), 0.0);
   for (std::size_t s = 0; s < m.species.size(); ++s) {
@@ -316,19 +288,10 @@ BoxSpec load_box_config(const std::filesystem::path& file,
         v.fail("a species of mechanism '" + m.name + "'", "'" + name + "'",
                near ? "did you mean '" + *near + "'?" : std::string{});
       }
-      const auto q = split_quantity(v.text());
-      if (!q) v.fail("a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')");
-      double n_cm3 = 0.0;
-      if (q->unit.empty()) {
-        n_cm3 = q->value * box.air_cm3;
-      } else if (units.convertible(q->unit, "cm-3")) {
-        n_cm3 = *units.convert(q->value, q->unit, "cm-3");
-      } else if (units.convertible(q->unit, "1")) {
-        n_cm3 = *units.convert(q->value, q->unit, "1") * box.air_cm3;
-      } else {
-        v.fail("a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')",
-               "'" + v.text() + "'");
-      }
+      const Amount a =
+          read_amount(v, units, {AmountKind::kFraction, AmountKind::kDensity},
+                      "a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')");
+      const double n_cm3 = a.kind == AmountKind::kDensity ? a.value : a.value * box.air_cm3;
       if (!(n_cm3 >= 0.0)) v.fail("a non-negative amount");
       box.initial_cm3[*idx] = n_cm3;
     }
@@ -358,19 +321,42 @@ BoxSpec load_box_config(const std::filesystem::path& file,
       box.report.push_back(m.reactions[*r].id);
     }
   }
+}
+
+BoxSpec load_box_config(const std::filesystem::path& file,
+                        const std::vector<std::string>& overrides, const UnitSystem& units) {
+  const ConfigDocument doc = ConfigDocument::load(file, overrides);
+  BoxSpec box;
+  box.file = file;
+  box.overrides = overrides;
+  box.resolved_yaml = doc.resolved_text();
+  const ConfigNode root = doc.root();
+  const auto meta = root.child("scenario");
+  box.name = meta.child("name").text();
+  if (auto d = meta.find("description")) box.description = d->text();
+  meta.done();
+
+  std::vector<InputFile> inputs;
+  box.chemistry = load_chemistry_spec(root.child("chemistry"), units, inputs, false);
+  const Mechanism& m = *box.chemistry.mechanism;
+
+  const auto b = root.child("box");
+  read_box_keys(b, units, box);
+  box.bulk_mole_fraction = read_bulk_composition(b.child("bulk_composition"));
+  read_box_state(b, units, box);
   b.done();
 
   if (auto s = root.find("solver")) {
-    if (auto r = s->find("rtol")) {
-      box.solver.rtol = r->number();
-      if (!(box.solver.rtol > 0.0 && box.solver.rtol < 1.0)) {
-        r->fail("a relative tolerance between 0 and 1 (exclusive)");
-      }
-    }
-    if (auto a = s->find("atol")) {
-      box.solver.atol = a->quantity(units, "cm-3", "1e-3 cm-3");
-      if (!(box.solver.atol > 0.0)) a->fail("a positive absolute tolerance");
-    }
+    const Key keys[] = {
+        number("rtol", &box.solver.rtol, 0.0, 1.0,
+               "a relative tolerance between 0 and 1 (exclusive)")
+            .above_lo()
+            .below_hi(),
+        quantity("atol", &box.solver.atol, "cm-3", "1e-3 cm-3", 0.0,
+                 std::numeric_limits<double>::infinity(), "a positive absolute tolerance")
+            .above_lo(),
+    };
+    read_keys(*s, units, keys);
     s->done();
   } else {
     box.solver.atol = std::max(1e-20 * box.air_cm3, 1e-30);
@@ -387,11 +373,12 @@ BoxSpec load_box_config(const std::filesystem::path& file,
 }
 
 std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose) {
-  std::string out = fmt::format("chemistry  mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
-                                mech.name, mech.species.size(),
-                                std::count_if(mech.species.begin(), mech.species.end(),
-                                              [](const Species& s) { return s.fixed; }),
-                                mech.reactions.size(), mech.modules.size());
+  std::string out =
+      fmt::format("chemistry  mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
+                  mech.name, mech.species.size(),
+                  std::count_if(mech.species.begin(), mech.species.end(),
+                                [](const Species& s) { return s.fixed; }),
+                  mech.reactions.size(), mech.modules.size());
   std::set<std::size_t> seen;
   std::size_t balanced = 0, sinks = 0, active_reactions = 0;
   for (std::size_t i = 0; i < mech.modules.size(); ++i) {
@@ -423,40 +410,31 @@ std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec
     }
   }
   for (std::size_t p = 0; p < mech.parameters.size(); ++p) {
-    out += fmt::format("  parameter {} = {} (default {}, range [{}, {}])\n", mech.parameters[p].name,
-                       spec.parameters.at(p), mech.parameters[p].default_value,
-                       mech.parameters[p].min, mech.parameters[p].max);
+    out +=
+        fmt::format("  parameter {} = {} (default {}, range [{}, {}])\n", mech.parameters[p].name,
+                    spec.parameters.at(p), mech.parameters[p].default_value, mech.parameters[p].min,
+                    mech.parameters[p].max);
   }
   for (const auto& s : spec.exchanges) {
     const bool two_way = s.has_condensed || s.rate == CondensationExchange::Rate::kKinetic;
     std::string range;
-    if (std::isfinite(s.above_cm)) range += fmt::format(" from {} km", s.above_cm / constants::kCmPerKm);
-    if (std::isfinite(s.below_cm)) range += fmt::format(" below {} km", s.below_cm / constants::kCmPerKm);
-    const std::string rate =
-        s.rate == CondensationExchange::Rate::kKinetic
-            ? fmt::format("kinetic, accommodation {:g}", s.accommodation)
-            : (s.timescale_table.altitude_cm.empty() ? fmt::format("timescale {:g} s", s.timescale_s)
-                                                     : std::string("timescale profile"));
+    if (std::isfinite(s.above_cm))
+      range += fmt::format(" from {} km", s.above_cm / constants::kCmPerKm);
+    if (std::isfinite(s.below_cm))
+      range += fmt::format(" below {} km", s.below_cm / constants::kCmPerKm);
+    const std::string rate = s.rate == CondensationExchange::Rate::kKinetic
+                                 ? fmt::format("kinetic, accommodation {:g}", s.accommodation)
+                                 : (s.timescale_table.altitude_cm.empty()
+                                        ? fmt::format("timescale {:g} s", s.timescale_s)
+                                        : std::string("timescale profile"));
     out += fmt::format("  condensation of {}{} ({}, {})\n", mech.species[s.species].name, range,
                        two_way ? "condensation and evaporation" : "condensation only", rate);
   }
-  out += fmt::format("  {} of {} active reactions balanced in every element; {} sinks (no "
-                     "products) exempt\n",
-                     balanced, active_reactions, sinks);
+  out += fmt::format(
+      "  {} of {} active reactions balanced in every element; {} sinks (no "
+      "products) exempt\n",
+      balanced, active_reactions, sinks);
   return out;
-}
-
-BoxProblem box_problem(const BoxSpec& box) {
-  BoxProblem pb;
-  pb.chemistry = box.chemistry;
-  pb.temperature_K = box.temperature_K;
-  pb.air_cm3 = box.air_cm3;
-  pb.bulk_mole_fraction = box.bulk_mole_fraction;
-  pb.initial_cm3 = box.initial_cm3;
-  pb.photolysis = box.photolysis;
-  pb.times_s = box_output_times(box.duration_s, box.outputs, box.log_spacing, box.first_output_s);
-  pb.solver = box.solver;
-  return pb;
 }
 
 }  // namespace colchem

@@ -14,14 +14,11 @@
 // file is ExitCode::kInputData. Keys are documented in README.md, section Configuration reference.
 #pragma once
 
-#include "chem/box_model.hpp"
-
 #include <filesystem>
-#include <map>
 #include <string>
-#include <utility>
 #include <vector>
 
+#include "chem/box_model.hpp"
 #include "chem/mechanism.hpp"
 #include "chem/stiff_integrator.hpp"
 #include "core/units.hpp"
@@ -41,29 +38,6 @@ void load_chemistry_section(const ConfigNode& n, const UnitSystem& units, Scenar
 ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
                                   std::vector<InputFile>& inputs, bool allow_sinks);
 
-/// A box-mode run: one well-mixed cell at fixed T and p (README.md, section Configuration reference "Box mode").
-struct BoxSpec {
-  std::string name;
-  std::string description;
-  std::filesystem::path file;
-  double temperature_K = 0.0;
-  double pressure_dyn_cm2 = 0.0;
-  double air_cm3 = 0.0;          ///< p / (k_B T)
-  double duration_s = 0.0;
-  std::size_t outputs = 50;
-  bool log_spacing = true;
-  double first_output_s = 0.0;   ///< log spacing: first output time (default duration 1e-6)
-  std::map<std::string, double> bulk_mole_fraction;
-  std::vector<double> initial_cm3;  ///< per species (mechanism order)
-  std::vector<std::pair<std::string, double>> photolysis;  ///< channel, J (s^-1)
-  std::vector<std::string> report;  ///< reactions (ids) whose rates the summary prints
-  ChemistrySpec chemistry;
-  StiffOptions solver;
-  std::filesystem::path output_file;
-  std::string resolved_yaml;
-  std::vector<std::string> overrides;
-};
-
 /// Loads a box configuration; `overrides` are "key.path=value" strings.
 BoxSpec load_box_config(const std::filesystem::path& file,
                         const std::vector<std::string>& overrides, const UnitSystem& units);
@@ -71,8 +45,5 @@ BoxSpec load_box_config(const std::filesystem::path& file,
 /// Text summary for `colchem check`: modules, what each adds (species, reactions; the
 /// reactions themselves when verbose), parameters, and the element-balance result.
 std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose);
-
-/// The box integration problem a box configuration describes (output times included).
-BoxProblem box_problem(const BoxSpec& box);
 
 }  // namespace colchem

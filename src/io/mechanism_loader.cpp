@@ -1,5 +1,6 @@
-// Mechanism file loader. Schema (README.md, section Configuration reference): mechanism {name, description}, species [..],
-// parameters [..], modules [{name, description, requires, reactions [..]}].
+// Mechanism file loader. Schema (README.md, section Configuration reference): mechanism {name,
+// description}, species [..], parameters [..], modules [{name, description, requires, reactions
+// [..]}].
 #include "io/mechanism_loader.hpp"
 
 #include <fmt/format.h>
@@ -8,15 +9,18 @@
 #include <cctype>
 #include <cmath>
 #include <functional>
+#include <limits>
 #include <sstream>
 
 #include "io/config_node.hpp"
+#include "io/key_table.hpp"
 
 namespace colchem {
 
 namespace {
 
 constexpr ExitCode kCode = ExitCode::kInputData;
+constexpr double kInf = std::numeric_limits<double>::infinity();
 // The largest stoichiometric coefficient of a term (common practice, no source: elementary
 // and lumped reactions use single digits; three digits leave room and keep every element
 // balance far from integer overflow).
@@ -29,7 +33,9 @@ std::string trim(const std::string& s) {
   return s.substr(b, e - b + 1);
 }
 
-std::string quoted(const Reaction& rx) { return "reaction '" + rx.equation + "'"; }
+std::string quoted(const Reaction& rx) {
+  return "reaction '" + rx.equation + "'";
+}
 
 struct Side {
   std::vector<std::pair<std::string, int>> terms;
@@ -88,27 +94,33 @@ DiffusionParams read_diffusion(const ConfigNode& n) {
   return d;
 }
 
-void read_species(const ConfigNode& list, Mechanism& m) {
+void read_species(const ConfigNode& list, Mechanism& m, const UnitSystem& units) {
   for (const auto& item : list.items()) {
     Species sp;
     sp.where = item.location();
     const auto nm = item.child("name");
     sp.name = nm.text();
-    if (sp.name == "M" || sp.name == "hv") nm.fail("a species name", "the reserved name '" + sp.name + "'");
+    if (sp.name == "M" || sp.name == "hv")
+      nm.fail("a species name", "the reserved name '" + sp.name + "'");
     if (m.species_index(sp.name)) nm.fail("a species declared once", "'" + sp.name + "' again");
     if (auto d = item.find("description")) sp.description = d->text();
-    if (auto f = item.find("fixed")) sp.fixed = f->boolean();
+    const Key keys[] = {
+        flag("fixed", &sp.fixed),
+        number("thermal_diffusion", &sp.thermal_diffusion, -kInf, kInf, "a finite number"),
+    };
+    read_keys(item, units, keys);
     std::string formula = sp.name;
     const auto fnode = item.find("formula");
     if (fnode) formula = fnode->text();
     std::string why;
     auto parsed = parse_formula(formula, &why);
-    if (!parsed) (fnode ? *fnode : nm).fail("a chemical formula", "'" + formula + "' (" + why + ")",
-                                            "give `formula:` for a name that is not one");
+    if (!parsed)
+      (fnode ? *fnode : nm)
+          .fail("a chemical formula", "'" + formula + "' (" + why + ")",
+                "give `formula:` for a name that is not one");
     sp.composition = parsed->composition;
     sp.molar_mass_g_mol = sp.composition.molar_mass_g_mol();
     if (auto d = item.find("diffusion")) sp.diffusion = read_diffusion(*d);
-    if (auto t = item.find("thermal_diffusion")) sp.thermal_diffusion = t->number();
     item.done();
     m.species.push_back(std::move(sp));
   }
@@ -119,15 +131,17 @@ void read_parameters(const ConfigNode& list, Mechanism& m) {
     Parameter p;
     p.where = item.location();
     p.name = item.child("name").text();
-    if (m.parameter_index(p.name)) item.child("name").fail("a parameter declared once", "'" + p.name + "' again");
+    if (m.parameter_index(p.name))
+      item.child("name").fail("a parameter declared once", "'" + p.name + "' again");
     p.default_value = item.child("default").number();
     if (auto v = item.find("min")) p.min = v->number();
     if (auto v = item.find("max")) p.max = v->number();
     if (auto v = item.find("meaning")) p.meaning = v->text();
     if (!(p.min <= p.max)) item.fail("min <= max", fmt::format("min {} > max {}", p.min, p.max));
     if (!(p.default_value >= p.min && p.default_value <= p.max)) {
-      item.child("default").fail(fmt::format("a default within [{}, {}] for parameter '{}'", p.min, p.max, p.name),
-                                 fmt::format("{}", p.default_value));
+      item.child("default").fail(
+          fmt::format("a default within [{}, {}] for parameter '{}'", p.min, p.max, p.name),
+          fmt::format("{}", p.default_value));
     }
     item.done();
     m.parameters.push_back(std::move(p));
@@ -146,8 +160,8 @@ ArrheniusParams read_arrhenius(const ConfigNode& n) {
 /// Reads the one form key of a rate map (equilibrium_reverse's forward reuses this).
 RateLaw read_law(const ConfigNode& rate, bool thermal_only) {
   static const std::vector<std::string> forms = {
-      "arrhenius", "falloff", "troe", "chemical_activation", "equilibrium_reverse",
-      "constant", "first_order", "photolysis"};
+      "arrhenius",           "falloff",  "troe",        "chemical_activation",
+      "equilibrium_reverse", "constant", "first_order", "photolysis"};
   std::vector<std::string> present;
   for (const auto& f : forms) {
     if (rate.has(f)) present.push_back(f);
@@ -217,10 +231,14 @@ RateLaw read_law(const ConfigNode& rate, bool thermal_only) {
 
 const char* unit_of_order(int order) {
   switch (order) {
-    case 1: return "s-1";
-    case 2: return "cm3 s-1";
-    case 3: return "cm6 s-1";
-    default: return "";
+    case 1:
+      return "s-1";
+    case 2:
+      return "cm3 s-1";
+    case 3:
+      return "cm6 s-1";
+    default:
+      return "";
   }
 }
 
@@ -228,9 +246,13 @@ const char* unit_of_order(int order) {
 /// volume; it turns a bimolecular factor into a termolecular one, kinf into s-1, ...).
 void convert_law(RateLaw& law, double f, double f3) {
   switch (law.form) {
-    case RateForm::kArrhenius: law.arrhenius.A *= f; break;
+    case RateForm::kArrhenius:
+      law.arrhenius.A *= f;
+      break;
     case RateForm::kConstant:
-    case RateForm::kFirstOrder: law.arrhenius.A *= f; break;
+    case RateForm::kFirstOrder:
+      law.arrhenius.A *= f;
+      break;
     case RateForm::kFalloff:
       law.kinf_300 *= f;
       law.k0_300 *= f * f3;
@@ -244,7 +266,8 @@ void convert_law(RateLaw& law, double f, double f3) {
       law.kinf_300 *= f / f3;
       break;
     case RateForm::kEquilibriumReverse:
-    case RateForm::kPhotolysis: break;
+    case RateForm::kPhotolysis:
+      break;
   }
 }
 
@@ -255,7 +278,8 @@ void read_units(const ConfigNode& u, Reaction& rx, const UnitSystem& units) {
   // For equilibrium_reverse the units are those of the forward rate (one order higher).
   const int order = rx.rate_order() + (reverse ? 1 : 0);
   const std::string expected = unit_of_order(order);
-  if (expected.empty()) u.fail("a reaction of order 1 to 3", std::to_string(order) + " for " + quoted(rx));
+  if (expected.empty())
+    u.fail("a reaction of order 1 to 3", std::to_string(order) + " for " + quoted(rx));
   if (!units.parses(given)) u.fail("a UDUNITS unit such as '" + expected + "'", "'" + given + "'");
   const auto f = units.convert(1.0, given, expected);
   if (!f) {
@@ -314,20 +338,9 @@ std::string read_id(const ConfigNode& node) {
   return id;
 }
 
-Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
-                       const UnitSystem& units) {
-  Reaction rx;
-  rx.where = item.location();
-  rx.module = module;
-  refuse_renamed_keys(item);
-  const auto id = item.find("id");
-  if (!id) {
-    const auto eq = item.find("equation");
-    item.fail("an `id` for every reaction (short and unique in the file, e.g. 'o_o3')",
-              eq ? "none for '" + trim(eq->text()) + "'" : std::string("none"));
-  }
-  rx.id = read_id(*id);
-  const auto eqn = item.child("equation");
+/// The equation "A + B -> C + D" into rx (reactants, products, third body, photon),
+/// each species declared in the mechanism.
+void read_equation(const ConfigNode& eqn, const Mechanism& m, Reaction& rx) {
   rx.equation = trim(eqn.text());
   const auto arrow = rx.equation.find("->");
   if (arrow == std::string::npos) eqn.fail("an equation 'A + B -> C + D'", "'" + rx.equation + "'");
@@ -344,8 +357,7 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
         std::vector<std::string> names;
         for (const auto& sp : m.species) names.push_back(sp.name);
         const auto near = nearest_word(name, names);
-        eqn.fail("species declared under 'species'",
-                 "undeclared '" + name + "' in " + quoted(rx),
+        eqn.fail("species declared under 'species'", "undeclared '" + name + "' in " + quoted(rx),
                  near ? "did you mean '" + *near + "'?" : std::string{});
       }
       merge(out, *s, count);
@@ -354,36 +366,38 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   resolve(left, rx.reactants);
   resolve(right, rx.products);
   if (rx.reactants.empty()) eqn.fail("at least one reactant", quoted(rx));
+}
 
-  const auto rate = item.child("rate");
-  rx.rate = read_law(rate, false);
-  if (auto s = item.find("source")) rx.source = s->text();
-  if (auto s = item.find("sink")) rx.sink = s->boolean();
-  if (auto u = item.find("uncertainty")) {
-    const auto f = u->child("f298");
-    rx.uncertainty.f298 = f.number();
-    if (!(rx.uncertainty.f298 >= 1.0) || !std::isfinite(rx.uncertainty.f298)) {
-      f.fail("an uncertainty factor f298 >= 1 (1: exact)", quoted(rx));
-    }
-    if (auto g = u->find("g")) {
-      rx.uncertainty.g_K = g->number();
-      if (!(rx.uncertainty.g_K >= 0.0) || !std::isfinite(rx.uncertainty.g_K)) {
-        g->fail("a temperature coefficient g >= 0 (K)", quoted(rx));
-      }
-    }
-    if (auto s = u->find("source")) rx.uncertainty.source = s->text();
-    u->done();
-    rx.uncertainty.stated = true;
+/// `uncertainty: {f298, g, source}`.
+void read_uncertainty(const ConfigNode& u, Reaction& rx) {
+  const auto f = u.child("f298");
+  rx.uncertainty.f298 = f.number();
+  if (!(rx.uncertainty.f298 >= 1.0) || !std::isfinite(rx.uncertainty.f298)) {
+    f.fail("an uncertainty factor f298 >= 1 (1: exact)", quoted(rx));
   }
+  if (auto g = u.find("g")) {
+    rx.uncertainty.g_K = g->number();
+    if (!(rx.uncertainty.g_K >= 0.0) || !std::isfinite(rx.uncertainty.g_K)) {
+      g->fail("a temperature coefficient g >= 0 (K)", quoted(rx));
+    }
+  }
+  if (auto s = u.find("source")) rx.uncertainty.source = s->text();
+  u.done();
+  rx.uncertainty.stated = true;
+}
 
-  // Shape checks against the equation.
+/// Checks of the rate law's shape against the equation (hv, M, products, sink).
+void check_shape(const Reaction& rx, const ConfigNode& item, const ConfigNode& eqn,
+                 const ConfigNode& rate) {
   const bool photolysis = rx.rate.form == RateForm::kPhotolysis;
-  if (photolysis && !rx.photon) rate.fail("'hv' among the reactants of a photolysis reaction", quoted(rx));
+  if (photolysis && !rx.photon)
+    rate.fail("'hv' among the reactants of a photolysis reaction", quoted(rx));
   if (!photolysis && rx.photon) rate.fail("a photolysis rate for a reaction with 'hv'", quoted(rx));
   if (rx.rate.form == RateForm::kFirstOrder && rx.molecularity() != 1) {
     rate.fail("exactly one reactant for a first_order rate", quoted(rx));
   }
-  const RateLaw& shape = rx.rate.form == RateForm::kEquilibriumReverse ? rx.rate.forward.front() : rx.rate;
+  const RateLaw& shape =
+      rx.rate.form == RateForm::kEquilibriumReverse ? rx.rate.forward.front() : rx.rate;
   if ((shape.form == RateForm::kFalloff || shape.form == RateForm::kTroe) && !rx.third_body) {
     rate.fail("'+ M' on both sides of a reaction with a fall-off rate", quoted(rx));
   }
@@ -393,10 +407,10 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
   if (rx.sink && !rx.products.empty()) {
     item.child("sink").fail("no products in a reaction marked sink", quoted(rx));
   }
-  if (auto u = rate.find("units")) read_units(*u, rx, units);
-  rate.done();
-  if (!rx.uncertainty.stated) rx.uncertainty = default_uncertainty(rx);
+}
 
+/// `third_body_weights: {SPECIES: weight}` and `scale: [PARAMETER or 1 - PARAMETER, ...]`.
+void read_weights_and_scale(const ConfigNode& item, const Mechanism& m, Reaction& rx) {
   if (auto eff = item.find("third_body_weights")) {
     for (const auto& [name, v] : eff->entries()) {
       const auto s = m.species_index(name);
@@ -408,7 +422,8 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
     }
   }
   if (auto sc = item.find("scale")) {
-    std::vector<ConfigNode> factors = sc->is_sequence() ? sc->items() : std::vector<ConfigNode>{*sc};
+    std::vector<ConfigNode> factors =
+        sc->is_sequence() ? sc->items() : std::vector<ConfigNode>{*sc};
     for (const auto& f : factors) {
       std::string t = trim(f.text());
       ScaleFactor factor;
@@ -429,29 +444,105 @@ Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
       rx.scale.push_back(factor);
     }
   }
+}
+
+/// Element balance (hv and M carry no atoms); sinks are exempt.
+void check_element_balance(const Reaction& rx, const Mechanism& m, const ConfigNode& eqn) {
+  std::map<std::string, long long> bal;  // counts <= 9999 times coefficients <= 999
+  for (const auto& e : rx.reactants) {
+    for (const auto& [el, c] : m.species[e.species].composition.atoms)
+      bal[el] += static_cast<long long>(c) * e.count;
+  }
+  for (const auto& e : rx.products) {
+    for (const auto& [el, c] : m.species[e.species].composition.atoms)
+      bal[el] -= static_cast<long long>(c) * e.count;
+  }
+  std::string off;
+  for (const auto& [el, c] : bal) {
+    if (c != 0) off += fmt::format("{}{} {:+d}", off.empty() ? "" : ", ", el, -c);
+  }
+  if (!off.empty()) {
+    eqn.fail("a reaction balanced in every element (or `sink: true`)",
+             quoted(rx) + " changing " + off + " (products minus reactants)");
+  }
+}
+
+Reaction read_reaction(const ConfigNode& item, Mechanism& m, std::size_t module,
+                       const UnitSystem& units) {
+  Reaction rx;
+  rx.where = item.location();
+  rx.module = module;
+  refuse_renamed_keys(item);
+  const auto id = item.find("id");
+  if (!id) {
+    const auto eq = item.find("equation");
+    item.fail("an `id` for every reaction (short and unique in the file, e.g. 'o_o3')",
+              eq ? "none for '" + trim(eq->text()) + "'" : std::string("none"));
+  }
+  rx.id = read_id(*id);
+  const auto eqn = item.child("equation");
+  read_equation(eqn, m, rx);
+  const auto rate = item.child("rate");
+  rx.rate = read_law(rate, false);
+  if (auto s = item.find("source")) rx.source = s->text();
+  if (auto s = item.find("sink")) rx.sink = s->boolean();
+  if (auto u = item.find("uncertainty")) read_uncertainty(*u, rx);
+  check_shape(rx, item, eqn, rate);
+  if (auto u = rate.find("units")) read_units(*u, rx, units);
+  rate.done();
+  if (!rx.uncertainty.stated) rx.uncertainty = default_uncertainty(rx);
+
+  read_weights_and_scale(item, m, rx);
   item.done();
 
-  // Element balance (hv and M carry no atoms); sinks are exempt.
-  if (!rx.sink) {
-    std::map<std::string, long long> bal;  // counts <= 9999 times coefficients <= 999
-    for (const auto& e : rx.reactants) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms)
-        bal[el] += static_cast<long long>(c) * e.count;
-    }
-    for (const auto& e : rx.products) {
-      for (const auto& [el, c] : m.species[e.species].composition.atoms)
-        bal[el] -= static_cast<long long>(c) * e.count;
-    }
-    std::string off;
-    for (const auto& [el, c] : bal) {
-      if (c != 0) off += fmt::format("{}{} {:+d}", off.empty() ? "" : ", ", el, -c);
-    }
-    if (!off.empty()) {
-      eqn.fail("a reaction balanced in every element (or `sink: true`)",
-               quoted(rx) + " changing " + off + " (products minus reactants)");
+  if (!rx.sink) check_element_balance(rx, m, eqn);
+  return rx;
+}
+
+/// Each module's `requires` (names, with the node that lists them) as module indices; the
+/// requirements form no cycle.
+void resolve_requirements(
+    const std::vector<std::pair<ConfigNode, std::vector<std::string>>>& requires_text,
+    Mechanism& m) {
+  for (std::size_t i = 0; i < m.modules.size(); ++i) {
+    const auto& [node, names] = requires_text[i];
+    for (const auto& nm : names) {
+      const auto idx = m.module_index(nm);
+      if (!idx) {
+        std::vector<std::string> all;
+        for (const auto& md : m.modules) all.push_back(md.name);
+        const auto near = nearest_word(nm, all);
+        node.fail("a module defined in this file", "unknown module '" + nm + "'",
+                  near ? "did you mean '" + *near + "'?" : std::string{});
+      }
+      m.modules[i].requires_modules.push_back(*idx);
     }
   }
-  return rx;
+  // Requirements form no cycle (a module that requires itself, directly or through others):
+  // depth-first search, 0 unvisited, 1 on the current path, 2 done.
+  {
+    std::vector<int> state(m.modules.size(), 0);
+    std::vector<std::size_t> path;
+    std::function<void(std::size_t)> visit = [&](std::size_t i) {
+      state[i] = 1;
+      path.push_back(i);
+      for (const std::size_t r : m.modules[i].requires_modules) {
+        if (state[r] == 1) {
+          std::string cycle;
+          const auto from = std::find(path.begin(), path.end(), r);
+          for (auto it = from; it != path.end(); ++it) cycle += m.modules[*it].name + " -> ";
+          cycle += m.modules[r].name;
+          requires_text[r].first.fail("module requirements without a cycle", "the cycle " + cycle);
+        }
+        if (state[r] == 0) visit(r);
+      }
+      path.pop_back();
+      state[i] = 2;
+    };
+    for (std::size_t i = 0; i < m.modules.size(); ++i) {
+      if (state[i] == 0) visit(i);
+    }
+  }
 }
 
 std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& units) {
@@ -461,7 +552,7 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
   m->name = meta.child("name").text();
   if (auto d = meta.find("description")) m->description = d->text();
   meta.done();
-  read_species(root.child("species"), *m);
+  read_species(root.child("species"), *m, units);
   if (auto p = root.find("parameters")) read_parameters(*p, *m);
 
   const auto mods = root.child("modules");
@@ -471,7 +562,8 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
     Module mod;
     mod.where = item.location();
     mod.name = item.child("name").text();
-    if (m->module_index(mod.name)) item.child("name").fail("a module name used once", "'" + mod.name + "' again");
+    if (m->module_index(mod.name))
+      item.child("name").fail("a module name used once", "'" + mod.name + "' again");
     if (auto d = item.find("description")) mod.description = d->text();
     std::vector<std::string> req;
     if (auto r = item.find("requires")) {
@@ -496,45 +588,7 @@ std::shared_ptr<Mechanism> build(const ConfigDocument& doc, const UnitSystem& un
     }
     item.done();
   }
-  for (std::size_t i = 0; i < m->modules.size(); ++i) {
-    const auto& [node, names] = requires_text[i];
-    for (const auto& nm : names) {
-      const auto idx = m->module_index(nm);
-      if (!idx) {
-        std::vector<std::string> all;
-        for (const auto& md : m->modules) all.push_back(md.name);
-        const auto near = nearest_word(nm, all);
-        node.fail("a module defined in this file", "unknown module '" + nm + "'",
-                  near ? "did you mean '" + *near + "'?" : std::string{});
-      }
-      m->modules[i].requires_modules.push_back(*idx);
-    }
-  }
-  // Requirements form no cycle (a module that requires itself, directly or through others):
-  // depth-first search, 0 unvisited, 1 on the current path, 2 done.
-  {
-    std::vector<int> state(m->modules.size(), 0);
-    std::vector<std::size_t> path;
-    std::function<void(std::size_t)> visit = [&](std::size_t i) {
-      state[i] = 1;
-      path.push_back(i);
-      for (const std::size_t r : m->modules[i].requires_modules) {
-        if (state[r] == 1) {
-          std::string cycle;
-          const auto from = std::find(path.begin(), path.end(), r);
-          for (auto it = from; it != path.end(); ++it) cycle += m->modules[*it].name + " -> ";
-          cycle += m->modules[r].name;
-          requires_text[r].first.fail("module requirements without a cycle", "the cycle " + cycle);
-        }
-        if (state[r] == 0) visit(r);
-      }
-      path.pop_back();
-      state[i] = 2;
-    };
-    for (std::size_t i = 0; i < m->modules.size(); ++i) {
-      if (state[i] == 0) visit(i);
-    }
-  }
+  resolve_requirements(requires_text, *m);
   root.done();
   return m;
 }
@@ -557,47 +611,6 @@ std::shared_ptr<Mechanism> load_mechanism_text(const std::string& text, const st
   m->file = name;
   m->text = text;
   return m;
-}
-
-void check_rates(const Mechanism& mech, std::span<const double> T, std::span<const double> air,
-                 const std::map<std::string, double>& bulk, const RateLimits& lim) {
-  for (const auto& rx : mech.reactions) {
-    if (rx.rate.form == RateForm::kPhotolysis) continue;
-    const double eff = third_body_weight(mech, rx, bulk);
-    const int order = rx.rate_order();
-    for (std::size_t j = 0; j < T.size(); ++j) {
-      const double M = eff * air[j];
-      const double k = rate_constant(rx.rate, T[j], M);
-      const double k0 = rx.rate.low_pressure_limit(T[j]);
-      auto bad = [&](const std::string& expected, double value, const std::string& unit,
-                     const std::string& limit) {
-        throw InputError(kCode, rx.where, "rate", expected + " for " + quoted(rx),
-                         fmt::format("{:.4g}{}{} at T = {:.1f} K, n_air = {:.3g} cm-3", value,
-                                     unit.empty() ? "" : " ", unit, T[j], air[j]),
-                         limit.empty() ? "limits are common practice, no source"
-                                       : "limits are common practice, no source; a world that "
-                                         "needs more sets chemistry.rate_limits." +
-                                             limit);
-      };
-      if (!std::isfinite(k) || k < 0.0) bad("a finite, non-negative rate constant", k, "", "");
-      if (order == 1 && k > lim.first_order_s) {
-        bad(fmt::format("a first-order rate constant below {:g} s-1", lim.first_order_s), k, "s-1",
-            "first_order");
-      }
-      if (order == 2 && k > lim.bimolecular_cm3_s) {
-        bad(fmt::format("a bimolecular rate constant below {:g} cm3 s-1", lim.bimolecular_cm3_s), k,
-            "cm3 s-1", "bimolecular");
-      }
-      if (order == 3 && k > lim.termolecular_cm6_s) {
-        bad(fmt::format("a termolecular rate constant below {:g} cm6 s-1", lim.termolecular_cm6_s),
-            k, "cm6 s-1", "termolecular");
-      }
-      if (k0 > lim.termolecular_cm6_s) {
-        bad(fmt::format("a low-pressure limit k0 below {:g} cm6 s-1", lim.termolecular_cm6_s), k0,
-            "cm6 s-1", "termolecular");
-      }
-    }
-  }
 }
 
 }  // namespace colchem

@@ -6,7 +6,7 @@
 // species, reaction ids (required, a short word, unique), rate units against the order,
 // unknown parameter names in `scale`, parameter defaults outside [min, max], photolysis
 // without hv, unknown keys and the renamed keys of earlier schemas (`duplicate`,
-// `efficiencies`). check_rates() adds the checks that need a column: negative,
+// `efficiencies`). check_rates() (chem/rate_checks.hpp) adds the checks that need a column: negative,
 // NaN or absurd rate constants at its temperatures and densities (limits: RateLimits,
 // chem/mechanism.hpp, widened in a scenario's or box's `chemistry.rate_limits`).
 #pragma once
@@ -18,6 +18,7 @@
 #include <string>
 
 #include "chem/mechanism.hpp"
+#include "chem/rate_checks.hpp"
 #include "core/units.hpp"
 
 namespace colchem {
@@ -27,13 +28,5 @@ std::shared_ptr<Mechanism> load_mechanism(const std::filesystem::path& file,
 /// The same from text (tests); `name` stands for the file in messages.
 std::shared_ptr<Mechanism> load_mechanism_text(const std::string& text, const std::string& name,
                                                const UnitSystem& units);
-
-/// Evaluates every thermal rate constant at every (T, n_air) pair with [M] from
-/// `bulk_mole_fraction`; a negative, NaN or absurd value is an InputError (kInputData)
-/// naming the mechanism file, the reaction's line and equation and the conditions.
-void check_rates(const Mechanism& mech, std::span<const double> temperature_K,
-                 std::span<const double> air_cm3,
-                 const std::map<std::string, double>& bulk_mole_fraction,
-                 const RateLimits& limits = {});
 
 }  // namespace colchem

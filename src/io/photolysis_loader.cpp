@@ -7,35 +7,26 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <limits>
 #include <optional>
 #include <set>
 #include <sstream>
 
 #include "chem/mechanism.hpp"
 #include "core/constants.hpp"
+#include "io/key_table.hpp"
 #include "io/table.hpp"
+#include "photo/photon_energy.hpp"
 #include "photo/spectral_binning.hpp"
 
 namespace colchem {
 
 namespace {
 
-constexpr double kSolarRadiusCm = 6.957e10;  // IAU 2015 nominal solar radius (exact)
-
 struct Ctx {
   const UnitSystem& units;
   std::vector<InputFile>* inputs;
 };
-
-/// True when `unit` converts linearly to `ref`. UDUNITS-2 also "converts" reciprocal units
-/// (nm to cm-1 by inversion), which must not pass for a change of unit.
-bool same_dimension(const UnitSystem& units, const std::string& unit, const std::string& ref) {
-  const auto a = units.convert(1.0, unit, ref);
-  const auto b = units.convert(2.0, unit, ref);
-  const auto z = units.convert(0.0, unit, ref);
-  if (!a || !b || !z) return false;
-  return std::abs((*b - *z) - 2.0 * (*a - *z)) <= 1e-9 * std::abs(*a - *z);
-}
 
 /// The file name plus its '#' comment lines (the source label).
 std::string table_label(const Table& t) {
@@ -59,20 +50,15 @@ struct Conversion {
   bool reciprocal = false;
 };
 
-/// cm^-1 per kcal/mol with the thermochemical calorie (4.184 J), the chemists' unit:
-/// 4184e7 erg / (N_A h c) = 349.76 cm^-1.
-double wavenumber_per_kcal_mol() {
-  return 4184.0e7 / (constants::kAvogadro * constants::kPlanck * constants::kSpeedOfLight);
-}
-
 /// An energy unit (kcal/mol, kJ/mol, J/mol, eV, cm-1) as cm^-1 per unit, or nullopt.
 std::optional<double> energy_to_wavenumber(const UnitSystem& units, const std::string& unit) {
-  const double hc = constants::kPlanck * constants::kSpeedOfLight;  // erg cm
-  if (unit == "kcal/mol" || unit == "kcal mol-1") return wavenumber_per_kcal_mol();
+  if (unit == "kcal/mol" || unit == "kcal mol-1") return wavenumber_per_molar_energy(4184.0);
   if (same_dimension(units, unit, "J mol-1")) {
-    return *units.convert(1.0, unit, "J mol-1") * 1e7 / (constants::kAvogadro * hc);
+    return wavenumber_per_molar_energy(*units.convert(1.0, unit, "J mol-1"));
   }
-  if (same_dimension(units, unit, "erg")) return *units.convert(1.0, unit, "erg") / hc;
+  if (same_dimension(units, unit, "erg")) {
+    return wavenumber_per_energy(*units.convert(1.0, unit, "erg"));
+  }
   if (same_dimension(units, unit, "cm-1")) return *units.convert(1.0, unit, "cm-1");
   return std::nullopt;
 }
@@ -165,29 +151,20 @@ void read_scale_key(const ConfigNode& n, ParameterUse use, PhotolysisSpec& spec)
 TabulatedSpectrum read_spectrum_table(const ConfigNode& n, Ctx& ctx, const std::string& role,
                                       const std::string& default_column,
                                       const std::string& target_unit, Table* keep = nullptr) {
-  std::filesystem::path file;
-  std::string column = default_column;
-  std::string wl_column = "wavelength";
-  if (n.is_scalar()) {
-    file = n.path();
-  } else {
-    file = n.child("table").path();
-    if (auto c = n.find("column")) column = c->text();
-    if (auto c = n.find("wavelength_column")) wl_column = c->text();
-    n.done();
-  }
-  const Table t = Table::read(file);
-  t.require_increasing(wl_column);
-  TabulatedSpectrum s;
-  s.wavelength_nm = t.column(wl_column, ctx.units, "nm");
-  s.value = t.column(column, ctx.units, target_unit);
+  const TableRef ref = table_ref(n, TableRefForm::wavelength(default_column));
+  if (!n.is_scalar()) n.done();
+  const Table t = ref.read();
+  const std::string& column = ref.column;
+  const std::string& wl_column = ref.axis_column;
+  auto p = ref.profile(t, ctx.units, "nm", target_unit);
+  TabulatedSpectrum s{std::move(p.axis), std::move(p.value), {}};
   for (std::size_t r = 0; r < s.value.size(); ++r) {
     if (!(s.value[r] >= 0.0))
       t.fail_row(r, column, "a value >= 0", message_number(t.raw(column)[r]));
   }
   if (s.wavelength_nm.front() <= 0.0) t.fail_row(0, wl_column, "a positive wavelength", "<= 0");
   s.source = table_label(t);
-  if (ctx.inputs) ctx.inputs->push_back(InputFile{role, file, t.text()});
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{role, ref.file, t.text()});
   if (keep) *keep = t;
   return s;
 }
@@ -244,7 +221,7 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
     const auto r = planck->child("radius");
     const auto q = split_quantity(r.text());
     if (q && (q->unit == "R_sun" || q->unit == "Rsun")) {
-      s.radius_cm = q->value * kSolarRadiusCm;
+      s.radius_cm = q->value * constants::kSolarRadiusCm;
     } else {
       s.radius_cm = r.quantity(ctx.units, "cm", "6.957e5 km' or '1 R_sun");
     }
@@ -254,13 +231,11 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
   s.form = SpectrumForm::kTable;
   // The flux column: named by `column`, else the first column after the wavelength.
-  const std::filesystem::path file = table->path();
-  std::string column;
-  std::string wl_column = "wavelength";
-  if (auto c = n.find("column")) column = c->text();
-  if (auto c = n.find("wavelength_column")) wl_column = c->text();
+  TableRef ref = table_ref(n, TableRefForm::wavelength(""));
   n.done();
-  const Table t = Table::read(file);
+  const Table t = Table::read(ref.file);
+  std::string& column = ref.column;
+  const std::string& wl_column = ref.axis_column;
   if (column.empty()) {
     for (const auto& name : t.names()) {
       if (name != wl_column) {
@@ -293,7 +268,7 @@ void load_spectrum(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
       t.fail_row(r, column, "a flux >= 0", message_number(t.raw(column)[r]));
   }
   s.table.source = table_label(t);
-  if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", file, t.text()});
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{"stellar spectrum", ref.file, t.text()});
 }
 
 /// An angle in radians. UDUNITS-2 spells degrees "degree" (or "arc_degree"); the common
@@ -364,13 +339,11 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
     // Rows (altitude, wavelength, value), in blocks of one altitude each: altitudes
     // increasing from block to block, wavelengths increasing within a block.
     p.form = OpticalPropertyForm::kAltitudeWavelength;
-    const std::filesystem::path file = n.child("table").path();
-    std::string column = "value", wl = "wavelength";
     const std::string alt = n.child("altitude_column").text();
-    if (auto c = n.find("column")) column = c->text();
-    if (auto c = n.find("wavelength_column")) wl = c->text();
+    const TableRef ref = table_ref(n, TableRefForm::wavelength("value", false));
     n.done();
-    const Table t = Table::read(file);
+    const std::string &column = ref.column, &wl = ref.axis_column;
+    const Table t = Table::read(ref.file);
     const auto z = t.column(alt, ctx.units, "cm");
     const auto x = t.column(wl, ctx.units, "nm");
     const auto v = t.column(column, ctx.units, "1");
@@ -396,7 +369,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
       t.fail_row(0, alt, "at least two altitudes (one: give the wavelength table alone)",
                  "one altitude");
     }
-    if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol " + what, file, t.text()});
+    if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol " + what, ref.file, t.text()});
     return p;
   }
   if (n.find("table")) {
@@ -424,11 +397,7 @@ OpticalPropertySpec load_optical_property(const ConfigNode& n, Ctx& ctx, const T
 
 void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   AerosolSpec& a = spec.aerosols.emplace_back();
-  const std::filesystem::path file = n.child("table").path();
-  std::string column = "extinction";
-  std::string alt = "altitude";
-  if (auto c = n.find("column")) column = c->text();
-  if (auto c = n.find("altitude_column")) alt = c->text();
+  const TableRef ref = table_ref(n, TableRefForm::altitude("extinction"));
   if (auto e = n.find("wavelength_exponent")) a.wavelength_exponent = e->number();
   if (auto r = n.find("reference_wavelength")) {
     a.reference_nm = r->quantity(ctx.units, "nm", "550 nm");
@@ -437,10 +406,11 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   const auto ssa = n.find("single_scattering_albedo");
   const auto asym = n.find("asymmetry");
   n.done();
-  const Table t = Table::read(file);
-  t.require_increasing(alt);
-  a.altitude_cm = t.column(alt, ctx.units, "cm");
-  a.extinction_cm1 = t.column(column, ctx.units, "cm-1");
+  const Table t = ref.read();
+  const std::string& column = ref.column;
+  auto prof = ref.profile(t, ctx.units, "cm", "cm-1");
+  a.altitude_cm = std::move(prof.axis);
+  a.extinction_cm1 = std::move(prof.value);
   for (std::size_t r = 0; r < a.extinction_cm1.size(); ++r) {
     if (!(a.extinction_cm1[r] >= 0.0))
       t.fail_row(r, column, "an extinction >= 0", message_number(t.raw(column)[r]));
@@ -456,7 +426,7 @@ void load_aerosol(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec) {
   }
   a.source = table_label(t);
   a.present = true;
-  if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol extinction table", file, t.text()});
+  if (ctx.inputs) ctx.inputs->push_back(InputFile{"aerosol extinction table", ref.file, t.text()});
 }
 
 // photolysis.prescribed: a list of {channel, table[, column, altitude_column]} or
@@ -467,10 +437,10 @@ void load_prescribed(const ConfigNode& list, Ctx& ctx, PhotolysisSpec& spec) {
   for (const auto& n : list.items()) {
     PrescribedJSpec p;
     const auto channel = n.child("channel");
-    const auto table = n.find("table");
+    const bool table = n.has("table");
     const auto value = n.find("value");
-    const auto column = n.find("column");
-    const auto alt = n.find("altitude_column");
+    const bool columns = n.has("column") || n.has("altitude_column");
+    const TableRef ref = table ? table_ref(n, TableRefForm::altitude("J")) : TableRef{};
     n.done();
     p.channel = channel.text();
     const auto it = std::find(names.begin(), names.end(), p.channel);
@@ -490,25 +460,23 @@ void load_prescribed(const ConfigNode& list, Ctx& ctx, PhotolysisSpec& spec) {
              table ? "both" : "neither");
     }
     if (value) {
-      if (column || alt) n.fail("'column' and 'altitude_column' only with 'table'", "'value'");
+      if (columns) n.fail("'column' and 'altitude_column' only with 'table'", "'value'");
       p.held = true;
       p.value_s1 = value->quantity(ctx.units, "s-1", "2e-6 s-1");
       if (!(p.value_s1 >= 0.0)) value->fail("a J >= 0", value->describe());
     } else {
-      const std::filesystem::path file = table->path();
-      const std::string col = column ? column->text() : "J";
-      const std::string zcol = alt ? alt->text() : "altitude";
-      const Table t = Table::read(file);
-      t.require_increasing(zcol);
-      p.altitude_cm = t.column(zcol, ctx.units, "cm");
-      p.j_s1 = t.column(col, ctx.units, "s-1");
+      const Table t = ref.read();
+      const std::string& col = ref.column;
+      auto prof = ref.profile(t, ctx.units, "cm", "s-1");
+      p.altitude_cm = std::move(prof.axis);
+      p.j_s1 = std::move(prof.value);
       for (std::size_t r = 0; r < p.j_s1.size(); ++r) {
         if (!(p.j_s1[r] >= 0.0) || !std::isfinite(p.j_s1[r])) {
           t.fail_row(r, col, "a finite J >= 0", message_number(t.raw(col)[r]));
         }
       }
-      p.source = file.string();
-      if (ctx.inputs) ctx.inputs->push_back(InputFile{"prescribed J table", file, t.text()});
+      p.source = ref.file.string();
+      if (ctx.inputs) ctx.inputs->push_back(InputFile{"prescribed J table", ref.file, t.text()});
     }
     spec.prescribed.push_back(std::move(p));
   }
@@ -607,9 +575,9 @@ OvertoneBandSpec load_band(const ConfigNode& n, Ctx& ctx, PhotolysisSpec& spec, 
   if (wq && same_dimension(ctx.units, wq->unit, "cm-1")) {
     b.fwhm_cm1 = w.quantity(ctx.units, "cm-1", "100 cm-1");
   } else {
-    // A width in wavelength: FWHM in wavenumber dnu~ = dlambda / lambda^2.
+    // A width in wavelength, as a width in wavenumber.
     const double wl_nm = w.quantity(ctx.units, "nm", "5 nm' or '100 cm-1");
-    b.fwhm_cm1 = wl_nm * 1e-7 / std::pow(b.center_nm * 1e-7, 2);
+    b.fwhm_cm1 = wavenumber_width(wl_nm, b.center_nm);
   }
   if (!(b.fwhm_cm1 > 0.0)) w.fail("a positive width");
   if (auto s = n.find("shape")) {
@@ -713,6 +681,86 @@ QuantumYieldSpec load_yield(const ConfigNode& n, Ctx& ctx, const std::string& ch
 
 }  // namespace
 
+/// One entry of `channels:`; its absorber must be declared, its name new.
+ChannelSpec load_channel(const ConfigNode& item, Ctx& ctx, PhotolysisSpec& spec,
+                         const std::set<std::string>& absorbers, std::set<std::string>& names) {
+  ChannelSpec ch;
+  const auto nm = item.child("name");
+  ch.name = nm.text();
+  if (ch.name.empty() || ch.name.find_first_of(" \t/") != std::string::npos) {
+    nm.fail("a channel name without spaces or '/' (it names the output variable J_<name>)");
+  }
+  if (!names.insert(ch.name).second) nm.fail("distinct channel names", "'" + ch.name + "' again");
+  const auto ab = item.child("absorber");
+  ch.absorber = ab.text();
+  if (absorbers.count(ch.absorber) == 0) {
+    std::string hint;
+    const std::vector<std::string> declared(absorbers.begin(), absorbers.end());
+    if (auto near = nearest_word(ch.absorber, declared)) hint = "did you mean '" + *near + "'?";
+    ab.fail("an absorber declared under 'absorbers'", "'" + ch.absorber + "'", hint);
+  }
+  if (auto p = item.find("products")) ch.products = p->text();
+  if (auto q = item.find("quantum_yield")) ch.quantum_yield = load_yield(*q, ctx, ch.name, spec);
+  if (auto b = item.find("branching")) {
+    ch.branching = b->number();
+    if (!(ch.branching >= 0.0 && ch.branching <= 1.0)) b->fail("a branching fraction from 0 to 1");
+  }
+  ParameterUse use;
+  use.channel = spec.channels.size();
+  const auto t = item.find("threshold");
+  if (t) {
+    use.target = ParameterTarget::kThreshold;
+    const auto before = spec.parameter_uses.size();
+    ch.threshold_nm = read_parametric(
+        *t,
+        [&](const ConfigNode& q, const std::string& unit) {
+          return threshold_conversion(q, ctx.units, unit);
+        },
+        use, spec);
+    if (spec.parameter_uses.size() == before &&
+        !(ch.threshold_nm > 0.0 && std::isfinite(ch.threshold_nm))) {
+      t->fail("a positive wavelength or energy");
+    }
+  }
+  if (auto w = item.find("onset_width")) {
+    if (!t) w->fail("an 'onset_width' only with a 'threshold'", w->describe());
+    use.target = ParameterTarget::kOnsetWidth;
+    const auto before = spec.parameter_uses.size();
+    ch.onset_width_cm1 = read_parametric(
+        *w,
+        [&](const ConfigNode& q, const std::string& unit) {
+          return energy_conversion(q, ctx.units, unit);
+        },
+        use, spec);
+    if (spec.parameter_uses.size() == before && !(ch.onset_width_cm1 >= 0.0)) {
+      w->fail("an energy width >= 0");
+    }
+  }
+  item.done();
+  return ch;
+}
+
+/// `rayleigh: {GAS: {cross_section, at, exponent}}`: a key table per gas.
+void load_rayleigh(const ConfigNode& ray, const UnitSystem& units, PhotolysisSpec& spec) {
+  const double inf = std::numeric_limits<double>::infinity();
+  for (const auto& [gas, node] : ray.entries()) {
+    RayleighSpec r;
+    r.gas = gas;
+    const Key keys[] = {
+        quantity("cross_section", &r.cross_section_cm2, "cm2", "4.5e-27 cm2", 0.0, inf,
+                 "a cross section >= 0")
+            .needed(),
+        quantity("at", &r.reference_nm, "nm", "550 nm", 0.0, inf, "a positive wavelength")
+            .above_lo()
+            .needed(),
+        number("exponent", &r.exponent, -inf, inf, "a finite number"),
+    };
+    read_keys(node, units, keys);
+    node.done();
+    spec.rayleigh.push_back(r);
+  }
+}
+
 void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& units,
                           PhotolysisSpec& spec, std::vector<InputFile>* inputs) {
   const ConfigDocument doc = ConfigDocument::load(file, ExitCode::kInputData);
@@ -744,83 +792,13 @@ void load_photolysis_data(const std::filesystem::path& file, const UnitSystem& u
   }
 
   std::set<std::string> names;
-  std::vector<std::string> declared(absorbers.begin(), absorbers.end());
   if (auto chans = root.find("channels")) {
     for (const auto& item : chans->items()) {
-      ChannelSpec ch;
-      const auto nm = item.child("name");
-      ch.name = nm.text();
-      if (ch.name.empty() || ch.name.find_first_of(" \t/") != std::string::npos) {
-        nm.fail("a channel name without spaces or '/' (it names the output variable J_<name>)");
-      }
-      if (!names.insert(ch.name).second)
-        nm.fail("distinct channel names", "'" + ch.name + "' again");
-      const auto ab = item.child("absorber");
-      ch.absorber = ab.text();
-      if (absorbers.count(ch.absorber) == 0) {
-        std::string hint;
-        if (auto near = nearest_word(ch.absorber, declared)) hint = "did you mean '" + *near + "'?";
-        ab.fail("an absorber declared under 'absorbers'", "'" + ch.absorber + "'", hint);
-      }
-      if (auto p = item.find("products")) ch.products = p->text();
-      if (auto q = item.find("quantum_yield"))
-        ch.quantum_yield = load_yield(*q, ctx, ch.name, spec);
-      if (auto b = item.find("branching")) {
-        ch.branching = b->number();
-        if (!(ch.branching >= 0.0 && ch.branching <= 1.0))
-          b->fail("a branching fraction from 0 to 1");
-      }
-      ParameterUse use;
-      use.channel = spec.channels.size();
-      const auto t = item.find("threshold");
-      if (t) {
-        use.target = ParameterTarget::kThreshold;
-        const auto before = spec.parameter_uses.size();
-        ch.threshold_nm = read_parametric(
-            *t,
-            [&](const ConfigNode& q, const std::string& unit) {
-              return threshold_conversion(q, units, unit);
-            },
-            use, spec);
-        if (spec.parameter_uses.size() == before &&
-            !(ch.threshold_nm > 0.0 && std::isfinite(ch.threshold_nm))) {
-          t->fail("a positive wavelength or energy");
-        }
-      }
-      if (auto w = item.find("onset_width")) {
-        if (!t) w->fail("an 'onset_width' only with a 'threshold'", w->describe());
-        use.target = ParameterTarget::kOnsetWidth;
-        const auto before = spec.parameter_uses.size();
-        ch.onset_width_cm1 = read_parametric(
-            *w,
-            [&](const ConfigNode& q, const std::string& unit) {
-              return energy_conversion(q, units, unit);
-            },
-            use, spec);
-        if (spec.parameter_uses.size() == before && !(ch.onset_width_cm1 >= 0.0)) {
-          w->fail("an energy width >= 0");
-        }
-      }
-      item.done();
-      spec.channels.push_back(std::move(ch));
+      spec.channels.push_back(load_channel(item, ctx, spec, absorbers, names));
     }
   }
 
-  if (auto ray = root.find("rayleigh")) {
-    for (const auto& [gas, node] : ray->entries()) {
-      RayleighSpec r;
-      r.gas = gas;
-      const auto cs = node.child("cross_section");
-      r.cross_section_cm2 = cs.quantity(units, "cm2", "4.5e-27 cm2");
-      if (!(r.cross_section_cm2 >= 0.0)) cs.fail("a cross section >= 0");
-      const auto at = node.child("at");
-      r.reference_nm = at.quantity(units, "nm", "550 nm");
-      if (!(r.reference_nm > 0.0)) at.fail("a positive wavelength");
-      if (auto e = node.find("exponent")) r.exponent = e->number();
-      node.done();
-      spec.rayleigh.push_back(r);
-    }
-  }
+  if (auto ray = root.find("rayleigh")) load_rayleigh(*ray, units, spec);
   root.done();
 }
 

@@ -3,13 +3,18 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <limits>
 
 #include "core/composition.hpp"
 #include "core/constants.hpp"
+#include "core/physical_bounds.hpp"
+#include "io/amount.hpp"
+#include "io/chemistry_section.hpp"
 #include "io/config_node.hpp"
+#include "io/key_table.hpp"
 #include "io/photolysis_loader.hpp"
-#include "io/physical_bounds.hpp"
 #include "io/scenario.hpp"
+#include "io/solver_section.hpp"
 #include "io/species_section.hpp"
 #include "io/table.hpp"
 
@@ -60,7 +65,8 @@ void load_grid(const ConfigNode& n, LoadContext& ctx) {
     auto e = edges->quantity_list(ctx.units, "cm", "58 km");
     if (e.size() < 2) edges->fail("at least two edges");
     for (std::size_t j = 1; j < e.size(); ++j) {
-      if (!(e[j] > e[j - 1])) edges->fail("edges increasing strictly upward", "a decrease at entry " + std::to_string(j));
+      if (!(e[j] > e[j - 1]))
+        edges->fail("edges increasing strictly upward", "a decrease at entry " + std::to_string(j));
     }
     ctx.scenario.background.grid = Grid::from_edges(std::move(e));
   } else {
@@ -78,40 +84,25 @@ void load_grid(const ConfigNode& n, LoadContext& ctx) {
 
 /// A profile given as a table file (string) or {table: FILE, column: NAME}.
 ProfileSpec load_profile_table(const ConfigNode& n, LoadContext& ctx, const std::string& role,
-                               const std::string& default_column,
-                               const std::string& target_unit) {
-  std::filesystem::path file;
-  std::string column = default_column;
-  std::string alt_column = "altitude";
-  if (n.is_scalar()) {
-    file = n.path();
-  } else {
-    file = n.child("table").path();
-    if (auto c = n.find("column")) column = c->text();
-    if (auto c = n.find("altitude_column")) alt_column = c->text();
-    n.done();
-  }
-  const Table t = Table::read(file);
-  t.require_increasing(alt_column);
-  ProfileSpec p;
-  p.altitude_cm = t.column(alt_column, ctx.units, "cm");
-  p.value = t.column(column, ctx.units, target_unit);
-  p.source = file.string();
-  ctx.scenario.inputs.push_back(InputFile{role, file, t.text()});
-  return p;
+                               const std::string& default_column, const std::string& target_unit) {
+  const TableRef ref = table_ref(n, TableRefForm::altitude(default_column, true));
+  if (!n.is_scalar()) n.done();
+  const Table t = ref.read();
+  auto p = ref.profile(t, ctx.units, "cm", target_unit);
+  ctx.scenario.inputs.push_back(InputFile{role, ref.file, t.text()});
+  return ProfileSpec{std::move(p.axis), std::move(p.value), std::move(p.source)};
 }
 
 void require_positive(const ProfileSpec& p, const std::string& what) {
   for (std::size_t i = 0; i < p.value.size(); ++i) {
     if (!(p.value[i] > 0.0)) {
-      throw InputError(ExitCode::kInputData, SourceLocation{p.source}, what,
-                       "positive values", std::to_string(p.value[i]) + " in data row " +
-                                              std::to_string(i + 1));
+      throw InputError(ExitCode::kInputData, SourceLocation{p.source}, what, "positive values",
+                       std::to_string(p.value[i]) + " in data row " + std::to_string(i + 1));
     }
   }
 }
 
-/// Every value of a table within [lo, hi] (bounds of physical sense, io/physical_bounds.hpp).
+/// Every value of a table within [lo, hi] (bounds of physical sense, core/physical_bounds.hpp).
 void require_within(const ProfileSpec& p, const std::string& what, double lo, double hi,
                     const std::string& expected) {
   for (std::size_t i = 0; i < p.value.size(); ++i) {
@@ -137,31 +128,20 @@ void check_covers(const ProfileSpec& p, const ConfigNode& n, const Grid& g, Extr
   }
 }
 
-void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
+/// Bulk composition and mean molecular mass.
+void load_bulk_composition(const ConfigNode& n, LoadContext& ctx) {
   BackgroundSpec& bg = ctx.scenario.background;
-  if (auto e = n.find("extrapolation")) {
-    bg.extrapolation = e->choice({"forbid", "hold_ends"}) == "forbid"
-                           ? Extrapolation::kForbid
-                           : Extrapolation::kHoldEnds;
-  }
-
-  // Bulk composition and mean molecular mass.
   const auto comp = n.child("bulk_composition");
+  bg.bulk_mole_fraction = read_bulk_composition(comp);
   double sum = 0.0;
   double mass_sum = 0.0;
-  for (const auto& [species, value] : comp.entries()) {
+  for (const auto& [species, x] : bg.bulk_mole_fraction) {
     std::string why;
     auto f = parse_formula(species, &why);
-    if (!f) value.fail("a chemical formula as the key", "'" + species + "' (" + why + ")");
-    const double x = value.number();
-    if (!(x > 0.0 && x <= 1.0)) value.fail("a mole fraction in (0, 1]");
-    bg.bulk_mole_fraction[species] = x;
+    if (!f)
+      comp.child(species).fail("a chemical formula as the key", "'" + species + "' (" + why + ")");
     sum += x;
     mass_sum += x * f->composition.molar_mass_g_mol();
-  }
-  if (bg.bulk_mole_fraction.empty()) comp.fail("at least one bulk gas with its mole fraction");
-  if (std::abs(sum - 1.0) > 1e-3) {
-    comp.fail("mole fractions summing to 1 (within 0.001)", "a sum of " + message_number(sum));
   }
   if (auto m = n.find("mean_molecular_mass")) {
     bg.mean_molecular_mass_amu = m->quantity(ctx.units, "g mol-1", "43.4 g/mol");
@@ -169,9 +149,11 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
   } else {
     bg.mean_molecular_mass_amu = mass_sum / sum;
   }
+}
 
-  // Temperature: a table, or isothermal.
-  const auto tn = n.child("temperature");
+/// Temperature: a table, or isothermal.
+void load_temperature(const ConfigNode& tn, LoadContext& ctx) {
+  BackgroundSpec& bg = ctx.scenario.background;
   if (tn.is_map() && tn.has("isothermal")) {
     const double T = tn.child("isothermal").quantity(ctx.units, "K", "250 K");
     if (!(T >= bounds::kMinTemperatureK && T <= bounds::kMaxTemperatureK)) {
@@ -188,9 +170,11 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
                    bounds::kMaxTemperatureK, "temperatures from 1 K to 1e5 K");
     check_covers(bg.temperature_K, tn, bg.grid, bg.extrapolation);
   }
+}
 
-  // Pressure: hydrostatic from a base value, or a table.
-  const auto pn = n.child("pressure");
+/// Pressure: hydrostatic from a base value, or a table.
+void load_pressure(const ConfigNode& pn, LoadContext& ctx) {
+  BackgroundSpec& bg = ctx.scenario.background;
   if (auto h = pn.find("hydrostatic")) {
     if (pn.has("table")) pn.fail("either 'hydrostatic' or 'table'", "both");
     bg.pressure_mode = PressureMode::kHydrostatic;
@@ -213,9 +197,11 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     pn.fail("'hydrostatic: {base: ..., at: ...}' or 'table: FILE'");
   }
   if (pn.is_map() && !pn.has("table")) pn.done();
+}
 
-  // Eddy diffusion: constant, table or a power of the air density.
-  const auto kn = n.child("eddy_diffusion");
+/// Eddy diffusion: constant, table or a power of the air density.
+void load_eddy_diffusion(const ConfigNode& kn, LoadContext& ctx) {
+  BackgroundSpec& bg = ctx.scenario.background;
   const auto kc = kn.find("constant");
   const auto kt = kn.find("table");
   const auto kp = kn.find("density_power");
@@ -232,30 +218,44 @@ void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
     kn.done();
   } else if (kt) {
     bg.eddy_form = EddyForm::kTable;
-    bg.eddy_table_cm2_s = load_profile_table(kn, ctx, "eddy diffusion table", "eddy_diffusion",
-                                             "cm2 s-1");
+    bg.eddy_table_cm2_s =
+        load_profile_table(kn, ctx, "eddy diffusion table", "eddy_diffusion", "cm2 s-1");
     require_positive(bg.eddy_table_cm2_s, "eddy_diffusion");
     require_within(bg.eddy_table_cm2_s, "eddy_diffusion", 0.0, bounds::kMaxEddyCm2S,
                    "diffusion coefficients of at most 1e12 cm2 s-1");
     check_covers(bg.eddy_table_cm2_s, kn, bg.grid, bg.extrapolation);
   } else {
     bg.eddy_form = EddyForm::kDensityPower;
-    bg.eddy_cm2_s = kp->child("bottom").quantity(ctx.units, "cm2 s-1", "1e5 cm2 s-1");
-    bg.eddy_exponent = kp->child("exponent").number();
-    if (auto mx = kp->find("max")) bg.eddy_max_cm2_s = mx->quantity(ctx.units, "cm2 s-1", "1e8 cm2 s-1");
-    if (!(bg.eddy_cm2_s > 0.0)) kp->child("bottom").fail("a positive diffusion coefficient");
-    if (!(bg.eddy_cm2_s <= bounds::kMaxEddyCm2S)) {
-      kp->child("bottom").fail(
-          "a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
-    }
-    if (auto mx = kp->find("max");
-        mx && !(bg.eddy_max_cm2_s > 0.0 && bg.eddy_max_cm2_s <= bounds::kMaxEddyCm2S)) {
-      mx->fail(
-          "a positive diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
-    }
+    const double inf = std::numeric_limits<double>::infinity();
+    const Key keys[] = {
+        quantity("bottom", &bg.eddy_cm2_s, "cm2 s-1", "1e5 cm2 s-1", 0.0, bounds::kMaxEddyCm2S,
+                 "a positive diffusion coefficient")
+            .above_lo()
+            .above_message(
+                "a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)")
+            .needed(),
+        number("exponent", &bg.eddy_exponent, -inf, inf, "a finite number").needed(),
+        quantity("max", &bg.eddy_max_cm2_s, "cm2 s-1", "1e8 cm2 s-1", 0.0, bounds::kMaxEddyCm2S,
+                 "a positive diffusion coefficient of at most 1e12 cm2 s-1 (common practice, "
+                 "no source)")
+            .above_lo(),
+    };
+    read_keys(*kp, ctx.units, keys);
     kp->done();
     kn.done();
   }
+}
+
+void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {
+  BackgroundSpec& bg = ctx.scenario.background;
+  if (auto e = n.find("extrapolation")) {
+    bg.extrapolation = e->choice({"forbid", "hold_ends"}) == "forbid" ? Extrapolation::kForbid
+                                                                      : Extrapolation::kHoldEnds;
+  }
+  load_bulk_composition(n, ctx);
+  load_temperature(n.child("temperature"), ctx);
+  load_pressure(n.child("pressure"), ctx);
+  load_eddy_diffusion(n.child("eddy_diffusion"), ctx);
   n.done();
 }
 
@@ -266,8 +266,8 @@ void load_output(const ConfigNode& n, LoadContext& ctx) {
 
 }  // namespace
 
-Scenario load_scenario(const std::filesystem::path& file,
-                       const std::vector<std::string>& overrides, const UnitSystem& units) {
+Scenario load_scenario(const std::filesystem::path& file, const std::vector<std::string>& overrides,
+                       const UnitSystem& units) {
   const ConfigDocument doc = ConfigDocument::load(file, overrides);
 
   Scenario sc;

@@ -2,63 +2,44 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
 #include "core/constants.hpp"
+#include "io/amount.hpp"
+#include "io/key_table.hpp"
 #include "io/table.hpp"
 
 namespace colchem {
 
 namespace {
 
-/// A mixing ratio: a plain number, or a dimensionless quantity such as "3 ppm", in [0, 1].
-double mixing_ratio(const ConfigNode& n, const UnitSystem& units) {
-  const std::string s = n.text();
-  auto q = split_quantity(s);
-  if (!q) n.fail("a mixing ratio: a number from 0 to 1 or a quantity such as '3 ppm'");
-  double v = q->value;
-  if (!q->unit.empty()) {
-    auto c = units.convert(q->value, q->unit, "1");
-    if (!c) {
-      n.fail("a dimensionless mixing ratio such as '3 ppm' or '1e-6'",
-             "'" + s + "'" + (units.parses(q->unit) ? " (not dimensionless)" : " (unknown unit)"));
-    }
-    v = *c;
-  }
-  if (!(v >= 0.0 && v <= 1.0)) n.fail("a mixing ratio from 0 to 1", "'" + s + "'");
-  return v;
-}
-
 InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
                             const std::string& species, std::vector<InputFile>* inputs) {
   InitialProfile p;
   if (n.is_scalar()) {
-    p.mixing_ratio = mixing_ratio(n, units);
+    p.mixing_ratio = read_mixing_ratio(n, units);
     return p;
   }
-  if (!n.is_map()) n.fail("a mixing ratio or {table: FILE, column: NAME}");
-  const std::filesystem::path file = n.child("table").path();
-  std::string column = species;
-  std::string alt_column = "altitude";
-  if (auto c = n.find("column")) column = c->text();
-  if (auto c = n.find("altitude_column")) alt_column = c->text();
+  TableRefForm form = TableRefForm::altitude(species);
+  form.expected = "a mixing ratio or {table: FILE, column: NAME}";
+  const TableRef ref = table_ref(n, form);
+  const std::string& column = ref.column;
   if (auto e = n.find("extrapolation")) {
     p.extrapolation = e->choice({"hold_ends", "forbid"}) == "forbid" ? Extrapolation::kForbid
                                                                      : Extrapolation::kHoldEnds;
   }
   n.done();
-  const Table t = Table::read(file);
-  t.require_increasing(alt_column);
+  const Table t = ref.read();
   p.from_table = true;
-  p.table.altitude_cm = t.column(alt_column, units, "cm");
-  p.table.value = t.column(column, units, "1");
-  p.table.source = file.string();
+  auto prof = ref.profile(t, units, "cm", "1");
+  p.table = ProfileSpec{std::move(prof.axis), std::move(prof.value), std::move(prof.source)};
   for (std::size_t i = 0; i < p.table.value.size(); ++i) {
     const double v = p.table.value[i];
     // Log-linear interpolation needs positive values.
     if (!(v > 0.0 && v <= 1.0))
       t.fail_row(i, column, "a mixing ratio in (0, 1]", message_number(v));
   }
-  if (inputs) inputs->push_back(InputFile{"initial profile of " + species, file, t.text()});
+  if (inputs) inputs->push_back(InputFile{"initial profile of " + species, ref.file, t.text()});
   return p;
 }
 
@@ -68,7 +49,7 @@ struct ValueKind {
 };
 
 double one_value(const ConfigNode& n, const UnitSystem& units, const ValueKind& k) {
-  return k.unit ? n.quantity(units, k.unit, k.example) : mixing_ratio(n, units);
+  return k.unit ? n.quantity(units, k.unit, k.example) : read_mixing_ratio(n, units);
 }
 
 /// A value, or {schedule: {times: [...], values: [...]}}.
@@ -93,7 +74,7 @@ Schedule load_value(const ConfigNode& n, const UnitSystem& units, const ValueKin
     s.value = values.quantity_list(units, k.unit, k.example);
   } else {
     if (!values.is_sequence()) values.fail("a list of mixing ratios");
-    for (const auto& item : values.items()) s.value.push_back(mixing_ratio(item, units));
+    for (const auto& item : values.items()) s.value.push_back(read_mixing_ratio(item, units));
   }
   if (s.time_s.empty()) times.fail("at least one time");
   if (s.value.size() != s.time_s.size()) {
@@ -174,10 +155,11 @@ HoldSpec load_hold(const ConfigNode& n, const UnitSystem& units, const std::stri
   if (x.is_map()) {
     const InitialProfile p = load_initial(x, units, species, nullptr);
     h.mixing_ratio.table = p.table;
-    if (inputs) inputs->push_back(InputFile{"held profile of " + species, p.table.source,
-                                            Table::read(p.table.source).text()});
+    if (inputs)
+      inputs->push_back(InputFile{"held profile of " + species, p.table.source,
+                                  Table::read(p.table.source).text()});
   } else {
-    h.mixing_ratio.constant = mixing_ratio(x, units);
+    h.mixing_ratio.constant = read_mixing_ratio(x, units);
   }
   if (auto f = n.find("from")) h.from_cm = f->quantity(units, "cm", "80 km");
   if (auto t = n.find("to")) {
@@ -201,15 +183,22 @@ void load_species_entry(const std::string& name, const ConfigNode& n, const Unit
   if (auto i = n.find("initial")) out.initial = load_initial(*i, units, name, inputs);
   if (auto b = n.find("bottom")) out.boundaries.bottom = load_boundary(*b, units, false);
   if (auto t = n.find("top")) out.boundaries.top = load_boundary(*t, units, true);
-  if (auto f = n.find("fixed")) out.fixed = f->boolean();
   if (auto h = n.find("hold")) out.hold = load_hold(*h, units, name, inputs);
-  if (auto a = n.find("thermal_diffusion")) out.thermal_diffusion = a->number();
+  const double inf = std::numeric_limits<double>::infinity();
+  const Key keys[] = {
+      flag("fixed", &out.fixed),
+      number("thermal_diffusion", &out.thermal_diffusion, -inf, inf, "a finite number"),
+  };
+  read_keys(n, units, keys);
   if (auto d = n.find("binary_diffusion")) {
     // b = A (T / 1 K)^s: A carries the unit of b.
-    const auto A = d->child("A");
-    out.diffusion_A = A.quantity(units, "cm-1 s-1", "1.52e18 cm-1 s-1");
-    if (!(*out.diffusion_A >= 0.0)) A.fail("a non-negative coefficient");
-    if (auto s = d->find("s")) out.diffusion_s = s->number();
+    const Key diffusion[] = {
+        quantity("A", &out.diffusion_A, "cm-1 s-1", "1.52e18 cm-1 s-1", 0.0, inf,
+                 "a non-negative coefficient")
+            .needed(),
+        number("s", &out.diffusion_s, -inf, inf, "a finite number"),
+    };
+    read_keys(*d, units, diffusion);
     d->done();
   }
   n.done();
@@ -257,33 +246,19 @@ void load_injections_section(const ConfigNode& n, const UnitSystem& units,
                 amount ? "both" : "neither");
     }
     if (amount) {
-      const std::string s = amount->text();
-      auto q = split_quantity(s);
-      if (!q) amount->fail("a number of molecules or a quantity such as '10 Tg'");
-      if (q->unit.empty()) {
-        inj.amount_kind = InjectionAmount::kGlobalMolecules;
-        inj.amount = q->value;
-      } else if (units.convertible(q->unit, "g")) {
-        inj.amount_kind = InjectionAmount::kGlobalMass;
-        inj.amount = *units.convert(q->value, q->unit, "g");
-      } else if (units.convertible(q->unit, "mol")) {
-        inj.amount_kind = InjectionAmount::kGlobalMolecules;
-        inj.amount = *units.convert(q->value, q->unit, "mol") * constants::kAvogadro;
-      } else {
-        amount->fail(
-            "a mass (such as '10 Tg') or an amount of substance ('1e34 molecule', "
-            "'2 Gmol'), or a plain number of molecules",
-            "'" + s + "'");
-      }
+      const Amount a = read_amount(*amount, units, {AmountKind::kMolecules, AmountKind::kMass},
+                                   "a mass (such as '10 Tg') or an amount of substance "
+                                   "('1e34 molecule', '2 Gmol'), or a plain number of molecules");
+      inj.amount_kind = a.kind == AmountKind::kMass ? InjectionAmount::kGlobalMass
+                                                    : InjectionAmount::kGlobalMolecules;
+      inj.amount = a.value;
       if (!(inj.amount > 0.0) || !std::isfinite(inj.amount)) amount->fail("a positive amount");
     } else {
-      const std::string s = column->text();
-      auto q = split_quantity(s);
-      if (q && !q->unit.empty() && units.convertible(q->unit, "mol cm-2")) {
-        inj.amount = *units.convert(q->value, q->unit, "mol cm-2") * constants::kAvogadro;
-      } else {
-        inj.amount = column->quantity(units, "cm-2", "1e16 cm-2");
-      }
+      // A column carries its unit (cm-2, DU, mol cm-2): quantity() refuses a bare number.
+      const auto q = split_quantity(column->text());
+      inj.amount = q && !q->unit.empty() && units.convertible(q->unit, "mol cm-2")
+                       ? read_amount(*column, units, {AmountKind::kColumn}, "").value
+                       : column->quantity(units, "cm-2", "1e16 cm-2");
       inj.amount_kind = InjectionAmount::kColumn;
       if (!(inj.amount > 0.0)) column->fail("a positive column amount");
     }

@@ -57,6 +57,67 @@ Table Table::read(const std::filesystem::path& file, ExitCode code,
   return parse(buf.str(), file.string(), code, text_columns, numeric_columns);
 }
 
+/// The header line: "name [unit]" fields, names distinct.
+void Table::parse_header(const std::string& line, int line_no, bool comma) {
+  header_line_ = line_no;
+  for (const auto& field : split_fields(line, comma)) {
+    const auto open = field.find('[');
+    std::string col = trim(field.substr(0, open));
+    std::string unit;
+    if (open != std::string::npos) {
+      const auto close = field.find(']', open);
+      if (close == std::string::npos) {
+        throw InputError(code_, SourceLocation{file_, line_no}, "header",
+                         "'name [unit]' for every column", "'" + field + "' without ']'");
+      }
+      unit = trim(field.substr(open + 1, close - open - 1));
+    }
+    if (col.empty()) {
+      throw InputError(code_, SourceLocation{file_, line_no}, "header", "a column name",
+                       "'" + field + "'");
+    }
+    if (std::find(names_.begin(), names_.end(), col) != names_.end()) {
+      throw InputError(code_, SourceLocation{file_, line_no}, "header", "distinct column names",
+                       "'" + col + "' twice");
+    }
+    names_.push_back(col);
+    units_.push_back(unit);
+  }
+  data_.resize(names_.size());
+  cells_.resize(names_.size());
+}
+
+/// One data row: a field per column, numbers where `as_text` is false.
+void Table::parse_row(const std::vector<std::string>& fields, int line_no,
+                      const std::vector<bool>& as_text) {
+  if (fields.size() != names_.size()) {
+    throw InputError(code_, SourceLocation{file_, line_no}, "",
+                     std::to_string(names_.size()) + " fields (as in the header on line " +
+                         std::to_string(header_line_) + ")",
+                     std::to_string(fields.size()) + " fields");
+  }
+  for (std::size_t c = 0; c < fields.size(); ++c) {
+    if (as_text[c]) {
+      cells_[c].push_back(fields[c]);
+      continue;
+    }
+    std::size_t used = 0;
+    double v = NAN;
+    try {
+      v = std::stod(fields[c], &used);
+    } catch (const std::exception&) {
+      used = 0;
+    }
+    if (used == 0 || used != fields[c].size() || !std::isfinite(v)) {
+      throw InputError(code_, SourceLocation{file_, line_no}, names_[c], "a finite number",
+                       "'" + fields[c] + "'");
+    }
+    data_[c].push_back(v);
+  }
+  row_lines_.push_back(line_no);
+  ++rows_;
+}
+
 Table Table::parse(const std::string& text, const std::string& name, ExitCode code,
                    const std::vector<std::string>& text_columns,
                    const std::vector<std::string>* numeric_columns) {
@@ -64,78 +125,29 @@ Table Table::parse(const std::string& text, const std::string& name, ExitCode co
   t.file_ = name;
   t.text_ = text;
   t.code_ = code;
+  const auto listed = [](const std::vector<std::string>& list, const std::string& col) {
+    return std::find(list.begin(), list.end(), col) != list.end();
+  };
   std::stringstream ss(text);
   std::string raw;
   int line_no = 0;
   bool comma = false;
+  std::vector<bool> as_text;
   while (std::getline(ss, raw)) {
     ++line_no;
     const auto hash = raw.find('#');
     const std::string line = trim(hash == std::string::npos ? raw : raw.substr(0, hash));
     if (line.empty()) continue;
-    if (t.names_.empty()) {
-      comma = line.find(',') != std::string::npos;
-      t.header_line_ = line_no;
-      for (const auto& field : split_fields(line, comma)) {
-        const auto open = field.find('[');
-        std::string col = trim(field.substr(0, open));
-        std::string unit;
-        if (open != std::string::npos) {
-          const auto close = field.find(']', open);
-          if (close == std::string::npos) {
-            throw InputError(code, SourceLocation{name, line_no}, "header",
-                             "'name [unit]' for every column", "'" + field + "' without ']'");
-          }
-          unit = trim(field.substr(open + 1, close - open - 1));
-        }
-        if (col.empty()) {
-          throw InputError(code, SourceLocation{name, line_no}, "header", "a column name",
-                           "'" + field + "'");
-        }
-        for (const auto& existing : t.names_) {
-          if (existing == col) {
-            throw InputError(code, SourceLocation{name, line_no}, "header",
-                             "distinct column names", "'" + col + "' twice");
-          }
-        }
-        t.names_.push_back(col);
-        t.units_.push_back(unit);
-      }
-      t.data_.resize(t.names_.size());
-      t.cells_.resize(t.names_.size());
+    if (!t.names_.empty()) {
+      t.parse_row(split_fields(line, comma), line_no, as_text);
       continue;
     }
-    const auto fields = split_fields(line, comma);
-    if (fields.size() != t.names_.size()) {
-      throw InputError(code, SourceLocation{name, line_no}, "",
-                       std::to_string(t.names_.size()) + " fields (as in the header on line " +
-                           std::to_string(t.header_line_) + ")",
-                       std::to_string(fields.size()) + " fields");
+    comma = line.find(',') != std::string::npos;
+    t.parse_header(line, line_no, comma);
+    for (const auto& col : t.names_) {
+      as_text.push_back(listed(text_columns, col) ||
+                        (numeric_columns != nullptr && !listed(*numeric_columns, col)));
     }
-    for (std::size_t c = 0; c < fields.size(); ++c) {
-      const bool as_text =
-          std::find(text_columns.begin(), text_columns.end(), t.names_[c]) != text_columns.end() ||
-          (numeric_columns != nullptr && std::find(numeric_columns->begin(), numeric_columns->end(),
-                                                   t.names_[c]) == numeric_columns->end());
-      if (as_text) {
-        t.cells_[c].push_back(fields[c]);
-        continue;
-      }
-      std::size_t used = 0;
-      double v = NAN;
-      try {
-        v = std::stod(fields[c], &used);
-      } catch (const std::exception&) {
-        used = 0;
-      }
-      if (used == 0 || used != fields[c].size() || !std::isfinite(v)) {
-        throw InputError(code, SourceLocation{name, line_no}, t.names_[c], "a finite number",
-                         "'" + fields[c] + "'");
-      }
-      t.data_[c].push_back(v);
-    }
-    t.row_lines_.push_back(line_no);
-    ++t.rows_;
   }
   if (t.names_.empty()) {
     throw InputError(code, SourceLocation{name}, "", "a header line naming the columns",
@@ -184,7 +196,9 @@ const std::vector<std::string>& Table::texts(const std::string& col) const {
   }
   return cells_[i];
 }
-const std::string& Table::unit(const std::string& col) const { return units_[index(col)]; }
+const std::string& Table::unit(const std::string& col) const {
+  return units_[index(col)];
+}
 
 std::vector<double> Table::column(const std::string& col, const UnitSystem& units,
                                   const std::string& target_unit) const {
@@ -223,6 +237,40 @@ void Table::require_increasing(const std::string& col) const {
 void Table::fail_row(std::size_t row, const std::string& col, const std::string& expected,
                      const std::string& found) const {
   throw InputError(code_, SourceLocation{file_, row_lines_.at(row)}, col, expected, found);
+}
+
+TableRef table_ref(const ConfigNode& n, const TableRefForm& form) {
+  TableRef r;
+  r.column = form.column;
+  r.axis_column = form.axis_column;
+  if (n.is_scalar() && form.file_alone) {
+    r.file = n.path();
+    return r;
+  }
+  if (!n.is_map()) n.fail(form.expected);
+  r.file = n.child("table").path();
+  if (form.column_required) {
+    r.column = n.child("column").text();
+  } else if (auto c = n.find("column")) {
+    r.column = c->text();
+  }
+  if (!form.axis_key.empty()) {
+    if (auto c = n.find(form.axis_key)) r.axis_column = c->text();
+  }
+  return r;
+}
+
+Table TableRef::read() const {
+  Table t = Table::read(file);
+  if (!axis_column.empty()) t.require_increasing(axis_column);
+  return t;
+}
+
+TableProfile TableRef::profile(const Table& t, const UnitSystem& units,
+                               const std::string& axis_unit, const std::string& value_unit) const {
+  return TableProfile{t.column(axis_column, units, axis_unit),
+                      value_unit.empty() ? t.raw(column) : t.column(column, units, value_unit),
+                      file.string()};
 }
 
 }  // namespace colchem

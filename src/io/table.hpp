@@ -12,6 +12,7 @@
 #include <filesystem>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/error.hpp"
@@ -56,16 +57,71 @@ class Table {
 
  private:
   [[nodiscard]] std::size_t index(const std::string& name) const;
+  void parse_header(const std::string& line, int line_no, bool comma);
+  void parse_row(const std::vector<std::string>& fields, int line_no,
+                 const std::vector<bool>& as_text);
   std::string file_;
   std::string text_;
   ExitCode code_ = ExitCode::kInputData;
   int header_line_ = 0;
   std::vector<std::string> names_;
   std::vector<std::string> units_;
-  std::vector<std::vector<double>> data_;       // [column][row]; empty for text columns
+  std::vector<std::vector<double>> data_;        // [column][row]; empty for text columns
   std::vector<std::vector<std::string>> cells_;  // [column][row]; empty for numeric columns
   std::vector<int> row_lines_;
   std::size_t rows_ = 0;
 };
+
+class ConfigNode;
+
+/// An axis column (altitude, wavelength) and a value column of a table, converted.
+struct TableProfile {
+  std::vector<double> axis;
+  std::vector<double> value;
+  std::string source;  ///< the file
+};
+
+/// How a configuration refers to columns of a table file:
+///   {table: FILE, column: NAME, <axis_key>: NAME}   (or FILE alone when file_alone)
+struct TableRefForm {
+  std::string column;                        ///< default value column (empty: none)
+  bool column_required = false;              ///< `column` must be given (no default)
+  std::string axis_key = "altitude_column";  ///< key naming the axis column; empty: fixed
+  std::string axis_column = "altitude";      ///< default axis column
+  bool file_alone = false;                   ///< a bare FILE is accepted
+  std::string expected = "{table: FILE, column: NAME}";  ///< when the value is not a map
+
+  /// {table: FILE, column: NAME (default `column`), altitude_column: NAME}, or FILE alone.
+  static TableRefForm altitude(std::string column, bool file_alone = false) {
+    return {std::move(column), false,      "altitude_column",
+            "altitude",        file_alone, "{table: FILE, column: NAME}"};
+  }
+  /// {table: FILE, column: NAME}, `column` required, the altitude column "altitude".
+  static TableRefForm altitude_column_required() {
+    return {{}, true, {}, "altitude", false, "{table: FILE, column: NAME}"};
+  }
+  /// {table: FILE, column: NAME (default `column`), wavelength_column: NAME}, or FILE alone.
+  static TableRefForm wavelength(std::string column, bool file_alone = true) {
+    return {std::move(column), false,      "wavelength_column",
+            "wavelength",      file_alone, "{table: FILE, column: NAME}"};
+  }
+};
+
+/// A reference to columns of a table file, as read from a configuration value.
+struct TableRef {
+  std::filesystem::path file;
+  std::string column;
+  std::string axis_column;
+  /// Reads the file; the axis column must increase strictly down the table.
+  [[nodiscard]] Table read() const;
+  /// The axis column in `axis_unit` and the value column in `value_unit` (raw when empty).
+  [[nodiscard]] TableProfile profile(const Table& t, const UnitSystem& units,
+                                     const std::string& axis_unit,
+                                     const std::string& value_unit) const;
+};
+
+/// The one reader of a table reference. It reads the reference's keys only: the caller reads
+/// its own further keys, calls n.done(), then read().
+TableRef table_ref(const ConfigNode& n, const TableRefForm& form);
 
 }  // namespace colchem

@@ -10,7 +10,7 @@
 
 #include "core/background.hpp"
 #include "core/dataset.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 
 namespace colchem {
 

@@ -9,7 +9,7 @@
 #include <vector>
 
 #include "core/dataset.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 #include "solve/column_model.hpp"
 #include "solve/fit.hpp"
 

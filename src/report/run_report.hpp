@@ -10,7 +10,7 @@
 #include "analysis/budget.hpp"
 #include "analysis/score.hpp"
 #include "core/dataset.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 #include "solve/column_model.hpp"
 #include "solve/column_run.hpp"
 

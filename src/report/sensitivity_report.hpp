@@ -7,7 +7,7 @@
 #include <string>
 
 #include "core/dataset.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/column_model.hpp"
 

@@ -22,7 +22,7 @@
 #include "chem/chemistry_operator.hpp"
 #include "core/background.hpp"
 #include "core/model_column.hpp"
-#include "io/scenario.hpp"
+#include "solve/scenario.hpp"
 #include "photo/photolysis_model.hpp"
 #include "solve/column_system.hpp"
 #include "transport/column_species.hpp"

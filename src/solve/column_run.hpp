@@ -8,7 +8,7 @@
 #include <string>
 #include <vector>
 
-#include "io/solver_section.hpp"
+#include "solve/solver_spec.hpp"
 #include "solve/column_model.hpp"
 #include "solve/steady_state.hpp"
 
@@ -56,7 +56,7 @@ struct HistoryRow {
   double wall_s = 0.0;
 };
 
-/// One coarser level of a grid-sequenced cold start (io/solver_section.hpp).
+/// One coarser level of a grid-sequenced cold start (solve/solver_spec.hpp).
 struct SequenceLevel {
   std::size_t cells = 0;
   long iterations = 0;

@@ -19,8 +19,8 @@
 #include <string>
 #include <vector>
 
-#include "solve/block_tridiagonal.hpp"
-#include "solve/column_operator.hpp"
+#include "core/block_tridiagonal.hpp"
+#include "core/column_operator.hpp"
 
 namespace colchem {
 

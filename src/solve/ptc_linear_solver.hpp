@@ -28,7 +28,7 @@
 #include <string>
 #include <vector>
 
-#include "solve/block_tridiagonal.hpp"
+#include "core/block_tridiagonal.hpp"
 
 namespace colchem {
 

@@ -22,7 +22,7 @@
 #include <span>
 #include <vector>
 
-#include "solve/block_tridiagonal.hpp"
+#include "core/block_tridiagonal.hpp"
 #include "solve/column_system.hpp"
 
 namespace colchem {

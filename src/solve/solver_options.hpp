@@ -1,7 +1,7 @@
-// From the scenario's SolverSpec (io/solver_section.hpp) to the solvers' option structs.
+// From the scenario's SolverSpec (solve/solver_spec.hpp) to the solvers' option structs.
 #pragma once
 
-#include "io/solver_section.hpp"
+#include "solve/solver_spec.hpp"
 #include "solve/split_integrator.hpp"
 #include "solve/steady_state.hpp"
 

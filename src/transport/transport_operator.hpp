@@ -36,7 +36,7 @@
 #include <vector>
 
 #include "core/background.hpp"
-#include "solve/column_operator.hpp"
+#include "core/column_operator.hpp"
 #include "transport/boundary.hpp"
 #include "transport/transport_species.hpp"
 

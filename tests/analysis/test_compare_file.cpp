@@ -11,6 +11,7 @@
 #include "core/error.hpp"
 #include "io/dataset_writer.hpp"
 #include "io/netcdf_file.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 #include "io/scenario.hpp"
 #include "report/column_report.hpp"

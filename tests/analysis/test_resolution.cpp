@@ -12,6 +12,7 @@
 #include "analysis/resolution.hpp"
 #include "analysis/resolution_runner.hpp"
 #include "analysis/score.hpp"
+#include "io/observation_loader.hpp"
 #include "io/scenario.hpp"
 
 using namespace colchem;
@@ -244,6 +245,7 @@ colchem::test::LossColumn boundary_layer() {
 SolveRequest request() {
   SolveRequest r;
   r.config = kScenario;
+  r.load_scenario = colchem::load_scenario;
   return r;
 }
 

@@ -8,6 +8,7 @@
 
 #include "analysis/score.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 
 using namespace colchem;
 

@@ -4,6 +4,7 @@
 #include "analysis/observations.hpp"
 #include "core/units.hpp"
 #include "fuzz_support.hpp"
+#include "io/observation_loader.hpp"
 
 extern "C" int LLVMFuzzerInitialize(int*, char***) {
   colchem::fuzz::quiet_logs();

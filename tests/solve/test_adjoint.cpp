@@ -11,6 +11,7 @@
 
 #include "analysis/observations.hpp"
 #include "core/units.hpp"
+#include "io/observation_loader.hpp"
 #include "io/scenario.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/column_run.hpp"

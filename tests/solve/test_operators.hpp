@@ -1,6 +1,6 @@
 // Small column operators for testing the solvers (not the model's transport or chemistry):
 // each is simple enough that its steady state or its exact time step is known in closed
-// form. State ordering x[j*S + s] as in solve/block_tridiagonal.hpp.
+// form. State ordering x[j*S + s] as in core/block_tridiagonal.hpp.
 #pragma once
 
 #include <cmath>
@@ -8,7 +8,7 @@
 #include <span>
 #include <vector>
 
-#include "solve/column_operator.hpp"
+#include "core/column_operator.hpp"
 
 namespace colchem::testing {
 

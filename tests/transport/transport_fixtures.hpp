@@ -8,7 +8,7 @@
 
 #include "core/background.hpp"
 #include "core/constants.hpp"
-#include "solve/column_operator.hpp"
+#include "core/column_operator.hpp"
 #include "solve/column_system.hpp"
 #include "solve/steady_state.hpp"
 #include "transport/transport_operator.hpp"

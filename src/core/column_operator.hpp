@@ -8,7 +8,7 @@
 
 #include <span>
 
-#include "solve/block_tridiagonal.hpp"
+#include "core/block_tridiagonal.hpp"
 
 namespace colchem {
 

@@ -1,0 +1,30 @@
+// Photon energy as a wavenumber, the one place each relation is written:
+//
+//   nu~ = E / (h c)                (cm^-1; E in erg per photon)
+//   nu~ = E_m / (N_A h c)          (E_m in J mol^-1, times 1e7 erg/J)
+//   dnu~ = dlambda / lambda^2      (a width in wavelength as a width in wavenumber)
+// (e.g. Atkins and de Paula 2006, Physical Chemistry, 8th ed., ch. 13; from memory).
+#pragma once
+
+#include "core/constants.hpp"
+
+namespace colchem {
+
+/// cm^-1 per erg of photon energy: 1 / (h c).
+inline double wavenumber_per_energy(double erg) {
+  return erg / (constants::kPlanck * constants::kSpeedOfLight);
+}
+
+/// cm^-1 of a photon whose energy per mole of photons is `j_per_mol` J mol^-1 (4184 J mol^-1
+/// for kcal/mol with the thermochemical calorie: 349.76 cm^-1).
+inline double wavenumber_per_molar_energy(double j_per_mol) {
+  return wavenumber_per_energy(j_per_mol * 1e7 / constants::kAvogadro);
+}
+
+/// The width in wavenumber (cm^-1) of a width `width_nm` about `center_nm`.
+inline double wavenumber_width(double width_nm, double center_nm) {
+  const double center_cm = center_nm * 1e-7;
+  return width_nm * 1e-7 / (center_cm * center_cm);
+}
+
+}  // namespace colchem
