@@ -6,6 +6,7 @@
 #include "analysis/score.hpp"
 #include "core/column_state.hpp"
 #include "core/error.hpp"
+#include "io/observation_loader.hpp"
 #include "io/output.hpp"
 
 namespace colchem::app {
