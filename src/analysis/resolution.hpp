@@ -1,6 +1,6 @@
 // Resolution as a result: Richardson extrapolation over a family of grids and
 // equidistributed (solution-adapted) cell edges. Pure functions on profiles; the solves that
-// produce them are in analysis/resolution_runner.
+// produce them are in solve/resolution_runner.
 //
 // Richardson extrapolation (Roache 1998, Verification and Validation in Computational
 // Science and Engineering, ch. 5): solutions u_1, u_2, u_3 on grids refined by a constant

@@ -35,7 +35,7 @@
 #include <mpi.h>
 
 #include "analysis/observations.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "analysis/sweep.hpp"
 #include "analysis/sweep_runner.hpp"
 #include "app/batch.hpp"

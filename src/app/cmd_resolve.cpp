@@ -10,7 +10,7 @@
 #include <iostream>
 
 #include "analysis/observations.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/error.hpp"

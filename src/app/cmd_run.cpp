@@ -9,7 +9,7 @@
 #include <sstream>
 
 #include "analysis/observations.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"

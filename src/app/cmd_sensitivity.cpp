@@ -14,7 +14,7 @@
 #include <optional>
 
 #include "analysis/observations.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"

@@ -15,7 +15,7 @@
 #include <vector>
 
 #include "analysis/observations.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "app/commands.hpp"
 #include "io/scenario.hpp"
 #include "solve/column_run.hpp"
@@ -52,7 +52,7 @@ SolveRequest solve_request(const BaseStart& start, spdlog::logger* log,
 
 /// The restart file's state interpolated onto this grid; else, for a steady solve whose
 /// scenario sets solver.grid_sequencing (and `start.grid_sequencing`), the same scenario
-/// solved on coarser grids (analysis/resolution_runner.hpp, sequenced_start); else the
+/// solved on coarser grids (solve/resolution_runner.hpp, sequenced_start); else the
 /// scenario's initial state.
 StartState start_state(const BaseStart& start, const Scenario& sc, const ColumnModel& model,
                        const UnitSystem& units, spdlog::logger* log,

@@ -7,7 +7,7 @@
 #include <span>
 #include <string>
 
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "core/dataset.hpp"
 
 namespace colchem {

@@ -10,7 +10,7 @@
 #include "../transport/transport_fixtures.hpp"
 #include "analysis/observations.hpp"
 #include "analysis/resolution.hpp"
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 #include "analysis/score.hpp"
 #include "io/observation_loader.hpp"
 #include "io/scenario.hpp"

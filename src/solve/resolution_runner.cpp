@@ -1,4 +1,4 @@
-#include "analysis/resolution_runner.hpp"
+#include "solve/resolution_runner.hpp"
 
 #include <fmt/format.h>
 
