@@ -229,21 +229,6 @@ RatesProblem build_problem(const RatesOptions& o) {
   return pb;
 }
 
-std::string units_of_order(int order) {
-  switch (order) {
-    case 0:
-      return "cm-3 s-1";
-    case 1:
-      return "s-1";
-    case 2:
-      return "cm3 s-1";
-    case 3:
-      return "cm6 s-1";
-    default:
-      return fmt::format("cm{} s-1", 3 * (order - 1));
-  }
-}
-
 /// One reported reaction: its identity and k (the law's own) at every condition.
 struct RateRow {
   std::string id, equation, form, units;
@@ -280,7 +265,7 @@ std::vector<RateRow> evaluate(const RatesProblem& pb, const std::vector<std::str
       continue;
     }
     row.form = rate_form_name(rx.rate.form);
-    row.units = units_of_order(rx.rate_order());
+    row.units = rate_constant_units(rx.rate_order());
     for (std::size_t j = 0; j < N; ++j) {
       const double keff = k[r * N + j], m = M[r * N + j];
       row.k_effective.push_back(keff);

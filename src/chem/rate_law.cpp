@@ -129,4 +129,17 @@ void rate_constants(std::span<const RateLaw> laws, std::span<const double> T,
   }
 }
 
+std::string rate_constant_units(int order) {
+  switch (order) {
+    case 0:
+      return "cm-3 s-1";
+    case 1:
+      return "s-1";
+    case 2:
+      return "cm3 s-1";
+    default:
+      return "cm" + std::to_string(3 * (order - 1)) + " s-1";
+  }
+}
+
 }  // namespace colchem

@@ -35,6 +35,10 @@ enum class RateForm {
 /// The mechanism-file key of a form ("arrhenius", ...).
 const char* rate_form_name(RateForm f);
 
+/// The units of a rate constant of reaction order n in number densities: cm^(3(n-1)) s-1
+/// ("cm-3 s-1" for a zero-order source, "s-1", "cm3 s-1", "cm6 s-1", ...).
+std::string rate_constant_units(int order);
+
 struct ArrheniusParams {
   double A = 0.0;
   double b = 0.0;

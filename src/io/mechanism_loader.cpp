@@ -229,19 +229,6 @@ RateLaw read_law(const ConfigNode& rate, bool thermal_only) {
   return law;
 }
 
-const char* unit_of_order(int order) {
-  switch (order) {
-    case 1:
-      return "s-1";
-    case 2:
-      return "cm3 s-1";
-    case 3:
-      return "cm6 s-1";
-    default:
-      return "";
-  }
-}
-
 /// Converts a law's parameters by f (the unit of k) and f3 (the unit of k times time, a
 /// volume; it turns a bimolecular factor into a termolecular one, kinf into s-1, ...).
 void convert_law(RateLaw& law, double f, double f3) {
@@ -277,9 +264,9 @@ void read_units(const ConfigNode& u, Reaction& rx, const UnitSystem& units) {
   if (rx.rate.form == RateForm::kPhotolysis) u.fail("no units on a photolysis rate (J is in s-1)");
   // For equilibrium_reverse the units are those of the forward rate (one order higher).
   const int order = rx.rate_order() + (reverse ? 1 : 0);
-  const std::string expected = unit_of_order(order);
-  if (expected.empty())
+  if (order < 1 || order > 3)
     u.fail("a reaction of order 1 to 3", std::to_string(order) + " for " + quoted(rx));
+  const std::string expected = rate_constant_units(order);
   if (!units.parses(given)) u.fail("a UDUNITS unit such as '" + expected + "'", "'" + given + "'");
   const auto f = units.convert(1.0, given, expected);
   if (!f) {
