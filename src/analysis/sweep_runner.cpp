@@ -1,4 +1,5 @@
 #include "analysis/sweep_runner.hpp"
+#include "core/stopwatch.hpp"
 
 #include <chrono>
 #include <cstring>
@@ -115,7 +116,7 @@ VariantOutcome run_one(const Variant& v, const VariantRunner& run, int rank) {
   }
   out.index = v.index;
   out.rank = rank;
-  out.wall_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  out.wall_seconds = seconds_since(t0);
   return out;
 }
 

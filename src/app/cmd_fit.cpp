@@ -35,7 +35,6 @@
 #include <mpi.h>
 
 #include "analysis/observations.hpp"
-#include "solve/resolution_runner.hpp"
 #include "analysis/sweep.hpp"
 #include "analysis/sweep_runner.hpp"
 #include "app/batch.hpp"
@@ -43,6 +42,7 @@
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "io/dataset_writer.hpp"
 #include "io/observation_loader.hpp"
 #include "io/output.hpp"
@@ -52,6 +52,7 @@
 #include "solve/fit.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
+#include "solve/resolution_runner.hpp"
 #include "solve/solver_options.hpp"
 
 namespace colchem::app {
@@ -477,8 +478,7 @@ void print_fit_benchmark(ColumnModel& model, const Scenario& sc, const Observati
   std::vector<double> r;
   const auto t0 = std::chrono::steady_clock::now();
   one.residuals(std::vector<double>{1.01}, r);
-  const double warm_s =
-      std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  const double warm_s = seconds_since(t0);
   out << fmt::format(
       "\nbenchmark: {} parameters, {} cells; fit {:.3f} s; one warm steady solve (K x 1.01) "
       "{:.3f} s; the fit costs {:.1f} warm steady solves\n",

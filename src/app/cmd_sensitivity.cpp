@@ -14,11 +14,11 @@
 #include <optional>
 
 #include "analysis/observations.hpp"
-#include "solve/resolution_runner.hpp"
 #include "app/commands.hpp"
 #include "app/steady_base.hpp"
 #include "core/constants.hpp"
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "io/dataset_writer.hpp"
 #include "io/observation_loader.hpp"
 #include "io/scenario.hpp"
@@ -27,6 +27,7 @@
 #include "solve/column_run.hpp"
 #include "solve/interrupt.hpp"
 #include "solve/petsc_session.hpp"
+#include "solve/resolution_runner.hpp"
 #include "solve/solver_options.hpp"
 
 namespace colchem::app {
@@ -182,8 +183,7 @@ void print_benchmark(ColumnModel& model, const RunOutcome& run, const Sensitivit
   perturb_parameter(model, k, std::log(1.01));
   const auto t0 = std::chrono::steady_clock::now();
   const SteadyStateResult warm = SteadyStateSolver(model.system(), tight).solve(run.x);
-  const double warm_s =
-      std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  const double warm_s = seconds_since(t0);
   perturb_parameter(model, k, 0.0);
   model.refresh(run.x);
   std::cout << fmt::format(

@@ -9,15 +9,12 @@
 #include "analysis/score.hpp"
 #include "core/column_state.hpp"
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "solve/ptc_linear_solver.hpp"
 
 namespace colchem {
 
 namespace {
-
-double seconds_since(std::chrono::steady_clock::time_point t0) {
-  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
 
 constexpr double kLogStep = kTransportLogStep;
 

@@ -8,6 +8,7 @@
 #include <cmath>
 
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "solve/adjoint.hpp"
 #include "solve/petsc_session.hpp"
 #include "solve/ptc_linear_solver.hpp"
@@ -17,10 +18,6 @@
 namespace colchem {
 
 namespace {
-
-double seconds_since(std::chrono::steady_clock::time_point t0) {
-  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
 
 /// Residual of a point whose steady solve failed: large, finite, so that TAO's line search
 /// backs off (common practice, no source).

@@ -7,14 +7,12 @@
 #include <limits>
 
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "solve/petsc_session.hpp"
 
 namespace colchem {
 
 namespace {
-double seconds_since(std::chrono::steady_clock::time_point t0) {
-  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
 
 /// An outer GMRES on a shell matrix (mult) with a shell right preconditioner (apply), both
 /// on ctx: restarted every `restart` iterations, the unpreconditioned residual norm, a

@@ -9,14 +9,12 @@
 
 #include "core/error.hpp"
 #include "core/step_control.hpp"
+#include "core/stopwatch.hpp"
 
 namespace colchem {
 
 namespace {
 using Clock = std::chrono::steady_clock;
-double since(Clock::time_point t0) {
-  return std::chrono::duration<double>(Clock::now() - t0).count();
-}
 std::string sci(double v) {
   char buf[32];
   std::snprintf(buf, sizeof buf, "%.4g", v);
@@ -160,7 +158,7 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
     res.residual_norm = scaled_residual_norm(system_, x, o.scale, res.time_s).value;
     res.reason =
         std::move(end.reason) + " (coupled scaled residual " + sci(res.residual_norm) + ")";
-    res.wall_s = since(t_start);
+    res.wall_s = seconds_since(t_start);
     return res;
   };
 
@@ -203,7 +201,8 @@ SplitResult SplitIntegrator::run(std::vector<double> x0, const SplitCallbacks& c
       dt_want = std::min(hits_stop ? std::max(next, dt_want) : next, o.max_step_s);
     }
     if (cb.on_time_crossed) cb.on_time_crossed(t, t_new, x);
-    if (auto end = record_step(system_, o, cb, res, dt, err, dt_want, since(t_start), hits_stop)) {
+    if (auto end =
+            record_step(system_, o, cb, res, dt, err, dt_want, seconds_since(t_start), hits_stop)) {
       return finish(std::move(*end));
     }
     if (hits_stop) ++next_stop;

@@ -10,6 +10,7 @@
 #include <optional>
 
 #include "core/error.hpp"
+#include "core/stopwatch.hpp"
 #include "solve/ptc_linear_solver.hpp"
 
 namespace colchem {
@@ -44,10 +45,6 @@ SteadyStateSolver::SteadyStateSolver(ColumnSystem system, SteadyStateOptions opt
 namespace {
 
 using Clock = std::chrono::steady_clock;
-
-double since(Clock::time_point t0) {
-  return std::chrono::duration<double>(Clock::now() - t0).count();
-}
 
 std::string sci(double v) {
   char buf[32];
@@ -153,7 +150,7 @@ SteadyStateResult PtcRun::finish(SolveStatus st, std::string why, double norm) {
   res_.max_relative_change = last_change_;
   res_.assembly_s = linear_.assembly_seconds();
   res_.factor_solve_s = linear_.factor_solve_seconds();
-  res_.wall_s = since(t_start_);
+  res_.wall_s = seconds_since(t_start_);
   return std::move(res_);
 }
 
@@ -179,7 +176,7 @@ ScaledNorm PtcRun::evaluate() {
   evaluate_tendency(sys_, res_.x, o_.time_s, f_);
   evaluate_jacobian(sys_, res_.x, o_.time_s, jac_);
   const ScaledNorm norm = scaled_norm(f_, jac_, res_.x, o_.scale);
-  res_.evaluate_s += since(t_eval);
+  res_.evaluate_s += seconds_since(t_eval);
   return norm;
 }
 
@@ -199,7 +196,7 @@ SteadyIteration PtcRun::record_of(int it, const ScaledNorm& norm) const {
 void PtcRun::record(SteadyIteration& rec, double step, double lambda) {
   rec.pseudo_step_s = step;
   rec.damping = lambda;
-  rec.wall_s = since(t_start_);
+  rec.wall_s = seconds_since(t_start_);
   res_.history.push_back(rec);
   if (cb_.on_iteration) cb_.on_iteration(rec);
 }
@@ -230,7 +227,7 @@ std::optional<SteadyStateResult> PtcRun::stop_test(SteadyIteration& rec, const S
                   norm.value);
   }
   if (cb_.give_up) {
-    rec.wall_s = since(t_start_);
+    rec.wall_s = seconds_since(t_start_);
     std::string why = cb_.give_up(rec);
     if (!why.empty()) {
       record(rec, 0.0, 1.0);
