@@ -84,7 +84,7 @@ void NcWriter::dimension(const std::string& name, std::size_t len) {
 }
 
 void NcWriter::variable(const std::string& name, const std::vector<std::string>& dims,
-                        const NcVarAttrs& attrs) {
+                        const VarAttrs& attrs) {
   std::vector<int> dimids;
   for (const auto& d : dims) {
     int id = -1;

@@ -28,9 +28,6 @@
 
 namespace colchem {
 
-/// The attributes of a numeric variable (core/dataset.hpp).
-using NcVarAttrs = VarAttrs;
-
 class NcWriter {
  public:
   explicit NcWriter(std::filesystem::path final_path);
@@ -46,7 +43,7 @@ class NcWriter {
   /// len 0 = unlimited.
   void dimension(const std::string& name, std::size_t len);
   void variable(const std::string& name, const std::vector<std::string>& dims,
-                const NcVarAttrs& attrs);
+                const VarAttrs& attrs);
   /// A variable of strings (NC_STRING) along one dimension, e.g. species names.
   void string_variable(const std::string& name, const std::string& dim,
                        const std::string& long_name);
