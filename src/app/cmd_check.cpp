@@ -8,6 +8,7 @@
 #include "analysis/score.hpp"
 #include "app/commands.hpp"
 #include "app/summary.hpp"
+#include "chem/chemistry_summary.hpp"
 #include "core/background.hpp"
 #include "io/chemistry_section.hpp"
 #include "io/observation_loader.hpp"

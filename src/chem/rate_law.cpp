@@ -142,4 +142,29 @@ std::string rate_constant_units(int order) {
   }
 }
 
+void convert_rate_units(RateLaw& law, double f, double f3) {
+  switch (law.form) {
+    case RateForm::kArrhenius:
+    case RateForm::kConstant:
+    case RateForm::kFirstOrder:
+      law.arrhenius.A *= f;
+      break;
+    case RateForm::kFalloff:
+      law.kinf_300 *= f;
+      law.k0_300 *= f * f3;
+      break;
+    case RateForm::kTroe:
+      law.kinf.A *= f;
+      law.k0.A *= f * f3;
+      break;
+    case RateForm::kChemicalActivation:
+      law.k0_300 *= f;
+      law.kinf_300 *= f / f3;
+      break;
+    case RateForm::kEquilibriumReverse:
+    case RateForm::kPhotolysis:
+      break;
+  }
+}
+
 }  // namespace colchem

@@ -79,4 +79,9 @@ double rate_constant(const RateLaw& law, double T, double M);
 void rate_constants(std::span<const RateLaw> laws, std::span<const double> T,
                     std::span<const double> M, std::span<double> k);
 
+/// Converts a law's parameters written in another unit: f is the factor of k's unit, f3 that
+/// of k times time (a volume; it turns a bimolecular factor into a termolecular one, kinf
+/// into s-1, ...). The forward law of equilibrium_reverse is converted by the caller.
+void convert_rate_units(RateLaw& law, double f, double f3);
+
 }  // namespace colchem

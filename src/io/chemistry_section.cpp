@@ -3,12 +3,10 @@
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <cmath>
 #include <limits>
-#include <set>
 
+#include "chem/mechanism_rules.hpp"
 #include "core/background.hpp"
-#include "core/constants.hpp"
 #include "core/ideal_gas.hpp"
 #include "core/physical_bounds.hpp"
 #include "io/amount.hpp"
@@ -23,28 +21,20 @@ namespace colchem {
 namespace {
 
 std::vector<std::size_t> read_modules(const ConfigNode& n, const Mechanism& m) {
-  std::vector<std::string> names;
-  for (const auto& md : m.modules) names.push_back(md.name);
+  const std::vector<std::string> names = names_of(m.modules);
   std::vector<std::size_t> active;
   for (const auto& item : n.items()) {
     const std::string name = item.text();
-    const auto idx = m.module_index(name);
-    if (!idx) {
-      const auto near = nearest_word(name, names);
-      item.fail("a module of mechanism '" + m.name + "'", "unknown module '" + name + "'",
-                near ? "did you mean '" + *near + "'?"
-                     : "modules: " + fmt::format("{}", fmt::join(names, ", ")));
-    }
-    if (std::find(active.begin(), active.end(), *idx) == active.end()) active.push_back(*idx);
+    const std::size_t idx = named_or_fail(
+        item, m.module_index(name), name, names, "a module of mechanism '" + m.name + "'",
+        "unknown module '" + name + "'", fmt::format("modules: {}", fmt::join(names, ", ")));
+    if (std::find(active.begin(), active.end(), idx) == active.end()) active.push_back(idx);
   }
-  for (auto a : active) {
-    for (auto r : m.modules[a].requires_modules) {
-      if (std::find(active.begin(), active.end(), r) == active.end()) {
-        n.fail("every module that an active module requires",
-               "module '" + m.modules[a].name + "' without '" + m.modules[r].name + "'",
-               "add '" + m.modules[r].name + "' to the list");
-      }
-    }
+  if (const auto miss = missing_requirement(m, active)) {
+    const std::string& required = m.modules[miss->second].name;
+    n.fail("every module that an active module requires",
+           "module '" + m.modules[miss->first].name + "' without '" + required + "'",
+           "add '" + required + "' to the list");
   }
   return active;
 }
@@ -167,17 +157,18 @@ RateLimits read_rate_limits(const ConfigNode& n, const UnitSystem& units) {
   if (!n.is_map()) {
     n.fail("a map of limits {first_order: ..., bimolecular: ..., termolecular: ...}");
   }
-  const auto read = [&](const char* key, const char* unit, const char* example, double& out) {
-    if (auto v = n.find(key)) {
-      out = v->quantity(units, unit, example);
-      if (!(out > 0.0 && std::isfinite(out))) {
-        v->fail(std::string("a positive, finite limit in ") + unit, "'" + v->text() + "'");
-      }
-    }
+  const auto limit = [](const char* key, double* target, const char* unit, const char* example) {
+    return quantity(key, target, unit, example, 0.0, std::numeric_limits<double>::infinity(),
+                    std::string("a positive, finite limit in ") + unit)
+        .above_lo()
+        .below_hi();
   };
-  read("first_order", "s-1", "1e20 s-1", lim.first_order_s);
-  read("bimolecular", "cm3 s-1", "1e-8 cm3 s-1", lim.bimolecular_cm3_s);
-  read("termolecular", "cm6 s-1", "1e-22 cm6 s-1", lim.termolecular_cm6_s);
+  const Key keys[] = {
+      limit("first_order", &lim.first_order_s, "s-1", "1e20 s-1"),
+      limit("bimolecular", &lim.bimolecular_cm3_s, "cm3 s-1", "1e-8 cm3 s-1"),
+      limit("termolecular", &lim.termolecular_cm6_s, "cm6 s-1", "1e-22 cm6 s-1"),
+  };
+  read_keys(n, units, keys);
   n.done();
   return lim;
 }
@@ -197,22 +188,17 @@ ChemistrySpec load_chemistry_spec(const ConfigNode& n, const UnitSystem& units,
   }
   spec.parameters = mech->default_parameters();
   if (auto ps = n.find("parameters")) {
-    std::vector<std::string> names;
-    for (const auto& p : mech->parameters) names.push_back(p.name);
     for (const auto& [name, v] : ps->entries()) {
-      const auto idx = mech->parameter_index(name);
-      if (!idx) {
-        const auto near = nearest_word(name, names);
-        v.fail("a parameter of mechanism '" + mech->name + "'", "unknown parameter '" + name + "'",
-               near ? "did you mean '" + *near + "'?" : std::string{});
-      }
-      const Parameter& p = mech->parameters[*idx];
+      const std::size_t idx = named_or_fail(
+          v, mech->parameter_index(name), name, names_of(mech->parameters),
+          "a parameter of mechanism '" + mech->name + "'", "unknown parameter '" + name + "'");
+      const Parameter& p = mech->parameters[idx];
       const double x = v.number();
       if (!(x >= p.min && x <= p.max)) {
         v.fail(fmt::format("a value of '{}' within [{}, {}]", name, p.min, p.max),
                fmt::format("{}", x));
       }
-      spec.parameters[*idx] = x;
+      spec.parameters[idx] = x;
     }
   }
   for (const char* key : {"condensation", "sinks"}) {  // "sinks": the earlier name
@@ -279,30 +265,25 @@ void read_box_state(const ConfigNode& b, const UnitSystem& units, BoxSpec& box) 
     if (it != box.bulk_mole_fraction.end()) box.initial_cm3[s] = it->second * box.air_cm3;
   }
   if (auto init = b.find("initial")) {
-    std::vector<std::string> names;
-    for (const auto& sp : m.species) names.push_back(sp.name);
     for (const auto& [name, v] : init->entries()) {
-      const auto idx = m.species_index(name);
-      if (!idx) {
-        const auto near = nearest_word(name, names);
-        v.fail("a species of mechanism '" + m.name + "'", "'" + name + "'",
-               near ? "did you mean '" + *near + "'?" : std::string{});
-      }
+      const std::size_t idx =
+          named_or_fail(v, m.species_index(name), name, names_of(m.species),
+                        "a species of mechanism '" + m.name + "'", "'" + name + "'");
       const Amount a =
           read_amount(v, units, {AmountKind::kFraction, AmountKind::kDensity},
                       "a mixing ratio ('1e-6', '1 ppm', '1 %') or a density ('2.5e13 cm-3')");
       const double n_cm3 = a.kind == AmountKind::kDensity ? a.value : a.value * box.air_cm3;
       if (!(n_cm3 >= 0.0)) v.fail("a non-negative amount");
-      box.initial_cm3[*idx] = n_cm3;
+      box.initial_cm3[idx] = n_cm3;
     }
   }
   if (auto ph = b.find("photolysis")) {
     for (const auto& [channel, v] : ph->entries()) {
       const double J = v.quantity(units, "s-1", "1e-3 s-1");
       if (!(J >= 0.0)) v.fail("a non-negative photolysis rate");
-      bool used = false;
-      for (const auto& rx : m.reactions) used = used || rx.rate.channel == channel;
-      if (!used) v.fail("a photolysis channel named by a reaction", "'" + channel + "'");
+      const auto named = [&](const Reaction& rx) { return rx.rate.channel == channel; };
+      if (std::none_of(m.reactions.begin(), m.reactions.end(), named))
+        v.fail("a photolysis channel named by a reaction", "'" + channel + "'");
       box.photolysis.emplace_back(channel, J);
     }
   }
@@ -370,71 +351,6 @@ BoxSpec load_box_config(const std::filesystem::path& file,
   check_rates(m, std::vector<double>{box.temperature_K}, std::vector<double>{box.air_cm3},
               box.bulk_mole_fraction, box.chemistry.rate_limits);
   return box;
-}
-
-std::string summarize_chemistry(const Mechanism& mech, const ChemistrySpec& spec, bool verbose) {
-  std::string out =
-      fmt::format("chemistry  mechanism {} ({} species, {} fixed; {} reactions in {} modules)\n",
-                  mech.name, mech.species.size(),
-                  std::count_if(mech.species.begin(), mech.species.end(),
-                                [](const Species& s) { return s.fixed; }),
-                  mech.reactions.size(), mech.modules.size());
-  std::set<std::size_t> seen;
-  std::size_t balanced = 0, sinks = 0, active_reactions = 0;
-  for (std::size_t i = 0; i < mech.modules.size(); ++i) {
-    const Module& md = mech.modules[i];
-    const bool on = std::find(spec.modules.begin(), spec.modules.end(), i) != spec.modules.end();
-    std::vector<std::string> added;
-    for (auto r : md.reactions) {
-      const Reaction& rx = mech.reactions[r];
-      for (const auto* side : {&rx.reactants, &rx.products}) {
-        for (const auto& e : *side) {
-          if (seen.insert(e.species).second) added.push_back(mech.species[e.species].name);
-        }
-      }
-      if (on) {
-        ++active_reactions;
-        (rx.sink ? sinks : balanced)++;
-      }
-    }
-    out += fmt::format("  module {:<12} {:<8} {} reactions, adds {} species{}{}\n", md.name,
-                       on ? "active" : "off", md.reactions.size(), added.size(),
-                       added.empty() ? "" : ": ", fmt::join(added, " "));
-    if (verbose) {
-      for (auto r : md.reactions) {
-        const Reaction& rx = mech.reactions[r];
-        out += fmt::format("      {:<20} {:<40} {}{}\n", rx.id, rx.equation,
-                           rate_form_name(rx.rate.form),
-                           rx.source.empty() ? "" : "  [" + rx.source + "]");
-      }
-    }
-  }
-  for (std::size_t p = 0; p < mech.parameters.size(); ++p) {
-    out +=
-        fmt::format("  parameter {} = {} (default {}, range [{}, {}])\n", mech.parameters[p].name,
-                    spec.parameters.at(p), mech.parameters[p].default_value, mech.parameters[p].min,
-                    mech.parameters[p].max);
-  }
-  for (const auto& s : spec.exchanges) {
-    const bool two_way = s.has_condensed || s.rate == CondensationExchange::Rate::kKinetic;
-    std::string range;
-    if (std::isfinite(s.above_cm))
-      range += fmt::format(" from {} km", s.above_cm / constants::kCmPerKm);
-    if (std::isfinite(s.below_cm))
-      range += fmt::format(" below {} km", s.below_cm / constants::kCmPerKm);
-    const std::string rate = s.rate == CondensationExchange::Rate::kKinetic
-                                 ? fmt::format("kinetic, accommodation {:g}", s.accommodation)
-                                 : (s.timescale_table.altitude_cm.empty()
-                                        ? fmt::format("timescale {:g} s", s.timescale_s)
-                                        : std::string("timescale profile"));
-    out += fmt::format("  condensation of {}{} ({}, {})\n", mech.species[s.species].name, range,
-                       two_way ? "condensation and evaporation" : "condensation only", rate);
-  }
-  out += fmt::format(
-      "  {} of {} active reactions balanced in every element; {} sinks (no "
-      "products) exempt\n",
-      balanced, active_reactions, sinks);
-  return out;
 }
 
 }  // namespace colchem

@@ -1,21 +1,13 @@
-// Mechanism files (YAML, colchem's own schema; README.md, section Configuration reference
-// "Mechanism files") -> Mechanism.
-//
-// Every check raises an InputError (ExitCode::kInputData) naming the file, the line and the
-// reaction's equation: element balance (sinks exempt; hv and M ignored), undeclared
-// species, reaction ids (required, a short word, unique), rate units against the order,
-// unknown parameter names in `scale`, parameter defaults outside [min, max], photolysis
-// without hv, unknown keys and the renamed keys of earlier schemas (`duplicate`,
-// `efficiencies`). check_rates() (chem/rate_checks.hpp) adds the checks that need a column: negative,
-// NaN or absurd rate constants at its temperatures and densities (limits: RateLimits,
-// chem/mechanism.hpp, widened in a scenario's or box's `chemistry.rate_limits`).
+// Mechanism files (YAML, colchem's own schema; README.md, "Mechanism files") -> Mechanism.
+// Every check is an InputError (ExitCode::kInputData) naming file, line and reaction; the
+// checks that need a column are check_rates' (chem/rate_checks.hpp).
 #pragma once
 
 #include <filesystem>
-#include <map>
 #include <memory>
-#include <span>
+#include <optional>
 #include <string>
+#include <vector>
 
 #include "chem/mechanism.hpp"
 #include "chem/rate_checks.hpp"
@@ -23,10 +15,27 @@
 
 namespace colchem {
 
+class ConfigNode;
+
 std::shared_ptr<Mechanism> load_mechanism(const std::filesystem::path& file,
                                           const UnitSystem& units);
 /// The same from text (tests); `name` stands for the file in messages.
 std::shared_ptr<Mechanism> load_mechanism_text(const std::string& text, const std::string& name,
                                                const UnitSystem& units);
+
+/// The names of a mechanism's species, parameters or modules.
+template <class T>
+std::vector<std::string> names_of(const std::vector<T>& items) {
+  std::vector<std::string> names;
+  for (const auto& item : items) names.push_back(item.name);
+  return names;
+}
+
+/// `index` when it holds one; else fails at `where` (expected, found) with a "did you mean"
+/// among `names`, or `otherwise` when none is near (a generic reader config_node lacks).
+std::size_t named_or_fail(const ConfigNode& where, std::optional<std::size_t> index,
+                          const std::string& name, const std::vector<std::string>& names,
+                          const std::string& expected, const std::string& found,
+                          const std::string& otherwise = {});
 
 }  // namespace colchem

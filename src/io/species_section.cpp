@@ -13,8 +13,11 @@ namespace colchem {
 
 namespace {
 
+/// A mixing ratio or a table profile; the table is recorded in `inputs` (when given) as
+/// `role` followed by the species.
 InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
-                            const std::string& species, std::vector<InputFile>* inputs) {
+                            const std::string& species, std::vector<InputFile>* inputs,
+                            const std::string& role = "initial profile of ") {
   InitialProfile p;
   if (n.is_scalar()) {
     p.mixing_ratio = read_mixing_ratio(n, units);
@@ -39,7 +42,7 @@ InitialProfile load_initial(const ConfigNode& n, const UnitSystem& units,
     if (!(v > 0.0 && v <= 1.0))
       t.fail_row(i, column, "a mixing ratio in (0, 1]", message_number(v));
   }
-  if (inputs) inputs->push_back(InputFile{"initial profile of " + species, ref.file, t.text()});
+  if (inputs) inputs->push_back(InputFile{role + species, ref.file, t.text()});
   return p;
 }
 
@@ -92,6 +95,28 @@ Schedule load_value(const ConfigNode& n, const UnitSystem& units, const ValueKin
   return s;
 }
 
+/// The boundary conditions that carry a value (a schedule or a constant): key, kind, value
+/// kind, sign, and the boundaries that take them (`jeans` with options is read apart).
+struct ValuedBoundary {
+  const char* key;
+  BoundaryKind kind;
+  ValueKind value;
+  bool non_negative;
+  bool top, bottom;
+};
+constexpr ValuedBoundary kValuedBoundaries[] = {
+    {"mixing_ratio", BoundaryKind::kMixingRatio, {nullptr, ""}, true, true, true},
+    {"density", BoundaryKind::kDensity, {"cm-3", "1e10 cm-3"}, true, true, true},
+    {"flux", BoundaryKind::kFlux, {"cm-2 s-1", "1e9 cm-2 s-1"}, false, true, true},
+    {"deposition_velocity",
+     BoundaryKind::kDepositionVelocity,
+     {"cm s-1", "0.1 cm s-1"},
+     true,
+     false,
+     true},
+    {"escape_velocity", BoundaryKind::kEscapeVelocity, {"cm s-1", "1e3 cm s-1"}, true, true, false},
+};
+
 BoundaryCondition load_boundary(const ConfigNode& n, const UnitSystem& units, bool top) {
   const std::vector<std::string> scalars =
       top ? std::vector<std::string>{"zero_flux", "jeans", "diffusion_limited"}
@@ -103,9 +128,11 @@ BoundaryCondition load_boundary(const ConfigNode& n, const UnitSystem& units, bo
     if (c == "diffusion_limited") bc.kind = BoundaryKind::kDiffusionLimited;
     return bc;
   }
-  const std::vector<std::string> keys =
-      top ? std::vector<std::string>{"mixing_ratio", "density", "flux", "escape_velocity", "jeans"}
-          : std::vector<std::string>{"mixing_ratio", "density", "flux", "deposition_velocity"};
+  std::vector<std::string> keys;
+  for (const auto& row : kValuedBoundaries) {
+    if (top ? row.top : row.bottom) keys.emplace_back(row.key);
+  }
+  if (top) keys.emplace_back("jeans");
   std::string all;
   for (const auto& k : keys) all += (all.empty() ? "" : ", ") + k;
   for (const auto& s : scalars) all += ", " + s;
@@ -121,29 +148,18 @@ BoundaryCondition load_boundary(const ConfigNode& n, const UnitSystem& units, bo
     if (top && key == "deposition_velocity") hint = "only a bottom boundary; use escape_velocity";
     n.fail("one of: " + all, "'" + key + "'", hint);
   }
-  if (key == "mixing_ratio") {
-    bc.kind = BoundaryKind::kMixingRatio;
-    bc.value = load_value(v, units, {nullptr, ""}, true);
-  } else if (key == "density") {
-    bc.kind = BoundaryKind::kDensity;
-    bc.value = load_value(v, units, {"cm-3", "1e10 cm-3"}, true);
-  } else if (key == "flux") {
-    bc.kind = BoundaryKind::kFlux;
-    bc.value = load_value(v, units, {"cm-2 s-1", "1e9 cm-2 s-1"}, false);
-  } else if (key == "deposition_velocity") {
-    bc.kind = BoundaryKind::kDepositionVelocity;
-    bc.value = load_value(v, units, {"cm s-1", "0.1 cm s-1"}, true);
-  } else if (key == "escape_velocity") {
-    bc.kind = BoundaryKind::kEscapeVelocity;
-    bc.value = load_value(v, units, {"cm s-1", "1e3 cm s-1"}, true);
-  } else {  // jeans with options
-    bc.kind = BoundaryKind::kJeans;
-    if (auto t = v.find("exobase_temperature")) {
-      bc.exobase_temperature_K = t->quantity(units, "K", "1000 K");
-      if (!(bc.exobase_temperature_K > 0.0)) t->fail("a positive temperature");
-    }
-    v.done();
+  for (const auto& row : kValuedBoundaries) {
+    if (key != row.key) continue;
+    bc.kind = row.kind;
+    bc.value = load_value(v, units, row.value, row.non_negative);
+    return bc;
   }
+  bc.kind = BoundaryKind::kJeans;  // with options
+  if (auto t = v.find("exobase_temperature")) {
+    bc.exobase_temperature_K = t->quantity(units, "K", "1000 K");
+    if (!(bc.exobase_temperature_K > 0.0)) t->fail("a positive temperature");
+  }
+  v.done();
   return bc;
 }
 
@@ -153,11 +169,7 @@ HoldSpec load_hold(const ConfigNode& n, const UnitSystem& units, const std::stri
   HoldSpec h;
   const auto x = n.child("mixing_ratio");
   if (x.is_map()) {
-    const InitialProfile p = load_initial(x, units, species, nullptr);
-    h.mixing_ratio.table = p.table;
-    if (inputs)
-      inputs->push_back(InputFile{"held profile of " + species, p.table.source,
-                                  Table::read(p.table.source).text()});
+    h.mixing_ratio.table = load_initial(x, units, species, inputs, "held profile of ").table;
   } else {
     h.mixing_ratio.constant = read_mixing_ratio(x, units);
   }

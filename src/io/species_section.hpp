@@ -1,6 +1,5 @@
-// Loader for the scenario's `species:` and `injections:` sections -> ColumnSpeciesSpec
-// (transport/column_species.hpp). Every key is documented in README.md, section Configuration reference (to be
-// folded into README "Configuration reference"). Species names are kept as written with
+// The scenario's `species:` and `injections:` sections (README.md, "Configuration reference")
+// -> ColumnSpeciesSpec (transport/column_species.hpp). Species names are kept as written with
 // their file position; the caller checks them against the mechanism.
 #pragma once
 
