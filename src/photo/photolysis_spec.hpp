@@ -169,7 +169,7 @@ struct AerosolSpec {
   double wavelength_exponent = 0.0;
   double reference_nm = 550.0;
   std::string source;
-  bool has_optical_properties = false;  ///< omega and g were given
+  bool has_optical_properties = false;             ///< omega and g were given
   OpticalPropertySpec single_scattering_albedo{};  ///< constant 0 unless given
   OpticalPropertySpec asymmetry{};
 };
@@ -222,6 +222,18 @@ struct PhotolysisSpec {
   /// Channels with prescribed J (each channel at most once).
   std::vector<PrescribedJSpec> prescribed;
 };
+
+struct Mechanism;
+
+/// What a value `v` of `target` must be ("a positive threshold wavelength or energy"), or
+/// empty when it is one; `top` is the largest yield of the form a kYieldScale multiplies.
+std::string parameter_value_problem(ParameterTarget target, double v, double top = 1.0);
+
+/// Checks the resolved parameter uses of `spec` against `mech`: every value must make sense
+/// over its parameter's whole [min, max], and every parameter of the mechanism must be used
+/// by a reaction's scale or by the data. Violations are InputErrors (ExitCode::kInputData) at
+/// the reference or at the parameter's declaration.
+void check_parameter_uses(const PhotolysisSpec& spec, const Mechanism& mech);
 
 /// Writes the values of the parameters the spec refers to into its fields (parameters:
 /// indexed as the mechanism's; every use must be resolved). Returns the changed spec.
