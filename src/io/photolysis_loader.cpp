@@ -79,19 +79,6 @@ void check_rows(const Table& t, const std::string& column, const std::vector<dou
   }
 }
 
-/// An energy unit (kcal/mol, kJ/mol, J/mol, eV, cm-1) as cm^-1 per unit, or nullopt.
-std::optional<double> energy_to_wavenumber(const UnitSystem& units, const std::string& unit) {
-  if (unit == "kcal/mol" || unit == "kcal mol-1") return wavenumber_per_molar_energy(4184.0);
-  if (same_dimension(units, unit, "J mol-1")) {
-    return wavenumber_per_molar_energy(*units.convert(1.0, unit, "J mol-1"));
-  }
-  if (same_dimension(units, unit, "erg")) {
-    return wavenumber_per_energy(*units.convert(1.0, unit, "erg"));
-  }
-  if (same_dimension(units, unit, "cm-1")) return *units.convert(1.0, unit, "cm-1");
-  return std::nullopt;
-}
-
 /// The written form of a value that may refer to a parameter: a quantity in `unit` (empty: a
 /// bare number, times `factor`), or with `energy` also an energy, taken as cm^-1 (turned into
 /// a threshold wavelength 1e7 / x nm when `unit` is "nm").
@@ -116,7 +103,7 @@ void convert(const ConfigNode& n, const UnitSystem& units, const std::string& un
     use.factor = *units.convert(1.0, unit, target);
     return;
   }
-  if (const auto w = f.energy ? energy_to_wavenumber(units, unit) : std::nullopt) {
+  if (const auto w = f.energy ? wavenumber_per_energy_unit(units, unit) : std::nullopt) {
     use.factor = *w;
     use.reciprocal = target == "nm";
     return;
@@ -192,7 +179,7 @@ ParameterUse use_of(ParameterTarget target, std::size_t absorber, std::size_t ba
   return use;
 }
 
-/// The value column of a wavelength table (in `unit`, within [0, hi]), labelled and recorded.
+/// The value column of a wavelength table (in `unit`, within [lo, hi]), labelled and recorded.
 TabulatedSpectrum spectrum_of(const TableRef& ref, const Table& t, const Ctx& ctx,
                               const std::string& role, const std::string& unit, double lo,
                               double hi, const std::string& expected) {
@@ -220,17 +207,12 @@ void load_bins(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec) {
   const auto to = n.find("to");
   const auto width = n.find("width");
   n.done();
-  std::vector<double>& e = spec.bin_edges_nm;
   if (edges) {
     if (from || to || width)
       edges->fail("either 'edges' or 'from', 'to' and 'width'", "both forms");
-    e = edges->quantity_list(ctx.units, "nm", "100 nm");
-    if (e.size() < 2) edges->fail("at least two bin edges");
-    for (std::size_t i = 1; i < e.size(); ++i) {
-      if (!(e[i] > e[i - 1]))
-        edges->fail("edges increasing strictly", "a decrease at entry " + std::to_string(i));
-    }
-    if (e.front() <= 0.0) edges->fail("positive wavelengths");
+    spec.bin_edges_nm = edges->quantity_list(ctx.units, "nm", "100 nm");
+    const auto [expected, found] = bin_edges_problem(spec.bin_edges_nm);
+    if (!expected.empty()) edges->fail(expected, found.empty() ? edges->describe() : found);
     return;
   }
   if (!from || !to || !width)
@@ -243,14 +225,11 @@ void load_bins(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec) {
   };
   read_keys(n, ctx.units, keys);
   if (!(b > a)) to->fail("a wavelength above 'from'");
-  const double count = std::round((b - a) / w);
-  if (count > 200000) width->fail("at most 200000 bins", std::to_string(count) + " bins");
-  if (std::abs(count * w - (b - a)) > 1e-6 * w) {
-    width->fail("a width that divides 'to' - 'from' into whole bins", width->describe());
+  spec.bin_edges_nm = uniform_bin_edges(a, b, w);
+  if (spec.bin_edges_nm.empty()) {
+    width->fail("a width that divides 'to' - 'from' into at most 200000 whole bins",
+                fmt::format("{} for {} nm", width->describe(), message_number(b - a)));
   }
-  const auto nb = static_cast<std::size_t>(count);
-  for (std::size_t i = 0; i <= nb; ++i)
-    e.push_back(a + (b - a) * static_cast<double>(i) / static_cast<double>(nb));
 }
 
 void load_spectrum(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec) {
@@ -261,7 +240,10 @@ void load_spectrum(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec) {
   if (planck) {
     n.done();
     s.form = SpectrumForm::kPlanck;
-    const Key keys[] = {positive("temperature", &s.temperature_K, "K", "5772 K").needed()};
+    const Key keys[] = {quantity("temperature", &s.temperature_K, "K", "5772 K", 0.0, kInf,
+                                 "a positive temperature")
+                            .above_lo()
+                            .needed()};
     read_keys(*planck, ctx.units, keys);
     const auto r = planck->child("radius");
     const auto q = split_quantity(r.text());
@@ -301,11 +283,10 @@ void load_spectrum(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec) {
 /// "arc_degree"); the common abbreviation "deg" is accepted as well.
 double angle(const ConfigNode& n, const UnitSystem& units, const std::string& example, double lo,
              double hi, const std::string& expected) {
-  const double slack = 0.5 * constants::kPi * 1e-12;  // 90 deg itself, after rounding
   const auto q = split_quantity(n.text());
   const double a =
       q && q->unit == "deg" ? q->value * constants::kPi / 180.0 : n.quantity(units, "rad", example);
-  if (!(a >= lo - slack && a <= hi + slack)) n.fail(expected);
+  if (!(a >= lo && a <= hi)) n.fail(expected);
   return a;
 }
 
@@ -319,7 +300,7 @@ void load_illumination(const ConfigNode& n, const Ctx& ctx, PhotolysisSpec& spec
   n.done();
   require_one(n, zen.has_value(), lat.has_value(),
               "either 'zenith_angle' (with 'day_fraction') or 'latitude' and 'declination'");
-  const double deg90 = 0.5 * constants::kPi;
+  const double deg90 = 0.5 * constants::kPi * (1.0 + 1e-12);  // 90 deg after rounding
   if (zen) {
     if (dec || pts)
       n.fail("'zenith_angle' without 'declination' or 'hour_angle_points'", "both forms");
@@ -358,7 +339,7 @@ void read_altitude_blocks(const ConfigNode& n, const Ctx& ctx, const std::string
   const auto x = t.column(wl, ctx.units, "nm");
   const auto v = t.column(column, ctx.units, "1");
   check_rows(t, column, v, lo, hi, expected);
-  check_rows(t, wl, x, std::numeric_limits<double>::min(), kInf, "a positive wavelength");
+  check_rows(t, wl, x, std::numeric_limits<double>::denorm_min(), kInf, "a positive wavelength");
   for (std::size_t r = 0; r < t.rows(); ++r) {
     if (r == 0 || z[r] != z[r - 1]) {
       if (r > 0 && !(z[r] > z[r - 1])) {

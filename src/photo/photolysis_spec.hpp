@@ -6,6 +6,7 @@
 
 #include <span>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/error.hpp"
@@ -242,5 +243,14 @@ PhotolysisSpec with_parameters(const PhotolysisSpec& spec, std::span<const doubl
 /// The default spectral grid: 1 nm bins from 100 to 350 nm (resolves the SO2 and O3
 /// band envelopes at the resolution of tabulated data), 5 nm bins from 350 to 1000 nm.
 std::vector<double> default_bin_edges();
+
+/// Edges from `from_nm` to `to_nm` in bins of `width_nm`; empty unless the width divides the
+/// range into at most 200000 whole bins (a relative slack of 1e-6 of a width).
+std::vector<double> uniform_bin_edges(double from_nm, double to_nm, double width_nm);
+
+/// Why a list of bin edges (nm) cannot be a spectral grid, as {expected, found} (found empty:
+/// the list itself), or two empty strings when it can: at least two edges, strictly
+/// increasing, the first positive.
+std::pair<std::string, std::string> bin_edges_problem(std::span<const double> edges_nm);
 
 }  // namespace colchem
