@@ -6,6 +6,7 @@
 
 #include <span>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/error.hpp"
@@ -169,7 +170,7 @@ struct AerosolSpec {
   double wavelength_exponent = 0.0;
   double reference_nm = 550.0;
   std::string source;
-  bool has_optical_properties = false;  ///< omega and g were given
+  bool has_optical_properties = false;             ///< omega and g were given
   OpticalPropertySpec single_scattering_albedo{};  ///< constant 0 unless given
   OpticalPropertySpec asymmetry{};
 };
@@ -223,6 +224,18 @@ struct PhotolysisSpec {
   std::vector<PrescribedJSpec> prescribed;
 };
 
+struct Mechanism;
+
+/// What a value `v` of `target` must be ("a positive threshold wavelength or energy"), or
+/// empty when it is one; `top` is the largest yield of the form a kYieldScale multiplies.
+std::string parameter_value_problem(ParameterTarget target, double v, double top = 1.0);
+
+/// Checks the resolved parameter uses of `spec` against `mech`: every value must make sense
+/// over its parameter's whole [min, max], and every parameter of the mechanism must be used
+/// by a reaction's scale or by the data. Violations are InputErrors (ExitCode::kInputData) at
+/// the reference or at the parameter's declaration.
+void check_parameter_uses(const PhotolysisSpec& spec, const Mechanism& mech);
+
 /// Writes the values of the parameters the spec refers to into its fields (parameters:
 /// indexed as the mechanism's; every use must be resolved). Returns the changed spec.
 PhotolysisSpec with_parameters(const PhotolysisSpec& spec, std::span<const double> parameters);
@@ -230,5 +243,14 @@ PhotolysisSpec with_parameters(const PhotolysisSpec& spec, std::span<const doubl
 /// The default spectral grid: 1 nm bins from 100 to 350 nm (resolves the SO2 and O3
 /// band envelopes at the resolution of tabulated data), 5 nm bins from 350 to 1000 nm.
 std::vector<double> default_bin_edges();
+
+/// Edges from `from_nm` to `to_nm` in bins of `width_nm`; empty unless the width divides the
+/// range into at most 200000 whole bins (a relative slack of 1e-6 of a width).
+std::vector<double> uniform_bin_edges(double from_nm, double to_nm, double width_nm);
+
+/// Why a list of bin edges (nm) cannot be a spectral grid, as {expected, found} (found empty:
+/// the list itself), or two empty strings when it can: at least two edges, strictly
+/// increasing, the first positive.
+std::pair<std::string, std::string> bin_edges_problem(std::span<const double> edges_nm);
 
 }  // namespace colchem

@@ -6,7 +6,11 @@
 // (e.g. Atkins and de Paula 2006, Physical Chemistry, 8th ed., ch. 13; from memory).
 #pragma once
 
+#include <optional>
+#include <string>
+
 #include "core/constants.hpp"
+#include "core/units.hpp"
 
 namespace colchem {
 
@@ -25,6 +29,21 @@ inline double wavenumber_per_molar_energy(double j_per_mol) {
 inline double wavenumber_width(double width_nm, double center_nm) {
   const double center_cm = center_nm * 1e-7;
   return width_nm * 1e-7 / (center_cm * center_cm);
+}
+
+/// cm^-1 per unit of an energy written in `unit` (per photon: erg, eV; per mole of photons:
+/// J/mol, kJ/mol, kcal/mol; or a wavenumber, cm-1), or nullopt for any other unit.
+inline std::optional<double> wavenumber_per_energy_unit(const UnitSystem& units,
+                                                        const std::string& unit) {
+  if (unit == "kcal/mol" || unit == "kcal mol-1") return wavenumber_per_molar_energy(4184.0);
+  if (same_dimension(units, unit, "J mol-1")) {
+    return wavenumber_per_molar_energy(*units.convert(1.0, unit, "J mol-1"));
+  }
+  if (same_dimension(units, unit, "erg")) {
+    return wavenumber_per_energy(*units.convert(1.0, unit, "erg"));
+  }
+  if (same_dimension(units, unit, "cm-1")) return *units.convert(1.0, unit, "cm-1");
+  return std::nullopt;
 }
 
 }  // namespace colchem

@@ -87,6 +87,27 @@ std::vector<double> default_bin_edges() {
   return e;
 }
 
+std::vector<double> uniform_bin_edges(double from_nm, double to_nm, double width_nm) {
+  const double count = std::round((to_nm - from_nm) / width_nm);
+  if (!(count >= 1.0 && count <= 200000.0)) return {};
+  if (std::abs(count * width_nm - (to_nm - from_nm)) > 1e-6 * width_nm) return {};
+  const auto n = static_cast<std::size_t>(count);
+  std::vector<double> e;
+  for (std::size_t i = 0; i <= n; ++i)
+    e.push_back(from_nm + (to_nm - from_nm) * static_cast<double>(i) / static_cast<double>(n));
+  return e;
+}
+
+std::pair<std::string, std::string> bin_edges_problem(std::span<const double> e) {
+  if (e.size() < 2) return {"at least two bin edges", ""};
+  for (std::size_t i = 1; i < e.size(); ++i) {
+    if (!(e[i] > e[i - 1]))
+      return {"edges increasing strictly", "a decrease at entry " + std::to_string(i)};
+  }
+  if (!(e.front() > 0.0)) return {"positive wavelengths", ""};
+  return {};
+}
+
 std::vector<double> bin_average(const TabulatedSpectrum& t, std::span<const double> edges) {
   std::vector<double> out(edges.size() - 1);
   for (std::size_t b = 0; b + 1 < edges.size(); ++b) {

@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "core/constants.hpp"
+#include "photo/photon_energy.hpp"
 #include "photo/spectral_binning.hpp"
 
 using namespace colchem;
@@ -112,4 +113,29 @@ TEST_CASE("Planck photon flux integrates to the analytic photon and energy total
   // The Sun's constant at 1 au for 5772 K and 1 R_sun: 1361 W m-2 (IAU 2015 nominal
   // solar constant), i.e. 1.361e6 erg cm-2 s-1.
   CHECK(energy == Approx(1.361e6).epsilon(2e-3));
+}
+
+TEST_CASE("uniform bin edges take whole bins only; bad edge lists are named", "[photo]") {
+  const auto e = uniform_bin_edges(100.0, 110.0, 2.5);
+  REQUIRE(e.size() == 5);
+  CHECK(e[1] == Approx(102.5));
+  CHECK(e.back() == 110.0);
+  CHECK(uniform_bin_edges(100.0, 110.0, 3.0).empty());  // 3.33 bins
+  CHECK(uniform_bin_edges(100.0, 300100.0, 1.0).empty());  // 300000 bins, above 200000
+  CHECK(bin_edges_problem(std::vector<double>{1.0}).first == "at least two bin edges");
+  const auto decrease = bin_edges_problem(std::vector<double>{1.0, 2.0, 2.0});
+  CHECK(decrease.first == "edges increasing strictly");
+  CHECK(decrease.second == "a decrease at entry 2");
+  CHECK(bin_edges_problem(std::vector<double>{0.0, 2.0}).first == "positive wavelengths");
+  CHECK(bin_edges_problem(std::vector<double>{100.0, 200.0}).first.empty());
+}
+
+TEST_CASE("energy units convert to wavenumbers; other units are refused", "[photo]") {
+  const UnitSystem units;
+  // 1 kcal/mol = 349.76 cm^-1 (thermochemical calorie; from memory).
+  CHECK(*wavenumber_per_energy_unit(units, "kcal/mol") == Approx(349.76).epsilon(1e-4));
+  CHECK(*wavenumber_per_energy_unit(units, "kJ/mol") == Approx(349.76 / 4.184).epsilon(1e-4));
+  CHECK(*wavenumber_per_energy_unit(units, "eV") == Approx(8065.54).epsilon(1e-5));
+  CHECK(*wavenumber_per_energy_unit(units, "cm-1") == 1.0);
+  CHECK_FALSE(wavenumber_per_energy_unit(units, "nm").has_value());
 }
