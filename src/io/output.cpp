@@ -15,17 +15,6 @@ namespace colchem {
 
 namespace {
 
-/// The number of altitude cells: at least one, with one more edge.
-std::size_t altitude_cells(const NcReader& nc) {
-  const std::size_t N = nc.dimension("altitude"), edges = nc.dimension("altitude_edge");
-  if (N == 0) nc.refuse("altitude", "at least one altitude cell", "a zero-length dimension");
-  if (edges != N + 1) {
-    nc.refuse("altitude_edge", fmt::format("one more edge than altitude cells ({})", N + 1),
-              std::to_string(edges));
-  }
-  return N;
-}
-
 /// The altitudes of `var` (km in the file, on its own dimension) in cm, strictly increasing.
 std::vector<double> read_altitudes(const NcReader& nc, const std::string& var) {
   std::vector<double> z = nc.read(var, {var});
@@ -37,6 +26,19 @@ std::vector<double> read_altitudes(const NcReader& nc, const std::string& var) {
   }
   for (double& v : z) v *= constants::kCmPerKm;
   return z;
+}
+
+/// The grid: at least one altitude cell, centres (when `centres` is set) and edges strictly
+/// increasing, one more edge than cells.
+void read_grid(const NcReader& nc, std::vector<double>* centres, std::vector<double>& edges) {
+  const std::size_t N = nc.dimension("altitude");
+  if (N == 0) nc.refuse("altitude", "at least one altitude cell", "a zero-length dimension");
+  if (centres) *centres = read_altitudes(nc, "altitude");
+  if (const std::size_t E = nc.dimension("altitude_edge"); E != N + 1) {
+    nc.refuse("altitude_edge", fmt::format("one more edge than altitude cells ({})", N + 1),
+              std::to_string(E));
+  }
+  edges = read_altitudes(nc, "altitude_edge");
 }
 
 /// The names along `dim`, at least one.
@@ -70,9 +72,8 @@ ModelColumn read_model_column(const std::filesystem::path& file) {
 
 ModelColumn read_model_column(const NcReader& nc) {
   ModelColumn m;
-  const std::size_t N = altitude_cells(nc);
-  m.altitude_cm = read_altitudes(nc, "altitude");
-  m.edge_cm = read_altitudes(nc, "altitude_edge");
+  read_grid(nc, &m.altitude_cm, m.edge_cm);
+  const std::size_t N = m.cells();
   m.species = read_names(nc, "species_name", "species");
   m.number_density = nc.read("number_density", {"species", "altitude"});
   m.mole_fraction = nc.read("mole_fraction", {"species", "altitude"});
@@ -101,8 +102,7 @@ BudgetInputs read_budget_inputs(const NcReader& nc) {
                 "no variable '" + std::string(v) + "'");
     }
   }
-  altitude_cells(nc);
-  in.edge_cm = read_altitudes(nc, "altitude_edge");
+  read_grid(nc, nullptr, in.edge_cm);
   in.species = read_names(nc, "species_name", "species");
   in.equations = read_names(nc, "reaction_equation", "reaction");
   // Run files written before reactions had ids have no reaction_id: the tables then show
