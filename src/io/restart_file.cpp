@@ -42,12 +42,15 @@ RestartFile read_checkpoint(const std::filesystem::path& file, const ColumnModel
     }
     return x;
   };
-  RunCheckpoint cp{*written_by, static_cast<long>(*iterations),        *time_s,
-                   *step_s,     cell_major(old.number_density.data()), {},
-                   {}};
+  RunCheckpoint cp;
+  cp.method = *written_by;
+  cp.iteration = static_cast<long>(*iterations);
+  cp.time_s = *time_s;
+  cp.step_s = *step_s;
+  cp.x = cell_major(old.number_density.data());
   if (nc.has_variable("snapshot")) {
-    cp.snapshot_times_s =
-        nc.read("snapshot", {"snapshot"});  // seconds since the origin = model time
+    // Seconds since the stated origin = model time.
+    cp.snapshot_times_s = nc.read("snapshot", {"snapshot"});
     const auto snd = nc.read("snapshot_number_density", {"snapshot", "species", "altitude"});
     for (std::size_t k = 0; k < cp.snapshot_times_s.size(); ++k) {
       cp.snapshots.push_back(cell_major(snd.data() + k * S * N));
