@@ -1,7 +1,13 @@
 // The one writer of the files colchem produces: a Dataset (core/dataset.hpp, filled by the
-// builders in report/) written through NcWriter, which adds the layout every file gets
-// (index coordinates and *_name string variables, `coordinates` attributes) and writes to a
-// temporary renamed into place under the output claim (io/netcdf_file.hpp).
+// builders in report/) written through the NetCDF-C API as CF-1.10, each file staged under
+// a temporary name and renamed into place under the output claim (io/output_claim.hpp).
+//
+// Layout every file gets (so CDO, NCO and xarray read it without help): every dimension has
+// a numeric coordinate variable of its name; a dimension the Dataset gives none (species,
+// reaction, variant, ...; not the CF bounds dimension "nv") gets an integer index 0..n-1.
+// Entry names live in string variables along the dimension (`species_name(species)`), which
+// every numeric variable on it lists in its CF `coordinates` attribute: CDO does not accept
+// string coordinates ("Unsupported x-coordinate type").
 #pragma once
 
 #include <filesystem>

@@ -1,8 +1,7 @@
 // Reading colchem's own files back: the species profiles of a run file (compare, restart,
-// photo --from), the reaction diagnostics `colchem
-// budget` needs; and the refusal of an output path that names an input. Every value read is
-// checked (shape, finite, altitudes increasing) before use. The files themselves are built
-// in report/ and written by io/dataset_writer.hpp.
+// photo --from) and the reaction diagnostics `colchem budget` needs, every value checked
+// (shape, finite, altitudes increasing, densities not negative) before use; and the refusal
+// of an output path that names an input.
 #pragma once
 
 #include <filesystem>

@@ -10,34 +10,34 @@ namespace colchem {
 SweepFileRecord read_sweep_file(const std::filesystem::path& file) {
   const NcReader nc(file);
   const auto need = [&](const std::string& what) {
-    return InputError(ExitCode::kInputData, SourceLocation{file.string()}, what,
-                      "a sweep file written by this version of colchem sweep",
-                      "no " + what + " (not a sweep file, or written before it was stored)");
+    nc.refuse(what, "a sweep file written by this version of colchem sweep",
+              "no " + what + " (not a sweep file, or written before it was stored)");
+  };
+  for (const char* v : {"variant_state", "variant_overrides", "variant_status", "mole_fraction"}) {
+    if (!nc.has_variable(v)) need(std::string("variable ") + v);
+  }
+  const auto text = [&](const char* name) {
+    const auto t = nc.global_text(name);
+    if (!t) need(std::string("global attribute ") + name);
+    return t.value_or("");
   };
   SweepFileRecord rec;
   rec.file = file;
-  for (const char* v : {"variant_state", "variant_overrides", "variant_status", "mole_fraction"}) {
-    if (!nc.has_variable(v)) throw need(std::string("variable ") + v);
-  }
-  const auto text = [&](const char* name) {
-    auto t = nc.global_text(name);
-    if (!t) throw need(std::string("global attribute ") + name);
-    return *t;
-  };
   rec.definition = text("colchem_sweep_definition");
   rec.definition_hash = text("colchem_sweep_definition_hash");
   rec.scenario = text("colchem_sweep_scenario");
   rec.piece = nc.global_text("colchem_sweep_piece").value_or("");
-  rec.labels = nc.read_strings("variant_label");
-  rec.status = nc.read_strings("variant_status");
-  rec.overrides = nc.read_strings("variant_overrides");
-  const auto state = nc.read("variant_state");
-  const auto its = nc.read("variant_iterations");
-  const auto res = nc.read("variant_residual");
-  const auto wall = nc.read("variant_wall_time");
-  const auto rank = nc.read("variant_rank_of_process");
-  const auto warm = nc.read("variant_warm_started");
-  const auto mf = nc.read("mole_fraction");
+  rec.labels = nc.read_strings("variant_label", "variant");
+  rec.status = nc.read_strings("variant_status", "variant");
+  rec.overrides = nc.read_strings("variant_overrides", "variant");
+  // Residuals, wall times and the mole fractions of failed variants may be NaN.
+  const auto state = nc.read("variant_state", {"variant"});
+  const auto its = nc.read("variant_iterations", {"variant"});
+  const auto res = nc.read("variant_residual", {"variant"}, false);
+  const auto wall = nc.read("variant_wall_time", {"variant"}, false);
+  const auto rank = nc.read("variant_rank_of_process", {"variant"});
+  const auto warm = nc.read("variant_warm_started", {"variant"});
+  const auto mf = nc.read("mole_fraction", {"variant", "species", "altitude"}, false);
   const std::size_t V = state.size();
   const std::size_t per = V == 0 ? 0 : mf.size() / V;
   for (std::size_t v = 0; v < V; ++v) {
@@ -67,7 +67,7 @@ std::string sweep_file_instead_of_run(const NcReader& nc) {
   if (!nc.global_text("colchem_sweep_file")) return {};
   std::size_t best = 0, count = 0;
   if (nc.has_variable("variant_ranking")) {
-    const auto pos = nc.read("variant_ranking");
+    const auto pos = nc.read("variant_ranking", {"variant"}, false);
     count = pos.size();
     for (std::size_t v = 0; v < pos.size(); ++v) {
       if (pos[v] == 1.0) best = v;

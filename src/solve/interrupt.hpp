@@ -14,7 +14,7 @@
 //
 // Guards nest: main() holds one for the whole command, so that a signal anywhere (also
 // while a file is being written) only sets the flag and every temporary file is removed on
-// the normal path (NcWriter's destructor, write_text_file); a command's own guard inside it
+// the normal path (StagedFile's destructor); a command's own guard inside it
 // re-installs the handler (a library initialised in between, PETSc, may have replaced it)
 // and keeps the flag; only the outermost guard restores the previous handlers and clears
 // the flag when it goes.

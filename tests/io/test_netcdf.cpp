@@ -1,9 +1,10 @@
 // NetCDF output: round trip through the NetCDF-C API, CF attributes, and the write-to-temporary
-// then rename rule (an unfinished writer leaves nothing under the final name).
+// then rename rule (an unfinished file leaves nothing under the final name).
 #include <catch2/catch.hpp>
 
 #include <cmath>
 #include <filesystem>
+#include <fstream>
 
 #include "core/background.hpp"
 #include "core/constants.hpp"
@@ -11,6 +12,7 @@
 #include "core/dataset.hpp"
 #include "io/dataset_writer.hpp"
 #include "io/netcdf_file.hpp"
+#include "io/output_claim.hpp"
 #include "io/scenario.hpp"
 #include "report/column_report.hpp"
 
@@ -53,13 +55,13 @@ TEST_CASE("a scenario's background round-trips through NetCDF", "[netcdf]") {
   CHECK_THAT(*r.text_variable("provenance_input_files"), Catch::Contains("temperature table"));
 }
 
-TEST_CASE("an uncommitted writer leaves no file behind", "[netcdf]") {
+TEST_CASE("a staged file carries the final name only once committed", "[netcdf]") {
   const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "abandoned.nc";
   fs::remove(out);
   {
-    NcWriter nc(out);
-    nc.dimension("x", 3);
-    nc.variable("v", {"x"}, {"1", "test", "", {}});
+    const StagedFile file(out);
+    std::ofstream(file.temporary()) << "half-written";
+    CHECK(fs::exists(file.temporary()));
     CHECK_FALSE(fs::exists(out));  // still under its temporary name
     // Destroyed without commit(), as when a run fails half-way.
   }
@@ -67,6 +69,14 @@ TEST_CASE("an uncommitted writer leaves no file behind", "[netcdf]") {
   for (const auto& e : fs::directory_iterator(COLCHEM_TEST_OUTPUT_DIR)) {
     CHECK_THAT(e.path().filename().string(), !Catch::StartsWith("abandoned.nc.tmp"));
   }
+  {
+    StagedFile file(out);
+    std::ofstream(file.temporary()) << "finished";
+    file.commit();
+    CHECK_FALSE(fs::exists(file.temporary()));
+  }
+  CHECK(fs::exists(out));
+  fs::remove(out);
 }
 
 TEST_CASE("reading a file that is not NetCDF is an input error", "[netcdf]") {
@@ -81,23 +91,15 @@ TEST_CASE("every dimension gets a numeric coordinate; names become auxiliary coo
   // labels); section 3.5 (flag_values of the variable's type, with flag_meanings).
   const fs::path out = fs::path(COLCHEM_TEST_OUTPUT_DIR) / "coordinates.nc";
   fs::remove(out);
-  {
-    NcWriter nc(out);
-    nc.dimension("species", 3);
-    nc.dimension("nv", 2);
-    nc.string_variable("species_name", "species", "species name");
-    nc.variable("column", {"species"}, {"cm-2", "column", "", {}});
-    nc.variable("held", {"species"},
-                {"", "held", "", {{"flag_meanings", "transported held"}}, true, {0, 1}});
-    nc.variable("bounds", {"species", "nv"}, {"1", "pairs", "", {}});
-    nc.text_variable("provenance_note", "a long text", "line 1\nline 2\n");
-    nc.put_strings("species_name", {"SO2", "O2", "SO"});
-    const std::vector<double> col{1.0, 2.0, 3.0}, held{0.0, 1.0, 0.0}, pairs(6, 0.5);
-    nc.put("column", col);
-    nc.put("held", held);
-    nc.put("bounds", pairs);
-    nc.commit();
-  }
+  Dataset ds;
+  ds.dimension("species", 3);
+  ds.dimension("nv", 2);
+  ds.strings("species_name", "species", "species name", {"SO2", "O2", "SO"});
+  ds.variable("column", {"species"}, {"cm-2", "column", "", {}}, {1.0, 2.0, 3.0});
+  ds.flag("held", {"species"}, "held", "transported held", {0.0, 1.0, 0.0});
+  ds.variable("bounds", {"species", "nv"}, {"1", "pairs", "", {}}, std::vector<double>(6, 0.5));
+  ds.text("provenance_note", "a long text", "line 1\nline 2\n");
+  write_dataset(ds, out);
   const NcReader r(out);
   REQUIRE(r.has_variable("species"));
   CHECK(r.read("species") == std::vector<double>{0.0, 1.0, 2.0});

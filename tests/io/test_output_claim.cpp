@@ -10,7 +10,6 @@
 #include <fstream>
 
 #include "core/error.hpp"
-#include "io/netcdf_file.hpp"
 #include "io/output_claim.hpp"
 #include "solve/interrupt.hpp"
 
@@ -95,12 +94,12 @@ TEST_CASE("a signal while a file is written leaves no temporary", "[io][output]"
   const fs::path out = d / "run.nc";
   const InterruptGuard guard;
   {
-    NcWriter nc(out);
-    nc.dimension("x", 2);
+    const StagedFile file(out);
+    std::ofstream(file.temporary()) << "half-written";
     std::raise(SIGTERM);  // only sets the flag: the process lives on
     CHECK(guard.requested());
     CHECK(fs::exists(d / ("run.nc.tmp-" + std::to_string(::getpid()))));
-    // The writer is abandoned (the command stops), as on an error path.
+    // The file is abandoned (the command stops), as on an error path.
   }
   CHECK(guard.signal_number() == SIGTERM);
   std::size_t left = 0;
