@@ -399,7 +399,7 @@ add_test(NAME cli.readme_results
 # slots are free at once, which is at the end of the run, where the six of them ran one
 # after another with nothing beside them (a quarter of the run's wall time); as one-slot
 # tests their 2-rank stages share the cores with whatever runs beside them.
-foreach(entry cli.sweep_signal=26 cli.fit.pyrene_check=24 cli.python_package=17
+foreach(entry cli.sweep_signal=26 cli.python_package=17 cli.fit.pyrene_check=17
               cli.sensitivity.pyrene_chi2=14 cli.sensitivity.pyrene_column=14
               cli.sweep_resume=13 validation.worlds.tellin_injection_short=11
               cli.plot_ensemble=8 cli.ensemble_pyrene=8 cli.sensitivity.pyrene_photo_parameters=7
