@@ -6,10 +6,12 @@
 #    parameters (ln f0, ln kscale) and for a K scaling in a band: 1e-4 relative (common
 #    practice, no source; the same as the adjoint's).
 #    The same on Pyrene (configs/pyrene_full.yaml, 54 cells; photolysis couples every cell
-#    to the absorbers above) for the SO2 bottom mixing ratio and K in two bands, a large
-#    component and one 1/500 of the largest (each component costs four solves at a scaled
-#    residual of 1e-14, about 2 s each; a third band, K at 90-112 km, added 8 s and no
-#    other kind of parameter).
+#    to the absorbers above) for the SO2 bottom mixing ratio and K in one band, 58-72 km
+#    (each component costs five solves at a scaled residual of 1e-14, about 1.5 s each). K
+#    at 72-90 km, 1/500 of the largest component, was dropped: its finite difference's own
+#    error estimate, 6e-4 of it, left the comparison no power beyond the linear column's
+#    check of a K band; a third band, K at 90-112 km, added 8 s and no other kind of
+#    parameter.
 # 2. A twin experiment (issue 14): observations made by the model itself at known values
 #    (f0 = 2e-6, kscale = 0.5) at 1-10 km, times exp(e), e ~ N(0, 0.1^2) (seeded), with the
 #    stated one-sigma 0.1 f_o: in the log-space chi-square each residual is then exactly
@@ -56,7 +58,6 @@ if part pyrene_check; then
 "$colchem" --log-level warn fit "$root/configs/pyrene_full.yaml" \
   --observations "$root/profiles/observed/pyrene_so2_invented.csv" \
   -p species.SO2.bottom.mixing_ratio:1e-8:1e-4:log -p "atmosphere.eddy_diffusion[58-71.9]:0.1:10:log" \
-  -p "atmosphere.eddy_diffusion[72-89.9]:0.1:10:log" \
   --check --max-iterations 0 -o pyrene_check.nc > pyrene_check.log 2>&1 || true
 cat pyrene_check.log
 /usr/bin/python3 - <<'PY'
@@ -64,22 +65,19 @@ import re
 # The check's table comes first; the fit's table (max-iterations 0) follows it.
 text = open("pyrene_check.log").read().split("worst relative difference")[0]
 rows = [l for l in text.splitlines() if re.match(r"^(species|atmosphere)\S*\s+-?[0-9]", l)]
-assert len(rows) == 3, rows
+assert len(rows) == 2, rows
 # Each component within 1e-4 of finite differences plus twice the finite difference's own
 # error estimate (Richardson truncation |fd(h) - fd(2h)|/3 plus the steady solves' noise / h,
 # printed as "fd error"; the command's own rule). The estimate must be small enough for the
-# comparison to mean something: below 1e-3 for every component, below 1e-5 for the two
-# large ones (K at 72-90 km is 1/500 of the largest; its finite difference is the noisy one).
+# comparison to mean something: below 1e-5 for both components (measured 1-3e-6).
 # --check re-solves to a scaled residual of 1e-14, where the solves' noise is below the
 # truncation term.
 g = [float(l.split()[1]) for l in rows]
 fd = [float(l.split()[2]) for l in rows]
 err = [float(l.split()[4]) for l in rows]
-biggest = max(abs(v) for v in g)
 for l, a, b, e in zip(rows, g, fd, err):
     mag = max(abs(a), abs(b))
-    assert e <= 1e-3, l
-    assert abs(a) < 1e-2 * biggest or e <= 1e-5, l
+    assert e <= 1e-5, l
     assert abs(a - b) <= 1e-4 * mag + 2.0 * e * mag, l
 print("ok: Pyrene gradient of chi2 within 1e-4 of finite differences plus their error estimates")
 PY
