@@ -23,9 +23,7 @@ const std::vector<std::string>& observation_columns() {
 namespace {
 
 std::string joined(const std::vector<std::string>& v) {
-  std::string out;
-  for (const auto& s : v) out += (out.empty() ? "" : ", ") + s;
-  return out;
+  return fmt::format("{}", fmt::join(v, ", "));
 }
 
 // Reads the kernel row named in row r's `kernel` field ("PATH" or "PATH:COLUMN"); tables are
@@ -124,14 +122,7 @@ ObservationSet read_observations(const std::filesystem::path& file, const UnitSy
       t.fail_row(r, "altitude_uncertainty", "a non-negative altitude uncertainty",
                  fmt::format("{:.6g} km", sz[r] / 1e5));
     }
-    ObservationPoint p;
-    p.altitude_cm = z[r];
-    p.species = sp[r];
-    p.value = v[r];
-    p.uncertainty = u[r];
-    p.upper_limit = limit;
-    p.line = t.line_of_row(r);
-    p.altitude_uncertainty_cm = sz[r];
+    ObservationPoint p{z[r], sp[r], v[r], u[r], limit, t.line_of_row(r), sz[r], std::nullopt};
     if (t.has("kernel") && t.texts("kernel")[r] != "-" && !t.texts("kernel")[r].empty()) {
       if (sz[r] > 0.0) {
         t.fail_row(r, "altitude_uncertainty",
