@@ -28,6 +28,7 @@
 #include <utility>
 #include <vector>
 
+#include "core/error.hpp"
 #include "core/units.hpp"
 
 namespace colchem {
@@ -66,5 +67,10 @@ struct ObservationSet {
   /// Species in order of first appearance.
   [[nodiscard]] std::vector<std::string> species() const;
 };
+
+/// The physical sense of every point: value > 0; uncertainty >= 0, and > 0 for a detection;
+/// altitude uncertainty >= 0, and 0 for a point with a kernel (the kernel carries its vertical
+/// resolution). Throws InputError (ExitCode::kInputData) naming file, line and column.
+void check_observations(const ObservationSet& set);
 
 }  // namespace colchem

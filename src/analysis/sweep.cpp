@@ -20,6 +20,35 @@ std::string join(const std::vector<std::string>& v, const std::string& sep) {
 
 }  // namespace
 
+std::vector<double> axis_range(double from, double to, std::size_t count, bool logarithmic) {
+  std::vector<double> v(count);
+  for (std::size_t i = 0; i < count; ++i) {
+    const double w = count == 1 ? 0.0 : static_cast<double>(i) / static_cast<double>(count - 1);
+    v[i] = logarithmic ? std::exp((1 - w) * std::log(from) + w * std::log(to))
+                       : (1 - w) * from + w * to;
+  }
+  if (logarithmic && count > 0) v.back() = to;
+  return v;
+}
+
+std::vector<ModuleSet> module_combinations(const std::vector<std::string>& always,
+                                           const std::vector<std::string>& optional,
+                                           const SourceLocation& where,
+                                           const std::string& key_path) {
+  std::vector<ModuleSet> out;
+  for (std::size_t mask = 0; mask < (std::size_t{1} << optional.size()); ++mask) {
+    ModuleSet m{{}, always, where, key_path};
+    std::vector<std::string> chosen;
+    for (std::size_t k = 0; k < optional.size(); ++k) {
+      if (mask & (std::size_t{1} << k)) chosen.push_back(optional[k]);
+    }
+    m.modules.insert(m.modules.end(), chosen.begin(), chosen.end());
+    m.label = chosen.empty() ? std::string("none") : join(chosen, "+");
+    out.push_back(std::move(m));
+  }
+  return out;
+}
+
 std::vector<Variant> expand_variants(const SweepSpec& spec) {
   const std::vector<ModuleSet> modules =
       spec.module_sets.empty() ? std::vector<ModuleSet>{ModuleSet{"scenario", {}, {}, {}}}

@@ -34,6 +34,17 @@ struct OverrideSet {
   std::vector<std::string> assignments;  ///< "key.path=value"
 };
 
+/// `count` values from `from` to `to` (both included), evenly spaced in value or, when
+/// `logarithmic` (from, to > 0), in log(value).
+std::vector<double> axis_range(double from, double to, std::size_t count, bool logarithmic);
+
+/// `always` plus every subset of `optional` (at most 16), in the order of the subset's bit
+/// mask, labelled "a+b" ("none" for the empty subset).
+std::vector<ModuleSet> module_combinations(const std::vector<std::string>& always,
+                                           const std::vector<std::string>& optional,
+                                           const SourceLocation& where,
+                                           const std::string& key_path);
+
 struct SweepSpec {
   std::string name;
   std::filesystem::path file;         ///< the sweep file

@@ -1,7 +1,10 @@
 // The shared amount readers (io/amount.hpp).
 #include "io/amount.hpp"
 
+#include <fmt/format.h>
+
 #include <cmath>
+#include <vector>
 
 #include "core/constants.hpp"
 #include "core/error.hpp"
@@ -11,41 +14,30 @@ namespace colchem {
 
 namespace {
 
+/// The units each kind accepts, in order, and the factor to the kind's canonical unit.
+struct KindUnit {
+  AmountKind kind;
+  const char* unit;
+  double factor;
+};
+const KindUnit kKindUnits[] = {
+    {AmountKind::kFraction, "1", 1.0},
+    {AmountKind::kDensity, "cm-3", 1.0},
+    {AmountKind::kMass, "g", 1.0},
+    {AmountKind::kMolecules, "mol", constants::kAvogadro},
+    {AmountKind::kColumn, "mol cm-2", constants::kAvogadro},
+    {AmountKind::kColumn, "cm-2", 1.0},
+};
+const char* const kKindNames[] = {"dimensionless", "a density", "a mass", "an amount of substance",
+                                  "a column"};
+
 /// The value of q in the kind's canonical unit, when its unit fits the kind.
 std::optional<double> as_kind(const QuantityText& q, AmountKind kind, const UnitSystem& units) {
-  switch (kind) {
-    case AmountKind::kFraction:
-      return units.convert(q.value, q.unit, "1");
-    case AmountKind::kDensity:
-      return units.convert(q.value, q.unit, "cm-3");
-    case AmountKind::kMass:
-      return units.convert(q.value, q.unit, "g");
-    case AmountKind::kMolecules:
-      if (auto mol = units.convert(q.value, q.unit, "mol")) return *mol * constants::kAvogadro;
-      return std::nullopt;
-    case AmountKind::kColumn:
-      if (auto mol = units.convert(q.value, q.unit, "mol cm-2")) {
-        return *mol * constants::kAvogadro;
-      }
-      return units.convert(q.value, q.unit, "cm-2");
+  for (const KindUnit& k : kKindUnits) {
+    if (k.kind != kind) continue;
+    if (auto v = units.convert(q.value, q.unit, k.unit)) return *v * k.factor;
   }
   return std::nullopt;
-}
-
-const char* kind_name(AmountKind kind) {
-  switch (kind) {
-    case AmountKind::kFraction:
-      return "dimensionless";
-    case AmountKind::kDensity:
-      return "a density";
-    case AmountKind::kMass:
-      return "a mass";
-    case AmountKind::kMolecules:
-      return "an amount of substance";
-    case AmountKind::kColumn:
-      return "a column";
-  }
-  return "";
 }
 
 /// Why a unit fits none of the kinds: "(unknown unit)", "(not dimensionless)", "(none of:
@@ -53,10 +45,10 @@ const char* kind_name(AmountKind kind) {
 std::string mismatch(const UnitSystem& units, const std::string& unit,
                      std::initializer_list<AmountKind> kinds) {
   if (!units.parses(unit)) return "(unknown unit)";
-  if (kinds.size() == 1) return std::string("(not ") + kind_name(*kinds.begin()) + ")";
-  std::string list;
-  for (const AmountKind k : kinds) list += (list.empty() ? "" : ", ") + std::string(kind_name(k));
-  return "(none of: " + list + ")";
+  std::vector<std::string> names;
+  for (const AmountKind k : kinds) names.emplace_back(kKindNames[static_cast<int>(k)]);
+  if (kinds.size() == 1) return "(not " + names[0] + ")";
+  return fmt::format("(none of: {})", fmt::join(names, ", "));
 }
 
 }  // namespace
@@ -75,8 +67,8 @@ Amount read_amount(const ConfigNode& n, const UnitSystem& units,
 
 double read_mixing_ratio(const ConfigNode& n, const UnitSystem& units) {
   const std::string s = n.text();
-  const auto q = split_quantity(s);
-  if (!q) n.fail("a mixing ratio: a number from 0 to 1 or a quantity such as '3 ppm'");
+  if (!split_quantity(s))
+    n.fail("a mixing ratio: a number from 0 to 1 or a quantity such as '3 ppm'");
   const double v = read_amount(n, units, {AmountKind::kFraction},
                                "a dimensionless mixing ratio such as '3 ppm' or '1e-6'")
                        .value;

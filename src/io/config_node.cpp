@@ -1,7 +1,8 @@
 #include "io/config_node.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <sstream>
@@ -20,16 +21,12 @@ SourceLocation mark_location(const std::string& file, const YAML::Mark& m) {
 
 std::vector<std::string> split_path(const std::string& path) {
   std::vector<std::string> parts;
-  std::string cur;
-  for (char c : path) {
-    if (c == '.') {
-      parts.push_back(cur);
-      cur.clear();
-    } else {
-      cur += c;
-    }
+  std::size_t start = 0;
+  for (auto dot = path.find('.'); dot != std::string::npos; dot = path.find('.', start)) {
+    parts.push_back(path.substr(start, dot - start));
+    start = dot + 1;
   }
-  parts.push_back(cur);
+  parts.push_back(path.substr(start));
   return parts;
 }
 
@@ -95,22 +92,30 @@ void check_tree(const YAML::Node& n, const std::string& file, const std::string&
 
 }  // namespace
 
-ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode code) {
+struct ConfigShared {
+  std::filesystem::path file;
+  ExitCode code = ExitCode::kConfig;
+  std::map<std::string, std::string> overrides;  // key path -> original "k=v" text
+};
+
+std::string read_text_file(const std::filesystem::path& file, ExitCode code,
+                           const std::string& what) {
   std::error_code ec;
   if (std::filesystem::is_directory(file, ec)) {
-    throw InputError(code, SourceLocation{file.string()}, "", "a YAML file", "a directory");
+    throw InputError(code, SourceLocation{file.string()}, "", "a " + what, "a directory");
   }
   std::ifstream in(file);
   if (!in) {
-    throw InputError(code, SourceLocation{file.string()}, "", "a readable YAML file",
+    throw InputError(code, SourceLocation{file.string()}, "", "a readable " + what,
                      "no such file or it cannot be read");
   }
   std::stringstream buf;
   buf << in.rdbuf();
-  ConfigDocument doc = from_text(buf.str(), file.string(), code);
-  doc.file_ = file;
-  doc.shared_->file = file;
-  return doc;
+  return buf.str();
+}
+
+ConfigDocument ConfigDocument::load(const std::filesystem::path& file, ExitCode code) {
+  return from_text(read_text_file(file, code, "YAML file"), file.string(), code);
 }
 
 ConfigDocument ConfigDocument::load(const std::filesystem::path& file,
@@ -123,15 +128,11 @@ ConfigDocument ConfigDocument::load(const std::filesystem::path& file,
 ConfigDocument ConfigDocument::from_text(const std::string& text, const std::string& name,
                                          ExitCode code) {
   ConfigDocument doc;
-  doc.file_ = name;
-  doc.shared_ = std::make_shared<Shared>();
-  doc.shared_->file = name;
-  doc.shared_->code = code;
+  doc.shared_ = std::make_shared<ConfigShared>(ConfigShared{name, code, {}});
   try {
     doc.root_ = YAML::Load(text);
   } catch (const YAML::ParserException& e) {
-    throw InputError(code, mark_location(name, e.mark), "", "valid YAML", "a syntax error",
-                     e.msg);
+    throw InputError(code, mark_location(name, e.mark), "", "valid YAML", "a syntax error", e.msg);
   }
   if (!doc.root_.IsMap() && !doc.root_.IsNull()) {
     throw InputError(code, mark_location(name, doc.root_.Mark()), "",
@@ -154,58 +155,49 @@ void ConfigDocument::apply_override(const std::string& assignment) {
   try {
     value = YAML::Load(value_text);
   } catch (const YAML::ParserException& e) {
-    throw InputError(ExitCode::kUsage, where, path, "a YAML value", "'" + value_text + "'",
-                     e.msg);
+    throw InputError(ExitCode::kUsage, where, path, "a YAML value", "'" + value_text + "'", e.msg);
   }
   check_tree(value, "", path, ExitCode::kUsage, where.file);
   const auto parts = split_path(path);
-  for (const auto& p : parts) {
-    if (p.empty()) {
-      throw InputError(ExitCode::kUsage, where, path, "dot-separated keys", "an empty key");
-    }
+  if (std::find(parts.begin(), parts.end(), "") != parts.end()) {
+    throw InputError(ExitCode::kUsage, where, path, "dot-separated keys", "an empty key");
   }
   // yaml-cpp nodes are handles: assigning through a chain of operator[] edits the tree.
   YAML::Node cur = root_;
-  for (std::size_t i = 0; i + 1 < parts.size(); ++i) {
+  for (std::size_t i = 0; i < parts.size(); ++i) {
     const auto& key = parts[i];
-    if (cur.IsSequence() && is_index(key)) {
-      cur.reset(cur[list_index(key, cur.size(), where, path)]);
-      continue;
-    }
-    if (cur.IsScalar()) {
-      throw InputError(ExitCode::kUsage, where, path, "a path through maps",
-                       "a single value at '" + key + "'");
-    }
+    const bool last = i + 1 == parts.size();
     if (cur.IsSequence()) {
-      throw InputError(ExitCode::kUsage, where, path, "a list index (0, 1, ...) after a list",
-                       "'" + key + "'");
+      if (!is_index(key)) {
+        throw InputError(ExitCode::kUsage, where, path, "a list index (0, 1, ...) after a list",
+                         "'" + key + "'");
+      }
+      const std::size_t idx = list_index(key, cur.size(), where, path);
+      if (last) {
+        cur[idx] = value;
+      } else {
+        cur.reset(cur[idx]);
+      }
+    } else if (cur.IsScalar()) {  // never the root, which is a map
+      throw InputError(ExitCode::kUsage, where, path, "a path through maps",
+                       "a single value at '" + parts[i - 1] + "', which has no key '" + key + "'");
+    } else if (last) {
+      cur[key] = value;
+    } else {
+      if (!cur[key].IsDefined() || cur[key].IsNull()) cur[key] = YAML::Node(YAML::NodeType::Map);
+      cur.reset(cur[key]);
     }
-    YAML::Node next = cur[key];
-    if (!next.IsDefined() || next.IsNull()) {
-      cur[key] = YAML::Node(YAML::NodeType::Map);
-      next = cur[key];
-    }
-    cur.reset(next);
-  }
-  const auto& last = parts.back();
-  if (cur.IsSequence() && is_index(last)) {
-    cur[list_index(last, cur.size(), where, path)] = value;
-  } else if (cur.IsSequence()) {
-    throw InputError(ExitCode::kUsage, where, path, "a list index (0, 1, ...) after a list",
-                     "'" + last + "'");
-  } else if (cur.IsScalar()) {
-    const std::string parent = parts.size() > 1 ? parts[parts.size() - 2] : std::string();
-    throw InputError(ExitCode::kUsage, where, path, "a path through maps",
-                     "a single value at '" + parent + "', which has no key '" + last + "'");
-  } else {
-    cur[last] = value;
   }
   shared_->overrides[path] = assignment;
   override_list_.push_back(assignment);
 }
 
 ConfigNode ConfigDocument::root() const {
-  return ConfigNode(root_, "", shared_, &shared_->file, shared_->code, &shared_->overrides);
+  return ConfigNode(root_, "", shared_);
+}
+
+const std::filesystem::path& ConfigDocument::file() const {
+  return shared_->file;
 }
 
 std::string ConfigDocument::resolved_text() const {
@@ -217,26 +209,18 @@ std::string ConfigDocument::resolved_text() const {
 // ---------------------------------------------------------------------------------------
 // ConfigNode
 
-ConfigNode::ConfigNode(YAML::Node node, std::string path, std::shared_ptr<const void> doc,
-                       const std::filesystem::path* file, ExitCode code,
-                       const std::map<std::string, std::string>* overrides)
-    : node_(std::move(node)),
-      path_(std::move(path)),
-      doc_(std::move(doc)),
-      file_(file),
-      code_(code),
-      overrides_(overrides) {}
+ConfigNode::ConfigNode(YAML::Node node, std::string path, std::shared_ptr<const ConfigShared> doc)
+    : node_(std::move(node)), path_(std::move(path)), doc_(std::move(doc)) {}
 
 ConfigNode ConfigNode::make_child(const YAML::Node& n, const std::string& sub) const {
-  return ConfigNode(n, path_.empty() ? sub : path_ + "." + sub, doc_, file_, code_, overrides_);
+  return ConfigNode(n, path_.empty() ? sub : path_ + "." + sub, doc_);
 }
 
 std::string ConfigNode::override_origin() const {
-  if (overrides_ == nullptr) return {};
   // The value came from the command line if its path, or a parent of it, was overridden.
-  for (const auto& [p, text] : *overrides_) {
-    if (path_ == p || (path_.size() > p.size() && path_.compare(0, p.size(), p) == 0 &&
-                       path_[p.size()] == '.')) {
+  for (const auto& [p, text] : doc_->overrides) {
+    if (path_ == p ||
+        (path_.size() > p.size() && path_.compare(0, p.size(), p) == 0 && path_[p.size()] == '.')) {
       return "--set " + text;
     }
   }
@@ -246,7 +230,7 @@ std::string ConfigNode::override_origin() const {
 SourceLocation ConfigNode::location() const {
   const std::string origin = override_origin();
   if (!origin.empty()) return SourceLocation{origin};
-  return mark_location(file_ ? file_->string() : std::string(), node_.Mark());
+  return mark_location(doc_->file.string(), node_.Mark());
 }
 
 std::string ConfigNode::describe() const {
@@ -258,7 +242,14 @@ std::string ConfigNode::describe() const {
 
 void ConfigNode::fail(const std::string& expected, const std::string& found,
                       const std::string& hint) const {
-  throw InputError(code_, location(), path_, expected, found, hint);
+  throw InputError(doc_->code, location(), path_, expected, found, hint);
+}
+
+void ConfigNode::fail_unknown(const YAML::Node& key, const std::string& hint) const {
+  const ConfigNode bad = make_child(key, key.Scalar());
+  const std::string where = path_.empty() ? std::string("at the top level") : "in '" + path_ + "'";
+  throw InputError(doc_->code, bad.location(), bad.key_path(), "a known key " + where,
+                   "unknown key '" + key.Scalar() + "'", hint);
 }
 
 ConfigNode ConfigNode::child(const std::string& key) const {
@@ -268,13 +259,8 @@ ConfigNode ConfigNode::child(const std::string& key) const {
     // A required key that is missing is most often a misspelt one: report that key.
     for (auto it = node_.begin(); it != node_.end(); ++it) {
       const std::string present = it->first.as<std::string>();
-      if (known_->count(present) != 0) continue;
-      if (nearest_word(present, {key})) {
-        const ConfigNode bad = make_child(it->first, present);
-        const std::string where =
-            path_.empty() ? std::string("at the top level") : "in '" + path_ + "'";
-        throw InputError(code_, bad.location(), bad.key_path(), "a known key " + where,
-                         "unknown key '" + present + "'", "did you mean '" + key + "'?");
+      if (known_->count(present) == 0 && nearest_word(present, {key})) {
+        fail_unknown(it->first, "did you mean '" + key + "'?");
       }
     }
     fail("a key '" + key + "' here", "none", "add '" + key + ":' to this section");
@@ -293,7 +279,9 @@ std::optional<ConfigNode> ConfigNode::find(const std::string& key) const {
   return make_child(n, key);
 }
 
-bool ConfigNode::has(const std::string& key) const { return find(key).has_value(); }
+bool ConfigNode::has(const std::string& key) const {
+  return find(key).has_value();
+}
 
 void ConfigNode::allow(std::initializer_list<const char*> keys) const {
   for (const char* k : keys) known_->insert(k);
@@ -327,22 +315,13 @@ std::optional<std::string> nearest_word(const std::string& word,
 
 void ConfigNode::done() const {
   if (!node_.IsMap()) return;
-  std::vector<std::string> valid(known_->begin(), known_->end());
+  const std::vector<std::string> valid(known_->begin(), known_->end());
   for (auto it = node_.begin(); it != node_.end(); ++it) {
     const std::string key = it->first.as<std::string>();
     if (known_->count(key) != 0) continue;
-    const ConfigNode bad = make_child(it->first, key);
-    std::string hint;
-    if (auto near = nearest_word(key, valid)) {
-      hint = "did you mean '" + *near + "'?";
-    } else {
-      std::string list;
-      for (const auto& v : valid) list += (list.empty() ? "" : ", ") + v;
-      hint = "valid keys here: " + list;
-    }
-    const std::string where = path_.empty() ? std::string("at the top level") : "in '" + path_ + "'";
-    throw InputError(code_, bad.location(), bad.key_path(), "a known key " + where,
-                     "unknown key '" + key + "'", hint);
+    const auto near = nearest_word(key, valid);
+    fail_unknown(it->first, near ? "did you mean '" + *near + "'?"
+                                 : fmt::format("valid keys here: {}", fmt::join(valid, ", ")));
   }
 }
 
@@ -381,7 +360,8 @@ double ConfigNode::number() const {
   return v;
 }
 
-static long integer_from(const ConfigNode& n, const std::string& s) {
+long ConfigNode::integer() const {
+  const std::string s = text();
   std::size_t used = 0;
   long v = 0;
   try {
@@ -389,11 +369,9 @@ static long integer_from(const ConfigNode& n, const std::string& s) {
   } catch (const std::exception&) {
     used = 0;
   }
-  if (used == 0 || used != s.size()) n.fail("a whole number");
+  if (used == 0 || used != s.size()) fail("a whole number");
   return v;
 }
-
-long ConfigNode::integer() const { return integer_from(*this, text()); }
 
 bool ConfigNode::boolean() const {
   const std::string s = text();
@@ -405,17 +383,11 @@ bool ConfigNode::boolean() const {
 std::string ConfigNode::choice(const std::vector<std::string>& choices) const {
   const std::string s = text();
   if (std::find(choices.begin(), choices.end(), s) != choices.end()) return s;
-  std::string list;
-  for (const auto& c : choices) list += (list.empty() ? "" : ", ") + c;
-  std::string hint;
-  if (auto near = nearest_word(s, choices)) hint = "did you mean '" + *near + "'?";
-  fail("one of: " + list, "'" + s + "'", hint);
+  const auto near = nearest_word(s, choices);
+  fail(fmt::format("one of: {}", fmt::join(choices, ", ")), "'" + s + "'",
+       near ? "did you mean '" + *near + "'?" : std::string());
 }
 
-namespace {
-
-/// A spelling of `unit` in other letter cases that UDUNITS-2 converts to `target` ("AU" ->
-/// "au", "PA" -> "Pa"), as a hint; "" if none.
 std::string unit_spelling_hint(const UnitSystem& units, const std::string& unit,
                                const std::string& target) {
   if (auto cand = units.case_respelling(unit, target)) {
@@ -423,8 +395,6 @@ std::string unit_spelling_hint(const UnitSystem& units, const std::string& unit,
   }
   return {};
 }
-
-}  // namespace
 
 double ConfigNode::quantity(const UnitSystem& units, const std::string& target_unit,
                             const std::string& example) const {
@@ -456,41 +426,43 @@ std::vector<double> ConfigNode::quantity_list(const UnitSystem& units,
     for (const auto& item : items()) out.push_back(item.quantity(units, target_unit, example));
     return out;
   }
-  // {values: [0, 5, 10], unit: km}: plain numbers sharing one unit.
+  // Plain numbers sharing one unit: {values: [0, 5, 10], unit: km} or "[0, 5, 10] km" (quoted
+  // in YAML); a unit error is reported at
+  // the `unit` key or at the text.
+  std::vector<double> values;
+  std::string unit;
+  std::optional<ConfigNode> unit_key;  // (assigning a ConfigNode would edit the YAML tree)
   if (node_.IsMap()) {
-    const std::string unit = child("unit").text();
-    for (const auto& item : child("values").items()) {
-      auto v = units.convert(item.number(), unit, target_unit);
-      if (!v) {
-        child("unit").fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
-                           unit_spelling_hint(units, unit, target_unit));
-      }
-      out.push_back(*v);
-    }
+    unit_key.emplace(child("unit"));
+    unit = unit_key->text();
+    values = child("values").number_list();
     done();
-    return out;
-  }
-  // "[0, 5, 10] km" (quoted in YAML): a bracketed list of plain numbers and one unit.
-  const std::string s = text();
-  const auto open = s.find('[');
-  const auto close = s.find(']');
-  if (open == std::string::npos || close == std::string::npos || close < open) {
-    fail("a list of quantities: [" + example + ", ...] or {values: [...], unit: ...}");
-  }
-  std::string unit = s.substr(close + 1);
-  unit.erase(0, unit.find_first_not_of(" \t"));
-  const std::string body = s.substr(open + 1, close - open - 1);
-  std::stringstream ss(body);
-  std::string item;
-  while (std::getline(ss, item, ',')) {
-    auto q = split_quantity(item);
-    if (!q || !q->unit.empty()) fail("plain numbers inside '[...] " + unit + "'", "'" + item + "'");
-    auto v = units.convert(q->value, unit, target_unit);
-    if (!v) {
-      fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
-           unit_spelling_hint(units, unit, target_unit));
+  } else {
+    const std::string s = text();
+    const auto open = s.find('[');
+    const auto close = s.find(']');
+    if (open == std::string::npos || close == std::string::npos || close < open) {
+      fail("a list of quantities: [" + example + ", ...] or {values: [...], unit: ...}");
     }
-    out.push_back(*v);
+    unit = s.substr(close + 1);
+    unit.erase(0, unit.find_first_not_of(" \t"));
+    std::stringstream body(s.substr(open + 1, close - open - 1));
+    for (std::string item; std::getline(body, item, ',');) {
+      auto q = split_quantity(item);
+      if (!q || !q->unit.empty()) {
+        fail("plain numbers inside '[...] " + unit + "'", "'" + item + "'");
+      }
+      values.push_back(q->value);
+    }
+  }
+  for (const double v : values) {
+    auto converted = units.convert(v, unit, target_unit);
+    if (!converted) {
+      (unit_key ? *unit_key : *this)
+          .fail("a unit convertible to '" + target_unit + "'", "'" + unit + "'",
+                unit_spelling_hint(units, unit, target_unit));
+    }
+    out.push_back(*converted);
   }
   return out;
 }
@@ -510,11 +482,11 @@ std::vector<double> ConfigNode::number_list() const {
 
 std::filesystem::path ConfigNode::path() const {
   const std::filesystem::path p(text());
-  if (p.is_absolute() || file_ == nullptr) return p;
+  if (p.is_absolute()) return p;
   // Paths are relative to the file they are written in; for a command-line override,
   // relative to the working directory.
   if (!override_origin().empty()) return p;
-  return file_->parent_path() / p;
+  return doc_->file.parent_path() / p;
 }
 
 }  // namespace colchem

@@ -23,12 +23,12 @@
 namespace colchem {
 
 class ConfigNode;
+struct ConfigShared;  // the file, exit code and overrides a document's nodes share
 
 class ConfigDocument {
  public:
   /// Parses `file`; a syntax error throws InputError (ExitCode::kConfig) with its position.
-  static ConfigDocument load(const std::filesystem::path& file,
-                             ExitCode code = ExitCode::kConfig);
+  static ConfigDocument load(const std::filesystem::path& file, ExitCode code = ExitCode::kConfig);
   /// Parses `file` and applies each "key.path=value" override in order (the common start of
   /// every loader: scenario, box, sweep).
   static ConfigDocument load(const std::filesystem::path& file,
@@ -43,27 +43,20 @@ class ConfigDocument {
   void apply_override(const std::string& assignment);
 
   [[nodiscard]] ConfigNode root() const;
-  [[nodiscard]] const std::filesystem::path& file() const { return file_; }
+  [[nodiscard]] const std::filesystem::path& file() const;
   /// The document with every override applied, as YAML text.
   [[nodiscard]] std::string resolved_text() const;
   /// The overrides in the order given.
   [[nodiscard]] const std::vector<std::string>& overrides() const { return override_list_; }
 
  private:
-  struct Shared {
-    std::filesystem::path file;
-    ExitCode code = ExitCode::kConfig;
-    std::map<std::string, std::string> overrides;  // key path -> original "k=v" text
-  };
   YAML::Node root_;
-  std::filesystem::path file_;
-  std::shared_ptr<Shared> shared_;
+  std::shared_ptr<ConfigShared> shared_;
   std::vector<std::string> override_list_;
 };
 
 class ConfigNode {
  public:
-  // --- Navigation (maps) -----------------------------------------------------------
   /// The value at `key`; a missing key is an error naming the map's location.
   [[nodiscard]] ConfigNode child(const std::string& key) const;
   /// The value at `key` if present. Registers the key as valid either way.
@@ -75,11 +68,7 @@ class ConfigNode {
   [[nodiscard]] std::vector<std::pair<std::string, ConfigNode>> entries() const;
   /// Rejects keys that were never asked for: "unknown key; did you mean ...".
   void done() const;
-
-  // --- Navigation (sequences) -------------------------------------------------------
   [[nodiscard]] std::vector<ConfigNode> items() const;
-
-  // --- Scalars ---------------------------------------------------------------------
   [[nodiscard]] std::string text() const;
   [[nodiscard]] double number() const;
   [[nodiscard]] long integer() const;
@@ -99,8 +88,6 @@ class ConfigNode {
   [[nodiscard]] std::vector<double> number_list() const;
   /// A file path, resolved relative to the file this value was written in.
   [[nodiscard]] std::filesystem::path path() const;
-
-  // --- Shape and provenance ----------------------------------------------------------
   [[nodiscard]] bool is_map() const { return node_.IsMap(); }
   [[nodiscard]] bool is_sequence() const { return node_.IsSequence(); }
   [[nodiscard]] bool is_scalar() const { return node_.IsScalar(); }
@@ -115,20 +102,25 @@ class ConfigNode {
 
  private:
   friend class ConfigDocument;
-  ConfigNode(YAML::Node node, std::string path, std::shared_ptr<const void> doc,
-             const std::filesystem::path* file, ExitCode code,
-             const std::map<std::string, std::string>* overrides);
+  ConfigNode(YAML::Node node, std::string path, std::shared_ptr<const ConfigShared> doc);
   [[nodiscard]] ConfigNode make_child(const YAML::Node& n, const std::string& sub) const;
   [[nodiscard]] std::string override_origin() const;
+  [[noreturn]] void fail_unknown(const YAML::Node& key, const std::string& hint) const;
 
   YAML::Node node_;
   std::string path_;
-  std::shared_ptr<const void> doc_;  // keeps the document's shared data alive
-  const std::filesystem::path* file_ = nullptr;
-  ExitCode code_ = ExitCode::kConfig;
-  const std::map<std::string, std::string>* overrides_ = nullptr;
+  std::shared_ptr<const ConfigShared> doc_;
   std::shared_ptr<std::set<std::string>> known_ = std::make_shared<std::set<std::string>>();
 };
+
+/// The whole text of `file` ("YAML file", "table file": `what` names it in the errors).
+std::string read_text_file(const std::filesystem::path& file, ExitCode code,
+                           const std::string& what);
+
+/// A spelling of `unit` in other letter cases that UDUNITS-2 converts to `target` ("AU" ->
+/// "au", "PA" -> "Pa"), as a hint; "" if none.
+std::string unit_spelling_hint(const UnitSystem& units, const std::string& unit,
+                               const std::string& target);
 
 /// The nearest of `candidates` to `word` when it is close enough to be a likely typo.
 std::optional<std::string> nearest_word(const std::string& word,

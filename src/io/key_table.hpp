@@ -69,41 +69,37 @@ void read_keys(const ConfigNode& n, const UnitSystem& units, std::span<const Key
 /// A quantity in `unit` within [lo, hi]; `expected` is the message when outside.
 inline Key quantity(const char* key, Key::Target target, const char* unit, const char* example,
                     double lo, double hi, std::string expected) {
-  return Key{key, target, unit, example, lo, hi, false, false, std::move(expected), {}, false};
+  return {.key = key,
+          .target = target,
+          .unit = unit,
+          .example = example,
+          .lo = lo,
+          .hi = hi,
+          .expected = std::move(expected)};
 }
 
-/// A bare number within [lo, hi].
-inline Key number(const char* key, Key::Target target, double lo, double hi, std::string expected) {
-  return Key{key, target, nullptr, "", lo, hi, false, false, std::move(expected), {}, false};
+/// A bare number, or an integer, within [lo, hi], with its own message.
+inline Key number(const char* key, Key::Target target, double lo, double hi,
+                  std::string expected = {}) {
+  return {.key = key, .target = target, .lo = lo, .hi = hi, .expected = std::move(expected)};
 }
 
-/// An integer within [lo, hi], with its own message.
+/// An integer from lo to hi (the message "an integer from lo to hi" unless given).
 template <class Int>
-Key count(const char* key, Int* target, double lo, double hi, std::string expected) {
-  return Key{key, target, nullptr, "", lo, hi, false, false, std::move(expected), {}, false};
+Key count(const char* key, Int* target, double lo, double hi, std::string expected = {}) {
+  return number(key, target, lo, hi, std::move(expected));
 }
 
-/// A positive quantity (0, inf) in `unit`.
-inline Key positive(const char* key, Key::Target target, const char* unit, const char* example) {
-  return Key{key,  target, unit, example, 0.0,  std::numeric_limits<double>::infinity(),
-             true, false,  {},   {},      false};
-}
-
-/// A positive bare number (0, inf).
-inline Key positive(const char* key, Key::Target target) {
-  return Key{key,  target, nullptr, "", 0.0,  std::numeric_limits<double>::infinity(),
-             true, false,  {},      {}, false};
-}
-
-/// An integer from lo to hi.
-template <class Int>
-Key count(const char* key, Int* target, double lo, double hi) {
-  return Key{key, target, nullptr, "", lo, hi, false, false, {}, {}, false};
+/// A positive quantity (0, inf) in `unit`, or a positive bare number without one.
+inline Key positive(const char* key, Key::Target target, const char* unit = nullptr,
+                    const char* example = "") {
+  return {
+      .key = key, .target = target, .unit = unit, .example = example, .lo = 0.0, .lo_open = true};
 }
 
 /// A flag (true/false).
 inline Key flag(const char* key, Key::Target target) {
-  return Key{key, target, nullptr, "", 0.0, 0.0, false, false, {}, {}, false};
+  return {.key = key, .target = target};
 }
 
 }  // namespace colchem

@@ -23,9 +23,7 @@ const std::vector<std::string>& observation_columns() {
 namespace {
 
 std::string joined(const std::vector<std::string>& v) {
-  std::string out;
-  for (const auto& s : v) out += (out.empty() ? "" : ", ") + s;
-  return out;
+  return fmt::format("{}", fmt::join(v, ", "));
 }
 
 // Reads the kernel row named in row r's `kernel` field ("PATH" or "PATH:COLUMN"); tables are
@@ -107,41 +105,18 @@ ObservationSet read_observations(const std::filesystem::path& file, const UnitSy
   std::map<std::string, Table> kernels;
   for (std::size_t r = 0; r < t.rows(); ++r) {
     if (sp[r].empty()) t.fail_row(r, "species", "a species name", "an empty field");
-    if (!(v[r] > 0.0)) {
-      t.fail_row(r, "value", "a positive mole fraction", fmt::format("{:.6g}", v[r]));
-    }
     if (flag[r] != 0.0 && flag[r] != 1.0) {
       t.fail_row(r, "upper_limit", "0 (detection) or 1 (upper limit)",
                  fmt::format("{:.6g}", flag[r]));
     }
     const bool limit = flag[r] == 1.0;
-    if (u[r] < 0.0 || (!limit && !(u[r] > 0.0))) {
-      t.fail_row(r, "uncertainty",
-                 limit ? "a non-negative uncertainty" : "a positive uncertainty for a detection",
-                 fmt::format("{:.6g} (as a mole fraction)", u[r]));
-    }
-    if (!(sz[r] >= 0.0) || !std::isfinite(sz[r])) {
-      t.fail_row(r, "altitude_uncertainty", "a non-negative altitude uncertainty",
-                 fmt::format("{:.6g} km", sz[r] / 1e5));
-    }
-    ObservationPoint p;
-    p.altitude_cm = z[r];
-    p.species = sp[r];
-    p.value = v[r];
-    p.uncertainty = u[r];
-    p.upper_limit = limit;
-    p.line = t.line_of_row(r);
-    p.altitude_uncertainty_cm = sz[r];
+    ObservationPoint p{z[r], sp[r], v[r], u[r], limit, t.line_of_row(r), sz[r], std::nullopt};
     if (t.has("kernel") && t.texts("kernel")[r] != "-" && !t.texts("kernel")[r].empty()) {
-      if (sz[r] > 0.0) {
-        t.fail_row(r, "altitude_uncertainty",
-                   "0 for a point with a kernel (the kernel carries its vertical resolution)",
-                   fmt::format("{:.6g} km", sz[r] / 1e5));
-      }
       p.kernel = read_kernel(t, r, t.texts("kernel")[r], z[r], units, kernels, set);
     }
     set.points.push_back(std::move(p));
   }
+  check_observations(set);
   return set;
 }
 

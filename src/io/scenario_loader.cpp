@@ -27,28 +27,31 @@ struct LoadContext {
   Scenario& scenario;
 };
 
+constexpr double kInf = std::numeric_limits<double>::infinity();
+
+/// A quantity that must be positive, with its own message.
+Key positive_quantity(const char* key, Key::Target target, const char* unit, const char* example,
+                      const char* expected) {
+  return quantity(key, target, unit, example, 0.0, kInf, expected).above_lo();
+}
+
 void load_planet(const ConfigNode& n, LoadContext& ctx) {
   PlanetSpec& p = ctx.scenario.background.planet;
   p.name = n.child("name").text();
-  p.radius_cm = n.child("radius").quantity(ctx.units, "cm", "6050 km");
-  if (p.radius_cm <= 0.0) n.child("radius").fail("a positive radius");
-  const auto g = n.find("surface_gravity");
-  const auto mass = n.find("mass");
-  if (g && mass) {
-    mass->fail("either 'surface_gravity' or 'mass', not both", "both");
-  } else if (g) {
-    p.surface_gravity_cm_s2 = g->quantity(ctx.units, "cm s-2", "8.87 m s-2");
-    if (p.surface_gravity_cm_s2 <= 0.0) g->fail("a positive gravity");
-  } else if (mass) {
-    const double m_g = mass->quantity(ctx.units, "g", "4.87e24 kg");
-    if (m_g <= 0.0) mass->fail("a positive mass");
-    p.surface_gravity_cm_s2 = surface_gravity_from_mass(m_g, p.radius_cm);
-  } else {
-    n.fail("'surface_gravity' or 'mass'", "neither");
-  }
-  const auto d = n.child("star_distance");
-  p.star_distance_au = d.quantity(ctx.units, "au", "0.72 au");
-  if (p.star_distance_au <= 0.0) d.fail("a positive distance");
+  std::optional<double> g;
+  std::optional<double> mass;
+  const Key keys[] = {
+      positive_quantity("radius", &p.radius_cm, "cm", "6050 km", "a positive radius").needed(),
+      positive_quantity("surface_gravity", &g, "cm s-2", "8.87 m s-2", "a positive gravity"),
+      positive_quantity("mass", &mass, "g", "4.87e24 kg", "a positive mass"),
+      positive_quantity("star_distance", &p.star_distance_au, "au", "0.72 au",
+                        "a positive distance")
+          .needed(),
+  };
+  read_keys(n, ctx.units, keys);
+  if (g && mass) n.child("mass").fail("either 'surface_gravity' or 'mass', not both", "both");
+  if (!g && !mass) n.fail("'surface_gravity' or 'mass'", "neither");
+  p.surface_gravity_cm_s2 = g ? *g : surface_gravity_from_mass(*mass, p.radius_cm);
   n.done();
 }
 
@@ -82,42 +85,54 @@ void load_grid(const ConfigNode& n, LoadContext& ctx) {
   }
 }
 
-/// A profile given as a table file (string) or {table: FILE, column: NAME}.
-ProfileSpec load_profile_table(const ConfigNode& n, LoadContext& ctx, const std::string& role,
-                               const std::string& default_column, const std::string& target_unit) {
-  const TableRef ref = table_ref(n, TableRefForm::altitude(default_column, true));
+/// A profile table of the background and its bounds of physical sense
+/// (core/physical_bounds.hpp): the values must be positive and within [lo, hi].
+struct ProfileRow {
+  const char* role;    ///< the input file's role in the output's provenance
+  const char* column;  ///< the default value column, also the key in messages
+  const char* unit;
+  double lo;
+  double hi;
+  const char* expected;  ///< message when outside [lo, hi]
+};
+enum ProfileKind { kTemperatureTable, kPressureTable, kEddyTable };
+const ProfileRow kProfileRows[] = {
+    {"temperature table", "temperature", "K", bounds::kMinTemperatureK, bounds::kMaxTemperatureK,
+     "temperatures from 1 K to 1e5 K"},
+    {"pressure table", "pressure", "g cm-1 s-2", 0.0, bounds::kMaxPressureDynCm2,
+     "pressures of at most 1e5 bar"},
+    {"eddy diffusion table", "eddy_diffusion", "cm2 s-1", 0.0, bounds::kMaxEddyCm2S,
+     "diffusion coefficients of at most 1e12 cm2 s-1"},
+};
+
+/// A profile given as a table file (string) or {table: FILE, column: NAME}: read, checked
+/// against the row's bounds and, unless the ends are held, required to cover the grid.
+ProfileSpec load_profile_table(const ConfigNode& n, LoadContext& ctx, ProfileKind kind) {
+  const ProfileRow& row = kProfileRows[kind];
+  const TableRef ref = table_ref(n, TableRefForm::altitude(row.column, true));
   if (!n.is_scalar()) n.done();
   const Table t = ref.read();
-  auto p = ref.profile(t, ctx.units, "cm", target_unit);
-  ctx.scenario.inputs.push_back(InputFile{role, ref.file, t.text()});
-  return ProfileSpec{std::move(p.axis), std::move(p.value), std::move(p.source)};
-}
-
-void require_positive(const ProfileSpec& p, const std::string& what) {
+  auto tp = ref.profile(t, ctx.units, "cm", row.unit);
+  ctx.scenario.inputs.push_back(InputFile{row.role, ref.file, t.text()});
+  ProfileSpec p{std::move(tp.axis), std::move(tp.value), std::move(tp.source)};
+  const SourceLocation at{p.source};
   for (std::size_t i = 0; i < p.value.size(); ++i) {
     if (!(p.value[i] > 0.0)) {
-      throw InputError(ExitCode::kInputData, SourceLocation{p.source}, what, "positive values",
+      throw InputError(ExitCode::kInputData, at, row.column, "positive values",
                        std::to_string(p.value[i]) + " in data row " + std::to_string(i + 1));
     }
   }
-}
-
-/// Every value of a table within [lo, hi] (bounds of physical sense, core/physical_bounds.hpp).
-void require_within(const ProfileSpec& p, const std::string& what, double lo, double hi,
-                    const std::string& expected) {
   for (std::size_t i = 0; i < p.value.size(); ++i) {
-    if (!(p.value[i] >= lo && p.value[i] <= hi)) {
-      throw InputError(ExitCode::kInputData, SourceLocation{p.source}, what, expected,
+    if (!(p.value[i] >= row.lo && p.value[i] <= row.hi)) {
+      throw InputError(ExitCode::kInputData, at, row.column, row.expected,
                        fmt::format("{:g} in data row {}", p.value[i], i + 1),
                        "bounds of physical sense: common practice, no source");
     }
   }
-}
-
-void check_covers(const ProfileSpec& p, const ConfigNode& n, const Grid& g, Extrapolation e) {
-  if (e == Extrapolation::kHoldEnds) return;
-  const double lo = g.edge_cm.front();
-  const double hi = g.edge_cm.back();
+  const BackgroundSpec& bg = ctx.scenario.background;
+  if (bg.extrapolation == Extrapolation::kHoldEnds) return p;
+  const double lo = bg.grid.edge_cm.front();
+  const double hi = bg.grid.edge_cm.back();
   const double tol = 1e-6 * (hi - lo);
   if (p.altitude_cm.front() > lo + tol || p.altitude_cm.back() < hi - tol) {
     auto km = [](double cm) { return std::to_string(cm / constants::kCmPerKm); };
@@ -126,6 +141,7 @@ void check_covers(const ProfileSpec& p, const ConfigNode& n, const Grid& g, Extr
                " km in " + p.source,
            "extend the table, or set atmosphere.extrapolation: hold_ends");
   }
+  return p;
 }
 
 /// Bulk composition and mean molecular mass.
@@ -143,33 +159,28 @@ void load_bulk_composition(const ConfigNode& n, LoadContext& ctx) {
     sum += x;
     mass_sum += x * f->composition.molar_mass_g_mol();
   }
-  if (auto m = n.find("mean_molecular_mass")) {
-    bg.mean_molecular_mass_amu = m->quantity(ctx.units, "g mol-1", "43.4 g/mol");
-    if (bg.mean_molecular_mass_amu <= 0.0) m->fail("a positive molar mass");
-  } else {
-    bg.mean_molecular_mass_amu = mass_sum / sum;
-  }
+  std::optional<double> given;
+  const Key row = positive_quantity("mean_molecular_mass", &given, "g mol-1", "43.4 g/mol",
+                                    "a positive molar mass");
+  read_keys(n, ctx.units, {&row, 1});
+  bg.mean_molecular_mass_amu = given ? *given : mass_sum / sum;
 }
 
 /// Temperature: a table, or isothermal.
 void load_temperature(const ConfigNode& tn, LoadContext& ctx) {
   BackgroundSpec& bg = ctx.scenario.background;
-  if (tn.is_map() && tn.has("isothermal")) {
-    const double T = tn.child("isothermal").quantity(ctx.units, "K", "250 K");
-    if (!(T >= bounds::kMinTemperatureK && T <= bounds::kMaxTemperatureK)) {
-      tn.child("isothermal").fail("a temperature from 1 K to 1e5 K (common practice, no source)");
-    }
-    bg.temperature_K.altitude_cm = {bg.grid.edge_cm.front(), bg.grid.edge_cm.back()};
-    bg.temperature_K.value = {T, T};
-    bg.temperature_K.source = "isothermal";
-    tn.done();
-  } else {
-    bg.temperature_K = load_profile_table(tn, ctx, "temperature table", "temperature", "K");
-    require_positive(bg.temperature_K, "temperature");
-    require_within(bg.temperature_K, "temperature", bounds::kMinTemperatureK,
-                   bounds::kMaxTemperatureK, "temperatures from 1 K to 1e5 K");
-    check_covers(bg.temperature_K, tn, bg.grid, bg.extrapolation);
+  if (!tn.is_map() || !tn.has("isothermal")) {
+    bg.temperature_K = load_profile_table(tn, ctx, kTemperatureTable);
+    return;
   }
+  double T = 0.0;
+  const Key row =
+      quantity("isothermal", &T, "K", "250 K", bounds::kMinTemperatureK, bounds::kMaxTemperatureK,
+               "a temperature from 1 K to 1e5 K (common practice, no source)");
+  read_keys(tn, ctx.units, {&row, 1});
+  bg.temperature_K =
+      ProfileSpec{{bg.grid.edge_cm.front(), bg.grid.edge_cm.back()}, {T, T}, "isothermal"};
+  tn.done();
 }
 
 /// Pressure: hydrostatic from a base value, or a table.
@@ -178,25 +189,24 @@ void load_pressure(const ConfigNode& pn, LoadContext& ctx) {
   if (auto h = pn.find("hydrostatic")) {
     if (pn.has("table")) pn.fail("either 'hydrostatic' or 'table'", "both");
     bg.pressure_mode = PressureMode::kHydrostatic;
-    bg.base_pressure_dyn_cm2 = h->child("base").quantity(ctx.units, "g cm-1 s-2", "190 mbar");
-    if (!(bg.base_pressure_dyn_cm2 > 0.0)) h->child("base").fail("a positive pressure");
-    if (!(bg.base_pressure_dyn_cm2 <= bounds::kMaxPressureDynCm2)) {
-      h->child("base").fail("a pressure of at most 1e5 bar (common practice, no source)");
-    }
     bg.base_altitude_cm = bg.grid.edge_cm.front();
-    if (auto at = h->find("at")) bg.base_altitude_cm = at->quantity(ctx.units, "cm", "58 km");
+    const Key keys[] = {
+        quantity("base", &bg.base_pressure_dyn_cm2, "g cm-1 s-2", "190 mbar", 0.0,
+                 bounds::kMaxPressureDynCm2, "a positive pressure")
+            .above_lo()
+            .above_message("a pressure of at most 1e5 bar (common practice, no source)")
+            .needed(),
+        quantity("at", &bg.base_altitude_cm, "cm", "58 km", -kInf, kInf, ""),
+    };
+    read_keys(*h, ctx.units, keys);
     h->done();
-  } else if (auto tab = pn.find("table")) {
+    pn.done();
+  } else if (pn.find("table")) {
     bg.pressure_mode = PressureMode::kTable;
-    bg.pressure_dyn_cm2 = load_profile_table(pn, ctx, "pressure table", "pressure", "g cm-1 s-2");
-    require_positive(bg.pressure_dyn_cm2, "pressure");
-    require_within(bg.pressure_dyn_cm2, "pressure", 0.0, bounds::kMaxPressureDynCm2,
-                   "pressures of at most 1e5 bar");
-    check_covers(bg.pressure_dyn_cm2, pn, bg.grid, bg.extrapolation);
+    bg.pressure_dyn_cm2 = load_profile_table(pn, ctx, kPressureTable);
   } else {
     pn.fail("'hydrostatic: {base: ..., at: ...}' or 'table: FILE'");
   }
-  if (pn.is_map() && !pn.has("table")) pn.done();
 }
 
 /// Eddy diffusion: constant, table or a power of the air density.
@@ -208,33 +218,28 @@ void load_eddy_diffusion(const ConfigNode& kn, LoadContext& ctx) {
   if ((kc ? 1 : 0) + (kt ? 1 : 0) + (kp ? 1 : 0) != 1) {
     kn.fail("exactly one of 'constant', 'table', 'density_power'");
   }
+  const std::string at_most =
+      "a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)";
+  if (kt) {
+    bg.eddy_form = EddyForm::kTable;
+    bg.eddy_table_cm2_s = load_profile_table(kn, ctx, kEddyTable);
+    return;
+  }
   if (kc) {
     bg.eddy_form = EddyForm::kConstant;
-    bg.eddy_cm2_s = kc->quantity(ctx.units, "cm2 s-1", "1e6 cm2 s-1");
-    if (!(bg.eddy_cm2_s >= 0.0)) kc->fail("a non-negative diffusion coefficient");
-    if (!(bg.eddy_cm2_s <= bounds::kMaxEddyCm2S)) {
-      kc->fail("a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)");
-    }
-    kn.done();
-  } else if (kt) {
-    bg.eddy_form = EddyForm::kTable;
-    bg.eddy_table_cm2_s =
-        load_profile_table(kn, ctx, "eddy diffusion table", "eddy_diffusion", "cm2 s-1");
-    require_positive(bg.eddy_table_cm2_s, "eddy_diffusion");
-    require_within(bg.eddy_table_cm2_s, "eddy_diffusion", 0.0, bounds::kMaxEddyCm2S,
-                   "diffusion coefficients of at most 1e12 cm2 s-1");
-    check_covers(bg.eddy_table_cm2_s, kn, bg.grid, bg.extrapolation);
+    const Key row = quantity("constant", &bg.eddy_cm2_s, "cm2 s-1", "1e6 cm2 s-1", 0.0,
+                             bounds::kMaxEddyCm2S, "a non-negative diffusion coefficient")
+                        .above_message(at_most);
+    read_keys(kn, ctx.units, {&row, 1});
   } else {
     bg.eddy_form = EddyForm::kDensityPower;
-    const double inf = std::numeric_limits<double>::infinity();
     const Key keys[] = {
         quantity("bottom", &bg.eddy_cm2_s, "cm2 s-1", "1e5 cm2 s-1", 0.0, bounds::kMaxEddyCm2S,
                  "a positive diffusion coefficient")
             .above_lo()
-            .above_message(
-                "a diffusion coefficient of at most 1e12 cm2 s-1 (common practice, no source)")
+            .above_message(at_most)
             .needed(),
-        number("exponent", &bg.eddy_exponent, -inf, inf, "a finite number").needed(),
+        number("exponent", &bg.eddy_exponent, -kInf, kInf, "a finite number").needed(),
         quantity("max", &bg.eddy_max_cm2_s, "cm2 s-1", "1e8 cm2 s-1", 0.0, bounds::kMaxEddyCm2S,
                  "a positive diffusion coefficient of at most 1e12 cm2 s-1 (common practice, "
                  "no source)")
@@ -242,8 +247,8 @@ void load_eddy_diffusion(const ConfigNode& kn, LoadContext& ctx) {
     };
     read_keys(*kp, ctx.units, keys);
     kp->done();
-    kn.done();
   }
+  kn.done();
 }
 
 void load_atmosphere(const ConfigNode& n, LoadContext& ctx) {

@@ -1,8 +1,9 @@
 #include "io/table.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
-#include <fstream>
 #include <sstream>
 
 #include "io/config_node.hpp"
@@ -43,18 +44,8 @@ std::vector<std::string> split_fields(const std::string& line, bool comma) {
 Table Table::read(const std::filesystem::path& file, ExitCode code,
                   const std::vector<std::string>& text_columns,
                   const std::vector<std::string>* numeric_columns) {
-  std::error_code ec;
-  if (std::filesystem::is_directory(file, ec)) {
-    throw InputError(code, SourceLocation{file.string()}, "", "a table file", "a directory");
-  }
-  std::ifstream in(file);
-  if (!in) {
-    throw InputError(code, SourceLocation{file.string()}, "", "a readable table file",
-                     "no such file or it cannot be read");
-  }
-  std::stringstream buf;
-  buf << in.rdbuf();
-  return parse(buf.str(), file.string(), code, text_columns, numeric_columns);
+  return parse(read_text_file(file, code, "table file"), file.string(), code, text_columns,
+               numeric_columns);
 }
 
 /// The header line: "name [unit]" fields, names distinct.
@@ -161,22 +152,17 @@ Table Table::parse(const std::string& text, const std::string& name, ExitCode co
 }
 
 std::size_t Table::index(const std::string& col) const {
-  for (std::size_t i = 0; i < names_.size(); ++i) {
-    if (names_[i] == col) return i;
-  }
-  std::string hint;
-  if (auto near = nearest_word(col, names_)) hint = "did you mean '" + *near + "'?";
-  std::string list;
-  for (const auto& n : names_) list += (list.empty() ? "" : ", ") + n;
+  const auto it = std::find(names_.begin(), names_.end(), col);
+  if (it != names_.end()) return static_cast<std::size_t>(it - names_.begin());
+  const auto near = nearest_word(col, names_);
   throw InputError(code_, SourceLocation{file_, header_line_}, "header",
-                   "a column named '" + col + "'", "columns " + list, hint);
+                   "a column named '" + col + "'",
+                   fmt::format("columns {}", fmt::join(names_, ", ")),
+                   near ? "did you mean '" + *near + "'?" : std::string());
 }
 
 bool Table::has(const std::string& col) const {
-  for (const auto& n : names_) {
-    if (n == col) return true;
-  }
-  return false;
+  return std::find(names_.begin(), names_.end(), col) != names_.end();
 }
 
 const std::vector<double>& Table::raw(const std::string& col) const {
@@ -208,15 +194,14 @@ std::vector<double> Table::column(const std::string& col, const UnitSystem& unit
   auto factor = units.convert(1.0, from, target_unit);
   auto offset = units.convert(0.0, from, target_unit);
   if (!factor || !offset) {
+    std::string hint = unit_spelling_hint(units, from, target_unit);
+    if (hint.empty()) {
+      hint = "write the unit in brackets after the column name, e.g. '" + col + " [" + target_unit +
+             "]'";
+    }
     throw InputError(code_, SourceLocation{file_, header_line_}, col,
                      "a unit convertible to '" + target_unit + "'",
-                     from.empty() ? std::string("no unit") : "'" + from + "'", [&] {
-                       if (auto cand = units.case_respelling(from, target_unit)) {
-                         return "did you mean '" + *cand + "'? (unit symbols are case-sensitive)";
-                       }
-                       return "write the unit in brackets after the column name, e.g. '" + col +
-                              " [" + target_unit + "]'";
-                     }());
+                     from.empty() ? std::string("no unit") : "'" + from + "'", hint);
   }
   std::vector<double> out(data_[i].size());
   const double scale = *factor - *offset;

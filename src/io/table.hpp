@@ -93,17 +93,18 @@ struct TableRefForm {
 
   /// {table: FILE, column: NAME (default `column`), altitude_column: NAME}, or FILE alone.
   static TableRefForm altitude(std::string column, bool file_alone = false) {
-    return {std::move(column), false,      "altitude_column",
-            "altitude",        file_alone, "{table: FILE, column: NAME}"};
+    return {.column = std::move(column), .file_alone = file_alone};
   }
   /// {table: FILE, column: NAME}, `column` required, the altitude column "altitude".
   static TableRefForm altitude_column_required() {
-    return {{}, true, {}, "altitude", false, "{table: FILE, column: NAME}"};
+    return {.column = {}, .column_required = true, .axis_key = {}};
   }
   /// {table: FILE, column: NAME (default `column`), wavelength_column: NAME}, or FILE alone.
   static TableRefForm wavelength(std::string column, bool file_alone = true) {
-    return {std::move(column), false,      "wavelength_column",
-            "wavelength",      file_alone, "{table: FILE, column: NAME}"};
+    return {.column = std::move(column),
+            .axis_key = "wavelength_column",
+            .axis_column = "wavelength",
+            .file_alone = file_alone};
   }
 };
 

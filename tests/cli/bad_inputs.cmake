@@ -49,7 +49,7 @@ colchem_cli_test(bad.set_key_under_scalar 2
   "--set grid.cells.x=1: 'grid.cells.x': expected a path through maps, found a single value at 'cells', which has no key 'x'"
   $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cells.x=1)
 colchem_cli_test(bad.set_key_under_scalar_deep 2
-  "'grid.cells.x.y': expected a path through maps, found a single value at 'x'"
+  "'grid.cells.x.y': expected a path through maps, found a single value at 'cells', which has no key 'x'"
   $<TARGET_FILE:colchem> check ${CFG}/pyrene.yaml --set grid.cells.x.y=1)
 colchem_cli_test(bad.set_name_in_list 2
   "'chemistry.modules.first': expected a list index \\(0, 1, ...\\) after a list, found 'first'"
