@@ -219,16 +219,17 @@ constexpr long kStallWindow = 40;
 constexpr double kStallFactor = 0.1;
 /// Divergence factor of the members' solves (see attempt_give_up). On 20 Pyrene members at
 /// 108 cells (seed 1) 26 of 67 attempts failed, 22 of them after the residual had risen
-/// 10^5-10^18-fold; 1 of the 41 that converged rose above 10^4 on the way.
+/// 10^5-10^18-fold; 1 of the 41 that converged rose above 10^4 on the way. On 40 members it
+/// cut the iterations from 6254 to 5118, the same 5 members failing.
 constexpr double kDivergenceFactor = 1e4;
 /// First pseudo-time step (s) of a member's warm solves, in place of solver.warm_pseudo_step
 /// (bounded by solver.max_pseudo_step): a member starts from a solved state moved along the
 /// path's tangent, much closer to its steady state than another grid's solution, so the
-/// solve may start near Newton's method. On 20 Pyrene members at 108 cells (seed 1, with the
-/// divergence test) 1e6, 1e8, 1e11 and 1e13 s cost 1905, 1415, 1002 and 958 iterations in
-/// all with the same member failing; 1e16 s (Newton's method) cost 863 but lost one more
-/// member (common practice, no source).
-constexpr double kMemberWarmPseudoStep = 1e13;
+/// solve may start nearer Newton's method (common practice, no source). On 40 Pyrene members
+/// at 108 cells (seed 1, with the divergence test) 1e8, 1e10, 1e11 and 1e13 s cost 5118,
+/// 4029, 3705 and 2929 iterations in all (6254 before the divergence test); 1e13 s lost a
+/// member that the others converged (on another path in s), the others failed the same 5.
+constexpr double kMemberWarmPseudoStep = 1e11;
 
 /// Half-width of the central difference in s that gives dF/ds at a fixed state: F is a sum
 /// of terms each linear in one k_r(s) = k_r exp(s a_r), so the difference is exact to
