@@ -211,34 +211,25 @@ struct EnsembleCliOptions {
   double progress_every = 0.2;
 };
 
-/// The early give-up test of a member's steady solve: stop when the scaled residual has
-/// not fallen below `factor` times its best value of `window` iterations before (a stalled
-/// PTC iteration, common practice, no source). The continuation or the cold start that
-/// follows is cheaper than the rest of the iteration limit.
-std::function<std::string(long, double)> stagnation_test(long window, double factor) {
-  auto best = std::make_shared<std::vector<double>>();  // best residual up to each iteration
-  return [best, window, factor](long it, double residual) -> std::string {
-    const double b = best->empty() ? residual : std::min(best->back(), residual);
-    best->push_back(std::isfinite(b) ? b : std::numeric_limits<double>::infinity());
-    const auto n = static_cast<long>(best->size());
-    if (n <= window) return "";
-    const double before = (*best)[static_cast<std::size_t>(n - 1 - window)];
-    if (best->back() > factor * before) {
-      return fmt::format(
-          "stalled: scaled residual {:.2e} after {} iterations, not below {} "
-          "times its best {:.2e} of {} iterations before",
-          residual, it, factor, before, window);
-    }
-    return "";
-  };
-}
-
-/// Stagnation window and factor of the members' solves: see stagnation_test. On 8 Pyrene
-/// members at 108 cells (seed 1) windows of 25, 40 and 80 iterations cost 2913, 2734 and
-/// 3683 iterations in all, every member converged (a window too long wastes iterations on
-/// stalled solves, one too short gives up solves that were converging).
+/// Stagnation window and factor of the members' solves: see attempt_give_up
+/// (solve/continuation.hpp). On 8 Pyrene members at 108 cells (seed 1) windows of 25, 40 and 80
+/// iterations cost 2913, 2734 and 3683 iterations in all, every member converged (a window too long
+/// wastes iterations on stalled solves, one too short gives up solves that were converging).
 constexpr long kStallWindow = 40;
 constexpr double kStallFactor = 0.1;
+/// Divergence factor of the members' solves (see attempt_give_up). On 20 Pyrene members at
+/// 108 cells (seed 1) 26 of 67 attempts failed, 22 of them after the residual had risen
+/// 10^5-10^18-fold; 1 of the 41 that converged rose above 10^4 on the way. On 40 members it
+/// cut the iterations from 6254 to 5118, the same 5 members failing.
+constexpr double kDivergenceFactor = 1e4;
+/// First pseudo-time step (s) of a member's warm solves, in place of solver.warm_pseudo_step
+/// (bounded by solver.max_pseudo_step): a member starts from a solved state moved along the
+/// path's tangent, much closer to its steady state than another grid's solution, so the
+/// solve may start nearer Newton's method (common practice, no source). On 40 Pyrene members
+/// at 108 cells (seed 1, with the divergence test) 1e8, 1e10, 1e11 and 1e13 s cost 5118,
+/// 4029, 3705 and 2929 iterations in all (6254 before the divergence test); 1e13 s lost a
+/// member that the others converged (on another path in s), the others failed the same 5.
+constexpr double kMemberWarmPseudoStep = 1e11;
 
 /// Half-width of the central difference in s that gives dF/ds at a fixed state: F is a sum
 /// of terms each linear in one k_r(s) = k_r exp(s a_r), so the difference is exact to
@@ -256,6 +247,8 @@ VariantOutcome solve_member(const Scenario& sc, std::span<const double> z_member
   try {
     ColumnModel model(sc);
     const SteadyStateOptions steady = steady_options(sc.solver);
+    SolverSpec spec = sc.solver;
+    spec.warm_pseudo_step_s = std::min(kMemberWarmPseudoStep, spec.max_pseudo_step_s);
     std::vector<double> zs(z_member.begin(), z_member.end());
     const auto set_s = [&](double s) {
       for (std::size_t r = 0; r < zs.size(); ++r) zs[r] = s * z_member[r];
@@ -266,8 +259,8 @@ VariantOutcome solve_member(const Scenario& sc, std::span<const double> z_member
       RunControls controls;
       controls.stop_requested = interrupt.query();
       controls.warm_start = warm;
-      controls.give_up = stagnation_test(kStallWindow, kStallFactor);
-      return run_column(model, sc.solver, std::move(from), controls);
+      controls.give_up = attempt_give_up(kStallWindow, kStallFactor, kDivergenceFactor);
+      return run_column(model, spec, std::move(from), controls);
     };
     // dx/ds at (x, s): dF/ds by a central difference of the model's own tendency.
     const ContinuationTangent tangent = [&](double s, const std::vector<double>& x) {
@@ -557,8 +550,8 @@ int run_ensemble(const EnsembleCliOptions& o, Context& ctx) {
 
   // 4. The members over the ranks; their outcomes on rank 0.
   const std::vector<VariantOutcome> outcomes =
-      run_members(sc, d.z, d.members, base_model.chemistry().kinetics().mechanism(), o.sigmas, base.x, interrupt, *ctx.log,
-                  world.rank, o.progress_every);
+      run_members(sc, d.z, d.members, base_model.chemistry().kinetics().mechanism(), o.sigmas,
+                  base.x, interrupt, *ctx.log, world.rank, o.progress_every);
   if (interrupt.query()()) {
     if (world.rank == 0) ctx.log->warn("interrupted: nothing written");
     return static_cast<int>(ExitCode::kInterrupted);

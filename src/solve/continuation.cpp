@@ -3,6 +3,8 @@
 #include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
+#include <limits>
+#include <memory>
 
 #include "solve/ptc_linear_solver.hpp"
 
@@ -47,6 +49,31 @@ bool path_tangent(const ColumnSystem& system, std::span<const double> x, std::sp
   };
   const double rtol = std::sqrt(options.krylov_rtol_min);
   return linear.solve_coupled(jac, shift, held, rhs, weights, product, rtol, dx_ds, reason);
+}
+
+std::function<std::string(long, double)> attempt_give_up(long window, double factor,
+                                                         double divergence) {
+  auto best = std::make_shared<std::vector<double>>();  // best residual up to each iteration
+  return [best, window, factor, divergence](long it, double residual) -> std::string {
+    if (!best->empty() && residual > divergence * best->front()) {
+      return fmt::format(
+          "diverged: scaled residual {:.2e} after {} iterations, above {:.0e} times its "
+          "{:.2e} at the start",
+          residual, it, divergence, best->front());
+    }
+    const double b = best->empty() ? residual : std::min(best->back(), residual);
+    best->push_back(std::isfinite(b) ? b : std::numeric_limits<double>::infinity());
+    const auto n = static_cast<long>(best->size());
+    if (n <= window) return "";
+    const double before = (*best)[static_cast<std::size_t>(n - 1 - window)];
+    if (best->back() > factor * before) {
+      return fmt::format(
+          "stalled: scaled residual {:.2e} after {} iterations, not below {} "
+          "times its best {:.2e} of {} iterations before",
+          residual, it, factor, before, window);
+    }
+    return "";
+  };
 }
 
 ContinuationResult continue_to_target(std::vector<double> x0, const ContinuationSolve& solve,

@@ -56,6 +56,19 @@ using ContinuationSolve = std::function<RunOutcome(double s, const std::vector<d
 using ContinuationTangent =
     std::function<std::vector<double>(double s, const std::vector<double>& x)>;
 
+/// The early give-up tests of one attempt's steady solve, for RunControls::give_up, called
+/// with (iteration, scaled residual) once per iteration from the attempt's start; a
+/// non-empty reason gives the attempt up (a shorter step in s or another start is cheaper
+/// than the rest of the iteration limit):
+/// - diverged: the residual has risen above `divergence` times its value at the attempt's
+///   start (the divergence test of a nonlinear solver; PETSc's SNES stops so at 10^4 by
+///   default, Balay et al., PETSc/TAO Users Manual, SNESSetDivergenceTolerance);
+/// - stalled: its best value has not fallen below `factor` times its best value of `window`
+///   iterations before (a stalled PTC iteration, common practice, no source).
+/// Each call returns a fresh test (one per attempt).
+std::function<std::string(long, double)> attempt_give_up(long window, double factor,
+                                                         double divergence);
+
 /// From s = 0 (x0 its solution) to s = 1 by solve(); stops early on an interrupt. With a
 /// tangent, each step starts from the predicted state (one tangent per solved s).
 ContinuationResult continue_to_target(std::vector<double> x0, const ContinuationSolve& solve,

@@ -147,3 +147,32 @@ TEST_CASE("continuation with the tangent reaches the analytic state at s = 1",
   INFO("iterations with tangent " << with.iterations << ", without " << without.iterations);
   CHECK(with.iterations < without.iterations);
 }
+
+TEST_CASE("attempt_give_up stops a diverging or stalled attempt and lets a converging one run",
+          "[solve][continuation]") {
+  SECTION("diverged: above 10^4 times the starting residual, not at 10^4 times") {
+    const auto test = attempt_give_up(40, 0.1, 1e4);
+    CHECK(test(0, 0.5).empty());
+    CHECK(test(1, 2.0).empty());
+    CHECK(test(2, 5e3).empty());  // exactly 10^4 times 0.5
+    const std::string why = test(3, 5.1e3);
+    CHECK(why.rfind("diverged", 0) == 0);
+  }
+  SECTION("stalled: the best residual not ten times below that of `window` iterations before") {
+    const auto test = attempt_give_up(3, 0.1, 1e4);
+    CHECK(test(0, 1.0).empty());
+    CHECK(test(1, 0.9).empty());
+    CHECK(test(2, 0.8).empty());  // fewer than 3 iterations since the start: no window yet
+    CHECK(test(3, 0.7).rfind("stalled", 0) == 0);  // 0.7 > 0.1 x 1.0, 3 iterations before
+    const auto falling = attempt_give_up(3, 0.1, 1e4);
+    for (long it = 0; it < 3; ++it) CHECK(falling(it, 1.0).empty());
+    CHECK(falling(3, 0.09).empty());  // below 0.1 x 1.0
+  }
+  SECTION("a converging attempt is not given up, and each call is a fresh test") {
+    const auto test = attempt_give_up(3, 0.1, 1e4);
+    double r = 1.0;
+    for (long it = 0; it < 20; ++it, r *= 0.3) CHECK(test(it, r).empty());
+    const auto fresh = attempt_give_up(3, 0.1, 1e4);
+    CHECK(fresh(0, 1e3).empty());  // a new start, not 10^4 times the last test's residual
+  }
+}
