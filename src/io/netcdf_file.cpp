@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include <system_error>
+#include <utility>
 
 #include "core/error.hpp"
 
@@ -272,6 +273,8 @@ NcReader::NcReader(const std::filesystem::path& path) : path_(path) {
                      "a readable NetCDF file written by colchem", nc_strerror(status));
   }
 }
+
+NcReader::NcReader(int ncid, std::filesystem::path name) : path_(std::move(name)), ncid_(ncid) {}
 
 NcReader::~NcReader() {
   if (ncid_ >= 0) nc_close(ncid_);
