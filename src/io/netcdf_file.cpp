@@ -6,6 +6,7 @@
 #include <netcdf.h>
 
 #include <cmath>
+#include <utility>
 
 #include "core/error.hpp"
 
@@ -26,6 +27,8 @@ NcReader::NcReader(const std::filesystem::path& path) : path_(path) {
     refuse("", "a readable NetCDF file written by colchem", nc_strerror(status));
   }
 }
+
+NcReader::NcReader(int ncid, std::filesystem::path name) : path_(std::move(name)), ncid_(ncid) {}
 
 NcReader::~NcReader() {
   if (ncid_ >= 0) nc_close(ncid_);

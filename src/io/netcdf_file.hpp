@@ -13,6 +13,10 @@ namespace colchem {
 class NcReader {
  public:
   explicit NcReader(const std::filesystem::path& path);
+  /// Takes over `ncid`, a dataset opened with the netCDF-C API (closed with the reader);
+  /// `name` stands for the file in messages. (tests/fuzz/fuzz_netcdf.cpp reads datasets it
+  /// made in memory.)
+  NcReader(int ncid, std::filesystem::path name);
   ~NcReader();
   NcReader(const NcReader&) = delete;
   NcReader& operator=(const NcReader&) = delete;

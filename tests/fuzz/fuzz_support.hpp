@@ -35,21 +35,23 @@ void refusals_allowed(F&& f) {
 /// The input split at NUL bytes (at most `max_parts` parts; the last takes the rest).
 inline std::vector<std::string> split_nul(const std::uint8_t* data, std::size_t size,
                                           std::size_t max_parts) {
-  std::vector<std::string> parts(1);
-  for (std::size_t i = 0; i < size; ++i) {
-    if (data[i] == 0 && parts.size() < max_parts) {
-      parts.emplace_back();
-    } else {
-      parts.back().push_back(static_cast<char>(data[i]));
-    }
+  const std::string_view in(reinterpret_cast<const char*>(data), size);
+  std::vector<std::string> parts;
+  std::size_t begin = 0;
+  for (std::size_t nul = in.find('\0'); nul != in.npos && parts.size() + 1 < max_parts;
+       nul = in.find('\0', begin)) {
+    parts.emplace_back(in.substr(begin, nul - begin));
+    begin = nul + 1;
   }
+  parts.emplace_back(in.substr(begin));
   return parts;
 }
 
-/// A directory for one input under $TMPDIR (or /tmp), removed with everything in it when
-/// the input is done. (libFuzzer ends the process without running atexit handlers, so
-/// nothing may outlive an input; a crash leaves the directory for the post-mortem, its name
-/// carries the process id.)
+/// A directory under $TMPDIR (or /tmp; scripts/fuzz points TMPDIR at /dev/shm), removed with
+/// everything in it when destroyed: when the input is done for one made per input, at the
+/// end of the run for a function-local static (libFuzzer ends a run that is done with exit(),
+/// which runs static destructors). A crash, timeout or interrupt ends the process with
+/// _Exit and leaves the directory for the post-mortem; its name carries the process id.
 class ScratchDir {
  public:
   ScratchDir() {
