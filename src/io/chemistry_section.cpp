@@ -281,7 +281,8 @@ void read_box_state(const ConfigNode& b, const UnitSystem& units, BoxSpec& box) 
     for (const auto& [channel, v] : ph->entries()) {
       const double J = v.quantity(units, "s-1", "1e-3 s-1");
       if (!(J >= 0.0)) v.fail("a non-negative photolysis rate");
-      const auto named = [&](const Reaction& rx) { return rx.rate.channel == channel; };
+      const std::string& name = channel;  // clang 14 cannot capture a structured binding
+      const auto named = [&](const Reaction& rx) { return rx.rate.channel == name; };
       if (std::none_of(m.reactions.begin(), m.reactions.end(), named))
         v.fail("a photolysis channel named by a reaction", "'" + channel + "'");
       box.photolysis.emplace_back(channel, J);
