@@ -25,6 +25,22 @@ std::vector<double> predict_state(std::span<const double> x, std::span<const dou
   return out;
 }
 
+double limited_step(std::span<const double> x, std::span<const double> dx_ds, double step,
+                    const ContinuationOptions& options) {
+  if (!(options.max_predicted_log_change > 0.0) || dx_ds.size() != x.size()) return step;
+  std::vector<double> rate;  // |d ln x_i / ds| over the entries above the floor
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    if (x[i] > options.prediction_floor && std::isfinite(dx_ds[i])) {
+      rate.push_back(std::abs(dx_ds[i] / x[i]));
+    }
+  }
+  if (rate.empty()) return step;
+  const auto at = rate.begin() + static_cast<std::ptrdiff_t>(rate.size() * 99 / 100);
+  std::nth_element(rate.begin(), at, rate.end());
+  if (!(*at * step > options.max_predicted_log_change)) return step;
+  return std::max(options.min_step, options.max_predicted_log_change / *at);
+}
+
 bool path_tangent(const ColumnSystem& system, std::span<const double> x, std::span<const double> f,
                   std::span<const double> dF_ds, const SteadyStateOptions& options,
                   std::vector<double>& dx_ds, std::string& reason) {
@@ -86,12 +102,13 @@ ContinuationResult continue_to_target(std::vector<double> x0, const Continuation
   bool have_tangent = false;
   bool last_failed = false;  // the attempt before this one failed
   while (out.reached < 1.0) {
-    const double s = std::min(1.0, out.reached + step);
     if (tangent && !have_tangent) {
       dx_ds = tangent(out.reached, out.x);
       ++out.tangents;
       have_tangent = true;
     }
+    step = limited_step(out.x, dx_ds, step, options);
+    const double s = std::min(1.0, out.reached + step);
     RunOutcome r =
         solve(s, dx_ds.size() == out.x.size()
                      ? predict_state(out.x, dx_ds, s - out.reached, options.max_log_change)

@@ -28,6 +28,16 @@ struct ContinuationOptions {
   /// Bound of |ds (dx_i/ds) / x_i| in a predicted step: a density changes by at most this
   /// factor's exponential (e^4.6 ~ 100; common practice, no source).
   double max_log_change = 4.6;
+  /// Step control by the predictor (Allgower and Georg 2003, ch. 6, steplength adaptation):
+  /// with a tangent, a step in s is shortened (not below min_step) so that the predicted
+  /// change |ds (dx_i/ds) / x_i| of ln x stays below this bound at all but the largest 1 % of
+  /// the state's entries above prediction_floor; a longer step would start the solve too far
+  /// from its solution (on 40 Pyrene members at 108 cells, 63 of 87 failed attempts had
+  /// predicted more than 3 there, against 39 of 108 that converged). 0: no such limit.
+  double max_predicted_log_change = 0.0;
+  /// Densities below this (cm^-3) do not limit the step: near-empty entries change by
+  /// large factors without mattering to the solve (common practice, no source).
+  double prediction_floor = 1e3;
 };
 
 struct ContinuationStep {
@@ -74,6 +84,11 @@ std::function<std::string(long, double)> attempt_give_up(long window, double fac
 ContinuationResult continue_to_target(std::vector<double> x0, const ContinuationSolve& solve,
                                       const ContinuationOptions& options = {},
                                       const ContinuationTangent& tangent = {});
+
+/// The step in s to try from x (dx/ds its tangent; empty: none): `step`, shortened as
+/// ContinuationOptions::max_predicted_log_change says, but not below options.min_step.
+double limited_step(std::span<const double> x, std::span<const double> dx_ds, double step,
+                    const ContinuationOptions& options);
 
 /// x(s + ds) predicted from x(s) and dx/ds in ln x (see above); densities at zero move
 /// linearly and stay non-negative.

@@ -94,6 +94,25 @@ TEST_CASE("path_tangent matches the difference of solved steady states", "[solve
   }
 }
 
+TEST_CASE("limited_step bounds the predicted change of ln x at its 99th percentile",
+          "[solve][continuation]") {
+  ContinuationOptions o;
+  o.max_predicted_log_change = 3.0;
+  // 100 entries above the floor changing at |d ln x / ds| = 1, one at 100 (the top 1 %,
+  // ignored), one below the floor at 1e6 (ignored).
+  std::vector<double> x(102, 1e6), t(102, 1e6);
+  t[0] = 1e8;
+  x[101] = 10.0;
+  t[101] = 1e7;
+  CHECK(limited_step(x, t, 1.0, o) == 1.0);                         // 1 x 1 <= 3
+  CHECK(limited_step(x, t, 4.0, o) == Approx(3.0).epsilon(1e-15));  // 4 x 1 > 3: 3 / 1
+  for (std::size_t i = 1; i < 101; ++i) t[i] = -1e9;                // 1000: 3e-3, below min_step
+  CHECK(limited_step(x, t, 1.0, o) == o.min_step);
+  o.max_predicted_log_change = 0.0;  // no bound
+  CHECK(limited_step(x, t, 1.0, o) == 1.0);
+  CHECK(limited_step(x, {}, 1.0, ContinuationOptions{.max_predicted_log_change = 3.0}) == 1.0);
+}
+
 TEST_CASE("continuation with the tangent reaches the analytic state at s = 1",
           "[solve][continuation]") {
   std::vector<double> x0(2 * kCells, 1e6);
@@ -146,6 +165,18 @@ TEST_CASE("continuation with the tangent reaches the analytic state at s = 1",
   // corrector has less to do than from the last state.
   INFO("iterations with tangent " << with.iterations << ", without " << without.iterations);
   CHECK(with.iterations < without.iterations);
+  // A bound of 0.5 on the predicted change of ln x: ln A falls by a/2 = 1.5 per unit of s
+  // and ln B not at all, so every step is 1/3 long (step doubling meets the bound again).
+  copt.max_predicted_log_change = 0.5;
+  const ContinuationResult bounded = continue_to_target(base.x, solve, copt, tangent);
+  REQUIRE(bounded.status == SolveStatus::kConverged);
+  REQUIRE(bounded.steps.size() == 3);
+  CHECK(bounded.steps[0].s == Approx(1.0 / 3.0).epsilon(1e-6));
+  CHECK(bounded.steps[1].s == Approx(2.0 / 3.0).epsilon(1e-6));
+  CHECK(bounded.steps[2].s == 1.0);
+  for (std::size_t j = 0; j < kCells; ++j) {
+    CHECK(bounded.x[2 * j] == Approx(std::sqrt(P[j] / (2.0 * k1))).epsilon(1e-8));
+  }
 }
 
 TEST_CASE("attempt_give_up stops a diverging or stalled attempt and lets a converging one run",
